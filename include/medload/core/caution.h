@@ -1,0 +1,18 @@
+// The clinical-review caution that every output of the tool carries (product spec,
+// section 6), in one place so that every writer prints the same words.
+#pragma once
+
+#include <string_view>
+
+namespace medload {
+
+// One paragraph, plain text, no line breaks.
+inline constexpr std::string_view kCaution =
+    "CAUTION: this output supports clinical judgement and does not replace it. Counts and "
+    "scores come from the editable formulary tables and from the dispensing records loaded, "
+    "which may be incomplete (other prescribers, hospital or private supplies, products the "
+    "tables did not recognise). Confirm every medicine with the patient and the clinical "
+    "record before acting; local guidance, coding rules and licensed practice take "
+    "precedence.";
+
+}  // namespace medload

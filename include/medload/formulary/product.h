@@ -1,0 +1,65 @@
+// What a dispensed product is, once the formulary has resolved its description or code:
+// ingredients with strengths, form, route, and whether it is a medicine at all. A value
+// type shared by the resolver, the store's resolution cache and the burden measures.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace medload {
+
+enum class Route {
+  kUnknown,
+  kOral,
+  kSublingual,
+  kBuccal,
+  kTopical,
+  kTransdermal,
+  kOphthalmic,
+  kOtic,
+  kNasal,
+  kInhaled,
+  kRectal,
+  kVaginal,
+  kParenteral,
+};
+
+// "oral", "topical", ... (lower case, as used by --exclude-route); and back.
+std::string_view RouteName(Route route);
+std::optional<Route> RouteFromName(std::string_view name);
+
+struct ResolvedIngredient {
+  std::string ingredient;              // the formulary's canonical ingredient name
+  std::optional<double> mg_per_unit;   // mg in one dose unit (one tablet, one ml, ...)
+  // For rate strengths (patches "5 micrograms/hour", "mg/24 hours"): mg per day when
+  // used as labelled. When set, the daily dose is this, whatever the dispensed quantity.
+  std::optional<double> mg_per_day;
+};
+
+enum class MatchKind {
+  kUnmatched,     // nothing in the tables recognised it
+  kCode,          // by product code
+  kProduct,       // by a named product in products.csv (combinations, brands)
+  kIngredient,    // by ingredient names in the description
+  kNonMedicine,   // by a non-medicine term
+};
+
+std::string_view MatchKindName(MatchKind kind);
+
+struct ResolvedProduct {
+  std::vector<ResolvedIngredient> ingredients;  // empty for non-medicines and unmatched
+  std::string form;                  // "tablet", "oral solution", "patch", ... or empty
+  std::string dose_unit;             // what one unit of the quantity is: "tablet", "ml", ...
+  Route route = Route::kUnknown;
+  bool non_medicine = false;
+  MatchKind match = MatchKind::kUnmatched;
+  std::string match_detail;          // how it matched, for explanations
+  std::optional<int> default_supply_days;  // a pack that implies a supply (patch, depot)
+
+  bool matched() const { return match != MatchKind::kUnmatched; }
+  bool is_medicine() const { return matched() && !non_medicine && !ingredients.empty(); }
+};
+
+}  // namespace medload

@@ -1,0 +1,35 @@
+// What every command receives from the command line's global options: the store and
+// formulary paths, the output format and stream, and the error stream. Private to cli/.
+#pragma once
+
+#include <iosfwd>
+#include <string>
+#include <vector>
+
+namespace medload::cli {
+
+enum class Format { kText, kCsv, kJson, kHtml, kSvg };
+
+struct Context {
+  std::string db_path = "medload.db";  // --db
+  std::string formulary_dir;           // --formulary (default: the bundled formulary/)
+  Format format = Format::kText;       // --format
+  std::string output_path;             // --output (empty: standard output)
+  bool quiet = false;                  // --quiet: no progress or notes on standard error
+  std::ostream* out = nullptr;         // where results go
+  std::ostream* err = nullptr;         // diagnostics and progress
+};
+
+// A command: its words ("import dispensing"), a one-line summary, and its entry point.
+// `args` are the tokens after the command words, global options removed. Returns the
+// process exit code (spec section 4).
+struct Command {
+  const char* words;
+  const char* summary;
+  int (*run)(Context& context, const std::vector<std::string>& args);
+};
+
+// The registered commands, in help order (commands.cpp).
+const std::vector<Command>& Commands();
+
+}  // namespace medload::cli
