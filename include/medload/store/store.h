@@ -1,0 +1,154 @@
+// The store: one SQLite file holding the imported practices, patients, dispensings and
+// completed reviews, the import runs with their rejected rows, and caches for later
+// modules (product resolutions, saved runs). It does not interpret the records: measures
+// are computed elsewhere from what the read API returns.
+#pragma once
+
+#include <functional>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <utility>
+#include <vector>
+
+#include "medload/core/records.h"
+#include "medload/core/status.h"
+
+struct sqlite3;
+
+namespace medload {
+
+// The schema version this build writes; older stores are migrated forward on Open.
+inline constexpr int kStoreSchemaVersion = 1;
+
+struct StoreOptions {
+  // How long a writer waits for another process's write transaction to finish.
+  int busy_timeout_ms = 30000;
+  // True: fail with Input when the file does not exist yet (commands that only read).
+  bool must_exist = false;
+};
+
+// Everything the store keeps about one patient, in the order cohort runs need it.
+struct PatientHistory {
+  std::string patient_id;
+  std::optional<PatientRecord> registry;       // the registry row, if imported
+  std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
+};
+
+// One distinct product as dispensed, with how often and to how many patients.
+struct ProductCount {
+  std::string product;
+  std::string code;
+  std::string code_system;
+  long items = 0;     // counting dispensings
+  long patients = 0;  // distinct patients among them
+};
+
+// Provenance figures for a run: the span of the data and the size of each table.
+struct StoreSummary {
+  std::optional<Date> earliest_dispensed;  // counting dispensings only; absent if none
+  std::optional<Date> latest_dispensed;
+  long practices = 0;
+  long patients = 0;
+  long dispensings = 0;           // every stored dispensing, whatever its status
+  long counting_dispensings = 0;  // status empty or "completed"
+  long not_counting_dispensings = 0;
+  long reviews = 0;
+  long import_runs = 0;
+  long rejected_rows = 0;
+};
+
+// One import of one file (the import_runs table).
+struct ImportRunRecord {
+  long id = 0;
+  std::string kind;     // "dispensing", "patients", "practices", "reviews"
+  std::string file;
+  std::string started;  // UTC, ISO 8601 date and time
+  std::string outcome;  // "running", "committed" or "rolled_back"
+  long read = 0;
+  long imported = 0;
+  long duplicates = 0;
+  long rejected = 0;
+};
+
+class Store {
+ public:
+  // Creates or opens the store at `path` (":memory:" for a private in-memory store), in WAL
+  // mode with foreign keys on, and migrates its schema to kStoreSchemaVersion in one
+  // transaction. Fails with Input naming the path when the folder is missing, the file is
+  // read-only, not a SQLite database, or from a newer medload.
+  static Result<Store> Open(const std::string& path, const StoreOptions& options = {});
+
+  Store(Store&& other) noexcept;
+  Store& operator=(Store&& other) noexcept;
+  Store(const Store&) = delete;
+  Store& operator=(const Store&) = delete;
+  ~Store();
+
+  const std::string& path() const { return path_; }
+  // The schema version recorded in the file (kStoreSchemaVersion after a successful Open).
+  Result<int> SchemaVersion() const;
+
+  // One patient's counting dispensings (status empty or "completed"), in dispensed_on
+  // order, then in import order. Empty when the patient is unknown.
+  Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id) const;
+  // Every stored dispensing of the patient, whatever its status, in the same order.
+  Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id) const;
+  // The patient's registry row, or nullopt when none was imported.
+  Result<std::optional<PatientRecord>> PatientOf(std::string_view patient_id) const;
+
+  // Calls `visit` once for every patient that has a registry row or a counting dispensing,
+  // in patient_id order (bytewise), with the registry row and all counting dispensings in
+  // date order. One ordered pass over the tables; memory holds one patient at a time. The
+  // history passed to `visit` is valid during the call only. `visit` returns false to stop
+  // early (the result is then Ok). Fails with Input on a storage error.
+  Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
+
+  // All practices, by practice code.
+  Result<std::vector<PracticeRecord>> Practices() const;
+  // One patient's completed reviews, oldest first.
+  Result<std::vector<ReviewRecord>> ReviewsOf(std::string_view patient_id) const;
+  // Every completed review, by patient then date.
+  Result<std::vector<ReviewRecord>> Reviews() const;
+  // Distinct (product, code, code_system) among counting dispensings with their item and
+  // patient counts: most items first, then by product, code and system.
+  Result<std::vector<ProductCount>> ProductCounts() const;
+  // Date span and row counts, for run provenance.
+  Result<StoreSummary> Summary() const;
+  // Every import run, oldest first.
+  Result<std::vector<ImportRunRecord>> ImportRuns() const;
+
+  // The resolution saved for this product under this formulary checksum, or nullopt.
+  // `resolution` is opaque JSON text owned by the formulary module.
+  Result<std::optional<std::string>> CachedResolution(std::string_view product,
+                                                      std::string_view code,
+                                                      std::string_view code_system,
+                                                      std::string_view checksum) const;
+  // Saves (or replaces) the resolution for the key above.
+  Status SaveResolution(std::string_view product, std::string_view code,
+                        std::string_view code_system, std::string_view checksum,
+                        std::string_view resolution_json);
+
+  // Saves a run's JSON payload under (kind, key, date); a second save for the same three
+  // replaces the first, so re-running a report is idempotent. REQUIRES: ISO date.
+  Status SaveRun(std::string_view kind, std::string_view key, std::string_view date_iso,
+                 std::string_view payload_json);
+  // The payload of the latest run of (kind, key) dated strictly before `before_date_iso`,
+  // or nullopt when there is none.
+  Result<std::optional<std::string>> LatestRun(std::string_view kind, std::string_view key,
+                                               std::string_view before_date_iso) const;
+
+  // The connection, for the store's own adapters in src/store (the importer). Other
+  // modules use the typed functions above.
+  sqlite3* handle() const { return db_; }
+
+ private:
+  Store(sqlite3* db, std::string path) : db_(db), path_(std::move(path)) {}
+  Status Configure(const StoreOptions& options);
+  Status Migrate();
+
+  sqlite3* db_ = nullptr;
+  std::string path_;
+};
+
+}  // namespace medload

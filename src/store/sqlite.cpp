@@ -1,0 +1,125 @@
+#include "store/sqlite.h"
+
+#include <sqlite3.h>
+
+#include <utility>
+
+namespace medload {
+
+std::string SqliteError(sqlite3* db, std::string_view context) {
+  std::string message(context);
+  message += ": ";
+  message += db != nullptr ? sqlite3_errmsg(db) : "out of memory";
+  return message;
+}
+
+Status ExecSql(sqlite3* db, const char* sql) {
+  char* error = nullptr;
+  if (sqlite3_exec(db, sql, nullptr, nullptr, &error) != SQLITE_OK) {
+    std::string message = error != nullptr ? error : sqlite3_errmsg(db);
+    sqlite3_free(error);
+    return Status::Input("store: " + message);
+  }
+  return Status::Ok();
+}
+
+Result<Statement> Statement::Prepare(sqlite3* db, std::string_view sql) {
+  sqlite3_stmt* stmt = nullptr;
+  // SQLITE_PREPARE_PERSISTENT: these statements are reused for many rows.
+  const int rc = sqlite3_prepare_v3(db, sql.data(), static_cast<int>(sql.size()),
+                                    SQLITE_PREPARE_PERSISTENT, &stmt, nullptr);
+  if (rc != SQLITE_OK) {
+    sqlite3_finalize(stmt);
+    return Status::Input(SqliteError(db, "store: preparing a statement"));
+  }
+  return Statement(stmt);
+}
+
+Statement::Statement(Statement&& other) noexcept : stmt_(std::exchange(other.stmt_, nullptr)) {}
+
+Statement& Statement::operator=(Statement&& other) noexcept {
+  if (this != &other) {
+    sqlite3_finalize(stmt_);
+    stmt_ = std::exchange(other.stmt_, nullptr);
+  }
+  return *this;
+}
+
+Statement::~Statement() { sqlite3_finalize(stmt_); }
+
+void Statement::BindText(int index, std::string_view text) {
+  sqlite3_bind_text(stmt_, index, text.data(), static_cast<int>(text.size()), SQLITE_STATIC);
+}
+
+void Statement::BindInt(int index, int64_t value) { sqlite3_bind_int64(stmt_, index, value); }
+
+void Statement::BindDouble(int index, double value) { sqlite3_bind_double(stmt_, index, value); }
+
+void Statement::BindNull(int index) { sqlite3_bind_null(stmt_, index); }
+
+void Statement::BindOptionalInt(int index, std::optional<int64_t> value) {
+  if (value) BindInt(index, *value);
+  else BindNull(index);
+}
+
+void Statement::BindOptionalDouble(int index, std::optional<double> value) {
+  if (value) BindDouble(index, *value);
+  else BindNull(index);
+}
+
+Result<bool> Statement::Step() {
+  const int rc = sqlite3_step(stmt_);
+  if (rc == SQLITE_ROW) return true;
+  if (rc == SQLITE_DONE) return false;
+  sqlite3* db = sqlite3_db_handle(stmt_);
+  std::string message = SqliteError(db, "store");
+  sqlite3_reset(stmt_);
+  return Status::Input(std::move(message));
+}
+
+Status Statement::Run() {
+  Result<bool> stepped = Step();
+  Reset();
+  return stepped.ok() ? Status::Ok() : stepped.status();
+}
+
+void Statement::Reset() { sqlite3_reset(stmt_); }
+
+std::string_view Statement::ColumnText(int index) const {
+  const auto* text = reinterpret_cast<const char*>(sqlite3_column_text(stmt_, index));
+  if (text == nullptr) return {};
+  return {text, static_cast<size_t>(sqlite3_column_bytes(stmt_, index))};
+}
+
+int64_t Statement::ColumnInt(int index) const { return sqlite3_column_int64(stmt_, index); }
+
+double Statement::ColumnDouble(int index) const { return sqlite3_column_double(stmt_, index); }
+
+bool Statement::ColumnIsNull(int index) const {
+  return sqlite3_column_type(stmt_, index) == SQLITE_NULL;
+}
+
+Result<Transaction> Transaction::Begin(sqlite3* db) {
+  if (Status status = ExecSql(db, "BEGIN IMMEDIATE"); !status.ok()) return status;
+  return Transaction(db);
+}
+
+Transaction::Transaction(Transaction&& other) noexcept : db_(std::exchange(other.db_, nullptr)) {}
+
+Transaction::~Transaction() { Rollback(); }
+
+Status Transaction::Commit() {
+  if (db_ == nullptr) return Status::Input("store: commit after the transaction ended");
+  Status status = ExecSql(db_, "COMMIT");
+  if (status.ok()) db_ = nullptr;
+  return status;
+}
+
+void Transaction::Rollback() {
+  if (db_ == nullptr) return;
+  // The result is ignored on purpose: after some errors SQLite has already rolled back.
+  sqlite3_exec(db_, "ROLLBACK", nullptr, nullptr, nullptr);
+  db_ = nullptr;
+}
+
+}  // namespace medload

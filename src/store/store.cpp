@@ -1,0 +1,265 @@
+// Opening the store, its schema and migrations, and the small key-value caches (product
+// resolutions, saved runs). The read API over the imported records is in store_read.cpp.
+#include "medload/store/store.h"
+
+#include <sqlite3.h>
+#include <sys/stat.h>
+
+#include <array>
+#include <utility>
+
+#include "store/sqlite.h"
+
+namespace medload {
+namespace {
+
+// Forward migrations: step i takes a store from user_version i to i + 1. Never edit a
+// step that has shipped; append a new one.
+constexpr std::array<const char*, kStoreSchemaVersion> kMigrations = {
+    R"sql(
+CREATE TABLE import_runs (
+  id INTEGER PRIMARY KEY,
+  kind TEXT NOT NULL,
+  file TEXT NOT NULL,
+  started TEXT NOT NULL,
+  finished TEXT,
+  outcome TEXT NOT NULL DEFAULT 'running',
+  read INTEGER NOT NULL DEFAULT 0,
+  imported INTEGER NOT NULL DEFAULT 0,
+  duplicates INTEGER NOT NULL DEFAULT 0,
+  rejected INTEGER NOT NULL DEFAULT 0,
+  not_counted INTEGER NOT NULL DEFAULT 0
+);
+CREATE TABLE practices (
+  practice TEXT PRIMARY KEY,
+  name TEXT NOT NULL DEFAULT '',
+  network TEXT NOT NULL DEFAULT '',
+  list_size INTEGER,
+  run_id INTEGER REFERENCES import_runs(id)
+);
+CREATE TABLE patients (
+  patient_id TEXT PRIMARY KEY,
+  birth_date TEXT,
+  birth_year_only INTEGER NOT NULL DEFAULT 0,
+  sex TEXT NOT NULL DEFAULT '',
+  practice TEXT NOT NULL DEFAULT '',
+  registered_from TEXT,
+  registered_to TEXT,
+  run_id INTEGER REFERENCES import_runs(id)
+);
+CREATE TABLE dispensings (
+  id INTEGER PRIMARY KEY,
+  dedup_key TEXT NOT NULL UNIQUE,
+  record_id TEXT NOT NULL DEFAULT '',
+  patient_id TEXT NOT NULL,
+  practice TEXT NOT NULL DEFAULT '',
+  dispensed_on TEXT NOT NULL,
+  product TEXT NOT NULL DEFAULT '',
+  code TEXT NOT NULL DEFAULT '',
+  code_system TEXT NOT NULL DEFAULT '',
+  quantity REAL NOT NULL,
+  unit TEXT NOT NULL DEFAULT '',
+  days_supply INTEGER,
+  dosage TEXT NOT NULL DEFAULT '',
+  structured_units_per_day REAL,
+  structured_as_needed INTEGER NOT NULL DEFAULT 0,
+  status TEXT NOT NULL DEFAULT '',
+  source_file TEXT NOT NULL,
+  source_line INTEGER NOT NULL,
+  run_id INTEGER NOT NULL REFERENCES import_runs(id)
+);
+CREATE INDEX dispensings_by_patient ON dispensings(patient_id, dispensed_on);
+CREATE TABLE reviews (
+  patient_id TEXT NOT NULL,
+  reviewed_on TEXT NOT NULL,
+  run_id INTEGER REFERENCES import_runs(id),
+  PRIMARY KEY (patient_id, reviewed_on)
+) WITHOUT ROWID;
+CREATE TABLE rejected_rows (
+  id INTEGER PRIMARY KEY,
+  run_id INTEGER NOT NULL REFERENCES import_runs(id),
+  line INTEGER NOT NULL,
+  reason TEXT NOT NULL,
+  message TEXT NOT NULL,
+  original_row TEXT NOT NULL
+);
+CREATE INDEX rejected_rows_by_run ON rejected_rows(run_id, line);
+CREATE TABLE product_resolutions (
+  product TEXT NOT NULL,
+  code TEXT NOT NULL,
+  code_system TEXT NOT NULL,
+  formulary_checksum TEXT NOT NULL,
+  resolution TEXT NOT NULL,
+  PRIMARY KEY (product, code, code_system, formulary_checksum)
+) WITHOUT ROWID;
+CREATE TABLE runs (
+  id INTEGER PRIMARY KEY,
+  kind TEXT NOT NULL,
+  criteria_key TEXT NOT NULL,
+  run_date TEXT NOT NULL,
+  payload TEXT NOT NULL,
+  UNIQUE (kind, criteria_key, run_date)
+);
+)sql",
+};
+
+bool FileExists(const std::string& path) {
+  struct stat info {};
+  return ::stat(path.c_str(), &info) == 0;
+}
+
+}  // namespace
+
+Result<Store> Store::Open(const std::string& path, const StoreOptions& options) {
+  const bool in_memory = path == ":memory:";
+  if (options.must_exist && !in_memory && !FileExists(path)) {
+    return Status::Input("no store at \"" + path + "\": import data first, or give --db PATH");
+  }
+  sqlite3* db = nullptr;
+  const int flags = SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE | SQLITE_OPEN_NOMUTEX;
+  if (sqlite3_open_v2(path.c_str(), &db, flags, nullptr) != SQLITE_OK) {
+    std::string reason = db != nullptr ? sqlite3_errmsg(db) : "out of memory";
+    sqlite3_close(db);
+    return Status::Input("cannot open the store \"" + path + "\": " + reason +
+                         " (does the folder exist, and may it be written?)");
+  }
+  Store store(db, path);
+  if (sqlite3_db_readonly(db, "main") == 1) {
+    return Status::Input("cannot open the store \"" + path + "\": the file is read-only");
+  }
+  if (Status status = store.Configure(options); !status.ok()) return status;
+  if (Status status = store.Migrate(); !status.ok()) return status;
+  return store;
+}
+
+Store::Store(Store&& other) noexcept
+    : db_(std::exchange(other.db_, nullptr)), path_(std::move(other.path_)) {}
+
+Store& Store::operator=(Store&& other) noexcept {
+  if (this != &other) {
+    sqlite3_close(db_);
+    db_ = std::exchange(other.db_, nullptr);
+    path_ = std::move(other.path_);
+  }
+  return *this;
+}
+
+Store::~Store() { sqlite3_close(db_); }
+
+Status Store::Configure(const StoreOptions& options) {
+  sqlite3_busy_timeout(db_, options.busy_timeout_ms);
+  // WAL lets readers run beside one writer and survives a killed writer; synchronous=NORMAL
+  // is durable across process crashes in WAL mode (only power loss may lose the last
+  // commit). The larger page cache matters for the dispensings indexes during imports.
+  const char* pragmas =
+      "PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL; PRAGMA foreign_keys=ON;"
+      " PRAGMA cache_size=-65536; PRAGMA temp_store=MEMORY;";
+  if (Status status = ExecSql(db_, pragmas); !status.ok()) {
+    return Status::Input("cannot use the store \"" + path_ + "\": " + status.message());
+  }
+  return Status::Ok();
+}
+
+Result<int> Store::SchemaVersion() const {
+  Result<Statement> stmt = Statement::Prepare(db_, "PRAGMA user_version");
+  if (!stmt.ok()) return stmt.status();
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  return static_cast<int>(stmt->ColumnInt(0));
+}
+
+Status Store::Migrate() {
+  // Inside the write transaction so that two processes opening a new store at once
+  // cannot both create the tables.
+  Result<Transaction> transaction = Transaction::Begin(db_);
+  if (!transaction.ok()) {
+    return Status::Input("cannot use the store \"" + path_ + "\": " +
+                         transaction.status().message());
+  }
+  Result<int> version = SchemaVersion();
+  if (!version.ok()) return version.status();
+  if (*version > kStoreSchemaVersion) {
+    return Status::Input("the store \"" + path_ + "\" has schema version " +
+                         std::to_string(*version) + ", newer than this medload understands (" +
+                         std::to_string(kStoreSchemaVersion) + "); use a newer medload");
+  }
+  if (*version == kStoreSchemaVersion) return Status::Ok();  // rolls back: nothing to do
+  for (int step = *version; step < kStoreSchemaVersion; ++step) {
+    if (Status status = ExecSql(db_, kMigrations[static_cast<size_t>(step)]); !status.ok()) {
+      return Status::Input("migrating the store \"" + path_ + "\" to version " +
+                           std::to_string(step + 1) + ": " + status.message());
+    }
+  }
+  const std::string set_version = "PRAGMA user_version=" + std::to_string(kStoreSchemaVersion);
+  if (Status status = ExecSql(db_, set_version.c_str()); !status.ok()) return status;
+  return transaction->Commit();
+}
+
+Result<std::optional<std::string>> Store::CachedResolution(std::string_view product,
+                                                           std::string_view code,
+                                                           std::string_view code_system,
+                                                           std::string_view checksum) const {
+  Result<Statement> stmt = Statement::Prepare(
+      db_,
+      "SELECT resolution FROM product_resolutions WHERE product = ?1 AND code = ?2"
+      " AND code_system = ?3 AND formulary_checksum = ?4");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, product);
+  stmt->BindText(2, code);
+  stmt->BindText(3, code_system);
+  stmt->BindText(4, checksum);
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  if (!*row) return std::optional<std::string>();
+  return std::optional<std::string>(std::string(stmt->ColumnText(0)));
+}
+
+Status Store::SaveResolution(std::string_view product, std::string_view code,
+                             std::string_view code_system, std::string_view checksum,
+                             std::string_view resolution_json) {
+  Result<Statement> stmt = Statement::Prepare(
+      db_,
+      "INSERT INTO product_resolutions (product, code, code_system, formulary_checksum,"
+      " resolution) VALUES (?1, ?2, ?3, ?4, ?5) ON CONFLICT DO UPDATE SET"
+      " resolution = excluded.resolution");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, product);
+  stmt->BindText(2, code);
+  stmt->BindText(3, code_system);
+  stmt->BindText(4, checksum);
+  stmt->BindText(5, resolution_json);
+  return stmt->Run();
+}
+
+Status Store::SaveRun(std::string_view kind, std::string_view key, std::string_view date_iso,
+                      std::string_view payload_json) {
+  Result<Statement> stmt = Statement::Prepare(
+      db_,
+      "INSERT INTO runs (kind, criteria_key, run_date, payload) VALUES (?1, ?2, ?3, ?4)"
+      " ON CONFLICT (kind, criteria_key, run_date) DO UPDATE SET payload = excluded.payload");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, kind);
+  stmt->BindText(2, key);
+  stmt->BindText(3, date_iso);
+  stmt->BindText(4, payload_json);
+  return stmt->Run();
+}
+
+Result<std::optional<std::string>> Store::LatestRun(std::string_view kind,
+                                                    std::string_view key,
+                                                    std::string_view before_date_iso) const {
+  Result<Statement> stmt = Statement::Prepare(
+      db_,
+      "SELECT payload FROM runs WHERE kind = ?1 AND criteria_key = ?2 AND run_date < ?3"
+      " ORDER BY run_date DESC LIMIT 1");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, kind);
+  stmt->BindText(2, key);
+  stmt->BindText(3, before_date_iso);
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  if (!*row) return std::optional<std::string>();
+  return std::optional<std::string>(std::string(stmt->ColumnText(0)));
+}
+
+}  // namespace medload
