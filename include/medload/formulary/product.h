@@ -56,10 +56,18 @@ struct ResolvedProduct {
   bool non_medicine = false;
   MatchKind match = MatchKind::kUnmatched;
   std::string match_detail;          // how it matched, for explanations
-  std::optional<int> default_supply_days;  // a pack that implies a supply (patch, depot)
+  // Days that ONE unit of the quantity lasts when the product implies it (a seven-day
+  // patch: 7; a 72-hour patch: 3; a 12-week depot injection: 84); empty otherwise. For a
+  // dispensing of several units use ProductDefaultSupplyDays(product, quantity).
+  std::optional<int> default_supply_days;
 
   bool matched() const { return match != MatchKind::kUnmatched; }
   bool is_medicine() const { return matched() && !non_medicine && !ingredients.empty(); }
 };
+
+// The default days of supply of a dispensing of `quantity` units of `product`:
+// ceil(quantity x default_supply_days) when the product implies a supply per unit and
+// quantity > 0, else empty. Never more than 3650.
+std::optional<int> ProductDefaultSupplyDays(const ResolvedProduct& product, double quantity);
 
 }  // namespace medload

@@ -1,0 +1,98 @@
+#include "formulary/name_index.h"
+
+#include <algorithm>
+
+#include "medload/formulary/formulary.h"
+
+namespace medload::formulary_internal {
+namespace {
+
+bool IsWordByte(unsigned char c) {
+  return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c >= 0x80;
+}
+
+// The singular forms a plural description word may stand for.
+void SingularForms(std::string_view word, std::vector<std::string>& forms) {
+  forms.clear();
+  forms.emplace_back(word);
+  if (word.size() > 3 && word.back() == 's') forms.emplace_back(word.substr(0, word.size() - 1));
+  if (word.size() > 4 && word.substr(word.size() - 2) == "es") {
+    forms.emplace_back(word.substr(0, word.size() - 2));
+  }
+  if (word.size() > 4 && word.substr(word.size() - 3) == "ies") {
+    forms.push_back(std::string(word.substr(0, word.size() - 3)) + "y");
+  }
+}
+
+}  // namespace
+
+std::vector<Word> SplitWords(std::string_view normalised) {
+  std::vector<Word> words;
+  size_t i = 0;
+  while (i < normalised.size()) {
+    while (i < normalised.size() && !IsWordByte(static_cast<unsigned char>(normalised[i]))) ++i;
+    const size_t start = i;
+    while (i < normalised.size() && IsWordByte(static_cast<unsigned char>(normalised[i]))) ++i;
+    if (i > start) words.push_back(Word{normalised.substr(start, i - start), start});
+  }
+  return words;
+}
+
+bool WordMatches(std::string_view text_word, std::string_view table_word) {
+  if (text_word == table_word) return true;
+  if (text_word.size() <= table_word.size() || table_word.size() < 3) return false;
+  if (text_word.substr(0, table_word.size()) == table_word) {
+    const std::string_view tail = text_word.substr(table_word.size());
+    return tail == "s" || tail == "es";
+  }
+  // "suppository" -> "suppositories"
+  if (table_word.back() == 'y' && text_word.size() == table_word.size() + 2 &&
+      text_word.substr(0, table_word.size() - 1) == table_word.substr(0, table_word.size() - 1)) {
+    return text_word.substr(table_word.size() - 1) == "ies";
+  }
+  return false;
+}
+
+bool SequenceAt(const std::vector<Word>& words, size_t i, const std::vector<std::string>& name) {
+  if (name.empty() || i + name.size() > words.size()) return false;
+  for (size_t k = 0; k < name.size(); ++k) {
+    if (!WordMatches(words[i + k].text, name[k])) return false;
+  }
+  return true;
+}
+
+bool WordTable::Contains(const std::vector<Word>& words, const std::vector<std::string>& name) {
+  for (size_t i = 0; i < words.size(); ++i) {
+    if (SequenceAt(words, i, name)) return true;
+  }
+  return false;
+}
+
+void WordTable::Add(std::string_view name, size_t target, size_t rank) {
+  const std::string key = NameKey(name);
+  if (key.empty()) return;
+  Entry entry;
+  for (const Word& word : SplitWords(key)) entry.words.emplace_back(word.text);
+  entry.target = target;
+  entry.rank = rank;
+  std::vector<Entry>& bucket = by_first_[entry.words.front()];
+  // Keep the bucket sorted: more words first, then higher rank, then insertion order.
+  const auto at = std::find_if(bucket.begin(), bucket.end(), [&](const Entry& other) {
+    return other.words.size() < entry.words.size() ||
+           (other.words.size() == entry.words.size() && other.rank < entry.rank);
+  });
+  bucket.insert(at, std::move(entry));
+  ++count_;
+}
+
+const std::vector<WordTable::Entry>* WordTable::Bucket(std::string_view first_word) const {
+  thread_local std::vector<std::string> forms;
+  SingularForms(first_word, forms);
+  for (const std::string& form : forms) {
+    const auto it = by_first_.find(form);
+    if (it != by_first_.end()) return &it->second;
+  }
+  return nullptr;
+}
+
+}  // namespace medload::formulary_internal

@@ -1,0 +1,61 @@
+#include "medload/formulary/product.h"
+
+#include <array>
+#include <algorithm>
+#include <cmath>
+#include <utility>
+
+namespace medload {
+namespace {
+
+constexpr std::array<std::pair<Route, std::string_view>, 13> kRouteNames = {{
+    {Route::kUnknown, "unknown"},
+    {Route::kOral, "oral"},
+    {Route::kSublingual, "sublingual"},
+    {Route::kBuccal, "buccal"},
+    {Route::kTopical, "topical"},
+    {Route::kTransdermal, "transdermal"},
+    {Route::kOphthalmic, "ophthalmic"},
+    {Route::kOtic, "otic"},
+    {Route::kNasal, "nasal"},
+    {Route::kInhaled, "inhaled"},
+    {Route::kRectal, "rectal"},
+    {Route::kVaginal, "vaginal"},
+    {Route::kParenteral, "parenteral"},
+}};
+
+}  // namespace
+
+std::string_view RouteName(Route route) {
+  for (const auto& [value, name] : kRouteNames) {
+    if (value == route) return name;
+  }
+  return "unknown";
+}
+
+std::optional<Route> RouteFromName(std::string_view name) {
+  for (const auto& [value, route_name] : kRouteNames) {
+    if (route_name == name) return value;
+  }
+  return std::nullopt;
+}
+
+std::string_view MatchKindName(MatchKind kind) {
+  switch (kind) {
+    case MatchKind::kUnmatched: return "unmatched";
+    case MatchKind::kCode: return "code";
+    case MatchKind::kProduct: return "product";
+    case MatchKind::kIngredient: return "ingredient";
+    case MatchKind::kNonMedicine: return "non-medicine";
+  }
+  return "unmatched";
+}
+
+std::optional<int> ProductDefaultSupplyDays(const ResolvedProduct& product, double quantity) {
+  if (!product.default_supply_days || !(quantity > 0)) return std::nullopt;
+  constexpr double kMaxDays = 3650;
+  const double days = std::ceil(quantity * *product.default_supply_days - 1e-9);
+  return static_cast<int>(std::min(days, kMaxDays));
+}
+
+}  // namespace medload

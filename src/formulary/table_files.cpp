@@ -1,0 +1,319 @@
+#include "formulary/table_files.h"
+
+#include <openssl/evp.h>
+
+#include <algorithm>
+#include <charconv>
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <sstream>
+
+#include "formulary/table_reader.h"
+#include "medload/formulary/rules.h"
+
+namespace medload::formulary_internal {
+namespace {
+
+namespace fs = std::filesystem;
+
+// The files read, for the checksum: relative name and contents.
+using FileContents = std::vector<std::pair<std::string, std::string>>;
+
+std::optional<std::string> ReadWhole(const fs::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) return std::nullopt;
+  std::ostringstream text;
+  text << in.rdbuf();
+  if (in.bad()) return std::nullopt;
+  return text.str();
+}
+
+// Reads `relative` in `dir` into `files`; a missing required file is a fault.
+std::optional<std::string> ReadFile(const fs::path& dir, const std::string& relative, bool required,
+                                    FileContents& files, std::vector<std::string>& faults) {
+  const fs::path path = dir / relative;
+  std::error_code error;
+  if (!fs::is_regular_file(path, error)) {
+    if (required) faults.push_back(relative + ": missing (required)");
+    return std::nullopt;
+  }
+  auto content = ReadWhole(path);
+  if (!content) {
+    faults.push_back(relative + ": cannot be read");
+    return std::nullopt;
+  }
+  files.emplace_back(relative, *content);
+  return content;
+}
+
+bool IsClassName(std::string_view name) {
+  if (name.empty() || name.front() == '-' || name.back() == '-') return false;
+  return std::all_of(name.begin(), name.end(),
+                     [](char c) { return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '-'; });
+}
+
+// ATC codes at level 3 to 5: A01, A01A, A01AB, A01AB01.
+bool IsAtcCode(std::string_view code) {
+  auto letter = [](char c) { return c >= 'A' && c <= 'Z'; };
+  auto digit = [](char c) { return c >= '0' && c <= '9'; };
+  if (code.size() != 3 && code.size() != 4 && code.size() != 5 && code.size() != 7) return false;
+  if (!letter(code[0]) || !digit(code[1]) || !digit(code[2])) return false;
+  if (code.size() >= 4 && !letter(code[3])) return false;
+  if (code.size() >= 5 && !letter(code[4])) return false;
+  return code.size() != 7 || (digit(code[5]) && digit(code[6]));
+}
+
+std::string Upper(std::string text) {
+  for (char& c : text) {
+    if (c >= 'a' && c <= 'z') c = static_cast<char>(c - 32);
+  }
+  return text;
+}
+
+// Checks the fields every table has: a non-empty first column and a source.
+bool NameAndSource(const Table& table, const TableRow& row, std::string_view column,
+                   std::vector<std::string>& faults) {
+  bool ok = true;
+  if (row.fields.front().empty()) {
+    faults.push_back(Fault(table.name, row.line, std::string(column) + ": empty"));
+    ok = false;
+  }
+  if (row.fields.back().empty()) {
+    faults.push_back(Fault(table.name, row.line, "source: empty (every row cites its source)"));
+    ok = false;
+  }
+  return ok;
+}
+
+void ReadIngredients(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "ingredient", faults)) continue;
+    Ingredient ingredient;
+    ingredient.name = row.fields[0];
+    ingredient.synonyms = SplitList(row.fields[1]);
+    for (std::string& code : SplitList(row.fields[2])) {
+      code = Upper(code);
+      if (!IsAtcCode(code)) {
+        faults.push_back(Fault(table.name, row.line, "atc: \"" + code + "\" is not an ATC code"));
+        continue;
+      }
+      ingredient.atc.push_back(code);
+    }
+    for (std::string& class_name : SplitList(row.fields[3])) {
+      if (!IsClassName(class_name)) {
+        faults.push_back(Fault(table.name, row.line,
+                               "classes: \"" + class_name + "\" is not lower-case-hyphenated"));
+        continue;
+      }
+      ingredient.classes.push_back(std::move(class_name));
+    }
+    ingredient.source = row.fields[4];
+    ingredient.line = row.line;
+    tables.ingredients.push_back(std::move(ingredient));
+  }
+}
+
+std::optional<double> ParseNumber(std::string_view text) {
+  double value = 0;
+  const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
+  if (ec != std::errc() || ptr != text.data() + text.size() || text.empty()) return std::nullopt;
+  return value;
+}
+
+std::optional<int> ParseWhole(std::string_view text) {
+  int value = 0;
+  const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
+  if (ec != std::errc() || ptr != text.data() + text.size() || text.empty()) return std::nullopt;
+  return value;
+}
+
+void ReadScale(const Table& table, Scale& scale, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "ingredient", faults)) continue;
+    const auto score = ParseWhole(row.fields[1]);
+    if (!score) {
+      faults.push_back(Fault(table.name, row.line, "score: \"" + row.fields[1] + "\" is not a whole number"));
+      continue;
+    }
+    if (*score < 0 || *score > 3) {
+      faults.push_back(Fault(table.name, row.line, "score: " + row.fields[1] + " is out of range 0..3"));
+      continue;
+    }
+    scale.rows.push_back(ScaleRow{row.fields[0], *score, row.fields[2], row.line});
+  }
+}
+
+std::optional<DbiEffect> EffectFromName(std::string_view name) {
+  if (name == "anticholinergic") return DbiEffect::kAnticholinergic;
+  if (name == "sedative") return DbiEffect::kSedative;
+  if (name == "both") return DbiEffect::kBoth;
+  return std::nullopt;
+}
+
+void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "ingredient", faults)) continue;
+    const auto dose = ParseNumber(row.fields[1]);
+    if (!dose) {
+      faults.push_back(Fault(table.name, row.line, "min_daily_dose_mg: \"" + row.fields[1] + "\" is not a number"));
+      continue;
+    }
+    if (!(*dose > 0)) {
+      faults.push_back(Fault(table.name, row.line, "min_daily_dose_mg: " + row.fields[1] + " must be greater than 0"));
+      continue;
+    }
+    const auto effect = EffectFromName(row.fields[2]);
+    if (!effect) {
+      faults.push_back(Fault(table.name, row.line,
+                             "effect: \"" + row.fields[2] + "\" is not anticholinergic, sedative or both"));
+      continue;
+    }
+    tables.dbi.push_back(DbiDose{row.fields[0], *dose, *effect, row.fields[3], row.line});
+  }
+}
+
+void ReadProducts(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "product", faults)) continue;
+    NamedProduct product;
+    product.name = row.fields[0];
+    product.requires_words = SplitList(row.fields[1]);
+    product.ingredients = SplitList(row.fields[2]);
+    product.form = row.fields[3];
+    product.dose_unit = row.fields[5];
+    product.source = row.fields[7];
+    product.line = row.line;
+    bool ok = true;
+    if (product.ingredients.empty()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: empty"));
+      ok = false;
+    }
+    if (!row.fields[4].empty()) {
+      product.route = RouteFromName(row.fields[4]);
+      if (!product.route) {
+        faults.push_back(Fault(table.name, row.line, "route: \"" + row.fields[4] + "\" is not a route name"));
+        ok = false;
+      }
+    }
+    if (!row.fields[6].empty()) {
+      product.supply_days_per_unit = ParseWhole(row.fields[6]);
+      if (!product.supply_days_per_unit || *product.supply_days_per_unit <= 0) {
+        faults.push_back(Fault(table.name, row.line,
+                               "supply_days_per_unit: \"" + row.fields[6] + "\" is not a whole number > 0"));
+        ok = false;
+      }
+    }
+    if (ok) tables.products.push_back(std::move(product));
+  }
+}
+
+void ReadCodes(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "code_system", faults)) continue;
+    if (row.fields[1].empty() || row.fields[2].empty()) {
+      faults.push_back(Fault(table.name, row.line, row.fields[1].empty() ? "code: empty" : "product_or_ingredient: empty"));
+      continue;
+    }
+    tables.codes.push_back(ProductCode{row.fields[0], row.fields[1], row.fields[2], row.fields[3], row.line});
+  }
+}
+
+void ReadNonMedicines(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "term", faults)) continue;
+    tables.non_medicines.push_back(NonMedicineTerm{row.fields[0], row.fields[1], row.fields[2], row.line});
+  }
+}
+
+// Reads the table `relative` with `columns` and hands it to `read`.
+template <typename ReadFn>
+void ReadTableFile(const fs::path& dir, const std::string& relative, bool required,
+                   const std::vector<std::string_view>& columns, FileContents& files,
+                   std::vector<std::string>& faults, ReadFn read) {
+  const auto content = ReadFile(dir, relative, required, files, faults);
+  if (!content) return;
+  const auto table = ParseTable(relative, *content, columns, faults);
+  if (table) read(*table);
+}
+
+std::vector<std::string> ScaleFiles(const fs::path& dir) {
+  std::vector<std::string> names;
+  std::error_code error;
+  for (fs::directory_iterator it(dir / "anticholinergic", error), end; !error && it != end; it.increment(error)) {
+    const fs::path& path = it->path();
+    if (path.extension() == ".csv" && it->is_regular_file(error)) names.push_back(path.stem().string());
+  }
+  std::sort(names.begin(), names.end());
+  return names;
+}
+
+std::string Checksum(FileContents files) {
+  std::sort(files.begin(), files.end());
+  std::string all;
+  for (const auto& [name, content] : files) {
+    all += name + '\0' + std::to_string(content.size()) + '\0' + content;
+  }
+  return Sha256Hex(all);
+}
+
+}  // namespace
+
+std::string Sha256Hex(std::string_view data) {
+  const std::unique_ptr<EVP_MD_CTX, decltype(&EVP_MD_CTX_free)> context(EVP_MD_CTX_new(), &EVP_MD_CTX_free);
+  unsigned char digest[EVP_MAX_MD_SIZE];
+  unsigned int length = 0;
+  if (!context || EVP_DigestInit_ex(context.get(), EVP_sha256(), nullptr) != 1 ||
+      EVP_DigestUpdate(context.get(), data.data(), data.size()) != 1 ||
+      EVP_DigestFinal_ex(context.get(), digest, &length) != 1) {
+    return {};
+  }
+  static constexpr char kHex[] = "0123456789abcdef";
+  std::string hex;
+  for (unsigned int i = 0; i < length; ++i) {
+    hex += kHex[digest[i] >> 4];
+    hex += kHex[digest[i] & 0xF];
+  }
+  return hex;
+}
+
+FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::string>& faults) {
+  FormularyTables tables;
+  const fs::path dir(dir_name);
+  std::error_code error;
+  if (!fs::is_directory(dir, error)) {
+    faults.push_back(dir_name + ": not a folder");
+    return tables;
+  }
+  FileContents files;
+  ReadTableFile(dir, "ingredients.csv", true, {"ingredient", "synonyms", "atc", "classes", "source"}, files,
+                faults, [&](const Table& t) { ReadIngredients(t, tables, faults); });
+  std::vector<std::string> scale_names = ScaleFiles(dir);
+  if (std::find(scale_names.begin(), scale_names.end(), "acb") == scale_names.end()) {
+    faults.push_back("anticholinergic/acb.csv: missing (required: the default scale)");
+  }
+  for (const std::string& name : scale_names) {
+    Scale scale;
+    scale.name = name;
+    ReadTableFile(dir, "anticholinergic/" + name + ".csv", true, {"ingredient", "score", "source"}, files,
+                  faults, [&](const Table& t) { ReadScale(t, scale, faults); });
+    tables.scales.push_back(std::move(scale));
+  }
+  ReadTableFile(dir, "dbi.csv", false, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
+                [&](const Table& t) { ReadDbi(t, tables, faults); });
+  ReadTableFile(dir, "products.csv", false,
+                {"product", "requires", "ingredients", "form", "route", "dose_unit", "supply_days_per_unit",
+                 "source"},
+                files, faults, [&](const Table& t) { ReadProducts(t, tables, faults); });
+  ReadTableFile(dir, "codes.csv", false, {"code_system", "code", "product_or_ingredient", "source"}, files,
+                faults, [&](const Table& t) { ReadCodes(t, tables, faults); });
+  ReadTableFile(dir, "non_medicines.csv", false, {"term", "category", "source"}, files, faults,
+                [&](const Table& t) { ReadNonMedicines(t, tables, faults); });
+  if (const auto rules = ReadFile(dir, "rules.json", false, files, faults)) {
+    tables.rules = ParseRules(*rules, "rules.json", faults);
+  }
+  tables.checksum = Checksum(std::move(files));
+  return tables;
+}
+
+}  // namespace medload::formulary_internal
