@@ -1,0 +1,372 @@
+#include "dose/dosage_items.h"
+
+#include <algorithm>
+#include <array>
+#include <cmath>
+#include <optional>
+
+#include "dose/dosage_phrases.h"
+#include "medload/dose/dose_unit.h"
+
+namespace medload {
+namespace {
+
+struct NumberWord {
+  std::string_view word;
+  double value;
+};
+
+constexpr std::array kNumberWords = {
+    NumberWord{"one", 1},       NumberWord{"two", 2},        NumberWord{"three", 3},
+    NumberWord{"four", 4},      NumberWord{"five", 5},       NumberWord{"six", 6},
+    NumberWord{"seven", 7},     NumberWord{"eight", 8},      NumberWord{"nine", 9},
+    NumberWord{"ten", 10},      NumberWord{"eleven", 11},    NumberWord{"twelve", 12},
+    NumberWord{"thirteen", 13}, NumberWord{"fourteen", 14},  NumberWord{"fifteen", 15},
+    NumberWord{"sixteen", 16},  NumberWord{"seventeen", 17}, NumberWord{"eighteen", 18},
+    NumberWord{"nineteen", 19}, NumberWord{"twenty", 20},    NumberWord{"thirty", 30},
+    NumberWord{"forty", 40},    NumberWord{"fifty", 50},     NumberWord{"sixty", 60},
+    NumberWord{"seventy", 70},  NumberWord{"eighty", 80},    NumberWord{"ninety", 90},
+    NumberWord{"half", 0.5},    NumberWord{"quarter", 0.25},
+};
+
+std::optional<double> NumberWordValue(std::string_view word) {
+  for (const NumberWord& entry : kNumberWords) {
+    if (entry.word == word) return entry.value;
+  }
+  return std::nullopt;
+}
+
+bool IsWhole(double value) { return value == std::floor(value); }
+
+struct Number {
+  double value = 0;
+  size_t next = 0;
+};
+
+struct Range {
+  double low = 0;
+  double high = 0;
+  size_t next = 0;
+};
+
+// Units of time after "every", "in", "q" and before "hourly"; in days.
+std::optional<double> TimeUnitDays(std::string_view word) {
+  if (word == "hour" || word == "hours" || word == "hr" || word == "hrs" || word == "h") {
+    return 1.0 / 24;
+  }
+  if (word == "minute" || word == "minutes" || word == "min" || word == "mins") {
+    return 1.0 / 1440;
+  }
+  if (word == "day" || word == "days") return 1.0;
+  if (word == "week" || word == "weeks" || word == "wk" || word == "wks") return 7.0;
+  if (word == "fortnight" || word == "fortnights") return 14.0;
+  if (word == "month" || word == "months") return 30.0;
+  if (word == "year" || word == "years") return 365.0;
+  return std::nullopt;
+}
+
+class Recogniser {
+ public:
+  explicit Recogniser(const std::vector<Token>& tokens) : t_(tokens) {}
+
+  std::vector<Item> Run() {
+    while (i_ < t_.size()) {
+      const size_t before = i_;
+      Step();
+      if (i_ == before) ++i_;  // never stall
+    }
+    return std::move(items_);
+  }
+
+ private:
+  std::string_view Text(size_t k) const {
+    if (k >= t_.size()) return {};
+    return t_[k].text;
+  }
+  bool IsNumber(size_t k) const { return k < t_.size() && t_[k].kind == TokenKind::kNumber; }
+  bool Word(size_t k, std::string_view word) const {
+    return k < t_.size() && t_[k].kind != TokenKind::kNumber && t_[k].text == word;
+  }
+
+  void Emit(ItemKind kind, size_t next, double value = 0, double value2 = 0,
+            std::string_view unit = {}) {
+    items_.push_back(Item{kind, value, value2, unit, {}});
+    i_ = next;
+  }
+
+  // A single number: digits, fractions ("1/2", "1 1/2"), words ("one", "twenty four",
+  // "half a", "a half", "one and a half").
+  std::optional<Number> NumberAt(size_t k) const {
+    std::optional<Number> number;
+    if (IsNumber(k)) {
+      number = Number{t_[k].number, k + 1};
+      if (auto fraction = FractionAt(k)) return WithHalf(*fraction);
+      if (IsWhole(number->value)) {
+        if (auto fraction = FractionAt(k + 1)) {
+          return Number{number->value + fraction->value, fraction->next};
+        }
+        if (IsNumber(k + 1) && t_[k + 1].number < 1 && !t_[k + 1].joined) {
+          return Number{number->value + t_[k + 1].number, k + 2};
+        }
+      }
+    } else if (Word(k, "a") || Word(k, "an")) {
+      const auto value = NumberWordValue(Text(k + 1));
+      if (value && *value < 1) number = Number{*value, k + 2};
+    } else if (const auto value = NumberWordValue(Text(k))) {
+      number = Number{*value, k + 1};
+      const auto ones = NumberWordValue(Text(k + 1));
+      if (*value >= 20 && ones && *ones < 10 && *ones >= 1) number = Number{*value + *ones, k + 2};
+    }
+    if (!number) return std::nullopt;
+    return WithHalf(*number);
+  }
+
+  // "n/d" with d in 2..4 and n < d: a fraction of a dose unit (not "5/7", a duration).
+  std::optional<Number> FractionAt(size_t k) const {
+    if (!IsNumber(k) || !Word(k + 1, "/") || !IsNumber(k + 2)) return std::nullopt;
+    const double numerator = t_[k].number;
+    const double denominator = t_[k + 2].number;
+    if (denominator < 2 || denominator > 4 || numerator >= denominator ||
+        !IsWhole(numerator) || !IsWhole(denominator) || numerator < 1) {
+      return std::nullopt;
+    }
+    return Number{numerator / denominator, k + 3};
+  }
+
+  // "one and a half", "2 & a half"; "half a tablet", "quarter of a tablet".
+  Number WithHalf(Number number) const {
+    size_t k = number.next;
+    if (number.value >= 1 && IsWhole(number.value) && (Word(k, "and") || Word(k, "&"))) {
+      size_t at = k + 1;
+      if (Word(at, "a")) ++at;
+      const auto part = NumberWordValue(Text(at));
+      if (part && *part < 1) return Number{number.value + *part, at + 1};
+    }
+    if (number.value < 1 && (Word(number.next - 1, "half") || Word(number.next - 1, "quarter"))) {
+      if (Word(k, "of")) ++k;
+      if (Word(k, "a") || Word(k, "an")) number.next = k + 1;
+    }
+    return number;
+  }
+
+  // A number or a range of two ("1-2", "1 to 2", "one or two"), then "x N" before a unit.
+  std::optional<Range> RangeAt(size_t k) const {
+    const auto first = NumberAt(k);
+    if (!first) return std::nullopt;
+    Range range{first->value, first->value, first->next};
+    const size_t link = first->next;
+    if (Word(link, "-") || Word(link, "to") || Word(link, "or")) {
+      if (const auto second = NumberAt(link + 1)) {
+        range = Range{std::min(first->value, second->value),
+                      std::max(first->value, second->value), second->next};
+      }
+    }
+    if (Word(range.next, "x") && IsNumber(range.next + 1) && UnitAt(range.next + 2)) {
+      const double times = t_[range.next + 1].number;
+      range = Range{range.low * times, range.high * times, range.next + 2};
+    }
+    return range;
+  }
+
+  bool UnitAt(size_t k) const {
+    return k < t_.size() && t_[k].kind == TokenKind::kWord && ReadDoseUnit(t_[k].text);
+  }
+
+  void Step() {
+    if (MatchClockTime() || MatchSpoon() || MatchEvery() || MatchQHours() || MatchHourly() ||
+        MatchCount() || MatchPerTime() || MatchDuration() || MatchAmount() || MatchArticle() ||
+        MatchOnAtNight() || MatchPhrase() || MatchUnit()) {
+      return;
+    }
+    if (t_[i_].kind == TokenKind::kWord) {
+      items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, t_[i_].text});
+    } else {
+      items_.push_back(Item{ItemKind::kFiller});
+    }
+    ++i_;
+  }
+
+  // "8am", "at 8 pm", "08:00", "22:30".
+  bool MatchClockTime() {
+    if (!IsNumber(i_) || !IsWhole(t_[i_].number)) return false;
+    const int hour = static_cast<int>(t_[i_].number);
+    if (Word(i_ + 1, ":") && IsNumber(i_ + 2) && t_[i_ + 2].text.size() == 2 && hour <= 24 &&
+        t_[i_ + 2].number < 60) {
+      const int minute = static_cast<int>(t_[i_ + 2].number);
+      Emit(ItemKind::kEvent, i_ + 3, kClockEventBase + hour * 100 + minute);
+      return true;
+    }
+    const bool am = Word(i_ + 1, "am");
+    const bool pm = Word(i_ + 1, "pm");
+    if (!am && !pm) return false;
+    const bool clock = t_[i_ + 1].joined || (i_ > 0 && Word(i_ - 1, "at"));
+    if (!clock || hour < 1 || hour > 12) return false;
+    const int hour24 = (hour % 12) + (pm ? 12 : 0);
+    Emit(ItemKind::kEvent, i_ + 2, kClockEventBase + hour24 * 100);
+    return true;
+  }
+
+  // "5ml spoonful", "2.5 ml spoon": a measuring spoon of that volume.
+  bool MatchSpoon() {
+    if (!IsNumber(i_) || !(Word(i_ + 1, "ml") || Word(i_ + 1, "mls"))) return false;
+    const auto spoon = ReadDoseUnit(Text(i_ + 2));
+    if (!spoon || spoon->name != "ml" || spoon->factor != 5 || t_[i_ + 2].kind != TokenKind::kWord) {
+      return false;
+    }
+    const double volume = t_[i_].number;
+    if (!(volume > 0) || volume > 100) return false;
+    Emit(ItemKind::kUnit, i_ + 3, volume, 0, "ml");
+    return true;
+  }
+
+  // "every 4 hours", "every 4 to 6 hours" (the shorter interval), "every 3 days".
+  bool MatchEvery() {
+    if (!Word(i_, "every") && !Word(i_, "each")) return false;
+    const auto range = RangeAt(i_ + 1);
+    if (!range) return false;
+    const auto days = TimeUnitDays(Text(range->next));
+    if (!days || !(range->low > 0)) return false;
+    Emit(ItemKind::kPeriod, range->next + 1, range->low * *days);
+    return true;
+  }
+
+  // "q4h", "q 4-6 h", "q6hrs".
+  bool MatchQHours() {
+    if (!Word(i_, "q")) return false;
+    const auto range = RangeAt(i_ + 1);
+    if (!range || !(range->low > 0)) return false;
+    const auto days = TimeUnitDays(Text(range->next));
+    if (!days && !Word(range->next, "hourly")) return false;
+    Emit(ItemKind::kPeriod, range->next + 1, range->low * days.value_or(1.0 / 24));
+    return true;
+  }
+
+  // "4 hourly", "4-6 hourly".
+  bool MatchHourly() {
+    const auto range = RangeAt(i_);
+    if (!range || !(range->low > 0)) return false;
+    if (!Word(range->next, "hourly") && !Word(range->next, "hrly")) return false;
+    Emit(ItemKind::kPeriod, range->next + 1, range->low / 24);
+    return true;
+  }
+
+  // "3 times", "2-3 times" (the upper), "3x", "x3" (not "2 x 5ml": a product).
+  bool MatchCount() {
+    if (Word(i_, "x")) {
+      const auto range = RangeAt(i_ + 1);
+      if (!range || UnitAt(range->next) || TimeUnitDays(Text(range->next))) return false;
+      Emit(ItemKind::kCount, range->next, range->high);
+      return true;
+    }
+    const auto range = RangeAt(i_);
+    if (!range) return false;
+    const size_t next = range->next;
+    if (!Word(next, "times") && !Word(next, "time") && !Word(next, "x")) return false;
+    if (Word(next, "x") && (IsNumber(next + 1) || NumberAt(next + 1))) return false;
+    Emit(ItemKind::kCount, next + 1, range->high);
+    return true;
+  }
+
+  // "in 24 hours", "in any 24 hour period", "per 24 hours", "/24h": a period.
+  bool MatchPerTime() {
+    if (!Word(i_, "in") && !Word(i_, "per") && !Word(i_, "/") && !Word(i_, "within")) {
+      return false;
+    }
+    size_t k = i_ + 1;
+    if (Word(k, "any") || Word(k, "a") || Word(k, "each")) ++k;
+    if (!IsNumber(k) && !NumberWordValue(Text(k))) return false;
+    const auto range = RangeAt(k);
+    if (!range || !(range->high > 0)) return false;
+    const auto days = TimeUnitDays(Text(range->next));
+    if (!days) return false;
+    size_t next = range->next + 1;
+    if (Word(next, "period")) ++next;
+    Emit(ItemKind::kPeriod, next, range->high * *days);
+    return true;
+  }
+
+  // "for 7 days", "for a week", "x 5 days", "14 days", "5/7", "for 2/52": a duration.
+  bool MatchDuration() {
+    size_t k = i_;
+    if (Word(k, "for") || Word(k, "x")) ++k;
+    if (IsNumber(k) && Word(k + 1, "/") && IsNumber(k + 2)) {
+      const double unit = t_[k + 2].number;
+      if (unit == 7 || unit == 52 || unit == 12) {
+        Emit(ItemKind::kFiller, k + 3);
+        return true;
+      }
+    }
+    size_t next = k;
+    if (k > i_ && (Word(k, "a") || Word(k, "an"))) {
+      next = k + 1;
+    } else if (const auto range = RangeAt(k)) {
+      next = range->next;
+    } else {
+      return false;
+    }
+    const auto days = TimeUnitDays(Text(next));
+    if (!days || *days < 1) return false;
+    Emit(ItemKind::kFiller, next + 1);
+    return true;
+  }
+
+  bool MatchAmount() {
+    const auto range = RangeAt(i_);
+    if (!range) return false;
+    if (range->high > kMaxDosageAmount) {
+      items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, std::string(Text(i_))});
+      i_ = range->next;
+      return true;
+    }
+    Emit(ItemKind::kAmount, range->next, range->high);
+    return true;
+  }
+
+  // "a tablet", "an application": one.
+  bool MatchArticle() {
+    if (!Word(i_, "a") && !Word(i_, "an")) return false;
+    if (!UnitAt(i_ + 1) && !(IsNumber(i_ + 1) && Word(i_ + 2, "ml"))) return false;
+    Emit(ItemKind::kAmount, i_ + 1, 1);
+    return true;
+  }
+
+  // "on" is "at night" only when nothing follows that makes it a preposition.
+  bool MatchOnAtNight() {
+    if (!Word(i_, "on")) return false;
+    const size_t k = i_ + 1;
+    static constexpr std::array<std::string_view, 12> kAfter = {
+        "and", "prn", "when", "if", "as", "max", "maximum", "up", "for", "then", "with", "only"};
+    const bool at_night = k >= t_.size() || t_[k].kind == TokenKind::kPunct ||
+                          std::find(kAfter.begin(), kAfter.end(), Text(k)) != kAfter.end();
+    if (!at_night) return false;
+    Emit(ItemKind::kEvent, k, kNight);
+    return true;
+  }
+
+  bool MatchPhrase() {
+    const auto match = MatchDosagePhrase(t_, i_);
+    if (!match) return false;
+    items_.push_back(match->item);
+    i_ += match->length;
+    return true;
+  }
+
+  bool MatchUnit() {
+    if (!UnitAt(i_)) return false;
+    const auto unit = ReadDoseUnit(t_[i_].text);
+    Emit(ItemKind::kUnit, i_ + 1, unit->factor, 0, unit->name);
+    return true;
+  }
+
+  const std::vector<Token>& t_;
+  size_t i_ = 0;
+  std::vector<Item> items_;
+};
+
+}  // namespace
+
+std::vector<Item> RecogniseDosageItems(const std::vector<Token>& tokens) {
+  return Recogniser(tokens).Run();
+}
+
+}  // namespace medload

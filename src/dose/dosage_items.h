@@ -1,0 +1,48 @@
+// Gives the tokens of a dosage instruction their meaning, one phrase at a time: amounts,
+// units, frequencies, times of day, as-needed and maximum markers. Private to src/dose.
+// It does not combine them: ReadDosageText assembles items into doses per day.
+#pragma once
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "dose/dosage_lexer.h"
+
+namespace medload {
+
+enum class ItemKind {
+  kAmount,      // value: the amount (upper value of a range)
+  kUnit,        // unit: canonical unit name; value: factor to it
+  kCount,       // value: administrations in the period ("twice", "3 times", "x3")
+  kPeriod,      // value: the period in days ("daily" 1, "weekly" 7, "every 4 hours" 1/6)
+  kFrequency,   // value: administrations in value2 days ("bd", "tds", "od")
+  kEvent,       // value: a time of day id (morning, night, 08:00, ...)
+  kMeals,       // "with meals": three administrations a day unless a frequency is given
+  kWeekday,     // value: 0 (Monday) .. 6 (Sunday)
+  kAsNeeded,    // "prn", "when required", ...
+  kMaximum,     // "max", "up to", "no more than"; value 1 when it says "daily" itself
+  kAsDirected,  // "as directed", "as per instructions", ...
+  kSeparator,   // "and", ",", ";", "."
+  kThen,        // "then", "followed by": the next doses replace these (a changing dose)
+  kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
+  kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
+  kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")
+  kUnknown,     // not understood; text: the word
+};
+
+struct Item {
+  ItemKind kind = ItemKind::kUnknown;
+  double value = 0;
+  double value2 = 0;
+  std::string_view unit = {};  // static storage
+  std::string text = {};       // the word, for kUnknown
+};
+
+// Amounts above this are not doses (hostile or mistyped numbers): read as unknown.
+inline constexpr double kMaxDosageAmount = 100000;
+
+// The items of the tokens, in order. Every token belongs to exactly one item. Pure.
+std::vector<Item> RecogniseDosageItems(const std::vector<Token>& tokens);
+
+}  // namespace medload

@@ -1,0 +1,368 @@
+#include "medload/dose/dosage_text.h"
+
+#include <algorithm>
+#include <bit>
+#include <vector>
+
+#include "dose/dosage_items.h"
+#include "dose/dosage_lexer.h"
+#include "medload/dose/dose_unit.h"
+
+namespace medload {
+namespace {
+
+// One dose said once with its timing: "2 tablets in the morning", "one twice a day".
+struct Part {
+  std::optional<double> amount;
+  std::string_view unit;  // canonical; empty when not said
+  double factor = 1;      // unit factor ("5ml spoonful" -> 5 ml)
+  std::optional<double> count;   // administrations in `period`
+  std::optional<double> period;  // days
+  std::vector<int> events;       // distinct times of day
+  unsigned weekdays = 0;         // bit d set: day d of the week (0 = Monday)
+  bool meals = false;
+  double multiplier = 1;         // "each eye": 2
+};
+
+// "max 8 in 24 hours", "up to four times a day", "maximum 4 doses a day".
+struct Maximum {
+  bool present = false;
+  std::optional<double> amount;
+  std::string_view unit;
+  double factor = 1;
+  std::optional<double> count;
+  std::optional<double> period;
+  std::vector<int> events;
+};
+
+// Doses taken together; a "then" starts the next group (a changing dose).
+struct Group {
+  std::vector<Part> parts;
+  Maximum max;
+};
+
+struct GroupResult {
+  std::optional<double> units_per_day;
+  std::string_view unit;
+};
+
+void AddDistinct(std::vector<int>& values, int value) {
+  if (std::find(values.begin(), values.end(), value) == values.end()) values.push_back(value);
+}
+
+// Keeps only printable ASCII or valid UTF-8 of a word, at most 30 bytes, for the note.
+std::string SafeWord(std::string_view word) {
+  std::string safe;
+  for (size_t i = 0; i < word.size() && safe.size() < 30;) {
+    const auto byte = static_cast<unsigned char>(word[i]);
+    size_t length = byte < 0x80 ? 1 : byte >> 5 == 0x6 ? 2 : byte >> 4 == 0xE ? 3
+                                    : byte >> 3 == 0x1E ? 4 : 0;
+    bool valid = length > 0 && i + length <= word.size();
+    for (size_t k = 1; valid && k < length; ++k) {
+      valid = (static_cast<unsigned char>(word[i + k]) & 0xC0) == 0x80;
+    }
+    if (valid && (byte >= 0x20 || length > 1) && byte != 0x7F) {
+      safe.append(word.substr(i, length));
+      i += length;
+    } else {
+      safe.push_back('?');
+      ++i;
+    }
+  }
+  return safe;
+}
+
+class Assembler {
+ public:
+  void Add(const Item& item) {
+    if (in_max_ && AddToMaximum(item)) return;
+    in_max_ = false;
+    switch (item.kind) {
+      case ItemKind::kAmount:
+        if (part_.amount) StartPart();
+        part_.amount = item.value;
+        break;
+      case ItemKind::kUnit:
+        if (part_.unit.empty()) {
+          part_.unit = item.unit;
+          part_.factor = item.value;
+        }
+        break;
+      case ItemKind::kCount:
+        if (!part_.count) part_.count = item.value;
+        break;
+      case ItemKind::kPeriod:
+        if (!part_.period) part_.period = item.value;
+        break;
+      case ItemKind::kFrequency:
+        if (!part_.count && !part_.period) {
+          part_.count = item.value;
+          part_.period = item.value2;
+        }
+        break;
+      default:
+        AddOther(item);
+    }
+  }
+
+  DosageReading Finish(bool truncated);
+
+ private:
+  void AddOther(const Item& item) {
+    switch (item.kind) {
+      case ItemKind::kEvent: AddDistinct(part_.events, static_cast<int>(item.value)); break;
+      case ItemKind::kMeals: part_.meals = true; break;
+      case ItemKind::kWeekday: part_.weekdays |= 1u << static_cast<unsigned>(item.value); break;
+      case ItemKind::kAsNeeded: as_needed_ = true; break;
+      case ItemKind::kAsDirected: as_directed_ = true; break;
+      case ItemKind::kEachSide: part_.multiplier = item.value; break;
+      case ItemKind::kUnitHint:
+        if (unit_hint_.empty()) unit_hint_ = item.unit;
+        break;
+      case ItemKind::kThen:
+        StartPart();
+        groups_.emplace_back();
+        break;
+      case ItemKind::kMaximum:
+        in_max_ = true;
+        group().max.present = true;
+        if (item.value == 1 && !group().max.period) group().max.period = 1;
+        break;
+      case ItemKind::kUnknown: unknown_.push_back(item.text); break;
+      default: break;  // separators and fillers
+    }
+  }
+
+  // Items after a maximum marker describe the maximum until a separator or a marker.
+  bool AddToMaximum(const Item& item) {
+    Maximum& max = group().max;
+    switch (item.kind) {
+      case ItemKind::kAmount:
+        if (max.amount) return false;
+        max.amount = item.value;
+        return true;
+      case ItemKind::kUnit:
+        if (max.unit.empty()) {
+          max.unit = item.unit;
+          max.factor = item.value;
+        }
+        return true;
+      case ItemKind::kCount: max.count = item.value; return true;
+      case ItemKind::kPeriod: max.period = item.value; return true;
+      case ItemKind::kFrequency:
+        max.count = item.value;
+        max.period = item.value2;
+        return true;
+      case ItemKind::kEvent: AddDistinct(max.events, static_cast<int>(item.value)); return true;
+      case ItemKind::kMaximum:
+      case ItemKind::kFiller: return true;
+      default: return false;
+    }
+  }
+
+  Group& group() {
+    if (groups_.empty()) groups_.emplace_back();
+    return groups_.back();
+  }
+
+  void StartPart() {
+    group().parts.push_back(part_);
+    part_ = Part{};
+  }
+
+  void Note(std::string note) {
+    if (std::find(notes_.begin(), notes_.end(), note) == notes_.end()) notes_.push_back(note);
+  }
+
+  std::optional<double> Rate(const Part& part);
+  GroupResult Evaluate(Group& group);
+  void MaximumPerDay(Group& group, std::string_view unit, std::optional<double>& units,
+                     std::optional<double>& administrations);
+  std::string JoinedNotes() const;
+
+  std::vector<Group> groups_;
+  Part part_;
+  bool in_max_ = false;
+  bool as_needed_ = false;
+  bool as_directed_ = false;
+  bool doubtful_ = false;  // something was assumed or left out: at best kPartial
+  std::string_view unit_hint_;
+  std::vector<std::string> unknown_;
+  std::vector<std::string> notes_;
+};
+
+// Administrations per day of one part, or nullopt when it gives no timing.
+std::optional<double> Assembler::Rate(const Part& part) {
+  std::optional<double> rate;
+  if (part.count || part.period) {
+    if (part.count && !part.period && part.weekdays == 0) {
+      Note("a count without a period is read as per day");
+      doubtful_ = true;
+    }
+    rate = part.count.value_or(1) / part.period.value_or(1);
+  } else if (!part.events.empty()) {
+    rate = static_cast<double>(part.events.size());
+  } else if (part.meals) {
+    rate = 3;  // with each of three meals
+  } else if (part.weekdays != 0) {
+    rate = 1;
+  }
+  if (rate && part.weekdays != 0 && part.period.value_or(1) <= 1) {
+    rate = *rate * std::popcount(part.weekdays) / 7.0;
+  }
+  return rate;
+}
+
+void Assembler::MaximumPerDay(Group& group, std::string_view unit, std::optional<double>& units,
+                              std::optional<double>& administrations) {
+  const Maximum& max = group.max;
+  if (!max.present || (!max.amount && !max.count && max.events.empty())) return;
+  if (!max.period && max.events.empty()) Note("a maximum without a period is read as per day");
+  const double count =
+      max.count.value_or(max.events.empty() ? 1 : static_cast<double>(max.events.size()));
+  const double period = max.period.value_or(1);
+  if (!max.amount) {
+    administrations = count / period;
+    return;
+  }
+  const bool doses = max.unit == "dose" && unit != "dose" && unit != "puff";
+  if (doses) {
+    administrations = *max.amount * count / period;
+  } else if (max.unit.empty() || unit.empty() || SameDoseUnit(max.unit, unit)) {
+    units = *max.amount * max.factor * count / period;
+  } else {
+    Note("a maximum in " + std::string(max.unit) + " was not compared with doses in " +
+         std::string(unit));
+  }
+}
+
+GroupResult Assembler::Evaluate(Group& group) {
+  GroupResult result;
+  for (const Part& part : group.parts) {
+    if (!part.unit.empty()) {
+      result.unit = part.unit;
+      break;
+    }
+  }
+  if (result.unit.empty() && group.max.amount && !group.max.unit.empty() &&
+      group.max.unit != "dose") {
+    result.unit = group.max.unit;
+  }
+  if (result.unit.empty()) result.unit = unit_hint_;
+  std::optional<double> max_units;
+  std::optional<double> max_administrations;
+  MaximumPerDay(group, result.unit, max_units, max_administrations);
+  double regular = 0;
+  bool timed = false;
+  std::optional<double> first_dose;
+  for (const Part& part : group.parts) {
+    const double dose = part.amount.value_or(1) * part.factor * part.multiplier;
+    if (!part.unit.empty() && !SameDoseUnit(part.unit, result.unit)) {
+      Note("doses in more than one unit: only " + std::string(result.unit) + " counted");
+      doubtful_ = true;
+      continue;
+    }
+    if (part.amount && !first_dose) first_dose = dose;
+    auto rate = Rate(part);
+    if (!rate) rate = max_administrations;
+    if (!rate) {
+      if (part.amount) Note("a dose without a frequency was left out");
+      continue;
+    }
+    regular += dose * *rate;
+    timed = true;
+  }
+  if (max_administrations && !max_units) max_units = first_dose.value_or(1) * *max_administrations;
+  if (as_needed_) {
+    result.units_per_day = max_units ? max_units : timed ? std::optional(regular) : std::nullopt;
+  } else if (timed) {
+    result.units_per_day = max_units ? std::min(regular, *max_units) : regular;
+  } else {
+    result.units_per_day = max_units;
+  }
+  return result;
+}
+
+std::string Assembler::JoinedNotes() const {
+  std::string joined;
+  if (!unknown_.empty()) {
+    joined = "did not understand";
+    for (size_t k = 0; k < unknown_.size() && k < 5; ++k) {
+      joined += (k == 0 ? " \"" : ", \"") + SafeWord(unknown_[k]) + "\"";
+    }
+    if (unknown_.size() > 5) joined += ", ...";
+  }
+  for (const std::string& note : notes_) {
+    if (!joined.empty()) joined += "; ";
+    joined += note;
+  }
+  return joined;
+}
+
+DosageReading Assembler::Finish(bool truncated) {
+  StartPart();
+  DosageReading reading;
+  reading.as_needed = as_needed_;
+  size_t with_units = 0;
+  for (Group& group : groups_) {
+    const GroupResult result = Evaluate(group);
+    if (!result.units_per_day) {
+      if (reading.unit.empty()) reading.unit = std::string(result.unit);
+      continue;
+    }
+    ++with_units;
+    if (!reading.units_per_day || *result.units_per_day > *reading.units_per_day) {
+      reading.units_per_day = result.units_per_day;
+      reading.unit = std::string(result.unit);
+    }
+  }
+  if (with_units > 1) Note("the dose changes: the highest daily amount is used");
+  if (truncated) {
+    Note("the text is longer than the parser reads: the rest was ignored");
+    doubtful_ = true;
+  }
+  if (reading.units_per_day && !(*reading.units_per_day > 0)) {
+    reading.units_per_day.reset();
+    Note("a dose of zero");
+  }
+  if (!reading.units_per_day) {
+    Note(as_directed_ ? "as directed: no amount per day is given"
+         : as_needed_ ? "as needed with no frequency or maximum"
+                      : "no dose frequency found");
+    reading.understanding = Understanding::kUnknown;
+  } else {
+    reading.understanding = unknown_.empty() && !doubtful_ ? Understanding::kFull
+                                                           : Understanding::kPartial;
+  }
+  reading.note = JoinedNotes();
+  return reading;
+}
+
+bool IsBlank(std::string_view text) {
+  return std::all_of(text.begin(), text.end(), [](char c) {
+    return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v';
+  });
+}
+
+}  // namespace
+
+std::string_view UnderstandingName(Understanding understanding) {
+  switch (understanding) {
+    case Understanding::kEmpty: return "empty";
+    case Understanding::kFull: return "full";
+    case Understanding::kPartial: return "partial";
+    case Understanding::kUnknown: return "unknown";
+  }
+  return "unknown";
+}
+
+DosageReading ReadDosageText(std::string_view text) {
+  if (IsBlank(text)) return DosageReading{};
+  const LexedText lexed = LexDosageText(text);
+  if (lexed.tokens.empty()) return DosageReading{};
+  Assembler assembler;
+  for (const Item& item : RecogniseDosageItems(lexed.tokens)) assembler.Add(item);
+  return assembler.Finish(lexed.truncated);
+}
+
+}  // namespace medload

@@ -1,0 +1,181 @@
+#include "medload/dose/fhir_dosage.h"
+
+#include <doctest/doctest.h>
+
+namespace medload {
+namespace {
+
+using nlohmann::json;
+
+// A Dosage with doseQuantity and timing.repeat; element names from HL7 FHIR R4,
+// datatypes: Dosage (doseAndRate.doseQuantity) and Timing.repeat.
+json Dosage(double value, const char* unit, int frequency, double period,
+            const char* period_unit) {
+  return json{{"doseAndRate", json::array({{{"doseQuantity", {{"value", value}, {"unit", unit}}}}})},
+              {"timing",
+               {{"repeat",
+                 {{"frequency", frequency}, {"period", period}, {"periodUnit", period_unit}}}}}};
+}
+
+}  // namespace
+
+TEST_SUITE("fhir_dosage") {
+
+TEST_CASE("a dose quantity times the frequency per period gives units per day") {
+  // Source: HL7 FHIR R4 Timing.repeat: frequency events per period of periodUnit.
+  const DosageReading reading = ReadFhirDosage(Dosage(2, "tablet", 3, 1, "d"));
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(6));
+  CHECK(reading.unit == "tablet");
+  CHECK(reading.understanding == Understanding::kFull);
+  CHECK_FALSE(reading.as_needed);
+  CHECK(reading.note.empty());
+}
+
+TEST_CASE("the worked oral solution example reads as 15 mL a day") {
+  // Source: QI-Core MedicationDispense days-supply example (references.md): 5 mL three
+  // times a day; 450 mL then lasts 30 days (see supply_test.cpp).
+  const DosageReading reading = ReadFhirDosage(Dosage(5, "mL", 3, 1, "d"));
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(15));
+  CHECK(reading.unit == "ml");
+}
+
+TEST_CASE("every period unit of Timing.repeat converts to days") {
+  // Source: HL7 FHIR R4 Timing.repeat.periodUnit value set: s | min | h | d | wk | mo | a.
+  struct Case {
+    const char* unit;
+    double period;
+    double per_day;
+  };
+  const Case cases[] = {{"s", 86400, 1},     {"min", 1440, 1}, {"h", 4, 6},   {"d", 2, 0.5},
+                        {"wk", 1, 1.0 / 7},  {"mo", 1, 1.0 / 30}, {"a", 1, 1.0 / 365}};
+  for (const Case& c : cases) {
+    CAPTURE(c.unit);
+    const DosageReading reading = ReadFhirDosage(Dosage(1, "tablet", 1, c.period, c.unit));
+    REQUIRE(reading.units_per_day);
+    CHECK(*reading.units_per_day == doctest::Approx(c.per_day));
+  }
+}
+
+TEST_CASE("frequencyMax and a dose range use the upper values and period the shorter") {
+  // Source: HL7 FHIR R4 Timing.repeat.frequencyMax / periodMax ("every 4 to 6 hours" is
+  // period 4, periodMax 6) and Dosage.doseAndRate.doseRange.
+  json dosage = {
+      {"doseAndRate", json::array({{{"doseRange", {{"low", {{"value", 1}, {"unit", "tablet"}}},
+                                                   {"high", {{"value", 2}, {"unit", "tablet"}}}}}}})},
+      {"timing", {{"repeat", {{"frequency", 1}, {"frequencyMax", 2}, {"period", 4},
+                              {"periodMax", 6}, {"periodUnit", "h"}}}}}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(2 * 2 * 6));
+}
+
+TEST_CASE("as needed with maxDosePerPeriod uses the maximum per day") {
+  // Source: HL7 FHIR R4 Dosage.asNeeded[x] and Dosage.maxDosePerPeriod (a Ratio).
+  json dosage = Dosage(2, "tablet", 4, 1, "d");
+  dosage["asNeededBoolean"] = true;
+  dosage["maxDosePerPeriod"] = {{"numerator", {{"value", 6}, {"unit", "tablet"}}},
+                                {"denominator", {{"value", 24}, {"unit", "h"}, {"code", "h"}}}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  CHECK(reading.as_needed);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(6));
+}
+
+TEST_CASE("as needed by a codeable concept without a maximum uses the frequency") {
+  json dosage = Dosage(1, "tablet", 3, 1, "d");
+  dosage["asNeededCodeableConcept"] = {{"text", "pain"}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  CHECK(reading.as_needed);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(3));
+}
+
+TEST_CASE("a regular dose above its maxDosePerPeriod is limited to the maximum") {
+  json dosage = Dosage(3, "tablet", 4, 1, "d");
+  dosage["maxDosePerPeriod"] = {{"numerator", {{"value", 8}}}, {"denominator", {{"value", 1}, {"code", "d"}}}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(8));
+}
+
+TEST_CASE("repeat.when codes count administrations when there is no frequency") {
+  // Source: HL7 FHIR R4 EventTiming: MORN, NIGHT; C = at a meal (three a day).
+  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", 1}}}}})},
+                 {"timing", {{"repeat", {{"when", json::array({"MORN", "NIGHT"})}}}}}};
+  REQUIRE(ReadFhirDosage(dosage).units_per_day);
+  CHECK(*ReadFhirDosage(dosage).units_per_day == doctest::Approx(2));
+  dosage["timing"]["repeat"]["when"] = json::array({"C"});
+  CHECK(*ReadFhirDosage(dosage).units_per_day == doctest::Approx(3));
+}
+
+TEST_CASE("a timing code such as BID gives the frequency") {
+  // Source: HL7 FHIR R4 TimingAbbreviation value set (BID, TID, QID, Q4H, ...).
+  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", 2}, {"unit", "puff"}}}}})},
+                 {"timing", {{"code", {{"coding", json::array({{{"code", "BID"}}})}}}}}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(4));
+  CHECK(reading.unit == "puff");
+}
+
+TEST_CASE("without a structured dose the text is read instead") {
+  json dosage = {{"text", "one tablet three times a day"},
+                 {"timing", {{"repeat", {{"frequency", 3}, {"period", 1}, {"periodUnit", "d"}}}}}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(3));
+  CHECK(reading.note == "no structured dose and frequency: read from the text");
+}
+
+TEST_CASE("structured as-needed survives a fallback to text without an as-needed phrase") {
+  json dosage = {{"text", "1-2 tablets every 4 hours"}, {"asNeededBoolean", true}};
+  const DosageReading reading = ReadFhirDosage(dosage);
+  CHECK(reading.as_needed);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(12));
+}
+
+TEST_CASE("values of the wrong type are named by pointer and never throw") {
+  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", "two"}}}}})},
+                 {"timing", {{"repeat", {{"frequency", 2}, {"period", 1}, {"periodUnit", "fortnight"}}}}}};
+  DosageReading reading;
+  CHECK_NOTHROW(reading = ReadFhirDosage(dosage));
+  CHECK_FALSE(reading.units_per_day);
+  CHECK(reading.understanding == Understanding::kUnknown);
+  CHECK(reading.note ==
+        "/doseAndRate/0/doseQuantity/value is not a positive number; "
+        "/timing/repeat/periodUnit \"fortnight\" is not s|min|h|d|wk|mo|a; "
+        "no structured dose and frequency and no text");
+}
+
+TEST_CASE("odd JSON values give an empty or unknown reading") {
+  CHECK(ReadFhirDosage(json::object()).understanding == Understanding::kEmpty);
+  CHECK(ReadFhirDosage(json::array()).understanding == Understanding::kUnknown);
+  CHECK(ReadFhirDosage(json(42)).note == "the Dosage is not a JSON object");
+  CHECK_NOTHROW(ReadFhirDosage(json{{"doseAndRate", 7}, {"timing", "daily"}, {"maxDosePerPeriod", json::array()}}));
+  CHECK_NOTHROW(ReadFhirDosage(json{{"doseAndRate", json::array({nullptr})}}));
+}
+
+TEST_CASE("concurrent Dosage elements add up and sequential ones take the highest") {
+  // Source: HL7 FHIR R4 Dosage.sequence: the same sequence number means concurrent.
+  json morning = Dosage(2, "tablet", 1, 1, "d");
+  json night = Dosage(1, "tablet", 1, 1, "d");
+  const DosageReading concurrent = ReadFhirDosageList(json::array({morning, night}));
+  REQUIRE(concurrent.units_per_day);
+  CHECK(*concurrent.units_per_day == doctest::Approx(3));
+
+  morning["sequence"] = 1;
+  night["sequence"] = 2;
+  const DosageReading sequential = ReadFhirDosageList(json::array({night, morning}));
+  REQUIRE(sequential.units_per_day);
+  CHECK(*sequential.units_per_day == doctest::Approx(2));
+  CHECK(sequential.note == "the dose changes: the highest daily amount is used");
+  CHECK(ReadFhirDosageList(json::array()).understanding == Understanding::kEmpty);
+  CHECK(ReadFhirDosageList(json("text")).understanding == Understanding::kEmpty);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
