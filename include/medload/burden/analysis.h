@@ -1,0 +1,56 @@
+// What a run needs to turn patients' records into burden: the formulary, its tables
+// flattened for the chosen scale, and product resolutions cached per run and in the
+// store (keyed by the formulary checksum, so a changed table re-resolves).
+#pragma once
+
+#include <memory>
+#include <optional>
+#include <span>
+#include <string>
+
+#include "medload/burden/burden.h"
+#include "medload/burden/measure_options.h"
+#include "medload/core/status.h"
+#include "medload/formulary/formulary.h"
+
+namespace medload {
+
+class Store;
+class ResolutionCache;
+
+class Analysis {
+ public:
+  // Loads the formulary in `formulary_dir` and checks that `options.scale` is one of its
+  // scales. `store` (may be null) remembers resolutions; it must outlive the Analysis.
+  // Status::Input for a bad formulary, Status::Usage for an unknown scale.
+  static Result<Analysis> Open(const std::string& formulary_dir, const MeasureOptions& options,
+                               Store* store);
+
+  Analysis(Analysis&&) noexcept;
+  Analysis& operator=(Analysis&&) noexcept;
+  ~Analysis();
+
+  // The resolution of a record's product (cached). Valid for the Analysis's lifetime.
+  const ResolvedProduct& Resolve(const DispensingRecord& record);
+  Timeline BuildTimeline(std::span<const DispensingRecord> records);
+  Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const;
+
+  const Formulary& formulary() const { return *formulary_; }
+  const BurdenTables& tables() const { return tables_; }
+  const MeasureOptions& options() const { return options_; }
+  // Distinct products resolved in this run.
+  size_t resolved_products() const;
+
+ private:
+  Analysis() = default;
+  std::unique_ptr<Formulary> formulary_;
+  std::unique_ptr<ResolutionCache> cache_;
+  BurdenTables tables_;
+  MeasureOptions options_;
+  Store* store_ = nullptr;
+};
+
+// Age in completed years on `on` from a registry row, if its birth date is known.
+std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on);
+
+}  // namespace medload

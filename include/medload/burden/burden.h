@@ -1,0 +1,72 @@
+// What a patient's active medicines add up to on one census date: the count of
+// medicines, the anticholinergic score, the Drug Burden Index with each contribution,
+// and the combination rules that fire. Pure: a Timeline and tables in, a value out.
+#pragma once
+
+#include <optional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "medload/burden/measure_options.h"
+#include "medload/burden/tables.h"
+#include "medload/burden/timeline.h"
+#include "medload/core/date.h"
+
+namespace medload {
+
+struct ActiveMedicine {
+  size_t medicine = 0;     // index into Timeline::medicines
+  Date since;              // episode start (lookback: first dispensing in the window)
+  Date until;              // episode end (lookback: end of the latest supply)
+  size_t latest_use = 0;   // index into Medicine::uses: the latest dispensing on or before D
+  int score = 0;           // scale points attributed to this medicine (each ingredient once)
+  double dbi = 0;          // DBI attributed to this medicine
+};
+
+struct ScoreContribution {
+  std::string ingredient;
+  int score = 0;
+};
+
+// How the daily dose of an ingredient was worked out for the Drug Burden Index.
+enum class DoseBasis {
+  kRateStrength,   // a rate strength (patch per hour / per 24 hours)
+  kDosage,         // strength x units per day from the dosage instruction
+  kQuantity,       // strength x quantity / days of supply
+};
+
+struct DbiContribution {
+  std::string ingredient;
+  double dose_mg_per_day = 0;
+  double min_daily_dose_mg = 0;
+  double value = 0;            // dose / (dose + delta)
+  DoseBasis basis = DoseBasis::kDosage;
+  bool supply_assumed = false; // the days of supply came from a default, not the record
+};
+
+struct FiredRule {
+  const Rule* rule = nullptr;
+  std::vector<size_t> medicines;  // indexes into Timeline::medicines that satisfied it
+};
+
+struct Burden {
+  Date on;
+  int items = 0;
+  int acb = 0;                    // on tables.scale
+  double dbi = 0;
+  std::vector<ActiveMedicine> active;  // sorted by medicine key
+  std::vector<ScoreContribution> score_contributions;  // ingredients scoring > 0, highest first
+  std::vector<DbiContribution> dbi_contributions;      // by ingredient
+  std::vector<std::string> dbi_incomplete;  // DBI ingredients with no known dose
+  std::vector<FiredRule> rules;             // in table order
+  bool age_unknown_for_rules = false;       // a rule with an age limit could not be judged
+};
+
+std::string_view DoseBasisName(DoseBasis basis);
+
+// Evaluates the timeline on `on`. `age` is the completed age on that date, if known.
+Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tables,
+                      const MeasureOptions& options, std::optional<int> age);
+
+}  // namespace medload

@@ -1,0 +1,64 @@
+// A patient's medication history made ready for any number of census dates: dispensings
+// resolved, days of supply worked out, grouped into medicines and merged into episodes.
+// Built once per patient; evaluating a date (burden.h) reads it and never changes it.
+#pragma once
+
+#include <functional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "medload/burden/measure_options.h"
+#include "medload/core/records.h"
+#include "medload/dose/dosage_text.h"
+#include "medload/dose/supply.h"
+#include "medload/episode/episodes.h"
+#include "medload/formulary/product.h"
+
+namespace medload {
+
+// One dispensing as it counts for one medicine.
+struct DispensingUse {
+  size_t record = 0;          // index into the patient's dispensing records
+  Date dispensed_on;
+  double quantity = 0;
+  Supply supply;              // days, and which rule gave them
+  DosageReading dosage;       // how the instruction was read
+  Route route = Route::kUnknown;
+  std::string product;        // the description as dispensed
+  std::vector<ResolvedIngredient> ingredients;  // this medicine's ingredients, with strengths
+};
+
+struct Medicine {
+  std::string key;                       // canonical ingredient names joined by "+"
+  std::vector<std::string> ingredients;  // canonical names, sorted
+  std::vector<DispensingUse> uses;       // by dispensed_on, then record
+  std::vector<Episode> episodes;         // Coverage::source indexes `uses`
+};
+
+// A product that nothing in the formulary recognised: it may be a medicine the measures
+// cannot see, so outputs list it.
+struct UnmatchedProduct {
+  std::string product;
+  std::string code;
+  int items = 0;
+  Date last_dispensed;
+};
+
+struct Timeline {
+  std::vector<Medicine> medicines;         // sorted by key
+  std::vector<UnmatchedProduct> unmatched; // by product text
+  int non_medicine_items = 0;              // dressings, appliances...: stored, never counted
+  int excluded_items = 0;                  // left out by --exclude-prn or --exclude-route
+  int not_dispensed_items = 0;             // records whose status does not count
+};
+
+// Resolves one record's product; the reference must stay valid while BuildTimeline runs.
+using ResolveFn = std::function<const ResolvedProduct&(const DispensingRecord&)>;
+
+// Builds the timeline of one patient from all of their dispensing records (any order).
+// Pure apart from calling `resolve`.
+Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveFn& resolve,
+                       const MeasureOptions& options);
+
+}  // namespace medload

@@ -1,0 +1,122 @@
+#include "medload/burden/timeline.h"
+
+#include <algorithm>
+#include <map>
+
+namespace medload {
+
+std::string_view MeasureName(Measure measure) {
+  return measure == Measure::kConcurrent ? "concurrent" : "lookback";
+}
+
+std::string_view CountByName(CountBy count_by) {
+  return count_by == CountBy::kMedicine ? "medicine" : "ingredient";
+}
+
+namespace {
+
+bool Counts(const DispensingRecord& record) {
+  return record.status.empty() || record.status == "completed";
+}
+
+bool RouteExcluded(Route route, const MeasureOptions& options) {
+  return std::find(options.exclude_routes.begin(), options.exclude_routes.end(), route) !=
+         options.exclude_routes.end();
+}
+
+void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r) {
+  UnmatchedProduct& entry = unmatched[r.product + '\x1f' + r.code];
+  if (entry.items == 0 || r.dispensed_on > entry.last_dispensed) entry.last_dispensed = r.dispensed_on;
+  entry.product = r.product;
+  entry.code = r.code;
+  ++entry.items;
+}
+
+// The groups a product's ingredients count as: one medicine, or one per ingredient.
+std::vector<std::vector<ResolvedIngredient>> Groups(const ResolvedProduct& product,
+                                                    CountBy count_by) {
+  std::vector<ResolvedIngredient> sorted = product.ingredients;
+  std::sort(sorted.begin(), sorted.end(),
+            [](const auto& a, const auto& b) { return a.ingredient < b.ingredient; });
+  sorted.erase(std::unique(sorted.begin(), sorted.end(),
+                           [](const auto& a, const auto& b) { return a.ingredient == b.ingredient; }),
+               sorted.end());
+  if (count_by == CountBy::kMedicine) return {sorted};
+  std::vector<std::vector<ResolvedIngredient>> groups;
+  for (const auto& ingredient : sorted) groups.push_back({ingredient});
+  return groups;
+}
+
+std::string KeyOf(const std::vector<ResolvedIngredient>& group) {
+  std::string key;
+  for (const auto& ingredient : group) {
+    if (!key.empty()) key += '+';
+    key += ingredient.ingredient;
+  }
+  return key;
+}
+
+void FinishMedicine(Medicine& medicine, const MeasureOptions& options) {
+  std::stable_sort(medicine.uses.begin(), medicine.uses.end(), [](const auto& a, const auto& b) {
+    return a.dispensed_on != b.dispensed_on ? a.dispensed_on < b.dispensed_on : a.record < b.record;
+  });
+  std::vector<Coverage> coverages;
+  coverages.reserve(medicine.uses.size());
+  for (size_t i = 0; i < medicine.uses.size(); ++i) {
+    coverages.push_back(Coverage{medicine.uses[i].dispensed_on, medicine.uses[i].supply.days, i});
+  }
+  medicine.episodes = BuildEpisodes(coverages, options.episodes);
+}
+
+}  // namespace
+
+Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveFn& resolve,
+                       const MeasureOptions& options) {
+  Timeline timeline;
+  std::map<std::string, Medicine> medicines;
+  std::map<std::string, UnmatchedProduct> unmatched;
+  for (size_t i = 0; i < records.size(); ++i) {
+    const DispensingRecord& record = records[i];
+    if (!Counts(record)) {
+      ++timeline.not_dispensed_items;
+      continue;
+    }
+    const ResolvedProduct& product = resolve(record);
+    if (!product.matched()) {
+      NoteUnmatched(unmatched, record);
+      continue;
+    }
+    if (!product.is_medicine()) {
+      ++timeline.non_medicine_items;
+      continue;
+    }
+    DosageReading dosage = ReadRecordDosage(record);
+    if ((options.exclude_prn && dosage.as_needed) || RouteExcluded(product.route, options)) {
+      ++timeline.excluded_items;
+      continue;
+    }
+    QuantityUnit quantity_unit{record.unit.empty() ? product.dose_unit : record.unit, std::nullopt};
+    if (product.ingredients.size() == 1) quantity_unit.mg_per_unit = product.ingredients[0].mg_per_unit;
+    const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,
+                                        ProductDefaultSupplyDays(product, record.quantity), options.supply,
+                                        quantity_unit);
+    for (auto& group : Groups(product, options.count_by)) {
+      const std::string key = KeyOf(group);
+      Medicine& medicine = medicines[key];
+      if (medicine.key.empty()) {
+        medicine.key = key;
+        for (const auto& ingredient : group) medicine.ingredients.push_back(ingredient.ingredient);
+      }
+      medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply, dosage,
+                                            product.route, record.product, std::move(group)});
+    }
+  }
+  for (auto& [key, medicine] : medicines) {
+    FinishMedicine(medicine, options);
+    timeline.medicines.push_back(std::move(medicine));
+  }
+  for (auto& [key, entry] : unmatched) timeline.unmatched.push_back(std::move(entry));
+  return timeline;
+}
+
+}  // namespace medload

@@ -1,0 +1,88 @@
+#include "cli/measure_flags.h"
+
+namespace medload::cli {
+
+void AddMeasureFlags(po::options_description& options) {
+  options.add_options()
+      ("measure", po::value<std::string>()->default_value("concurrent"),
+       "concurrent (an episode contains the date) or lookback (dispensed in the window)")
+      ("window", po::value<int>()->default_value(84), "lookback window in days")
+      ("grace-days", po::value<int>()->default_value(30),
+       "a gap of at most this many days between supplies joins them into one episode")
+      ("carryover", po::bool_switch(), "an early refill starts the day after the previous supply ends")
+      ("default-supply-days", po::value<int>()->default_value(28),
+       "days of supply when neither the record, the dosage nor the product gives them")
+      ("max-supply-days", po::value<int>()->default_value(180), "cap on the days of supply of one dispensing")
+      ("count-by", po::value<std::string>()->default_value("medicine"),
+       "medicine (a product's set of ingredients) or ingredient (each ingredient counts)")
+      ("exclude-prn", po::bool_switch(), "leave out as-needed dispensings")
+      ("exclude-route", po::value<std::vector<std::string>>()->composing(),
+       "leave out products given by this route (repeatable): oral, topical, ophthalmic, ...")
+      ("scale", po::value<std::string>()->default_value("acb"),
+       "anticholinergic scale: a file name in formulary/anticholinergic/ (acb, ars, ...)");
+}
+
+Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
+  MeasureOptions options;
+  const std::string measure = vm["measure"].as<std::string>();
+  if (measure == "concurrent") options.measure = Measure::kConcurrent;
+  else if (measure == "lookback") options.measure = Measure::kLookback;
+  else return Status::Usage("--measure \"" + measure + "\" is not concurrent or lookback");
+  const std::string count_by = vm["count-by"].as<std::string>();
+  if (count_by == "medicine") options.count_by = CountBy::kMedicine;
+  else if (count_by == "ingredient") options.count_by = CountBy::kIngredient;
+  else return Status::Usage("--count-by \"" + count_by + "\" is not medicine or ingredient");
+  options.window_days = vm["window"].as<int>();
+  options.episodes.grace_days = vm["grace-days"].as<int>();
+  options.episodes.carryover = vm["carryover"].as<bool>();
+  options.supply.default_supply_days = vm["default-supply-days"].as<int>();
+  options.supply.max_supply_days = vm["max-supply-days"].as<int>();
+  if (options.window_days < 1) return Status::Usage("--window must be at least 1 day");
+  if (options.episodes.grace_days < 0) return Status::Usage("--grace-days must be 0 or more");
+  if (options.supply.default_supply_days < 1) return Status::Usage("--default-supply-days must be at least 1");
+  if (options.supply.max_supply_days < 1) return Status::Usage("--max-supply-days must be at least 1");
+  options.exclude_prn = vm["exclude-prn"].as<bool>();
+  if (vm.count("exclude-route") != 0U) {
+    for (const std::string& name : vm["exclude-route"].as<std::vector<std::string>>()) {
+      auto route = RouteFromName(name);
+      if (!route) return Status::Usage("--exclude-route \"" + name + "\" is not a known route");
+      options.exclude_routes.push_back(*route);
+    }
+  }
+  options.scale = vm["scale"].as<std::string>();
+  return options;
+}
+
+void AddCriteriaFlags(po::options_description& options) {
+  options.add_options()
+      ("at-least", po::value<std::vector<std::string>>()->composing(),
+       "a threshold (repeatable): items=N, acb=N or dbi=X")
+      ("rule", po::value<std::vector<std::string>>()->composing(),
+       "a combination rule by its id (repeatable)");
+}
+
+Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
+  std::vector<Criterion> criteria;
+  if (vm.count("at-least") != 0U) {
+    for (const std::string& text : vm["at-least"].as<std::vector<std::string>>()) {
+      auto criterion = ParseCriterion(text);
+      if (!criterion.ok()) return criterion.status();
+      if (criterion->kind == CriterionKind::kRule) return Status::Usage("use --rule ID for a rule");
+      criteria.push_back(*criterion);
+    }
+  }
+  if (vm.count("rule") != 0U) {
+    for (const std::string& id : vm["rule"].as<std::vector<std::string>>()) criteria.push_back(RuleCriterion(id));
+  }
+  return criteria;
+}
+
+Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name) {
+  if (vm.count(name) == 0U) return Status::Usage(std::string("--") + name + " DATE is required");
+  const std::string text = vm[name].as<std::string>();
+  auto date = ParseDate(text);
+  if (!date) return Status::Usage(std::string("--") + name + " \"" + text + "\" is not a date (YYYY-MM-DD)");
+  return *date;
+}
+
+}  // namespace medload::cli

@@ -1,0 +1,274 @@
+#include "medload/burden/burden.h"
+
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <map>
+
+namespace medload {
+namespace {
+
+Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
+
+ResolvedProduct Product(std::vector<ResolvedIngredient> ingredients, Route route = Route::kOral) {
+  ResolvedProduct product;
+  product.ingredients = std::move(ingredients);
+  product.route = route;
+  product.form = "tablet";
+  product.dose_unit = "tablet";
+  product.match = MatchKind::kIngredient;
+  return product;
+}
+
+// A small formulary by hand: product text -> resolution.
+struct Fixture {
+  std::map<std::string, ResolvedProduct> products;
+  ResolvedProduct unmatched;
+  BurdenTables tables;
+  MeasureOptions options;
+
+  Fixture() {
+    products["amitriptyline 10mg tablets"] = Product({{"amitriptyline", 10.0, {}}});
+    products["amitriptyline 25mg tablets"] = Product({{"amitriptyline", 25.0, {}}});
+    products["oxybutynin 5mg tablets"] = Product({{"oxybutynin", 5.0, {}}});
+    products["codeine 30mg tablets"] = Product({{"codeine", 30.0, {}}});
+    products["co-codamol 30mg/500mg tablets"] =
+        Product({{"codeine", 30.0, {}}, {"paracetamol", 500.0, {}}});
+    products["diazepam 5mg tablets"] = Product({{"diazepam", 5.0, {}}});
+    products["diazepam tablets"] = Product({{"diazepam", std::nullopt, {}}});
+    products["ramipril 5mg capsules"] = Product({{"ramipril", 5.0, {}}});
+    products["furosemide 40mg tablets"] = Product({{"furosemide", 40.0, {}}});
+    products["ibuprofen 400mg tablets"] = Product({{"ibuprofen", 400.0, {}}});
+    products["naproxen 500mg tablets"] = Product({{"naproxen", 500.0, {}}});
+    products["ibuprofen 5% gel"] = Product({{"ibuprofen", std::nullopt, {}}}, Route::kTopical);
+    ResolvedProduct dressing;
+    dressing.match = MatchKind::kNonMedicine;
+    dressing.non_medicine = true;
+    products["foam dressing 10cm"] = dressing;
+
+    // Source: Boustani et al. 2008 (ACB scale, 2012 update): amitriptyline 3,
+    // oxybutynin 3, codeine 1, furosemide 1, diazepam 1.
+    tables.scales["acb"] = {{"amitriptyline", 3}, {"oxybutynin", 3}, {"codeine", 1},
+                            {"furosemide", 1}, {"diazepam", 1}};
+    // Source: Hilmer et al. 2007 (DBI method); diazepam delta 5 mg/day (Australian
+    // minimum daily dose, per Hilmer et al. 2007); amitriptyline delta 10 mg from memory.
+    tables.dbi["diazepam"] = {5.0, "sedative"};
+    tables.dbi["amitriptyline"] = {10.0, "both"};
+    tables.classes["ramipril"] = {"ace-inhibitor"};
+    tables.classes["furosemide"] = {"loop-diuretic"};
+    tables.classes["ibuprofen"] = {"nsaid"};
+    tables.classes["naproxen"] = {"nsaid"};
+    tables.classes["codeine"] = {"opioid"};
+    tables.classes["diazepam"] = {"benzodiazepine"};
+    Rule triple{"aki-triple", "ACE inhibitor or ARB, diuretic and NSAID", "", "Lapi et al. 2013",
+                std::nullopt, {}, {}};
+    triple.require = {{{"ace-inhibitor", "arb"}, {}, std::nullopt, "acb", 1},
+                      {{"loop-diuretic", "thiazide-diuretic"}, {}, std::nullopt, "acb", 1},
+                      {{"nsaid"}, {}, std::nullopt, "acb", 1}};
+    Rule two_nsaids{"two-nsaids", "Two NSAIDs", "", "common practice", std::nullopt, {}, {}};
+    two_nsaids.require = {{{"nsaid"}, {}, std::nullopt, "acb", 2}};
+    Rule opioid_benzo{"opioid-benzo", "Opioid with a benzodiazepine", "", "Beers 2023", 65, {}, {}};
+    opioid_benzo.require = {{{"opioid"}, {}, std::nullopt, "acb", 1},
+                            {{"benzodiazepine"}, {}, std::nullopt, "acb", 1}};
+    Rule two_definite{"two-definite", "Two definite anticholinergics", "", "Boustani 2008",
+                      std::nullopt, {}, {}};
+    two_definite.require = {{{}, {}, 3, "acb", 2}};
+    tables.rules = {triple, two_nsaids, opioid_benzo, two_definite};
+  }
+
+  Timeline Build(const std::vector<DispensingRecord>& records) const {
+    return BuildTimeline(records, [this](const DispensingRecord& r) -> const ResolvedProduct& {
+      auto it = products.find(r.product);
+      return it == products.end() ? unmatched : it->second;
+    }, options);
+  }
+
+  Burden On(const std::vector<DispensingRecord>& records, Date on, std::optional<int> age = 80) const {
+    const Timeline timeline = Build(records);
+    return EvaluateBurden(timeline, on, tables, options, age);
+  }
+};
+
+DispensingRecord Rx(const std::string& product, Date on, double quantity, std::optional<int> days,
+                    const std::string& dosage = "") {
+  DispensingRecord record;
+  record.patient_id = "T1";
+  record.product = product;
+  record.dispensed_on = on;
+  record.quantity = quantity;
+  record.days_supply = days;
+  record.dosage = dosage;
+  return record;
+}
+
+}  // namespace
+
+TEST_SUITE("burden") {
+
+TEST_CASE("items counts distinct active medicines; two strengths of one ingredient are one medicine") {
+  Fixture f;
+  auto b = f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28),
+                 Rx("amitriptyline 25mg tablets", D(2024, 1, 20), 28, 28),
+                 Rx("oxybutynin 5mg tablets", D(2024, 1, 5), 56, 28)},
+                D(2024, 1, 25));
+  CHECK(b.items == 2);
+}
+
+TEST_CASE("a combination product is one medicine, or one per ingredient with count-by ingredient") {
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("co-codamol 30mg/500mg tablets", D(2024, 1, 1), 100, 25)};
+  CHECK(f.On(records, D(2024, 1, 10)).items == 1);
+  f.options.count_by = CountBy::kIngredient;
+  CHECK(f.On(records, D(2024, 1, 10)).items == 2);
+}
+
+TEST_CASE("the anticholinergic score sums each active ingredient once") {
+  // Source: Boustani et al. 2008 ACB scale: amitriptyline 3 + oxybutynin 3 + codeine 1 = 7.
+  // Codeine arrives through two products (codeine and co-codamol) and counts once.
+  Fixture f;
+  auto b = f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28),
+                 Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28),
+                 Rx("codeine 30mg tablets", D(2024, 1, 1), 28, 28),
+                 Rx("co-codamol 30mg/500mg tablets", D(2024, 1, 1), 100, 25)},
+                D(2024, 1, 15));
+  CHECK(b.items == 4);
+  CHECK(b.acb == 7);
+  REQUIRE(b.score_contributions.size() == 3);
+  CHECK(b.score_contributions[2].ingredient == "codeine");
+}
+
+TEST_CASE("the Drug Burden Index is dose over dose plus the minimum daily dose") {
+  // Source: Hilmer et al. 2007: D = delta gives 0.5; D = 10 x delta gives 10/11 = 0.9091.
+  Fixture f;
+  // Diazepam 5 mg tablets, 28 over 28 days: 5 mg/day = delta -> 0.5.
+  auto half = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
+  CHECK(half.dbi == doctest::Approx(0.5));
+  REQUIRE(half.dbi_contributions.size() == 1);
+  CHECK(half.dbi_contributions[0].basis == DoseBasis::kQuantity);
+  // 10 x delta: amitriptyline 25 mg x 4 a day = 100 mg, delta 10 -> 0.9091.
+  auto high = f.On({Rx("amitriptyline 25mg tablets", D(2024, 1, 1), 112, 28, "four tablets daily")},
+                   D(2024, 1, 10));
+  CHECK(high.dbi == doctest::Approx(100.0 / 110.0).epsilon(1e-6));
+  CHECK(high.dbi_contributions[0].basis == DoseBasis::kDosage);
+}
+
+TEST_CASE("the dose comes from the latest dispensing in the active episode") {
+  Fixture f;
+  auto b = f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28),
+                 Rx("amitriptyline 25mg tablets", D(2024, 1, 29), 28, 28)},
+                D(2024, 2, 5));
+  // 25 mg/day, delta 10: 25/35.
+  CHECK(b.dbi == doctest::Approx(25.0 / 35.0));
+  // Before the second dispensing the first one counts: 10/20.
+  CHECK(f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28),
+              Rx("amitriptyline 25mg tablets", D(2024, 1, 29), 28, 28)},
+             D(2024, 1, 20)).dbi == doctest::Approx(0.5));
+}
+
+TEST_CASE("an ingredient with a minimum dose but no known strength is listed as incomplete") {
+  Fixture f;
+  auto b = f.On({Rx("diazepam tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
+  CHECK(b.dbi == 0);
+  REQUIRE(b.dbi_incomplete.size() == 1);
+  CHECK(b.dbi_incomplete[0] == "diazepam");
+}
+
+TEST_CASE("non-medicines never count and unmatched products are reported") {
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("foam dressing 10cm", D(2024, 1, 1), 10, 28),
+                                           Rx("mystery tonic", D(2024, 1, 1), 1, 28),
+                                           Rx("mystery tonic", D(2024, 1, 5), 1, 28)};
+  const Timeline timeline = f.Build(records);
+  CHECK(timeline.non_medicine_items == 1);
+  REQUIRE(timeline.unmatched.size() == 1);
+  CHECK(timeline.unmatched[0].items == 2);
+  CHECK(timeline.unmatched[0].last_dispensed == D(2024, 1, 5));
+  CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80).items == 0);
+}
+
+TEST_CASE("dispenses whose status does not count are kept out") {
+  Fixture f;
+  auto record = Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28);
+  record.status = "entered-in-error";
+  const Timeline timeline = f.Build({record});
+  CHECK(timeline.not_dispensed_items == 1);
+  CHECK(timeline.medicines.empty());
+}
+
+TEST_CASE("with the lookback measure a medicine is active if dispensed in the window ending on D") {
+  Fixture f;
+  f.options.measure = Measure::kLookback;
+  f.options.window_days = 84;
+  std::vector<DispensingRecord> records = {Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)};
+  // Window of 84 days ending 2024-03-24 starts on 2024-01-01 (inclusive).
+  CHECK(f.On(records, D(2024, 3, 24)).items == 1);
+  CHECK(f.On(records, D(2024, 3, 25)).items == 0);
+  CHECK(f.On(records, D(2023, 12, 31)).items == 0);
+}
+
+TEST_CASE("excluded routes and as-needed dispensings leave the count when asked") {
+  Fixture f;
+  std::vector<DispensingRecord> records = {
+      Rx("ibuprofen 5% gel", D(2024, 1, 1), 100, 28),
+      // 28 tablets at up to 8 a day (the stated maximum) last 4 days: 1 to 4 January.
+      Rx("codeine 30mg tablets", D(2024, 1, 1), 28, std::nullopt, "one or two four times a day when required")};
+  CHECK(f.On(records, D(2024, 1, 3)).items == 2);
+  f.options.exclude_routes = {Route::kTopical};
+  CHECK(f.On(records, D(2024, 1, 3)).items == 1);
+  f.options.exclude_prn = true;
+  CHECK(f.On(records, D(2024, 1, 3)).items == 0);
+}
+
+TEST_CASE("the ACE inhibitor, diuretic and NSAID rule fires only with all three active") {
+  // Source: Lapi et al. BMJ 2013;346:e8525 (the triple combination and acute kidney injury).
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("ramipril 5mg capsules", D(2024, 1, 1), 28, 28),
+                                           Rx("furosemide 40mg tablets", D(2024, 1, 1), 28, 28)};
+  CHECK(f.On(records, D(2024, 1, 10)).rules.empty());
+  records.push_back(Rx("ibuprofen 400mg tablets", D(2024, 1, 5), 21, 7));
+  auto b = f.On(records, D(2024, 1, 10));
+  REQUIRE(b.rules.size() == 1);
+  CHECK(b.rules[0].rule->id == "aki-triple");
+  CHECK(b.rules[0].medicines.size() == 3);
+  // The NSAID course has ended (5 Jan + 7 days - 1 = 11 Jan) and the grace does not
+  // extend an episode past its last supply.
+  CHECK(f.On(records, D(2024, 1, 12)).rules.empty());
+}
+
+TEST_CASE("a requirement counts distinct medicines, so two NSAIDs fire the duplication rule") {
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("ibuprofen 400mg tablets", D(2024, 1, 1), 84, 28)};
+  CHECK(f.On(records, D(2024, 1, 10)).rules.empty());
+  records.push_back(Rx("naproxen 500mg tablets", D(2024, 1, 2), 56, 28));
+  auto b = f.On(records, D(2024, 1, 10));
+  REQUIRE(b.rules.size() == 1);
+  CHECK(b.rules[0].rule->id == "two-nsaids");
+}
+
+TEST_CASE("a rule with an age limit fires only at that age and says when the age is unknown") {
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("codeine 30mg tablets", D(2024, 1, 1), 28, 28),
+                                           Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, 28)};
+  CHECK(f.On(records, D(2024, 1, 10), 64).rules.empty());
+  CHECK(f.On(records, D(2024, 1, 10), 65).rules.size() == 1);
+  auto unknown = f.On(records, D(2024, 1, 10), std::nullopt);
+  CHECK(unknown.rules.empty());
+  CHECK(unknown.age_unknown_for_rules);
+}
+
+TEST_CASE("a scale-score requirement counts medicines with definite anticholinergic activity") {
+  // Source: Boustani et al. 2008: a score of 3 is definite anticholinergic activity.
+  Fixture f;
+  std::vector<DispensingRecord> records = {Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28),
+                                           Rx("codeine 30mg tablets", D(2024, 1, 1), 28, 28)};
+  CHECK(f.On(records, D(2024, 1, 10)).rules.empty());
+  records.push_back(Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28));
+  auto b = f.On(records, D(2024, 1, 10));
+  REQUIRE(b.rules.size() == 1);
+  CHECK(b.rules[0].rule->id == "two-definite");
+  CHECK(b.rules[0].medicines.size() == 2);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
