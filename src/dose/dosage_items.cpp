@@ -286,6 +286,7 @@ class Recogniser {
   }
 
   // "for 7 days", "for a week", "x 5 days", "14 days", "5/7", "for 2/52": a duration.
+  // Runs after the "every", "q", "hourly", count and "in 24 hours" matchers.
   bool MatchDuration() {
     size_t k = i_;
     if (Word(k, "for") || Word(k, "x")) ++k;
@@ -304,8 +305,8 @@ class Recogniser {
     } else {
       return false;
     }
-    const auto days = TimeUnitDays(Text(next));
-    if (!days || *days < 1) return false;
+    // "2 hours before bed", "30 minutes before food" are offsets, not doses: also fillers.
+    if (!TimeUnitDays(Text(next))) return false;
     Emit(ItemKind::kFiller, next + 1);
     return true;
   }
@@ -314,7 +315,8 @@ class Recogniser {
     const auto range = RangeAt(i_);
     if (!range) return false;
     if (range->high > kMaxDosageAmount) {
-      items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, std::string(Text(i_))});
+      // value2 1: an amount that cannot be a dose, so the dose it belongs to is unusable.
+      items_.push_back(Item{ItemKind::kUnknown, 0, 1, {}, std::string(Text(i_))});
       i_ = range->next;
       return true;
     }

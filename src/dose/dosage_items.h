@@ -19,7 +19,8 @@ enum class ItemKind {
   kFrequency,   // value: administrations in value2 days ("bd", "tds", "od")
   kEvent,       // value: a time of day id (morning, night, 08:00, ...)
   kMeals,       // "with meals": three administrations a day unless a frequency is given
-  kWeekday,     // value: 0 (Monday) .. 6 (Sunday)
+  kWeekday,     // value: days of the week as bits, 1 Monday .. 64 Sunday ("weekends" 96)
+  kExceptDays,  // "except", "not on": the days of the week named next are left out
   kAsNeeded,    // "prn", "when required", ...
   kMaximum,     // "max", "up to", "no more than"; value 1 when it says "daily" itself
   kAsDirected,  // "as directed", "as per instructions", ...
@@ -28,7 +29,7 @@ enum class ItemKind {
   kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
   kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
   kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")
-  kUnknown,     // not understood; text: the word
+  kUnknown,     // not understood; text: the word; value2 1: a number too large for a dose
 };
 
 struct Item {

@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <bit>
+#include <cmath>
+#include <limits>
 #include <vector>
 
 #include "dose/dosage_items.h"
@@ -19,7 +21,8 @@ struct Part {
   std::optional<double> count;   // administrations in `period`
   std::optional<double> period;  // days
   std::vector<int> events;       // distinct times of day
-  unsigned weekdays = 0;         // bit d set: day d of the week (0 = Monday)
+  unsigned weekdays = 0;         // bit d set: day d of the week (bit 0 = Monday)
+  bool except_days = false;      // the weekdays are the days left out
   bool meals = false;
   double multiplier = 1;         // "each eye": 2
 };
@@ -89,7 +92,10 @@ class Assembler {
         }
         break;
       case ItemKind::kCount:
-        if (!part_.count) part_.count = item.value;
+        // "once or twice daily": a second count before the period is a range's upper value.
+        if (!part_.count || !part_.period) {
+          part_.count = std::max(part_.count.value_or(0), item.value);
+        }
         break;
       case ItemKind::kPeriod:
         if (!part_.period) part_.period = item.value;
@@ -112,7 +118,8 @@ class Assembler {
     switch (item.kind) {
       case ItemKind::kEvent: AddDistinct(part_.events, static_cast<int>(item.value)); break;
       case ItemKind::kMeals: part_.meals = true; break;
-      case ItemKind::kWeekday: part_.weekdays |= 1u << static_cast<unsigned>(item.value); break;
+      case ItemKind::kWeekday: part_.weekdays |= static_cast<unsigned>(item.value); break;
+      case ItemKind::kExceptDays: part_.except_days = true; break;
       case ItemKind::kAsNeeded: as_needed_ = true; break;
       case ItemKind::kAsDirected: as_directed_ = true; break;
       case ItemKind::kEachSide: part_.multiplier = item.value; break;
@@ -128,7 +135,13 @@ class Assembler {
         group().max.present = true;
         if (item.value == 1 && !group().max.period) group().max.period = 1;
         break;
-      case ItemKind::kUnknown: unknown_.push_back(item.text); break;
+      case ItemKind::kUnknown:
+        unknown_.push_back(item.text);
+        if (item.value2 == 1) {
+          if (part_.amount) StartPart();
+          part_.amount = std::numeric_limits<double>::quiet_NaN();  // an unusable dose
+        }
+        break;
       default: break;  // separators and fillers
     }
   }
@@ -186,6 +199,7 @@ class Assembler {
   bool as_needed_ = false;
   bool as_directed_ = false;
   bool doubtful_ = false;  // something was assumed or left out: at best kPartial
+  bool left_out_ = false;  // a dose without a frequency was not counted
   std::string_view unit_hint_;
   std::vector<std::string> unknown_;
   std::vector<std::string> notes_;
@@ -208,7 +222,8 @@ std::optional<double> Assembler::Rate(const Part& part) {
     rate = 1;
   }
   if (rate && part.weekdays != 0 && part.period.value_or(1) <= 1) {
-    rate = *rate * std::popcount(part.weekdays) / 7.0;
+    const int days = std::popcount(part.weekdays);
+    rate = *rate * (part.except_days ? 7 - days : days) / 7.0;
   }
   return rate;
 }
@@ -254,6 +269,7 @@ GroupResult Assembler::Evaluate(Group& group) {
   MaximumPerDay(group, result.unit, max_units, max_administrations);
   double regular = 0;
   bool timed = false;
+  bool left_out = false;
   std::optional<double> first_dose;
   for (const Part& part : group.parts) {
     const double dose = part.amount.value_or(1) * part.factor * part.multiplier;
@@ -262,17 +278,23 @@ GroupResult Assembler::Evaluate(Group& group) {
       doubtful_ = true;
       continue;
     }
+    if (part.amount && std::isnan(*part.amount)) {
+      Note("an amount too large to be a dose");
+      continue;
+    }
     if (part.amount && !first_dose) first_dose = dose;
     auto rate = Rate(part);
     if (!rate) rate = max_administrations;
     if (!rate) {
-      if (part.amount) Note("a dose without a frequency was left out");
+      if (part.amount) left_out = true;
       continue;
     }
     regular += dose * *rate;
     timed = true;
   }
   if (max_administrations && !max_units) max_units = first_dose.value_or(1) * *max_administrations;
+  // A dose left without a frequency matters unless an as-needed maximum sets the amount.
+  left_out_ = left_out_ || (left_out && !(as_needed_ && max_units));
   if (as_needed_) {
     result.units_per_day = max_units ? max_units : timed ? std::optional(regular) : std::nullopt;
   } else if (timed) {
@@ -316,6 +338,7 @@ DosageReading Assembler::Finish(bool truncated) {
       reading.unit = std::string(result.unit);
     }
   }
+  if (left_out_ && reading.units_per_day) Note("a dose without a frequency was left out");
   if (with_units > 1) Note("the dose changes: the highest daily amount is used");
   if (truncated) {
     Note("the text is longer than the parser reads: the rest was ignored");
@@ -328,7 +351,7 @@ DosageReading Assembler::Finish(bool truncated) {
   if (!reading.units_per_day) {
     Note(as_directed_ ? "as directed: no amount per day is given"
          : as_needed_ ? "as needed with no frequency or maximum"
-                      : "no dose frequency found");
+                      : "no usable dose and frequency found");
     reading.understanding = Understanding::kUnknown;
   } else {
     reading.understanding = unknown_.empty() && !doubtful_ ? Understanding::kFull
