@@ -23,6 +23,10 @@ Status ExecSql(sqlite3* db, const char* sql) {
   return Status::Ok();
 }
 
+int ChangedRows(sqlite3* db) { return sqlite3_changes(db); }
+
+int64_t LastInsertId(sqlite3* db) { return sqlite3_last_insert_rowid(db); }
+
 Result<Statement> Statement::Prepare(sqlite3* db, std::string_view sql) {
   sqlite3_stmt* stmt = nullptr;
   // SQLITE_PREPARE_PERSISTENT: these statements are reused for many rows.

@@ -21,6 +21,12 @@ std::string SqliteError(sqlite3* db, std::string_view context);
 // Runs SQL without parameters (schema, pragmas, BEGIN/COMMIT). Returns Input on failure.
 Status ExecSql(sqlite3* db, const char* sql);
 
+// Rows changed by the connection's last INSERT, UPDATE or DELETE.
+int ChangedRows(sqlite3* db);
+
+// The rowid of the connection's last successful INSERT.
+int64_t LastInsertId(sqlite3* db);
+
 // One prepared statement. Move-only; finalised on destruction.
 class Statement {
  public:

@@ -1,0 +1,379 @@
+// The import of one file: format detection, the per-file transaction, counting and
+// rejecting rows, and the reject-rate rollback.
+#include "medload/store/importer.h"
+
+#include <openssl/evp.h>
+
+#include <array>
+#include <charconv>
+#include <ctime>
+#include <fstream>
+#include <iostream>
+#include <optional>
+#include <streambuf>
+
+#include "medload/io/csv_reader.h"
+#include "medload/io/fhir_reader.h"
+#include "store/record_writers.h"
+#include "store/sqlite.h"
+
+namespace medload {
+namespace {
+
+std::string UtcNow() {
+  const std::time_t now = std::time(nullptr);
+  std::tm utc{};
+  gmtime_r(&now, &utc);
+  char buffer[32];
+  std::strftime(buffer, sizeof buffer, "%Y-%m-%dT%H:%M:%SZ", &utc);
+  return buffer;
+}
+
+// Serves bytes already read (to look at the start of the input) and then the rest of
+// the stream, so that the readers see the input whole.
+class PrefixedBuffer : public std::streambuf {
+ public:
+  PrefixedBuffer(std::string head, std::istream& rest) : head_(std::move(head)), rest_(rest) {
+    setg(head_.data(), head_.data(), head_.data() + head_.size());
+  }
+  bool failed() const { return rest_.bad(); }
+
+ protected:
+  int_type underflow() override {
+    if (gptr() < egptr()) return traits_type::to_int_type(*gptr());
+    rest_.read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
+    const std::streamsize got = rest_.gcount();
+    if (got <= 0) return traits_type::eof();
+    setg(buffer_.data(), buffer_.data(), buffer_.data() + got);
+    return traits_type::to_int_type(*gptr());
+  }
+
+ private:
+  std::string head_;
+  std::istream& rest_;
+  std::array<char, 256 * 1024> buffer_{};
+};
+
+// True when the first character after a byte-order mark and white space is '{'.
+bool LooksLikeNdjson(std::string_view head) {
+  if (head.substr(0, 3) == "\xEF\xBB\xBF") head.remove_prefix(3);
+  const size_t first = head.find_first_not_of(" \t\r\n");
+  return first != std::string_view::npos && head[first] == '{';
+}
+
+// Counts, the --rejects output, the rejected_rows table and the run row of one file,
+// inside the file's transaction.
+class Session {
+ public:
+  Session(Store& store, ImportSummary& summary, const ImportOptions& options)
+      : db_(store.handle()), summary_(summary), options_(options) {}
+
+  Status Begin() {
+    Result<Transaction> transaction = Transaction::Begin(db_);
+    if (!transaction.ok()) return transaction.status();
+    transaction_.emplace(std::move(transaction.value()));
+    if (Status status = InsertRun("running"); !status.ok()) return status;
+    Result<Statement> reject = Statement::Prepare(
+        db_,
+        "INSERT INTO rejected_rows (run_id, line, reason, message, original_row)"
+        " VALUES (?1, ?2, ?3, ?4, ?5)");
+    if (!reject.ok()) return reject.status();
+    insert_reject_ = std::move(reject.value());
+    return Status::Ok();
+  }
+
+  WriteSource source() const { return {summary_.run_id, summary_.file}; }
+  sqlite3* db() const { return db_; }
+
+  // One more row read; reports progress.
+  void Tick() {
+    ++summary_.read;
+    if (options_.progress_every > 0 && options_.progress &&
+        summary_.read % options_.progress_every == 0) {
+      options_.progress(summary_.read);
+    }
+  }
+
+  Status Reject(size_t line, const RowFault& fault, std::string_view original) {
+    ++summary_.rejected;
+    ++summary_.reasons[fault.reason];
+    if (summary_.examples.size() < options_.max_examples) summary_.examples.push_back(fault.message);
+    if (options_.rejects != nullptr) {
+      WriteRejectRow(*options_.rejects, summary_.file, line, fault.reason, fault.message, original);
+    }
+    insert_reject_.BindInt(1, summary_.run_id);
+    insert_reject_.BindInt(2, static_cast<int64_t>(line));
+    insert_reject_.BindText(3, fault.reason);
+    insert_reject_.BindText(4, fault.message);
+    insert_reject_.BindText(5, original);
+    return insert_reject_.Run();
+  }
+
+  void Count(WriteOutcome outcome) {
+    if (outcome == WriteOutcome::kDuplicate) {
+      ++summary_.duplicates;
+      return;
+    }
+    ++summary_.imported;
+    if (outcome == WriteOutcome::kUpdated) ++summary_.updated;
+  }
+
+  // Commits, or rolls back when the reject rate is above the limit.
+  Status Finish() {
+    summary_.rolled_back =
+        summary_.read > 0 && static_cast<double>(summary_.rejected) >
+                                 options_.max_reject_rate * static_cast<double>(summary_.read);
+    if (summary_.rolled_back) {
+      transaction_->Rollback();
+      // Keep a trace of the attempt, outside the rolled-back transaction.
+      Result<Transaction> trace = Transaction::Begin(db_);
+      if (!trace.ok()) return trace.status();
+      if (Status status = InsertRun("rolled_back"); !status.ok()) return status;
+      return trace->Commit();
+    }
+    if (Status status = UpdateRun("committed"); !status.ok()) return status;
+    return transaction_->Commit();
+  }
+
+ private:
+  Status InsertRun(std::string_view outcome) {
+    Result<Statement> insert = Statement::Prepare(
+        db_, "INSERT INTO import_runs (kind, file, started, outcome) VALUES (?1, ?2, ?3, ?4)");
+    if (!insert.ok()) return insert.status();
+    const std::string started = UtcNow();
+    insert->BindText(1, summary_.kind);
+    insert->BindText(2, summary_.file);
+    insert->BindText(3, started);
+    insert->BindText(4, outcome);
+    if (Status status = insert->Run(); !status.ok()) return status;
+    summary_.run_id = static_cast<long>(LastInsertId(db_));
+    return UpdateRun(outcome);
+  }
+
+  Status UpdateRun(std::string_view outcome) {
+    Result<Statement> update = Statement::Prepare(
+        db_,
+        "UPDATE import_runs SET finished = ?2, outcome = ?3, read = ?4, imported = ?5,"
+        " duplicates = ?6, rejected = ?7, not_counted = ?8 WHERE id = ?1");
+    if (!update.ok()) return update.status();
+    long not_counted = 0;
+    for (const auto& [status, count] : summary_.not_counted) not_counted += count;
+    const std::string finished = UtcNow();
+    update->BindInt(1, summary_.run_id);
+    update->BindText(2, finished);
+    update->BindText(3, outcome);
+    update->BindInt(4, summary_.read);
+    update->BindInt(5, summary_.imported);
+    update->BindInt(6, summary_.duplicates);
+    update->BindInt(7, summary_.rejected);
+    update->BindInt(8, not_counted);
+    return update->Run();
+  }
+
+  sqlite3* db_;
+  ImportSummary& summary_;
+  const ImportOptions& options_;
+  std::optional<Transaction> transaction_;
+  Statement insert_reject_;
+};
+
+// Reads every CSV row after the header: `parse` checks it, `write` stores it.
+template <typename Record, typename Parse, typename Write>
+Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowContext& context,
+                     Session& session, Parse parse, Write write) {
+  Record record;
+  CsvRow row;
+  while (reader.Next(row)) {
+    session.Tick();
+    if (std::optional<RowFault> fault = parse(row, layout, context, record)) {
+      if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
+      continue;
+    }
+    Result<WriteOutcome> outcome = write(record, row.line);
+    if (!outcome.ok()) return outcome.status();
+    session.Count(*outcome);
+  }
+  return Status::Ok();
+}
+
+template <typename Writer, typename Record, typename Parse>
+Status ImportCsvWith(CsvReader& reader, const HeaderLayout& layout, const RowContext& context,
+                     Session& session, Parse parse) {
+  Writer writer;
+  if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
+  return ImportCsvRows<Record>(reader, layout, context, session, parse,
+                               [&](const Record& record, size_t) { return writer.Write(record); });
+}
+
+Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
+                 const RowContext& context, Session& session) {
+  switch (kind) {
+    case InputKind::kDispensing: {
+      DispensingWriter writer;
+      if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
+      return ImportCsvRows<DispensingRecord>(
+          reader, layout, context, session, ParseDispensingRow,
+          [&](const DispensingRecord& record, size_t line) { return writer.Write(record, line, false); });
+    }
+    case InputKind::kPatients:
+      return ImportCsvWith<PatientWriter, PatientRecord>(reader, layout, context, session, ParsePatientRow);
+    case InputKind::kPractices:
+      return ImportCsvWith<PracticeWriter, PracticeRecord>(reader, layout, context, session,
+                                                           ParsePracticeRow);
+    case InputKind::kReviews:
+      return ImportCsvWith<ReviewWriter, ReviewRecord>(reader, layout, context, session, ParseReviewRow);
+  }
+  return Status::Ok();
+}
+
+// FHIR NDJSON: MedicationDispense (dispensing imports) and Patient resources.
+Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSummary& summary) {
+  DispensingWriter dispensings;
+  PatientWriter patients;
+  if (Status status = dispensings.Prepare(session.db(), session.source()); !status.ok()) return status;
+  if (Status status = patients.Prepare(session.db(), session.source()); !status.ok()) return status;
+  FhirItem item;
+  while (reader.Next(item)) {
+    session.Tick();
+    if (item.kind == FhirItemKind::kDispense && kind != InputKind::kDispensing) {
+      item.kind = FhirItemKind::kRejected;
+      item.fault = {"unsupported_resource",
+                    FaultMessage(summary.file, item.line, "/resourceType",
+                                 "MedicationDispense in a patients import (use 'import dispensing')")};
+    }
+    if (item.kind == FhirItemKind::kRejected) {
+      if (Status status = session.Reject(item.line, item.fault, item.text); !status.ok()) return status;
+      continue;
+    }
+    Result<WriteOutcome> outcome = WriteOutcome::kDuplicate;
+    if (item.kind == FhirItemKind::kPatient) {
+      if (kind == InputKind::kDispensing) ++summary.patients;
+      outcome = patients.Write(item.patient);
+    } else {
+      outcome = dispensings.Write(item.dispense, item.line, true);
+      if (outcome.ok() && *outcome != WriteOutcome::kDuplicate && !StatusCounts(item.dispense.status)) {
+        ++summary.not_counted[item.dispense.status];
+      }
+    }
+    if (!outcome.ok()) return outcome.status();
+    session.Count(*outcome);
+  }
+  return Status::Ok();
+}
+
+// Reads the header and imports the CSV rows; a bad header stores nothing.
+Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& options,
+                      Session& session, ImportSummary& summary, bool& read_failed) {
+  CsvReader reader(in);
+  CsvRow header;
+  if (!reader.Next(header)) {
+    read_failed = reader.read_failed();
+    return Status::Input(summary.file + ": is empty; expected a header row naming the columns");
+  }
+  Result<HeaderLayout> layout = HeaderLayout::Find(kind, header, options.columns, summary.file);
+  if (!layout.ok()) return layout.status();
+  if (Status status = session.Begin(); !status.ok()) return status;
+  const RowContext context{summary.file, options.date_order};
+  Status status = ImportCsv(kind, reader, *layout, context, session);
+  summary.blank_lines = static_cast<long>(reader.blank_lines());
+  read_failed = reader.read_failed();
+  return status;
+}
+
+Status ImportFhirInput(InputKind kind, std::istream& in, Session& session, ImportSummary& summary,
+                       bool& read_failed) {
+  if (kind != InputKind::kDispensing && kind != InputKind::kPatients) {
+    return Status::Input(summary.file + ": FHIR NDJSON is read for dispensing and patients only; " +
+                         std::string(InputKindName(kind)) + " must be CSV");
+  }
+  if (Status status = session.Begin(); !status.ok()) return status;
+  FhirReader reader(in, summary.file);
+  Status status = ImportFhir(kind, reader, session, summary);
+  summary.blank_lines = static_cast<long>(reader.blank_lines());
+  read_failed = reader.read_failed();
+  return status;
+}
+
+// Lower case ASCII, trimmed, runs of white space as one space.
+void AppendNormalised(std::string& key, std::string_view text) {
+  bool space = false;
+  bool any = false;
+  for (char c : text) {
+    if (c == ' ' || c == '\t' || c == '\r' || c == '\n') {
+      space = any;
+      continue;
+    }
+    if (space) key += ' ';
+    space = false;
+    any = true;
+    key += c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c;
+  }
+  key += '\x1f';
+}
+
+}  // namespace
+
+std::string DispensingKey(const DispensingRecord& record) {
+  if (!record.record_id.empty()) return "r:" + record.record_id;
+  std::string content;
+  content.reserve(256);
+  AppendNormalised(content, record.patient_id);
+  content += record.dispensed_on.ToIso();
+  content += '\x1f';
+  AppendNormalised(content, record.product);
+  AppendNormalised(content, record.code);
+  AppendNormalised(content, record.code_system);
+  char number[32];
+  const auto written = std::to_chars(number, number + sizeof number, record.quantity);
+  content.append(number, written.ptr);
+  content += '\x1f';
+  if (record.days_supply) content += std::to_string(*record.days_supply);
+  content += '\x1f';
+  AppendNormalised(content, record.dosage);
+  AppendNormalised(content, record.practice);
+  unsigned char digest[EVP_MAX_MD_SIZE];
+  unsigned int digest_size = 0;
+  EVP_Digest(content.data(), content.size(), digest, &digest_size, EVP_sha256(), nullptr);
+  static constexpr char kHex[] = "0123456789abcdef";
+  std::string key = "h:";
+  for (size_t i = 0; i < 16 && i < digest_size; ++i) {
+    key += kHex[digest[i] >> 4];
+    key += kHex[digest[i] & 0x0f];
+  }
+  return key;
+}
+
+Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& in,
+                                   std::string_view file, const ImportOptions& options) {
+  ImportSummary summary;
+  summary.file = std::string(file);
+  summary.kind = std::string(InputKindName(kind));
+  summary.max_reject_rate = options.max_reject_rate;
+  std::string head(4096, '\0');
+  in.read(head.data(), static_cast<std::streamsize>(head.size()));
+  head.resize(static_cast<size_t>(in.gcount()));
+  const bool ndjson = LooksLikeNdjson(head);
+  summary.format = ndjson ? "fhir" : "csv";
+  PrefixedBuffer buffer(std::move(head), in);
+  std::istream whole(&buffer);
+  Session session(store, summary, options);
+  bool read_failed = false;
+  Status status = ndjson ? ImportFhirInput(kind, whole, session, summary, read_failed)
+                         : ImportCsvInput(kind, whole, options, session, summary, read_failed);
+  if (status.ok() && (read_failed || buffer.failed())) {
+    status = Status::Input(summary.file + ": reading failed part way; nothing was stored");
+  }
+  if (!status.ok()) return status;  // the session's transaction rolls back
+  if (Status finished = session.Finish(); !finished.ok()) return finished;
+  return summary;
+}
+
+Result<ImportSummary> ImportFile(Store& store, InputKind kind, const std::string& path,
+                                 const ImportOptions& options) {
+  if (path == "-") return ImportStream(store, kind, std::cin, "<stdin>", options);
+  std::ifstream in(path, std::ios::binary);
+  if (!in) return Status::Input(path + ": cannot be read (missing, or no permission)");
+  return ImportStream(store, kind, in, path, options);
+}
+
+}  // namespace medload
