@@ -89,6 +89,15 @@ constexpr FormWords kForms[] = {
     {"nasal drop", "nasal drops", Route::kNasal, "ml"},
     {"nasal ointment", "nasal ointment", Route::kNasal, "g"},
     {"inhaler", "inhaler", Route::kInhaled, "puff"},
+    // Inhaler devices often named in place of the form.
+    {"accuhaler", "inhalation powder", Route::kInhaled, "dose"},
+    {"easyhaler", "inhalation powder", Route::kInhaled, "dose"},
+    {"ellipta", "inhalation powder", Route::kInhaled, "dose"},
+    {"evohaler", "inhaler", Route::kInhaled, "puff"},
+    {"nexthaler", "inhalation powder", Route::kInhaled, "dose"},
+    {"respimat", "inhalation solution", Route::kInhaled, "puff"},
+    {"spiromax", "inhalation powder", Route::kInhaled, "dose"},
+    {"turbohaler", "inhalation powder", Route::kInhaled, "dose"},
     {"pressurised inhalation", "inhaler", Route::kInhaled, "puff"},
     {"inhalation powder", "inhalation powder", Route::kInhaled, "dose"},
     {"inhalation solution", "inhalation solution", Route::kInhaled, "puff"},
@@ -243,14 +252,23 @@ void SetFormAndStrengths(const std::vector<Word>& words, const std::vector<Stren
   if (product.dose_unit.empty() && !strengths.empty() && strengths.front().per == "dose") product.dose_unit = "dose";
 }
 
+// Inhaler strengths are written in micrograms; "200/6" without units means micrograms.
+std::vector<Strength> ForRoute(std::vector<Strength> strengths, Route route) {
+  if (route != Route::kInhaled) return strengths;
+  for (Strength& strength : strengths) {
+    if (strength.bare) strength.amount *= 0.001;
+  }
+  return strengths;
+}
+
 void ApplyProduct(const NamedProduct& named, const std::vector<Strength>& strengths, ResolvedProduct& product) {
-  std::vector<Mention> mentions;
-  for (const std::string& name : named.ingredients) mentions.push_back(Mention{name, 0});
-  product.ingredients = PairStrengths(mentions, strengths, false);
   if (!named.form.empty()) product.form = named.form;
   if (named.route) product.route = *named.route;
   if (!named.dose_unit.empty()) product.dose_unit = named.dose_unit;
   product.default_supply_days = named.supply_days_per_unit;
+  std::vector<Mention> mentions;
+  for (const std::string& name : named.ingredients) mentions.push_back(Mention{name, 0});
+  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), false);
 }
 
 bool IsAtcLike(std::string_view code) {
@@ -280,7 +298,7 @@ bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_
   if (const NamedProduct* named = formulary.FindProduct(target)) {
     ApplyProduct(*named, strengths, product);
   } else if (const Ingredient* ingredient = formulary.FindIngredient(target)) {
-    product.ingredients = PairStrengths({Mention{ingredient->name, 0}}, strengths, false);
+    product.ingredients = PairStrengths({Mention{ingredient->name, 0}}, ForRoute(strengths, product.route), false);
   } else {
     product.non_medicine = true;  // a code for a non-medicine term
   }
@@ -324,7 +342,7 @@ ResolvedProduct Resolve(const Formulary& formulary, std::string_view description
     product.match_detail = "no code, product or ingredient name recognised";
     return product;
   }
-  product.ingredients = PairStrengths(mentions, strengths, true);
+  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), true);
   product.match = MatchKind::kIngredient;
   product.match_detail = mentions.size() == 1 ? "ingredient name" : "ingredient names (combination)";
   return product;

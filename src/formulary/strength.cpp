@@ -185,11 +185,21 @@ void Interpret(const std::vector<Item>& chain, std::vector<Strength>& out) {
       case UnitKind::kUnits: strength.unit = StrengthUnit::kUnits; strength.amount = *chain[k].number; break;
       case UnitKind::kPercent: strength.unit = StrengthUnit::kPercent; strength.amount = *chain[k].number; break;
       case UnitKind::kMass: strength.amount = *chain[k].number * unit_from->factor; break;
-      default: strength.amount = *chain[k].number; break;  // bare numbers: mg
+      default:  // bare numbers: mg (the resolver rescales them for inhalers)
+        strength.amount = *chain[k].number;
+        strength.bare = true;
+        break;
     }
     out.push_back(strength);
   }
 }
+
+}  // namespace
+
+namespace {
+
+// Keeps results free of binary noise (0.6000000000000001 -> 0.6).
+double Tidy(double value) { return std::round(value * 1e9) / 1e9; }
 
 }  // namespace
 
@@ -199,14 +209,14 @@ std::optional<double> Strength::MgPerUnit() const {
   if (unit == StrengthUnit::kPercent) {
     // 1% is 1 g per 100 g (or 100 ml): 10 mg per g or ml.
     if (!per.empty()) return std::nullopt;
-    return amount * 10;
+    return Tidy(amount * 10);
   }
-  return amount / per_amount;
+  return Tidy(amount / per_amount);
 }
 
 std::optional<double> Strength::MgPerDay() const {
   if (per != "hour" || unit != StrengthUnit::kMg) return std::nullopt;
-  return amount * 24 / per_amount;
+  return Tidy(amount * 24 / per_amount);
 }
 
 std::vector<Strength> ParseStrengths(std::string_view text) {

@@ -37,6 +37,7 @@ struct Strength {
   double per_amount = 1;       // the denominator's amount ("5" of "/5ml"); 1 when absent
   std::string per;             // the denominator's unit: "", "ml", "g", "hour", "dose", ...
   size_t position = 0;         // byte offset in the normalised text, for ordering
+  bool bare = false;           // no unit was written ("30/500"): taken as mg
 
   // mg in one dose unit (one tablet, one ml, one g, one dose); nullopt for units, for
   // rates over time, and for a percentage without a mass or volume base.
