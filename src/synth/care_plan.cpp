@@ -116,7 +116,7 @@ std::vector<CareCondition> BuildConditions() {
        {{8000, {{"cetirizine", 30}, {"loratadine", 20}, {"chlorphenamine", 10},
                 {"hydroxyzine", 3}}},
         {3000, {{"beclometasone-nasal", 1}}}}},
-      {"osteoporosis", {0, 0, 0, 200, 500, 1200, 2000}, 170, 30,
+      {"osteoporosis", {0, 0, 0, 80, 250, 600, 1000}, 170, 30,
        {{8000, {{"alendronic-acid", 1}}}, {8500, {{"calcium-vitamin-d", 1}}}}},
       {"constipation", {50, 100, 100, 200, 300, 600, 1200}, 120, 80,
        {{9000, {{"lactulose", 10}, {"senna", 12}, {"macrogol", 10}}}}},
@@ -178,9 +178,9 @@ size_t AgeBand(int age) {
 // A latent "how unwell" factor shared by all conditions, so that conditions cluster in
 // the same patients the way multimorbidity does.
 int DrawFrailty(int age, SynthRandom& random) {
-  static constexpr int kValues[] = {60, 110, 180, 300};
-  static constexpr int kYounger[] = {60, 25, 10, 5};
-  static constexpr int kOlder[] = {40, 30, 20, 10};
+  static constexpr int kValues[] = {60, 120, 200, 330};
+  static constexpr int kYounger[] = {54, 28, 12, 6};
+  static constexpr int kOlder[] = {34, 30, 22, 14};
   const std::span<const int> weights =
       age < 50 ? std::span<const int>(kYounger) : std::span<const int>(kOlder);
   return kValues[random.PickWeighted(weights)];
@@ -226,7 +226,7 @@ class PlanBuilder {
  private:
   // Most repeats are for 28 days; some practices issue two or three months at a time.
   int Multiplier(const CatalogueProduct& product) {
-    if (product.use != CatalogueUse::kRegular) return 1;
+    if (product.use != CatalogueUse::kRegular || product.controlled) return 1;
     const std::optional<int> days = DaysCovered(product, product.quantity);
     if (!days || *days > 31) return 1;
     const uint32_t draw = random_.Below(100);

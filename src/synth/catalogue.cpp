@@ -172,7 +172,7 @@ CatalogueProduct Item(std::string_view key, std::string_view description,
 
 // Descriptions follow the usual British generic style ("Amlodipine 5mg tablets");
 // quantities are the usual 28-day or course quantities (common practice).
-std::vector<CatalogueProduct> BuildCatalogue() {
+std::vector<CatalogueProduct> BuildProducts() {
   const Dosages& d = AllDosages();
   return {
       // Cardiovascular.
@@ -472,6 +472,23 @@ std::vector<CatalogueProduct> BuildCatalogue() {
       Item("leg-bags", "Catheter leg bag 500ml", "bag", 10, d.as_directed, 30),
       Item("spacer", "Large volume spacer device", "device", 1, d.as_directed, 365),
   };
+}
+
+std::vector<CatalogueProduct> BuildCatalogue() {
+  // Schedule 2-4 controlled drugs of the catalogue (Misuse of Drugs Regulations 2001, as
+  // amended; from memory).
+  static constexpr std::string_view kControlled[] = {
+      "morphine-mr",  "morphine-solution", "oxycodone-mr",  "fentanyl-patch",
+      "buprenorphine-patch", "tramadol",  "tramadol-mr",   "gabapentin",
+      "pregabalin-75", "pregabalin-150",  "temazepam",     "diazepam-2",
+      "diazepam-5",   "zopiclone-7.5",     "zopiclone-3.75"};
+  std::vector<CatalogueProduct> products = BuildProducts();
+  for (CatalogueProduct& product : products) {
+    for (const std::string_view key : kControlled) {
+      if (product.key == key) product.controlled = true;
+    }
+  }
+  return products;
 }
 
 }  // namespace

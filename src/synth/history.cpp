@@ -129,11 +129,15 @@ void ScheduleRepeat(const Repeat& repeat, const Period& period, const SynthWindo
   }
   const Date last = repeat.stop ? std::min(period.to, *repeat.stop - 1) : period.to;
   const int first_interval = BaseInterval(*product, quantity, random);
-  Date date = repeat.medicine.starts_in_window ? DrawDay(period.from, period.to, random)
-              : period.from > window.start
-                  ? period.from + random.Between(0, 13)
-                  : window.start - static_cast<int32_t>(random.Below(
-                                       static_cast<uint32_t>(first_interval)));
+  Date date;
+  if (repeat.medicine.starts_in_window) {
+    date = OpenDay(DrawDay(period.from, period.to, random));
+  } else if (period.from > window.start) {
+    date = OpenDay(period.from + random.Between(0, 13));  // a new registration's first supply
+  } else {
+    date = OpenDay(window.start - static_cast<int32_t>(random.Below(
+                                      static_cast<uint32_t>(first_interval))));
+  }
   while (date <= last) {
     if (change_on && date >= *change_on) {
       product_index = *change_to;

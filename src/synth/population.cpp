@@ -97,7 +97,7 @@ void DrawRegistration(SynthPatient& patient, const SynthWindow& window, int mont
   const int years_scale = std::max(1, months);
   if (!patient.in_registry) {
     // A temporary resident: a stay of two weeks to three months inside the window.
-    const Date arrived = DrawDay(window.start, window.end, random);
+    const Date arrived = DrawDay(std::max(window.start, patient.birth_date), window.end, random);
     patient.registered_from = arrived;
     patient.registered_to = std::min(window.end, arrived + random.Between(14, 90));
     return;

@@ -56,6 +56,9 @@ struct CatalogueProduct {
   // A typical target of a structured medication review (anticholinergic, sedative,
   // NSAID, long-term PPI ...): may be stopped after a review.
   bool review_target = false;
+  // A controlled drug (Schedules 2-4): supplies are kept to 30 days or less (common
+  // practice), so it is never issued two or three months at a time.
+  bool controlled = false;
 };
 
 // Every product, in a fixed order. The reference stays valid for the whole program.
