@@ -1,0 +1,74 @@
+// The review worklist: patients who meet any selection criterion on a census date,
+// ranked by the fixed order (rules fired, ACB, items, DBI, age, identifier), each with
+// readable reasons. It streams the store once; it does not write any output format.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "medload/burden/analysis.h"
+#include "medload/burden/criteria.h"
+#include "medload/core/status.h"
+
+namespace medload {
+
+class Store;
+
+struct WorklistOptions {
+  Date on;                                   // --on: the census date
+  std::vector<Criterion> criteria;           // --at-least / --rule: a patient meets any
+  std::vector<std::string> practices;        // --practice CODE (repeatable); empty = all
+  std::optional<int> age_min;                // --age-min N: only patients aged N or more
+  std::optional<int> reviewed_within_days;   // --reviewed-within DAYS: exclude recent reviews
+  std::optional<size_t> limit;               // --limit N: the first N after ranking
+  // Compare with the previous run of the same criteria and filters (marking patients new
+  // on the list) and save this run in the store, before the limit is applied.
+  bool remember_run = true;
+};
+
+struct WorklistEntry {
+  int rank = 0;                   // 1-based, after sorting
+  std::string patient;
+  std::string practice;
+  std::optional<int> age;
+  int items = 0;
+  int acb = 0;
+  double dbi = 0;
+  std::vector<std::string> rule_ids;      // rules fired (all, not only selected ones)
+  std::vector<std::string> criteria_met;  // keys of the criteria met ("items>=10", ...)
+  std::vector<std::string> reasons;       // readable, for the pharmacist
+  std::vector<std::string> warnings;      // unmatched products, unknown doses, ...
+  bool is_new = false;                    // not on the previous run's list (same criteria)
+};
+
+struct Worklist {
+  Date on;
+  std::vector<Criterion> criteria;
+  std::string scale;
+  std::vector<WorklistEntry> patients;    // ranked
+  long patients_considered = 0;           // registered on the date (after practice filter)
+  long patients_meeting = 0;              // before --limit
+  long excluded_recent_review = 0;
+  bool has_previous_run = false;          // "new" flags compare with an earlier run
+};
+
+// The fixed review order (spec section 6): more rules fired first, then higher acb, more
+// items, higher dbi, older age (unknown last), then patient id ascending.
+bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
+
+// The readable reasons of one patient: "11 medicines", "ACB 7: amitriptyline 3, ...",
+// "DBI 1.25: ...", "rule: <title> (<medicines>)".
+std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& burden,
+                                       const BurdenTables& tables);
+
+// Streams the store once and builds the ranked list. Status::Usage when no criterion is
+// given; Status::Input for a rule id the tables do not have or a storage error.
+Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options);
+
+// Marks `is_new` against the previous saved run (dated before this one) with the same
+// criteria and filters, and saves this one (the store keeps runs; a re-run on the same
+// date replaces it). Called by BuildWorklist when options.remember_run is set.
+Status MarkNewAndSave(Store& store, const WorklistOptions& options, Worklist& worklist);
+
+}  // namespace medload

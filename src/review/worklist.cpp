@@ -1,0 +1,189 @@
+#include "medload/review/worklist.h"
+
+#include <algorithm>
+#include <set>
+#include <unordered_map>
+
+#include <nlohmann/json.hpp>
+
+#include "medload/io/output.h"
+#include "medload/store/store.h"
+
+namespace medload {
+namespace {
+
+// Registered on D (spec section 5): by the registry row, or, without one, at the practice
+// of the latest dispensing if there was a dispensing in the 365 days ending on D.
+std::optional<std::string> PracticeOn(const PatientHistory& history, Date on) {
+  if (history.registry) {
+    const PatientRecord& r = *history.registry;
+    if (r.registered_from && *r.registered_from > on) return std::nullopt;
+    if (r.registered_to && *r.registered_to < on) return std::nullopt;
+    return r.practice;
+  }
+  const DispensingRecord* latest = nullptr;
+  for (const DispensingRecord& record : history.dispensings) {
+    if (record.dispensed_on <= on) latest = &record;
+  }
+  if (latest == nullptr || latest->dispensed_on < on - 364) return std::nullopt;
+  return latest->practice;
+}
+
+std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
+  std::string joined;
+  for (const auto& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
+  return joined;
+}
+
+// A completed review in the `days` days ending on D.
+bool RecentlyReviewed(const std::vector<Date>& reviews, Date on, int days) {
+  return std::any_of(reviews.begin(), reviews.end(), [&](Date d) { return d <= on && d > on - days; });
+}
+
+std::string RunKey(const WorklistOptions& options, const std::string& scale) {
+  std::vector<std::string> parts;
+  for (const Criterion& c : options.criteria) parts.push_back(c.Key());
+  std::sort(parts.begin(), parts.end());
+  std::vector<std::string> practices = options.practices;
+  std::sort(practices.begin(), practices.end());
+  return "criteria=" + Join(parts, ";") + "|practices=" + Join(practices, ";") + "|age_min=" +
+         (options.age_min ? std::to_string(*options.age_min) : "") + "|scale=" + scale;
+}
+
+}  // namespace
+
+bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b) {
+  if (a.rule_ids.size() != b.rule_ids.size()) return a.rule_ids.size() > b.rule_ids.size();
+  if (a.acb != b.acb) return a.acb > b.acb;
+  if (a.items != b.items) return a.items > b.items;
+  if (a.dbi != b.dbi) return a.dbi > b.dbi;
+  if (a.age != b.age) {
+    if (!a.age || !b.age) return a.age.has_value();
+    return *a.age > *b.age;
+  }
+  return a.patient < b.patient;
+}
+
+std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& burden,
+                                       const BurdenTables& tables) {
+  std::vector<std::string> reasons;
+  reasons.push_back(std::to_string(burden.items) + (burden.items == 1 ? " medicine" : " medicines"));
+  if (burden.acb > 0) {
+    std::vector<std::string> parts;
+    for (const auto& c : burden.score_contributions) parts.push_back(c.ingredient + " " + std::to_string(c.score));
+    std::string scale = tables.scale;
+    std::transform(scale.begin(), scale.end(), scale.begin(), [](unsigned char ch) { return static_cast<char>(std::toupper(ch)); });
+    reasons.push_back(scale + " " + std::to_string(burden.acb) + ": " + Join(parts, ", "));
+  }
+  if (burden.dbi > 0) {
+    std::vector<std::string> parts;
+    for (const auto& c : burden.dbi_contributions) parts.push_back(c.ingredient + " " + FormatNumber(c.value, 2));
+    reasons.push_back("DBI " + FormatNumber(burden.dbi, 2) + ": " + Join(parts, ", "));
+  }
+  for (const FiredRule& fired : burden.rules) {
+    std::vector<std::string> names;
+    for (size_t index : fired.medicines) names.push_back(Join(timeline.medicines[index].ingredients, "+"));
+    reasons.push_back("rule: " + fired.rule->title + " (" + Join(names, ", ") + ")");
+  }
+  return reasons;
+}
+
+namespace {
+
+std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& burden, Date on,
+                                       int max_supply_days) {
+  std::vector<std::string> warnings;
+  int unmatched = 0;
+  for (const auto& product : timeline.unmatched) {
+    if (product.last_dispensed <= on && product.last_dispensed > on - max_supply_days) ++unmatched;
+  }
+  if (unmatched > 0) warnings.push_back(std::to_string(unmatched) + " recent product(s) not recognised");
+  if (!burden.dbi_incomplete.empty()) warnings.push_back("dose unknown: " + Join(burden.dbi_incomplete, ", "));
+  if (burden.age_unknown_for_rules) warnings.push_back("age unknown: age-limited rules not checked");
+  return warnings;
+}
+
+}  // namespace
+
+Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options) {
+  if (options.criteria.empty()) {
+    return Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X or --rule ID)");
+  }
+  if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
+  std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates
+  if (options.reviewed_within_days) {
+    auto reviews = store.Reviews();
+    if (!reviews.ok()) return reviews.status();
+    for (const ReviewRecord& review : *reviews) reviewed[review.patient_id].push_back(review.reviewed_on);
+  }
+  Worklist worklist;
+  worklist.on = options.on;
+  worklist.criteria = options.criteria;
+  worklist.scale = analysis.tables().scale;
+  const std::set<std::string> practices(options.practices.begin(), options.practices.end());
+  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+    const auto practice = PracticeOn(history, options.on);
+    if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
+    const std::optional<int> age = AgeOn(history.registry, options.on);
+    if (options.age_min && (!age || *age < *options.age_min)) return true;
+    ++worklist.patients_considered;
+    const Timeline timeline = analysis.BuildTimeline(history.dispensings);
+    const Burden burden = analysis.Evaluate(timeline, options.on, age);
+    WorklistEntry entry;
+    for (const Criterion& criterion : options.criteria) {
+      if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
+    }
+    if (entry.criteria_met.empty()) return true;
+    if (options.reviewed_within_days) {
+      const auto it = reviewed.find(history.patient_id);
+      if (it != reviewed.end() && RecentlyReviewed(it->second, options.on, *options.reviewed_within_days)) {
+        ++worklist.excluded_recent_review;
+        return true;
+      }
+    }
+    entry.patient = history.patient_id;
+    entry.practice = *practice;
+    entry.age = age;
+    entry.items = burden.items;
+    entry.acb = burden.acb;
+    entry.dbi = burden.dbi;
+    for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
+    entry.reasons = ExplainBurden(timeline, burden, analysis.tables());
+    entry.warnings = EntryWarnings(timeline, burden, options.on, analysis.options().supply.max_supply_days);
+    worklist.patients.push_back(std::move(entry));
+    return true;
+  });
+  if (!status.ok()) return status;
+  std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
+  worklist.patients_meeting = static_cast<long>(worklist.patients.size());
+  if (options.remember_run) {
+    if (Status saved = MarkNewAndSave(store, options, worklist); !saved.ok()) return saved;
+  }
+  if (options.limit && worklist.patients.size() > *options.limit) worklist.patients.resize(*options.limit);
+  for (size_t i = 0; i < worklist.patients.size(); ++i) worklist.patients[i].rank = static_cast<int>(i + 1);
+  return worklist;
+}
+
+Status MarkNewAndSave(Store& store, const WorklistOptions& options, Worklist& worklist) {
+  const std::string key = RunKey(options, worklist.scale);
+  auto previous = store.LatestRun("review", key, worklist.on.ToIso());
+  if (!previous.ok()) return previous.status();
+  std::set<std::string> before;
+  if (previous->has_value()) {
+    worklist.has_previous_run = true;
+    const auto json = nlohmann::json::parse(**previous, nullptr, false);
+    if (json.is_object() && json.contains("patients") && json["patients"].is_array()) {
+      for (const auto& id : json["patients"]) {
+        if (id.is_string()) before.insert(id.get<std::string>());
+      }
+    }
+  }
+  nlohmann::json saved = {{"on", worklist.on.ToIso()}, {"patients", nlohmann::json::array()}};
+  for (WorklistEntry& entry : worklist.patients) {
+    entry.is_new = worklist.has_previous_run && before.count(entry.patient) == 0;
+    saved["patients"].push_back(entry.patient);
+  }
+  return store.SaveRun("review", key, worklist.on.ToIso(), saved.dump());
+}
+
+}  // namespace medload

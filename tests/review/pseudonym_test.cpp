@@ -1,0 +1,51 @@
+#include "medload/review/pseudonym.h"
+
+#include <doctest/doctest.h>
+#include <sys/stat.h>
+
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+
+namespace medload {
+
+TEST_SUITE("pseudonym") {
+
+TEST_CASE("HMAC-SHA-256 matches the published test vectors") {
+  // Source: RFC 4231, test case 2 (key "Jefe", data "what do ya want for nothing?").
+  CHECK(HmacSha256Hex("Jefe", "what do ya want for nothing?") ==
+        "5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843");
+  // Source: RFC 4231, test case 1 (key 20 bytes of 0x0b, data "Hi There").
+  CHECK(HmacSha256Hex(std::string(20, '\x0b'), "Hi There") ==
+        "b0344c61d8db38535ca8afceaf0bf12b881dc200c9833da726e9376c2e32cff7");
+}
+
+TEST_CASE("the same key gives the same pseudonym and another key another one") {
+  const Pseudonymiser a("a-long-secret-key-for-tests");
+  const Pseudonymiser b("another-long-secret-key-here");
+  CHECK(a.Pseudonym("Q1234567") == a.Pseudonym("Q1234567"));
+  CHECK(a.Pseudonym("Q1234567") != a.Pseudonym("Q1234568"));
+  CHECK(a.Pseudonym("Q1234567") != b.Pseudonym("Q1234567"));
+  CHECK(a.Pseudonym("Q1234567").size() == 22);
+  CHECK(a.Pseudonym("Q1234567").find("1234567") == std::string::npos);
+}
+
+TEST_CASE("a key file readable by others is refused") {
+  const auto path = std::filesystem::temp_directory_path() / "medload_pseudonym_key_test";
+  { std::ofstream(path) << "0123456789abcdef0123456789abcdef\n"; }
+  ::chmod(path.c_str(), 0644);
+  auto open = Pseudonymiser::FromKeyFile(path.string());
+  REQUIRE_FALSE(open.ok());
+  CHECK(open.status().message() == path.string() + ": the key file can be read or changed by others; run 'chmod 600 " +
+                                       path.string() + "'");
+  ::chmod(path.c_str(), 0600);
+  auto ok = Pseudonymiser::FromKeyFile(path.string());
+  REQUIRE(ok.ok());
+  CHECK(ok->Pseudonym("x") == Pseudonymiser("0123456789abcdef0123456789abcdef").Pseudonym("x"));
+  std::filesystem::remove(path);
+  CHECK_FALSE(Pseudonymiser::FromKeyFile(path.string()).ok());
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload

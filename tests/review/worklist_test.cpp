@@ -1,0 +1,172 @@
+#include "medload/review/worklist.h"
+
+#include <doctest/doctest.h>
+
+#include <sstream>
+
+#include "medload/store/importer.h"
+#include "medload/store/store.h"
+
+namespace medload {
+namespace {
+
+Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
+
+void Import(Store& store, InputKind kind, const std::string& csv) {
+  std::istringstream in(csv);
+  auto summary = ImportStream(store, kind, in, "test.csv", ImportOptions{});
+  REQUIRE(summary.ok());
+  REQUIRE(summary->rejected == 0);
+}
+
+// Four invented patients at two invented practices, with 28-day supplies on 2024-01-01.
+struct Population {
+  Store store = std::move(Store::Open(":memory:").value());
+  Analysis analysis = std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+
+  Population() {
+    Import(store, InputKind::kPatients,
+           "patient_id,birth_date,sex,practice,registered_from,registered_to\n"
+           "A,1940-05-01,female,PA,,\n"
+           "B,1950,male,PA,,\n"
+           "C,1938-02-02,female,PB,,\n"
+           "E,1930-01-01,male,PB,,2023-12-31\n");
+    std::string rows = "patient_id,dispensed_on,product,quantity,days_supply\n";
+    for (const char* product : {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets", "Codeine 30mg tablets"}) {
+      rows += std::string("A,2024-01-01,") + product + ",28,28\n";
+    }
+    for (const char* product : {"Ramipril 5mg capsules", "Furosemide 40mg tablets", "Ibuprofen 400mg tablets"}) {
+      rows += std::string("B,2024-01-01,") + product + ",28,28\n";
+    }
+    rows += "C,2024-01-01,Amlodipine 5mg tablets,28,28\n";
+    rows += "E,2024-01-01,Oxybutynin 5mg tablets,28,28\n";
+    Import(store, InputKind::kDispensing, rows);
+  }
+
+  Worklist Build(WorklistOptions options) {
+    options.remember_run = false;
+    auto worklist = BuildWorklist(store, analysis, options);
+    REQUIRE(worklist.ok());
+    return std::move(worklist).value();
+  }
+};
+
+WorklistOptions On(Date on, std::vector<Criterion> criteria) {
+  WorklistOptions options;
+  options.on = on;
+  options.criteria = std::move(criteria);
+  return options;
+}
+
+Criterion AtLeast(const char* text) { return ParseCriterion(text).value(); }
+
+}  // namespace
+
+TEST_SUITE("worklist") {
+
+TEST_CASE("the review order is rules, then acb, items, dbi, older age, then identifier") {
+  auto entry = [](std::string id, int rules, int acb, int items, double dbi, std::optional<int> age) {
+    WorklistEntry e;
+    e.patient = std::move(id);
+    e.rule_ids.assign(static_cast<size_t>(rules), "r");
+    e.acb = acb;
+    e.items = items;
+    e.dbi = dbi;
+    e.age = age;
+    return e;
+  };
+  std::vector<WorklistEntry> list = {entry("z", 0, 9, 20, 3, 99), entry("y", 1, 0, 1, 0, 20),
+                                     entry("x", 0, 9, 21, 0, 50), entry("w", 0, 9, 20, 3, 100),
+                                     entry("v", 0, 9, 20, 3, std::nullopt), entry("u", 0, 9, 20, 3, 99)};
+  std::sort(list.begin(), list.end(), RanksBefore);
+  std::vector<std::string> order;
+  for (const auto& e : list) order.push_back(e.patient);
+  CHECK(order == std::vector<std::string>{"y", "x", "w", "u", "z", "v"});
+}
+
+TEST_CASE("a patient meeting any criterion is listed with readable reasons") {
+  Population p;
+  auto list = p.Build(On(D(2024, 1, 10), {AtLeast("acb=3"), RuleCriterion("aki-triple")}));
+  REQUIRE(list.patients.size() == 2);
+  // Each fires one rule (A: two definite anticholinergics; B: ACE inhibitor, diuretic and
+  // NSAID), so A's higher score ranks first.
+  CHECK(list.patients[0].patient == "A");
+  CHECK(list.patients[0].rank == 1);
+  CHECK(list.patients[0].criteria_met == std::vector<std::string>{"acb>=3"});
+  // Source: Boustani et al. 2008 (ACB): amitriptyline 3, oxybutynin 3, codeine 1.
+  CHECK(list.patients[0].acb == 7);
+  REQUIRE(list.patients[0].reasons.size() >= 2);
+  CHECK(list.patients[0].reasons[0] == "3 medicines");
+  CHECK(list.patients[0].reasons[1] == "ACB 7: amitriptyline 3, oxybutynin 3, codeine 1");
+  CHECK(list.patients[1].patient == "B");
+  CHECK(list.patients[1].criteria_met == std::vector<std::string>{"rule:aki-triple"});
+  CHECK(list.patients[1].rule_ids == std::vector<std::string>{"aki-triple"});
+  // E left the register before the date and is not considered.
+  CHECK(list.patients_considered == 3);
+}
+
+TEST_CASE("practice, age and limit filters narrow the list") {
+  Population p;
+  auto options = On(D(2024, 1, 10), {AtLeast("items=1")});
+  CHECK(p.Build(options).patients.size() == 3);
+  options.practices = {"PB"};
+  CHECK(p.Build(options).patients.size() == 1);
+  options.practices.clear();
+  options.age_min = 80;  // A is 83, B 73 (born 1950: 1 July), C 85
+  CHECK(p.Build(options).patients.size() == 2);
+  options.limit = 1;
+  auto limited = p.Build(options);
+  CHECK(limited.patients.size() == 1);
+  CHECK(limited.patients_meeting == 2);
+}
+
+TEST_CASE("patients reviewed within the given days are left out") {
+  Population p;
+  Import(p.store, InputKind::kReviews, "patient_id,reviewed_on\nA,2023-12-20\n");
+  auto options = On(D(2024, 1, 10), {AtLeast("acb=3")});
+  options.reviewed_within_days = 21;  // 2023-12-21 .. 2024-01-10: the review is outside
+  CHECK(p.Build(options).patients.size() == 1);
+  options.reviewed_within_days = 22;  // 2023-12-20 .. 2024-01-10: inside
+  auto list = p.Build(options);
+  CHECK(list.patients.empty());
+  CHECK(list.excluded_recent_review == 1);
+}
+
+TEST_CASE("patients are marked new against the previous run with the same criteria") {
+  Population p;
+  // The first run has nothing to compare with: nobody is new.
+  auto first = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 2), {AtLeast("items=3")}));
+  REQUIRE(first.ok());
+  CHECK_FALSE(first->has_previous_run);
+  REQUIRE(first->patients.size() == 2);
+  CHECK_FALSE(first->patients[0].is_new);
+  // A later run with the same criteria: the same two patients, not new.
+  auto second = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 5), {AtLeast("items=3")}));
+  REQUIRE(second.ok());
+  CHECK(second->has_previous_run);
+  for (const auto& e : second->patients) CHECK_FALSE(e.is_new);
+  // Other criteria are another series; widening to items>=1 after an earlier run of
+  // items>=1 on an empty day marks everyone new.
+  auto empty = BuildWorklist(p.store, p.analysis, On(D(2023, 12, 1), {AtLeast("items=1")}));
+  REQUIRE(empty.ok());
+  CHECK(empty->patients.empty());
+  auto wide = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 5), {AtLeast("items=1")}));
+  REQUIRE(wide.ok());
+  REQUIRE(wide->patients.size() == 3);
+  for (const auto& e : wide->patients) CHECK(e.is_new);
+}
+
+TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
+  Population p;
+  auto none = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {}));
+  REQUIRE_FALSE(none.ok());
+  CHECK(none.status().code() == StatusCode::kUsage);
+  auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
+  REQUIRE_FALSE(unknown.ok());
+  CHECK(unknown.status().message() ==
+        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary check' lists them");
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
