@@ -21,8 +21,8 @@ std::string JoinCounts(const std::map<std::string, long>& counts, std::string_vi
   return text;
 }
 
-nlohmann::json FileJson(const ImportSummary& summary) {
-  nlohmann::json json = {
+nlohmann::ordered_json FileJson(const ImportSummary& summary) {
+  nlohmann::ordered_json json = {
       {"file", summary.file},
       {"kind", summary.kind},
       {"format", summary.format},
@@ -49,7 +49,7 @@ std::vector<std::string> CountCells(const ImportSummary& summary) {
           std::to_string(summary.imported),
           std::to_string(summary.duplicates),
           std::to_string(summary.rejected),
-          summary.rolled_back ? "rolled back" : ""};
+          summary.rolled_back ? "rolled back" : "committed"};
 }
 
 // The lines under the table that explain one file: reasons, statuses, examples.
@@ -118,9 +118,9 @@ std::string RollbackMessage(const ImportSummary& summary) {
          ": the file was rolled back and nothing from it was stored";
 }
 
-nlohmann::json ImportJson(const std::vector<ImportSummary>& files) {
+nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
   const ImportSummary total = TotalOf(files);
-  nlohmann::json json = {
+  nlohmann::ordered_json json = {
       {"read", total.read},
       {"imported", total.imported},
       {"duplicates", total.duplicates},
@@ -131,7 +131,7 @@ nlohmann::json ImportJson(const std::vector<ImportSummary>& files) {
       {"rolled_back", total.rolled_back},
   };
   if (files.size() == 1) json["file"] = files.front().file;
-  json["files"] = nlohmann::json::array();
+  json["files"] = nlohmann::ordered_json::array();
   for (const ImportSummary& file : files) json["files"].push_back(FileJson(file));
   json["caution"] = std::string(kCaution);
   return json;

@@ -46,7 +46,7 @@ std::string RollbackMessage(const ImportSummary& summary);
 
 // The import JSON: the totals at the top level ({"read","imported","duplicates",
 // "rejected","reasons",...,"caution"}) and one object per file under "files".
-nlohmann::json ImportJson(const std::vector<ImportSummary>& files);
+nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files);
 
 // Writers for --format text|csv|json|html. Each carries the caution (text: footer; CSV:
 // a first line starting with '#'; JSON: "caution"; HTML: a banner) and, with several

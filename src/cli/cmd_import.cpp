@@ -1,0 +1,165 @@
+// `medload import dispensing|patients|practices|reviews FILE...`: loads files into the
+// store, one transaction per file, and prints how many rows were read, imported,
+// duplicates and rejected (spec sections 4 and 6).
+#include <charconv>
+#include <cmath>
+#include <fstream>
+#include <ostream>
+#include <set>
+#include <sys/stat.h>
+
+#include "cli/options.h"
+#include "medload/io/import_summary.h"
+#include "medload/store/importer.h"
+#include "medload/store/store.h"
+
+namespace medload::cli {
+namespace {
+
+constexpr int kExitInput = 2;
+constexpr int kExitRejected = 3;
+constexpr long kProgressEvery = 1000000;
+
+po::options_description ImportOptionsDescription(InputKind kind) {
+  po::options_description options(std::string("import ") + std::string(InputKindName(kind)) +
+                                  " options");
+  options.add_options()
+      ("columns", po::value<std::string>(),
+       "MAP.json: header names in your file for medload's column names (see docs/input-formats.md)")
+      ("date-format", po::value<std::string>()->default_value("iso"),
+       "order of CSV dates: iso (YYYY-MM-DD), dmy (DD/MM/YYYY) or mdy (MM/DD/YYYY)")
+      ("rejects", po::value<std::string>(),
+       "FILE: write every rejected row (file, line, reason, message, original row) as CSV")
+      ("max-reject-rate", po::value<std::string>()->default_value("0.05"),
+       "R: roll a file back (exit 3) when rejected/read is above R, 0 to 1");
+  return options;
+}
+
+Result<ImportOptions> ReadImportOptions(const po::variables_map& vm, InputKind kind) {
+  ImportOptions options;
+  const std::string order = vm["date-format"].as<std::string>();
+  if (order == "dmy") options.date_order = DateOrder::kDmy;
+  else if (order == "mdy") options.date_order = DateOrder::kMdy;
+  else if (order != "iso") return Status::Usage("--date-format \"" + order + "\" is not one of iso, dmy, mdy");
+  const std::string rate = vm["max-reject-rate"].as<std::string>();
+  const auto [end, error] = std::from_chars(rate.data(), rate.data() + rate.size(), options.max_reject_rate);
+  if (error != std::errc() || end != rate.data() + rate.size() || !std::isfinite(options.max_reject_rate) ||
+      options.max_reject_rate < 0 || options.max_reject_rate > 1) {
+    return Status::Usage("--max-reject-rate \"" + rate + "\" is not a number from 0 to 1");
+  }
+  if (vm.count("columns") != 0U) {
+    Result<ColumnMap> map = LoadColumnMap(vm["columns"].as<std::string>(), kind);
+    if (!map.ok()) return map.status();
+    options.columns = std::move(map.value());
+  }
+  return options;
+}
+
+// Every named file must exist before anything is imported ("-" is standard input, once).
+Status CheckFiles(const std::vector<std::string>& files) {
+  if (files.empty()) return Status::Usage("name at least one FILE (or - for standard input)");
+  int stdin_count = 0;
+  for (const std::string& file : files) {
+    if (file == "-") {
+      if (++stdin_count > 1) return Status::Usage("standard input (-) can be named only once");
+      continue;
+    }
+    struct stat info {};
+    if (::stat(file.c_str(), &info) != 0) return Status::Input(file + ": no such file");
+    if (S_ISDIR(info.st_mode)) return Status::Input(file + ": is a folder, not a file");
+  }
+  return Status::Ok();
+}
+
+void WriteSummary(Format format, const std::vector<ImportSummary>& summaries, std::ostream& out) {
+  switch (format) {
+    case Format::kCsv: WriteImportCsv(summaries, out); break;
+    case Format::kJson: WriteImportJson(summaries, out); break;
+    case Format::kHtml: WriteImportHtml(summaries, out); break;
+    default: WriteImportText(summaries, out); break;
+  }
+}
+
+int Fail(Context& context, const Status& status) {
+  *context.err << "medload: " << status.message() << "\n";
+  return status.exit_code();
+}
+
+// Imports the files one by one; a file that fails does not stop the others.
+int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<std::string>& files,
+              ImportOptions& options) {
+  std::vector<ImportSummary> summaries;
+  int exit_code = 0;
+  for (const std::string& file : files) {
+    if (!context.quiet) {
+      options.progress_every = kProgressEvery;
+      options.progress = [&context, &file](long rows) {
+        *context.err << "medload: " << file << ": " << rows << " rows read\n";
+      };
+    }
+    Result<ImportSummary> summary = ImportFile(store, kind, file, options);
+    if (!summary.ok()) {
+      Fail(context, summary.status());
+      exit_code = kExitInput;
+      continue;
+    }
+    if (summary->rolled_back) {
+      *context.err << "medload: " << RollbackMessage(*summary) << "\n";
+      if (exit_code == 0) exit_code = kExitRejected;
+    }
+    summaries.push_back(std::move(summary.value()));
+  }
+  if (!summaries.empty()) WriteSummary(context.format, summaries, *context.out);
+  return exit_code;
+}
+
+int RunImport(Context& context, const std::vector<std::string>& args, InputKind kind) {
+  const std::string usage = "medload import " + std::string(InputKindName(kind)) +
+                            " FILE... [--columns MAP.json] [--date-format iso|dmy|mdy]"
+                            " [--rejects FILE] [--max-reject-rate R]";
+  const po::options_description description = ImportOptionsDescription(kind);
+  int exit_code = 0;
+  const auto vm = ParseOptions(context, usage.c_str(), description, {{"file", -1}}, args, exit_code);
+  if (!vm) return exit_code;
+  if (context.format == Format::kSvg) return Fail(context, Status::Usage("import writes text, csv, json or html"));
+  const std::vector<std::string> files =
+      vm->count("file") != 0U ? (*vm)["file"].as<std::vector<std::string>>() : std::vector<std::string>();
+  if (Status status = CheckFiles(files); !status.ok()) return Fail(context, status);
+  Result<ImportOptions> options = ReadImportOptions(*vm, kind);
+  if (!options.ok()) return Fail(context, options.status());
+  Result<Store> store = Store::Open(context.db_path);
+  if (!store.ok()) return Fail(context, store.status());
+  std::ofstream rejects;
+  if (vm->count("rejects") != 0U) {
+    const std::string path = (*vm)["rejects"].as<std::string>();
+    rejects.open(path, std::ios::binary | std::ios::trunc);
+    if (!rejects) return Fail(context, Status::Input(path + ": cannot write the rejects file"));
+    WriteRejectsHeader(rejects);
+    options->rejects = &rejects;
+  }
+  exit_code = ImportAll(context, *store, kind, files, *options);
+  if (rejects.is_open() && !rejects.flush()) {
+    return Fail(context, Status::Input((*vm)["rejects"].as<std::string>() + ": writing failed"));
+  }
+  return exit_code;
+}
+
+}  // namespace
+
+int RunImportDispensing(Context& context, const std::vector<std::string>& args) {
+  return RunImport(context, args, InputKind::kDispensing);
+}
+
+int RunImportPatients(Context& context, const std::vector<std::string>& args) {
+  return RunImport(context, args, InputKind::kPatients);
+}
+
+int RunImportPractices(Context& context, const std::vector<std::string>& args) {
+  return RunImport(context, args, InputKind::kPractices);
+}
+
+int RunImportReviews(Context& context, const std::vector<std::string>& args) {
+  return RunImport(context, args, InputKind::kReviews);
+}
+
+}  // namespace medload::cli

@@ -1,0 +1,223 @@
+#include <doctest/doctest.h>
+#include <sqlite3.h>
+
+#include <sstream>
+
+#include "medload/store/importer.h"
+#include "medload/store/store.h"
+
+namespace medload {
+namespace {
+
+void Load(Store& store, InputKind kind, const std::string& text) {
+  std::istringstream in(text);
+  Result<ImportSummary> summary = ImportStream(store, kind, in, "test.csv", ImportOptions());
+  REQUIRE(summary.ok());
+  REQUIRE(summary->rejected == 0);
+}
+
+const char* const kDispensing =
+    "record_id,patient_id,practice,dispensed_on,product,code,quantity,days_supply\n"
+    "d1,P2,A1,2024-03-01,Amlodipine 5mg tablets,,28,28\n"
+    "d2,P1,A1,2024-02-01,Sertraline 50mg tablets,,28,28\n"
+    "d3,P1,A1,2024-01-01,Sertraline 50mg tablets,,28,28\n"
+    "d4,P1,A1,2024-01-01,Amlodipine 5mg tablets,,28,28\n"
+    "d5,P4,A2,2024-01-15,,X99,10,\n";
+
+const char* const kPatients =
+    "patient_id,birth_date,sex,practice,registered_from,registered_to\n"
+    "P1,1940,F,A1,2010-01-01,\n"
+    "P3,1950-05-02,M,A2,,2023-12-31\n"
+    "P2,1945-01-01,female,A1,,\n";
+
+Store Loaded() {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  Load(*store, InputKind::kDispensing, kDispensing);
+  Load(*store, InputKind::kPatients, kPatients);
+  return std::move(store.value());
+}
+
+// Marks a dispense as entered in error, as a later FHIR feed would.
+void SetStatus(Store& store, const char* record_id, const char* status) {
+  const std::string sql = std::string("UPDATE dispensings SET status = '") + status +
+                          "' WHERE record_id = '" + record_id + "'";
+  REQUIRE(sqlite3_exec(store.handle(), sql.c_str(), nullptr, nullptr, nullptr) == SQLITE_OK);
+}
+
+}  // namespace
+
+TEST_SUITE("store_read") {
+
+TEST_CASE("one patient's dispensings come in date order, then import order") {
+  Store store = Loaded();
+  Result<std::vector<DispensingRecord>> records = store.DispensingsOf("P1");
+  REQUIRE(records.ok());
+  REQUIRE(records->size() == 3);
+  CHECK((*records)[0].record_id == "d3");  // 2024-01-01, imported before d4
+  CHECK((*records)[1].record_id == "d4");
+  CHECK((*records)[2].record_id == "d2");
+  CHECK((*records)[2].dispensed_on.ToIso() == "2024-02-01");
+  CHECK((*records)[2].product == "Sertraline 50mg tablets");
+  CHECK((*records)[2].quantity == 28);
+  CHECK((*records)[2].days_supply == 28);
+  CHECK(store.DispensingsOf("nobody")->empty());
+}
+
+TEST_CASE("dispenses whose status does not count are kept but not returned for measures") {
+  // Source: HL7 FHIR R4 MedicationDispense.status (value set medicationdispense-status):
+  // only a completed dispense was handed over.
+  Store store = Loaded();
+  SetStatus(store, "d4", "entered-in-error");
+  SetStatus(store, "d3", "completed");
+  Result<std::vector<DispensingRecord>> counting = store.DispensingsOf("P1");
+  REQUIRE(counting.ok());
+  REQUIRE(counting->size() == 2);
+  CHECK((*counting)[0].record_id == "d3");
+  CHECK((*counting)[1].record_id == "d2");
+  Result<std::vector<DispensingRecord>> all = store.AllDispensingsOf("P1");
+  REQUIRE(all.ok());
+  CHECK(all->size() == 3);
+  Result<StoreSummary> summary = store.Summary();
+  REQUIRE(summary.ok());
+  CHECK(summary->not_counting_dispensings == 1);
+}
+
+TEST_CASE("a patient's registry row reads back with a birth year as 1 July") {
+  Store store = Loaded();
+  Result<std::optional<PatientRecord>> patient = store.PatientOf("P1");
+  REQUIRE(patient.ok());
+  REQUIRE(patient->has_value());
+  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // spec section 5
+  CHECK((*patient)->birth_year_only);
+  CHECK((*patient)->sex == "female");
+  CHECK((*patient)->registered_from->ToIso() == "2010-01-01");
+  CHECK_FALSE((*patient)->registered_to.has_value());
+  CHECK_FALSE(store.PatientOf("P4")->has_value());
+}
+
+TEST_CASE("every patient is visited once in id order with registry row and dispensings") {
+  Store store = Loaded();
+  std::vector<std::string> ids;
+  std::vector<size_t> counts;
+  std::vector<bool> registered;
+  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+    ids.push_back(history.patient_id);
+    counts.push_back(history.dispensings.size());
+    registered.push_back(history.registry.has_value());
+    for (size_t i = 1; i < history.dispensings.size(); ++i) {
+      CHECK(history.dispensings[i - 1].dispensed_on <= history.dispensings[i].dispensed_on);
+    }
+    for (const DispensingRecord& record : history.dispensings) CHECK(record.patient_id == history.patient_id);
+    return true;
+  });
+  REQUIRE(status.ok());
+  CHECK(ids == std::vector<std::string>{"P1", "P2", "P3", "P4"});
+  CHECK(counts == std::vector<size_t>{3, 1, 0, 1});
+  CHECK(registered == std::vector<bool>{true, true, true, false});
+}
+
+TEST_CASE("a patient whose only dispensings do not count is visited only through the registry") {
+  Store store = Loaded();
+  SetStatus(store, "d5", "cancelled");  // P4 has no registry row and nothing counting
+  SetStatus(store, "d1", "cancelled");  // P2 keeps the registry row
+  std::vector<std::string> ids;
+  REQUIRE(store.ForEachPatient([&](const PatientHistory& history) {
+                 ids.push_back(history.patient_id);
+                 if (history.patient_id == "P2") CHECK(history.dispensings.empty());
+                 return true;
+               }).ok());
+  CHECK(ids == std::vector<std::string>{"P1", "P2", "P3"});
+}
+
+TEST_CASE("the visit stops when the callback returns false") {
+  Store store = Loaded();
+  int visits = 0;
+  REQUIRE(store.ForEachPatient([&](const PatientHistory&) { return ++visits < 2; }).ok());
+  CHECK(visits == 2);
+}
+
+TEST_CASE("the pass over every patient reads the index in order without sorting") {
+  Store store = Loaded();
+  sqlite3_stmt* stmt = nullptr;
+  const char* sql =
+      "EXPLAIN QUERY PLAN SELECT * FROM dispensings WHERE status IN ('', 'completed')"
+      " ORDER BY patient_id, dispensed_on, id";
+  REQUIRE(sqlite3_prepare_v2(store.handle(), sql, -1, &stmt, nullptr) == SQLITE_OK);
+  std::string plan;
+  while (sqlite3_step(stmt) == SQLITE_ROW) {
+    plan += reinterpret_cast<const char*>(sqlite3_column_text(stmt, 3));
+    plan += "\n";
+  }
+  sqlite3_finalize(stmt);
+  CAPTURE(plan);
+  CHECK(plan.find("dispensings_by_patient") != std::string::npos);
+  CHECK(plan.find("TEMP B-TREE") == std::string::npos);
+}
+
+TEST_CASE("practices and reviews read back in key order") {
+  Store store = Loaded();
+  Load(store, InputKind::kPractices, "practice,name,network,list_size\nB2,Brook Lane,North,\nA1,Ash Row,North,9000\n");
+  Load(store, InputKind::kReviews, "patient_id,reviewed_on\nP2,2024-02-01\nP1,2024-03-01\nP1,2023-03-01\n");
+  Result<std::vector<PracticeRecord>> practices = store.Practices();
+  REQUIRE(practices.ok());
+  REQUIRE(practices->size() == 2);
+  CHECK((*practices)[0].practice == "A1");
+  CHECK((*practices)[0].list_size == 9000);
+  CHECK_FALSE((*practices)[1].list_size.has_value());
+  Result<std::vector<ReviewRecord>> reviews = store.ReviewsOf("P1");
+  REQUIRE(reviews.ok());
+  REQUIRE(reviews->size() == 2);
+  CHECK((*reviews)[0].reviewed_on.ToIso() == "2023-03-01");
+  CHECK((*reviews)[1].reviewed_on.ToIso() == "2024-03-01");
+  CHECK(store.Reviews()->size() == 3);
+}
+
+TEST_CASE("product counts list distinct products by items, with distinct patients") {
+  Store store = Loaded();
+  Result<std::vector<ProductCount>> counts = store.ProductCounts();
+  REQUIRE(counts.ok());
+  REQUIRE(counts->size() == 3);
+  CHECK((*counts)[0].product == "Amlodipine 5mg tablets");
+  CHECK((*counts)[0].items == 2);
+  CHECK((*counts)[0].patients == 2);
+  CHECK((*counts)[1].product == "Sertraline 50mg tablets");
+  CHECK((*counts)[1].items == 2);
+  CHECK((*counts)[1].patients == 1);
+  CHECK((*counts)[2].code == "X99");
+}
+
+TEST_CASE("the summary gives the date span of counting dispensings and every table's size") {
+  Store store = Loaded();
+  SetStatus(store, "d1", "stopped");
+  Result<StoreSummary> summary = store.Summary();
+  REQUIRE(summary.ok());
+  CHECK(summary->earliest_dispensed->ToIso() == "2024-01-01");
+  CHECK(summary->latest_dispensed->ToIso() == "2024-02-01");  // d1 (March) no longer counts
+  CHECK(summary->dispensings == 5);
+  CHECK(summary->counting_dispensings == 4);
+  CHECK(summary->patients == 3);
+  CHECK(summary->import_runs == 2);
+  Result<std::vector<ImportRunRecord>> runs = store.ImportRuns();
+  REQUIRE(runs.ok());
+  REQUIRE(runs->size() == 2);
+  CHECK((*runs)[0].kind == "dispensing");
+  CHECK((*runs)[0].outcome == "committed");
+  CHECK((*runs)[0].imported == 5);
+}
+
+TEST_CASE("an empty store has no date span") {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  Result<StoreSummary> summary = store->Summary();
+  REQUIRE(summary.ok());
+  CHECK_FALSE(summary->earliest_dispensed.has_value());
+  CHECK(summary->dispensings == 0);
+  int visits = 0;
+  REQUIRE(store->ForEachPatient([&](const PatientHistory&) { return ++visits > 0; }).ok());
+  CHECK(visits == 0);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload

@@ -1,0 +1,188 @@
+#include "medload/store/store.h"
+
+#include <doctest/doctest.h>
+#include <sqlite3.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <thread>
+
+#include "store/temp_folder.h"
+
+namespace medload {
+namespace {
+
+// Runs SQL on a separate raw connection (to look at the file as another program would).
+std::string QueryText(const std::string& path, const char* sql) {
+  sqlite3* db = nullptr;
+  sqlite3_open_v2(path.c_str(), &db, SQLITE_OPEN_READONLY, nullptr);
+  sqlite3_stmt* stmt = nullptr;
+  std::string result;
+  if (sqlite3_prepare_v2(db, sql, -1, &stmt, nullptr) == SQLITE_OK && sqlite3_step(stmt) == SQLITE_ROW) {
+    const unsigned char* text = sqlite3_column_text(stmt, 0);
+    result = text != nullptr ? reinterpret_cast<const char*>(text) : "";
+  }
+  sqlite3_finalize(stmt);
+  sqlite3_close(db);
+  return result;
+}
+
+void ExecRaw(const std::string& path, const char* sql) {
+  sqlite3* db = nullptr;
+  sqlite3_open(path.c_str(), &db);
+  sqlite3_exec(db, sql, nullptr, nullptr, nullptr);
+  sqlite3_close(db);
+}
+
+}  // namespace
+
+TEST_SUITE("store") {
+
+TEST_CASE("opening a new store creates the schema at the current version in WAL mode") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+    Result<int> version = store->SchemaVersion();
+    REQUIRE(version.ok());
+    CHECK(*version == kStoreSchemaVersion);
+  }
+  CHECK(QueryText(path, "PRAGMA journal_mode") == "wal");
+  for (const char* table : {"practices", "patients", "dispensings", "reviews", "import_runs",
+                            "rejected_rows", "product_resolutions", "runs"}) {
+    CAPTURE(table);
+    const std::string sql =
+        std::string("SELECT name FROM sqlite_schema WHERE type = 'table' AND name = '") + table + "'";
+    CHECK(QueryText(path, sql.c_str()) == table);
+  }
+  CHECK(QueryText(path, "SELECT name FROM sqlite_schema WHERE name = 'dispensings_by_patient'") ==
+        "dispensings_by_patient");
+}
+
+TEST_CASE("reopening a store keeps its data and does not migrate again") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+    REQUIRE(store->SaveRun("cohort", "items>=10", "2024-01-31", "{\"n\":1}").ok());
+  }
+  Result<Store> again = Store::Open(path);
+  REQUIRE(again.ok());
+  Result<std::optional<std::string>> run = again->LatestRun("cohort", "items>=10", "2024-02-29");
+  REQUIRE(run.ok());
+  CHECK(run->value_or("") == "{\"n\":1}");
+}
+
+TEST_CASE("a store in a folder that does not exist is an input error naming the path") {
+  TempFolder folder;
+  const std::string path = folder.File("no-such-folder/medload.db");
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().code() == StatusCode::kInput);
+  CHECK(store.status().message().find(path) != std::string::npos);
+}
+
+TEST_CASE("a read-only store file is an input error naming the path") {
+  if (geteuid() == 0) {
+    MESSAGE("skipped: file permissions do not bind the superuser");
+    return;
+  }
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  { REQUIRE(Store::Open(path).ok()); }
+  REQUIRE(::chmod(path.c_str(), 0444) == 0);
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().code() == StatusCode::kInput);
+  CHECK(store.status().message().find(path) != std::string::npos);
+}
+
+TEST_CASE("a file that is not a SQLite database is an input error naming the path") {
+  TempFolder folder;
+  const std::string path = folder.Write("notes.db", std::string(4096, 'x'));
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().code() == StatusCode::kInput);
+  CHECK(store.status().message().find(path) != std::string::npos);
+}
+
+TEST_CASE("a store from a newer medload is refused rather than damaged") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  { REQUIRE(Store::Open(path).ok()); }
+  ExecRaw(path, "PRAGMA user_version = 99");
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().message().find("schema version 99") != std::string::npos);
+}
+
+TEST_CASE("must_exist refuses a missing store without creating it") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  StoreOptions options;
+  options.must_exist = true;
+  Result<Store> store = Store::Open(path, options);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().message().find(path) != std::string::npos);
+  struct stat info {};
+  CHECK(::stat(path.c_str(), &info) != 0);
+}
+
+TEST_CASE("two processes' worth of connections can open a new store at the same time") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  bool ok[4] = {};
+  std::vector<std::thread> threads;
+  for (bool& result : ok) {
+    threads.emplace_back([&path, &result] { result = Store::Open(path).ok(); });
+  }
+  for (std::thread& thread : threads) thread.join();
+  for (bool result : ok) CHECK(result);
+  CHECK(QueryText(path, "PRAGMA user_version") == std::to_string(kStoreSchemaVersion));
+}
+
+TEST_CASE("a saved resolution is found only under its own key and checksum") {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  REQUIRE(store->SaveResolution("Amlodipine 5mg tablets", "", "", "sum1", "{\"a\":1}").ok());
+  auto hit = store->CachedResolution("Amlodipine 5mg tablets", "", "", "sum1");
+  REQUIRE(hit.ok());
+  CHECK(hit->value_or("") == "{\"a\":1}");
+  auto other_checksum = store->CachedResolution("Amlodipine 5mg tablets", "", "", "sum2");
+  REQUIRE(other_checksum.ok());
+  CHECK_FALSE(other_checksum->has_value());
+  auto other_code = store->CachedResolution("Amlodipine 5mg tablets", "X1", "", "sum1");
+  REQUIRE(other_code.ok());
+  CHECK_FALSE(other_code->has_value());
+  REQUIRE(store->SaveResolution("Amlodipine 5mg tablets", "", "", "sum1", "{\"a\":2}").ok());
+  CHECK(store->CachedResolution("Amlodipine 5mg tablets", "", "", "sum1")->value_or("") == "{\"a\":2}");
+}
+
+TEST_CASE("the latest run is the newest one strictly before the date, and saves replace") {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  REQUIRE(store->SaveRun("report", "net", "2024-01-31", "jan").ok());
+  REQUIRE(store->SaveRun("report", "net", "2024-02-29", "feb").ok());
+  REQUIRE(store->SaveRun("report", "other", "2024-03-31", "other").ok());
+  CHECK(store->LatestRun("report", "net", "2024-03-31")->value_or("") == "feb");
+  CHECK(store->LatestRun("report", "net", "2024-02-29")->value_or("") == "jan");
+  CHECK_FALSE(store->LatestRun("report", "net", "2024-01-31")->has_value());
+  REQUIRE(store->SaveRun("report", "net", "2024-02-29", "feb again").ok());
+  CHECK(store->LatestRun("report", "net", "2024-12-31")->value_or("") == "feb again");
+}
+
+TEST_CASE("a moved store keeps working and the moved-from one is empty") {
+  Result<Store> opened = Store::Open(":memory:");
+  REQUIRE(opened.ok());
+  Store store = std::move(opened.value());
+  Store moved = std::move(store);
+  CHECK(moved.handle() != nullptr);
+  CHECK(store.handle() == nullptr);  // NOLINT(bugprone-use-after-move): checking the contract
+  CHECK(moved.SaveRun("k", "key", "2024-01-01", "{}").ok());
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
