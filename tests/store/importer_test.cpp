@@ -1,0 +1,427 @@
+#include "medload/store/importer.h"
+
+#include <doctest/doctest.h>
+#include <signal.h>
+#include <sqlite3.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <sstream>
+#include <thread>
+
+#include "store/temp_folder.h"
+
+namespace medload {
+namespace {
+
+Result<ImportSummary> Import(Store& store, InputKind kind, const std::string& text,
+                             const ImportOptions& options = {}) {
+  std::istringstream in(text);
+  return ImportStream(store, kind, in, "dispensing.csv", options);
+}
+
+Store Memory() {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  return std::move(store.value());
+}
+
+long Count(const Store& store, const char* sql) {
+  sqlite3_stmt* stmt = nullptr;
+  REQUIRE(sqlite3_prepare_v2(store.handle(), sql, -1, &stmt, nullptr) == SQLITE_OK);
+  REQUIRE(sqlite3_step(stmt) == SQLITE_ROW);
+  const long value = static_cast<long>(sqlite3_column_int64(stmt, 0));
+  sqlite3_finalize(stmt);
+  return value;
+}
+
+void CheckAddsUp(const ImportSummary& summary) {
+  CHECK(summary.read == summary.imported + summary.duplicates + summary.rejected);
+  long by_reason = 0;
+  for (const auto& [reason, count] : summary.reasons) by_reason += count;
+  CHECK(by_reason == summary.rejected);
+}
+
+// `rows` valid dispensing rows with record ids starting at `first`.
+std::string DispensingFile(int first, int rows) {
+  std::string text = "record_id,patient_id,dispensed_on,product,quantity,days_supply\n";
+  for (int i = first; i < first + rows; ++i) {
+    text += "R" + std::to_string(i) + ",P" + std::to_string(i % 97) + ",2024-01-" +
+            std::to_string(1 + i % 28) + ",Amlodipine 5mg tablets,28,28\n";
+  }
+  return text;
+}
+
+const char* const kMixed =
+    "record_id,patient_id,practice,dispensed_on,product,quantity,days_supply\n"
+    "R1,P1,A1,2024-01-05,Amlodipine 5mg tablets,28,28\n"
+    "R2,P1,A1,2024-01-05,Sertraline 50mg tablets,28,28\n"
+    "\n"
+    "R3,,A1,2024-01-05,Sertraline 50mg tablets,28,28\n"
+    "R4,P2,A1,2024-01-32,Sertraline 50mg tablets,28,28\n"
+    "R5,P2,A1,2024-01-05,Sertraline 50mg tablets,lots,28\n"
+    "R1,P1,A1,2024-01-05,Amlodipine 5mg tablets,28,28\n"
+    "R6,P3,A1,2024-01-05,\"Co-codamol 30mg/500mg tablets\",100,25\n"
+    "R7,P3,A1,2024-01-05,Omeprazole 20mg capsules,28\n";
+
+}  // namespace
+
+TEST_SUITE("importer") {
+
+TEST_CASE("every row read is imported, a duplicate or rejected, and the counts add up") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, kMixed, options);
+  REQUIRE(summary.ok());
+  CHECK(summary->read == 8);
+  CHECK(summary->imported == 3);
+  CHECK(summary->duplicates == 1);
+  CHECK(summary->rejected == 4);
+  CHECK(summary->blank_lines == 1);
+  CHECK(summary->reasons == std::map<std::string, long>{
+                                {"bad_date", 1}, {"bad_quantity", 1}, {"field_count", 1}, {"missing_patient", 1}});
+  CheckAddsUp(*summary);
+  CHECK(summary->examples.front() == "dispensing.csv:5: patient_id: is empty");
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings") == 3);
+  CHECK(Count(store, "SELECT COUNT(*) FROM rejected_rows") == 4);
+  CHECK(Count(store, "SELECT line FROM rejected_rows ORDER BY line LIMIT 1") == 5);
+  CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'R6'") == 9);
+}
+
+TEST_CASE("importing the same file twice imports nothing new") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> first = Import(store, InputKind::kDispensing, kMixed, options);
+  Result<ImportSummary> second = Import(store, InputKind::kDispensing, kMixed, options);
+  REQUIRE(first.ok());
+  REQUIRE(second.ok());
+  CHECK(second->imported == 0);
+  CHECK(second->duplicates == first->imported + first->duplicates);
+  CHECK(second->rejected == first->rejected);
+  CheckAddsUp(*second);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings") == 3);
+}
+
+TEST_CASE("rows without a record id are duplicates when their normalised content is the same") {
+  Store store = Memory();
+  const std::string file =
+      "patient_id,dispensed_on,product,quantity,dosage\n"
+      "P1,2024-01-05,Amlodipine 5mg tablets,28,one daily\n"
+      "P1,2024-01-05,  AMLODIPINE  5mg   tablets ,28.0,One  daily\n"
+      "P1,2024-01-05,Amlodipine 5mg tablets,56,one daily\n"
+      "P1,2024-01-06,Amlodipine 5mg tablets,28,one daily\n";
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, file);
+  REQUIRE(summary.ok());
+  CHECK(summary->imported == 3);
+  CHECK(summary->duplicates == 1);
+}
+
+TEST_CASE("the duplicate key is the record id when there is one, else a content hash") {
+  DispensingRecord a;
+  a.patient_id = "P1";
+  a.dispensed_on = Date::FromCivil(2024, 1, 5);
+  a.product = "Amlodipine 5mg tablets";
+  a.quantity = 28;
+  DispensingRecord b = a;
+  b.product = " amlodipine 5MG  tablets";
+  CHECK(DispensingKey(a) == DispensingKey(b));
+  CHECK(DispensingKey(a).size() == 2 + 32);
+  CHECK(DispensingKey(a).rfind("h:", 0) == 0);
+  b.quantity = 56;
+  CHECK(DispensingKey(a) != DispensingKey(b));
+  b = a;
+  b.days_supply = 28;
+  CHECK(DispensingKey(a) != DispensingKey(b));
+  b = a;
+  b.practice = "A2";
+  CHECK(DispensingKey(a) != DispensingKey(b));
+  b = a;
+  b.dosage = "one daily";
+  CHECK(DispensingKey(a) != DispensingKey(b));
+  a.record_id = "RX-1";
+  CHECK(DispensingKey(a) == "r:RX-1");
+}
+
+TEST_CASE("a file whose reject rate is above the limit is rolled back whole") {
+  Store store = Memory();
+  // 1 of 10 rows rejected: 0.1 is above 0.05 (the default) but not above 0.1.
+  std::string file = DispensingFile(1, 9) + "R99,P1,2024-01-01,Amlodipine 5mg tablets,0,28\n";
+  Result<ImportSummary> rolled = Import(store, InputKind::kDispensing, file);
+  REQUIRE(rolled.ok());
+  CHECK(rolled->rolled_back);
+  CHECK(rolled->read == 10);
+  CheckAddsUp(*rolled);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings") == 0);
+  CHECK(Count(store, "SELECT COUNT(*) FROM rejected_rows") == 0);
+  CHECK(Count(store, "SELECT COUNT(*) FROM import_runs WHERE outcome = 'rolled_back'") == 1);
+  CHECK(RollbackMessage(*rolled) ==
+        "dispensing.csv: 1 of 10 rows rejected (10%), above --max-reject-rate 0.05: the file was "
+        "rolled back and nothing from it was stored");
+  ImportOptions at_limit;
+  at_limit.max_reject_rate = 0.1;
+  Result<ImportSummary> kept = Import(store, InputKind::kDispensing, file, at_limit);
+  REQUIRE(kept.ok());
+  CHECK_FALSE(kept->rolled_back);
+  CHECK(kept->imported == 9);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings") == 9);
+}
+
+TEST_CASE("a zero reject rate rolls back on the first rejected row") {
+  Store store = Memory();
+  ImportOptions strict;
+  strict.max_reject_rate = 0;
+  Result<ImportSummary> summary =
+      Import(store, InputKind::kDispensing, DispensingFile(1, 1000) + "R-bad,P1,2024-01-01,X,0,1\n", strict);
+  REQUIRE(summary.ok());
+  CHECK(summary->rolled_back);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings") == 0);
+}
+
+TEST_CASE("a bad header stores nothing and names the missing columns") {
+  Store store = Memory();
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, "patient,date,drug\nP1,2024-01-01,X\n");
+  REQUIRE_FALSE(summary.ok());
+  CHECK(summary.status().code() == StatusCode::kInput);
+  CHECK(summary.status().message().rfind("dispensing.csv:1: header: missing required columns: patient_id", 0) == 0);
+  CHECK(Count(store, "SELECT COUNT(*) FROM import_runs") == 0);
+}
+
+TEST_CASE("an empty input is an input error") {
+  Store store = Memory();
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, "\n\n");
+  REQUIRE_FALSE(summary.ok());
+  CHECK(summary.status().message() == "dispensing.csv: is empty; expected a header row naming the columns");
+}
+
+TEST_CASE("a missing file is an input error naming it") {
+  Store store = Memory();
+  Result<ImportSummary> summary = ImportFile(store, InputKind::kDispensing, "/no/such/file.csv", {});
+  REQUIRE_FALSE(summary.ok());
+  CHECK(summary.status().code() == StatusCode::kInput);
+  CHECK(summary.status().message() == "/no/such/file.csv: cannot be read (missing, or no permission)");
+}
+
+TEST_CASE("rejected rows are written to the rejects stream with line, reason and original text") {
+  Store store = Memory();
+  std::ostringstream rejects;
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  options.rejects = &rejects;
+  REQUIRE(Import(store, InputKind::kDispensing, kMixed, options).ok());
+  const std::string text = rejects.str();
+  CHECK(text.find("dispensing.csv,5,missing_patient,dispensing.csv:5: patient_id: is empty,"
+                  "\"R3,,A1,2024-01-05,Sertraline 50mg tablets,28,28\"\n") != std::string::npos);
+  CHECK(text.find("dispensing.csv,10,field_count,") != std::string::npos);
+}
+
+TEST_CASE("a column mapping and a day-first date order apply to every row") {
+  Store store = Memory();
+  ImportOptions options;
+  options.columns = {{"patient_id", "NHS Number"}, {"dispensed_on", "Date"}, {"quantity", "Qty"}};
+  options.date_order = DateOrder::kDmy;
+  Result<ImportSummary> summary =
+      Import(store, InputKind::kDispensing, "NHS Number,Date,Product,Qty\n943 476 5919,05/01/2024,X,3\n", options);
+  REQUIRE(summary.ok());
+  CHECK(summary->imported == 1);
+  Result<std::vector<DispensingRecord>> records = store.DispensingsOf("943 476 5919");
+  REQUIRE(records.ok());
+  REQUIRE(records->size() == 1);
+  CHECK((*records)[0].dispensed_on.ToIso() == "2024-01-05");
+}
+
+TEST_CASE("progress is reported every N rows") {
+  Store store = Memory();
+  std::vector<long> reports;
+  ImportOptions options;
+  options.progress_every = 100;
+  options.progress = [&](long rows) { reports.push_back(rows); };
+  REQUIRE(Import(store, InputKind::kDispensing, DispensingFile(0, 350), options).ok());
+  CHECK(reports == std::vector<long>{100, 200, 300});
+}
+
+TEST_CASE("FHIR dispenses keep their status, and those that do not count are counted apart") {
+  // Source: HL7 FHIR R4 MedicationDispense.status (value set medicationdispense-status).
+  const auto dispense = [](const char* id, const char* status) {
+    std::string line = std::string(R"({"resourceType":"MedicationDispense","id":")") + id + "\",";
+    if (status != nullptr) line += std::string(R"("status":")") + status + "\",";
+    return line + R"("subject":{"reference":"Patient/P1"},"medicationCodeableConcept":{"text":"X"},)"
+                  R"("quantity":{"value":28},"whenHandedOver":"2024-01-02"})" "\n";
+  };
+  const std::string file = dispense("m1", "completed") + dispense("m2", "entered-in-error") +
+                           dispense("m3", "cancelled") + dispense("m4", nullptr) +
+                           R"({"resourceType":"Patient","id":"P1","birthDate":"1940","gender":"male"})" "\n";
+  Store store = Memory();
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, file);
+  REQUIRE(summary.ok());
+  CHECK(summary->format == "fhir");
+  CHECK(summary->read == 5);
+  CHECK(summary->imported == 5);
+  CHECK(summary->patients == 1);
+  CHECK(summary->not_counted == std::map<std::string, long>{{"cancelled", 1}, {"entered-in-error", 1}});
+  CHECK(store.DispensingsOf("P1")->size() == 2);
+  CHECK(store.AllDispensingsOf("P1")->size() == 4);
+  CHECK(store.PatientOf("P1")->has_value());
+  // The source later marks m1 as entered in error: the stored status follows.
+  Result<ImportSummary> again = Import(store, InputKind::kDispensing, dispense("m1", "entered-in-error"));
+  REQUIRE(again.ok());
+  CHECK(again->imported == 1);
+  CHECK(again->updated == 1);
+  CHECK(store.DispensingsOf("P1")->size() == 1);
+  Result<ImportSummary> same = Import(store, InputKind::kDispensing, file);
+  REQUIRE(same.ok());
+  CHECK(same->imported == 1);  // m1 back to completed
+  CHECK(same->duplicates == 4);
+}
+
+TEST_CASE("FHIR input is refused for practices and reviews, and dispenses in a patients import are rejected") {
+  Store store = Memory();
+  const std::string patient = R"({"resourceType":"Patient","id":"P1"})" "\n";
+  Result<ImportSummary> practices = Import(store, InputKind::kPractices, patient);
+  REQUIRE_FALSE(practices.ok());
+  CHECK(practices.status().message() ==
+        "dispensing.csv: FHIR NDJSON is read for dispensing and patients only; practices must be CSV");
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> patients = Import(
+      store, InputKind::kPatients,
+      patient + R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)"
+                R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      options);
+  REQUIRE(patients.ok());
+  CHECK(patients->imported == 1);
+  CHECK(patients->reasons == std::map<std::string, long>{{"unsupported_resource", 1}});
+}
+
+TEST_CASE("re-importing registry rows updates changed rows and counts unchanged ones as duplicates") {
+  Store store = Memory();
+  const char* header = "patient_id,birth_date,sex,practice\n";
+  REQUIRE(Import(store, InputKind::kPatients, std::string(header) + "P1,1940,F,A1\nP2,1950,M,A1\n").ok());
+  Result<ImportSummary> again =
+      Import(store, InputKind::kPatients, std::string(header) + "P1,1940,F,A1\nP2,1950,M,B2\nP3,1960,F,B2\n");
+  REQUIRE(again.ok());
+  CHECK(again->imported == 2);
+  CHECK(again->updated == 1);
+  CHECK(again->duplicates == 1);
+  CHECK((*store.PatientOf("P2"))->practice == "B2");
+  const char* practices = "practice,name,network,list_size\n";
+  REQUIRE(Import(store, InputKind::kPractices, std::string(practices) + "A1,Ash Row,North,9000\n").ok());
+  Result<ImportSummary> practice_again =
+      Import(store, InputKind::kPractices, std::string(practices) + "A1,Ash Row,North,9100\n");
+  REQUIRE(practice_again.ok());
+  CHECK(practice_again->updated == 1);
+  Result<ImportSummary> reviews = Import(store, InputKind::kReviews,
+                                         "patient_id,reviewed_on\nP1,2024-01-01\nP1,2024-01-01\n");
+  REQUIRE(reviews.ok());
+  CHECK(reviews->imported == 1);
+  CHECK(reviews->duplicates == 1);
+}
+
+TEST_CASE("two imports into one store at the same time both complete") {
+  TempFolder folder;
+  const std::string db = folder.File("medload.db");
+  { REQUIRE(Store::Open(db).ok()); }
+  const std::string a = folder.Write("a.csv", DispensingFile(0, 20000));
+  const std::string b = folder.Write("b.csv", DispensingFile(20000, 20000));
+  long imported[2] = {};
+  bool ok[2] = {};
+  const auto run = [&](int i, const std::string& file) {
+    Result<Store> store = Store::Open(db);
+    if (!store.ok()) return;
+    Result<ImportSummary> summary = ImportFile(*store, InputKind::kDispensing, file, {});
+    ok[i] = summary.ok();
+    if (summary.ok()) imported[i] = summary->imported;
+  };
+  std::thread first(run, 0, a);
+  std::thread second(run, 1, b);
+  first.join();
+  second.join();
+  CHECK(ok[0]);
+  CHECK(ok[1]);
+  CHECK(imported[0] == 20000);
+  CHECK(imported[1] == 20000);
+  Result<Store> store = Store::Open(db);
+  REQUIRE(store.ok());
+  CHECK(store->Summary()->dispensings == 40000);
+}
+
+TEST_CASE("two processes importing into one store at the same time both complete") {
+  TempFolder folder;
+  const std::string db = folder.File("medload.db");
+  { REQUIRE(Store::Open(db).ok()); }
+  const std::string files[2] = {folder.Write("a.csv", DispensingFile(0, 20000)),
+                                folder.Write("b.csv", DispensingFile(20000, 20000))};
+  pid_t children[2] = {};
+  for (int i = 0; i < 2; ++i) {
+    children[i] = fork();
+    REQUIRE(children[i] >= 0);
+    if (children[i] == 0) {
+      Result<Store> store = Store::Open(db);
+      const bool done = store.ok() && ImportFile(*store, InputKind::kDispensing, files[i], {}).ok();
+      _exit(done ? 0 : 1);
+    }
+  }
+  for (pid_t child : children) {
+    int status = 0;
+    REQUIRE(waitpid(child, &status, 0) == child);
+    CHECK(WIFEXITED(status));
+    CHECK(WEXITSTATUS(status) == 0);
+  }
+  Result<Store> store = Store::Open(db);
+  REQUIRE(store.ok());
+  CHECK(store->Summary()->dispensings == 40000);
+}
+
+TEST_CASE("an import killed mid-transaction leaves the store intact and a re-run completes it") {
+  TempFolder folder;
+  const std::string db = folder.File("medload.db");
+  const std::string file = folder.Write("big.csv", DispensingFile(0, 30000));
+  {
+    Result<Store> store = Store::Open(db);
+    REQUIRE(store.ok());
+    REQUIRE(Import(*store, InputKind::kDispensing, DispensingFile(100000, 10)).ok());
+  }
+  int ready[2];
+  REQUIRE(pipe(ready) == 0);
+  const pid_t child = fork();
+  REQUIRE(child >= 0);
+  if (child == 0) {
+    Result<Store> store = Store::Open(db);
+    ImportOptions options;
+    options.progress_every = 20000;  // two thirds through the file, inside its transaction
+    options.progress = [&](long) {
+      const ssize_t written = write(ready[1], "x", 1);
+      (void)written;
+      for (;;) pause();
+    };
+    if (store.ok()) (void)ImportFile(*store, InputKind::kDispensing, file, options);
+    _exit(0);
+  }
+  char signal_byte = 0;
+  REQUIRE(read(ready[0], &signal_byte, 1) == 1);
+  REQUIRE(kill(child, SIGKILL) == 0);
+  int status = 0;
+  REQUIRE(waitpid(child, &status, 0) == child);
+  CHECK(WIFSIGNALED(status));
+  close(ready[0]);
+  close(ready[1]);
+
+  Result<Store> store = Store::Open(db);
+  REQUIRE(store.ok());
+  sqlite3_stmt* check = nullptr;
+  REQUIRE(sqlite3_prepare_v2(store->handle(), "PRAGMA integrity_check", -1, &check, nullptr) == SQLITE_OK);
+  REQUIRE(sqlite3_step(check) == SQLITE_ROW);
+  CHECK(std::string(reinterpret_cast<const char*>(sqlite3_column_text(check, 0))) == "ok");
+  sqlite3_finalize(check);
+  CHECK(store->Summary()->dispensings == 10);  // only the earlier, committed file
+  CHECK(store->Summary()->import_runs == 1);
+  Result<ImportSummary> rerun = ImportFile(*store, InputKind::kDispensing, file, {});
+  REQUIRE(rerun.ok());
+  CHECK(rerun->imported == 30000);
+  CHECK(store->Summary()->dispensings == 30010);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
