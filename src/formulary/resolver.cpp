@@ -264,7 +264,9 @@ std::vector<Strength> ForRoute(std::vector<Strength> strengths, Route route) {
 void ApplyProduct(const NamedProduct& named, const std::vector<Strength>& strengths, ResolvedProduct& product) {
   if (!named.form.empty()) product.form = named.form;
   if (named.route) product.route = *named.route;
-  if (!named.dose_unit.empty()) product.dose_unit = named.dose_unit;
+  // A strength per ml or per g decides the unit its mg refer to; otherwise the table's.
+  const std::string_view per = DoseUnitFromStrengths(strengths);
+  if (!named.dose_unit.empty() && per.empty()) product.dose_unit = named.dose_unit;
   product.default_supply_days = named.supply_days_per_unit;
   std::vector<Mention> mentions;
   for (const std::string& name : named.ingredients) mentions.push_back(Mention{name, 0});
