@@ -1,0 +1,50 @@
+// The cohort counts made ready to show: one row per census date and group with counts,
+// crude rates per 1000 and ESP 2013 standardised rates, after small-number suppression.
+// It does no counting (cohort.h) and no formatting (cohort_writer.h).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "medload/cohort/cohort.h"
+
+namespace medload {
+
+// One criterion (or "any") in one row. Absent values are suppressed or undefined.
+struct CohortValue {
+  std::optional<long> count;        // null when suppressed
+  std::optional<double> rate;       // per 1000 registered; null when suppressed or none registered
+  std::optional<StandardisedRate> standardised;  // per 1000, ESP 2013; null likewise
+};
+
+struct CohortRow {
+  Date date;
+  std::string group;
+  long registered = 0;
+  long registered_known_age = 0;    // the population the standardised rate rests on
+  std::vector<CohortValue> values;  // per key of CohortTable::keys
+};
+
+struct CohortTable {
+  std::vector<std::string> criteria;  // criterion keys
+  std::vector<std::string> keys;      // criteria, then "any"
+  std::vector<Date> dates;
+  std::vector<std::string> groups;    // sorted
+  GroupBy group_by = GroupBy::kPractice;
+  std::string measure;
+  long suppress_below = 0;
+  bool complete = true;               // false when a merge lacked some shards
+  std::string shards;                 // e.g. "1/1", "3 of 4 shards"
+  std::vector<CohortRow> rows;        // by date, then group
+};
+
+// Small-number suppression: a count c with 0 < c < suppress_below is withheld (null), and
+// so are its crude and standardised rates. Zero is shown. Registered counts (list sizes)
+// are shown. suppress_below <= 1 suppresses nothing.
+bool IsSuppressed(long count, long suppress_below);
+
+// Builds the table from a tally: rows for every date and every group seen on any date.
+CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below);
+
+}  // namespace medload

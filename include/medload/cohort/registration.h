@@ -1,0 +1,28 @@
+// Who is on a practice's registered list on a census date (the cohort denominator rule of
+// spec section 5), from one patient's history. Pure; it does not look at medicines.
+#pragma once
+
+#include <optional>
+#include <string>
+
+#include "medload/core/date.h"
+#include "medload/store/store.h"
+
+namespace medload {
+
+// Days that a dispensing keeps a patient without a registry row on a practice's list: the
+// dispensing must fall in the 365 days ending on the census date (D-364 to D inclusive,
+// the same counting of "N days ending on D" as the lookback window).
+inline constexpr int kUnregisteredActivityDays = 365;
+
+// The practice at which the patient counts as registered on `on`, or nullopt when they are
+// not registered that day.
+// - With a registry row: its practice, when registered_from <= on <= registered_to (an
+//   absent bound is open).
+// - Without one: the practice of their latest counting dispensing on or before `on`, when
+//   that dispensing falls in the kUnregisteredActivityDays ending on `on`. That practice may
+//   be the empty string when the record did not name one.
+// REQUIRES: history.dispensings in date order (as Store::ForEachPatient gives them).
+std::optional<std::string> RegisteredPractice(const PatientHistory& history, Date on);
+
+}  // namespace medload

@@ -1,0 +1,152 @@
+// `medload cohort`: counts and rates per group per census date, one pass over the store;
+// `--shard K/N` counts one shard of the patients and `--merge FILES...` adds shard outputs.
+#include <fstream>
+#include <ostream>
+
+#include "cli/measure_flags.h"
+#include "medload/burden/analysis.h"
+#include "medload/cohort/cohort.h"
+#include "medload/cohort/cohort_table.h"
+#include "medload/cohort/cohort_writer.h"
+#include "medload/cohort/series.h"
+#include "medload/store/store.h"
+
+namespace medload::cli {
+namespace {
+
+constexpr const char* kUsage =
+    "medload cohort --from D --to D [--every month|quarter|year] [--on D] [--by GROUP]\n"
+    "       [--suppress-below N] [--shard K/N] [criteria] [measure options]\n"
+    "       medload cohort --merge FILE... [--suppress-below N]";
+
+Result<std::vector<Date>> ReadDates(const po::variables_map& vm) {
+  if (vm.count("on") != 0U) {
+    if (vm.count("from") != 0U || vm.count("to") != 0U) {
+      return Status::Usage("give either --on DATE or --from and --to, not both");
+    }
+    auto on = ReadDateFlag(vm, "on");
+    if (!on.ok()) return on.status();
+    return std::vector<Date>{*on};
+  }
+  auto from = ReadDateFlag(vm, "from");
+  if (!from.ok()) return from.status();
+  auto to = ReadDateFlag(vm, "to");
+  if (!to.ok()) return to.status();
+  const std::string every = vm["every"].as<std::string>();
+  const std::optional<SeriesStep> step = ParseSeriesStep(every);
+  if (!step) return Status::Usage("--every \"" + every + "\" is not month, quarter or year");
+  return SeriesDates(*from, *to, *step);
+}
+
+Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
+  CohortOptions options;
+  auto dates = ReadDates(vm);
+  if (!dates.ok()) return dates.status();
+  options.dates = std::move(*dates);
+  const std::string by = vm["by"].as<std::string>();
+  const std::optional<GroupBy> group_by = ParseGroupBy(by);
+  if (!group_by) {
+    return Status::Usage("--by \"" + by + "\" is not practice, network, age-band, sex or none");
+  }
+  options.group_by = *group_by;
+  auto criteria = ReadCriteriaFlags(vm);
+  if (!criteria.ok()) return criteria.status();
+  options.criteria = std::move(*criteria);
+  // Without criteria the cohort counts the spec's first example, ten or more medicines.
+  if (options.criteria.empty()) options.criteria.push_back(*ParseCriterion("items=10"));
+  if (vm.count("shard") != 0U) {
+    auto shard = ParseShard(vm["shard"].as<std::string>());
+    if (!shard.ok()) return shard.status();
+    options.shard = *shard;
+  }
+  return options;
+}
+
+Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
+  std::vector<CohortTally> tallies;
+  for (const std::string& file : files) {
+    std::ifstream in(file);
+    if (!in) return Status::Input(file + ": cannot be read");
+    nlohmann::json document = nlohmann::json::parse(in, nullptr, false);
+    if (document.is_discarded()) return Status::Input(file + ": not a JSON document");
+    auto tally = TallyFromJson(document, file);
+    if (!tally.ok()) return tally.status();
+    tallies.push_back(std::move(*tally));
+  }
+  return MergeTallies(tallies, files);
+}
+
+Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm) {
+  auto options = ReadCohortOptions(vm);
+  if (!options.ok()) return options.status();
+  auto measure = ReadMeasureFlags(vm);
+  if (!measure.ok()) return measure.status();
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  if (!store.ok()) return store.status();
+  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  if (!analysis.ok()) return analysis.status();
+  if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
+    return status;
+  }
+  return medload::RunCohort(*store, *analysis, *options);
+}
+
+void Write(const Context& context, const CohortTable& table, const CohortTally& tally) {
+  switch (context.format) {
+    case Format::kJson: {
+      // The raw tally would undo suppression, so it is only written when nothing is withheld.
+      const CohortTally* raw = table.suppress_below <= 1 ? &tally : nullptr;
+      *context.out << CohortJson(table, raw).dump(2) << "\n";
+      break;
+    }
+    case Format::kCsv: WriteCohortCsv(*context.out, table); break;
+    case Format::kHtml: WriteCohortHtml(*context.out, table); break;
+    case Format::kText:
+    case Format::kSvg: WriteCohortText(*context.out, table); break;
+  }
+}
+
+}  // namespace
+
+int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
+  po::options_description options("cohort options");
+  options.add_options()
+      ("from", po::value<std::string>(), "first date of the series (YYYY-MM-DD)")
+      ("to", po::value<std::string>(), "last date of the series (YYYY-MM-DD)")
+      ("every", po::value<std::string>()->default_value("month"),
+       "month, quarter or year: census dates are the period ends from --from to --to")
+      ("on", po::value<std::string>(), "one census date instead of a series")
+      ("by", po::value<std::string>()->default_value("practice"),
+       "groups: practice, network, age-band (0-17, 18-49, 50-64, 65-74, 75-84, 85+), sex, none")
+      ("suppress-below", po::value<long>()->default_value(0),
+       "withhold counts from 1 to N-1 and their rates (0: no suppression)")
+      ("shard", po::value<std::string>(), "K/N: count only the patients of shard K of N")
+      ("merge", po::bool_switch(), "add the JSON outputs of shard runs given as FILE arguments");
+  AddCriteriaFlags(options);
+  AddMeasureFlags(options);
+  int exit_code = 0;
+  auto vm = ParseOptions(context, kUsage, options, {{"file", -1}}, args, exit_code);
+  if (!vm) return exit_code;
+  auto fail = [&](const Status& status) {
+    *context.err << "medload: " << status.message() << "\n";
+    return status.exit_code();
+  };
+  const long suppress_below = (*vm)["suppress-below"].as<long>();
+  if (suppress_below < 0) return fail(Status::Usage("--suppress-below must be 0 or more"));
+  const bool merge = (*vm)["merge"].as<bool>();
+  const bool has_files = vm->count("file") != 0U;
+  if (context.format == Format::kSvg) return fail(Status::Usage("cohort writes text, csv, json or html"));
+  if (!merge && has_files) return fail(Status::Usage("file arguments are only taken with --merge"));
+  if (merge && !has_files) return fail(Status::Usage("--merge needs one or more cohort JSON files"));
+  auto tally = merge ? MergeFiles((*vm)["file"].as<std::vector<std::string>>())
+                     : CountFromStore(context, *vm);
+  if (!tally.ok()) return fail(tally.status());
+  const CohortTable table = BuildCohortTable(*tally, suppress_below);
+  if (!table.complete && !context.quiet) {
+    *context.err << "medload: note: only " << table.shards << " are in this result\n";
+  }
+  Write(context, table, *tally);
+  return 0;
+}
+
+}  // namespace medload::cli

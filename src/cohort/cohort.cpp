@@ -1,0 +1,152 @@
+#include "medload/cohort/cohort.h"
+
+#include <optional>
+#include <utility>
+
+#include "medload/burden/analysis.h"
+#include "medload/cohort/registration.h"
+
+namespace medload {
+
+CohortCounter::CohortCounter(const CohortOptions& options,
+                             std::map<std::string, std::string> networks, std::string measure)
+    : options_(options), networks_(std::move(networks)) {
+  for (const Criterion& criterion : options_.criteria) tally_.criteria.push_back(criterion.Key());
+  tally_.dates = options_.dates;
+  tally_.group_by = options_.group_by;
+  tally_.measure = std::move(measure);
+  tally_.shard_count = options_.shard.count;
+  tally_.shards.insert(options_.shard.index);
+}
+
+bool CohortCounter::Wants(const PatientHistory& history) const {
+  return InShard(history.patient_id, options_.shard);
+}
+
+CohortCell& CohortCounter::CellOf(const std::string& group, size_t date_index) {
+  auto [it, added] = tally_.groups.try_emplace(group);
+  if (added) {
+    const size_t keys = options_.criteria.size() + 1;
+    CohortCell empty;
+    empty.counts.assign(keys, 0);
+    empty.counts_by_band.assign(keys, std::array<long, kEspBands>{});
+    it->second.assign(options_.dates.size(), empty);
+  }
+  return it->second[date_index];
+}
+
+void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burden) {
+  if (!Wants(history)) return;
+  ++tally_.patients;
+  const std::string_view sex = history.registry ? std::string_view(history.registry->sex) : "";
+  for (size_t d = 0; d < options_.dates.size(); ++d) {
+    const Date on = options_.dates[d];
+    std::optional<std::string> practice = RegisteredPractice(history, on);
+    if (!practice) continue;
+    const std::optional<int> age = AgeOn(history.registry, on);
+    const std::string group =
+        GroupOf(options_.group_by, GroupFacts{*practice, age, sex}, networks_);
+    CohortCell& cell = CellOf(group, d);
+    const std::optional<size_t> band =
+        age && *age >= 0 ? std::optional<size_t>(EspBandOf(*age)) : std::nullopt;
+    ++cell.registered;
+    if (band) ++cell.registered_by_band[*band];
+    if (options_.criteria.empty()) continue;
+    const Burden value = burden(on, age);
+    bool any = false;
+    for (size_t c = 0; c <= options_.criteria.size(); ++c) {
+      const bool met = c < options_.criteria.size() ? options_.criteria[c].Met(value) : any;
+      any = any || met;
+      if (!met) continue;
+      ++cell.counts[c];
+      if (band) ++cell.counts_by_band[c][*band];
+    }
+  }
+}
+
+Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+                              const CohortOptions& options) {
+  auto practices = store.Practices();
+  if (!practices.ok()) return practices.status();
+  std::map<std::string, std::string> networks;
+  for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
+  CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
+  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+    if (!counter.Wants(history)) return true;
+    // Built on the first date that needs it, then reused for every later date.
+    std::optional<Timeline> timeline;
+    counter.Add(history, [&](Date on, std::optional<int> age) {
+      if (!timeline) timeline = analysis.BuildTimeline(history.dispensings);
+      return analysis.Evaluate(*timeline, on, age);
+    });
+    return true;
+  });
+  if (!status.ok()) return status;
+  return counter.Take();
+}
+
+namespace {
+
+Status CheckSameRun(const CohortTally& first, const CohortTally& other, const std::string& name) {
+  auto fault = [&](const std::string& what) {
+    return Status::Input(name + ": " + what + " differ from the first file's; merge only the "
+                         "shards of one cohort run");
+  };
+  if (other.criteria != first.criteria) return fault("criteria");
+  if (other.dates != first.dates) return fault("census dates");
+  if (other.group_by != first.group_by) return fault("groups (--by)");
+  if (other.measure != first.measure) return fault("measure options");
+  if (other.shard_count != first.shard_count) return fault("shard counts (N of --shard K/N)");
+  return Status::Ok();
+}
+
+void AddCell(CohortCell& into, const CohortCell& from) {
+  into.registered += from.registered;
+  for (size_t b = 0; b < kEspBands; ++b) into.registered_by_band[b] += from.registered_by_band[b];
+  for (size_t k = 0; k < into.counts.size() && k < from.counts.size(); ++k) {
+    into.counts[k] += from.counts[k];
+    for (size_t b = 0; b < kEspBands; ++b) into.counts_by_band[k][b] += from.counts_by_band[k][b];
+  }
+}
+
+}  // namespace
+
+Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
+                                 const std::vector<std::string>& names) {
+  if (tallies.empty()) return Status::Usage("nothing to merge");
+  CohortTally merged = tallies.front();
+  for (size_t i = 1; i < tallies.size(); ++i) {
+    const CohortTally& other = tallies[i];
+    if (Status status = CheckSameRun(merged, other, names[i]); !status.ok()) return status;
+    for (const uint32_t shard : other.shards) {
+      if (!merged.shards.insert(shard).second) {
+        return Status::Input(names[i] + ": shard " + std::to_string(shard) + "/" +
+                             std::to_string(other.shard_count) +
+                             " is already in an earlier file; each shard may be merged once");
+      }
+    }
+    merged.patients += other.patients;
+    for (const auto& [group, cells] : other.groups) {
+      auto [it, added] = merged.groups.try_emplace(group, cells);
+      if (added) continue;
+      for (size_t d = 0; d < cells.size() && d < it->second.size(); ++d) AddCell(it->second[d], cells[d]);
+    }
+  }
+  return merged;
+}
+
+std::string DescribeMeasure(const MeasureOptions& options) {
+  std::string text = std::string(MeasureName(options.measure));
+  if (options.measure == Measure::kLookback) text += " window " + std::to_string(options.window_days);
+  text += ", grace " + std::to_string(options.episodes.grace_days);
+  if (options.episodes.carryover) text += ", carry-over";
+  text += ", default supply " + std::to_string(options.supply.default_supply_days);
+  text += ", max supply " + std::to_string(options.supply.max_supply_days);
+  text += ", count by " + std::string(CountByName(options.count_by));
+  if (options.exclude_prn) text += ", PRN excluded";
+  for (const Route route : options.exclude_routes) text += ", no " + std::string(RouteName(route));
+  text += ", scale " + options.scale;
+  return text;
+}
+
+}  // namespace medload

@@ -1,0 +1,143 @@
+// Text, CSV and HTML writers of a cohort table (JSON in cohort_json.cpp, the chart in
+// cohort_chart.cpp).
+#include "medload/cohort/cohort_writer.h"
+
+#include <ostream>
+
+#include "medload/io/output.h"
+
+namespace medload {
+namespace {
+
+std::string CountText(const CohortValue& value, long suppress_below) {
+  if (value.count) return std::to_string(*value.count);
+  return "<" + std::to_string(suppress_below);
+}
+
+std::string RateText(const std::optional<double>& rate) {
+  return rate ? FormatNumber(*rate, 1) : "-";
+}
+
+std::string StandardisedText(const CohortValue& value) {
+  if (!value.standardised) return "-";
+  const StandardisedRate& rate = *value.standardised;
+  std::string text = FormatNumber(rate.rate, 1);
+  if (rate.lower && rate.upper) {
+    text += " (" + FormatNumber(*rate.lower, 1) + "-" + FormatNumber(*rate.upper, 1) + ")";
+  }
+  return text;
+}
+
+std::string OptionalText(const std::optional<double>& value, int decimals) {
+  return value ? FormatNumber(*value, decimals) : "";
+}
+
+// The header lines every format repeats: what was counted and how.
+std::vector<std::string> Preamble(const CohortTable& table) {
+  std::vector<std::string> lines;
+  std::string criteria;
+  for (const std::string& key : table.criteria) criteria += (criteria.empty() ? "" : ", ") + key;
+  lines.push_back("Cohort counts by " + std::string(GroupByName(table.group_by)) +
+                  "; criteria: " + criteria + " (any = at least one)");
+  lines.push_back("Measure: " + table.measure);
+  lines.push_back("Rates per 1000 registered; standardised: European Standard Population 2013 "
+                  "(patients of known age), 95% limits by Dobson et al. 1991.");
+  if (!table.complete) {
+    lines.push_back("INCOMPLETE: only " + table.shards + " were merged; counts are partial.");
+  }
+  lines.push_back(SuppressionNote(table.suppress_below));
+  return lines;
+}
+
+}  // namespace
+
+std::string SuppressionNote(long suppress_below) {
+  if (suppress_below <= 1) {
+    return "No small-number suppression (--suppress-below 0): do not publish counts below "
+           "your local threshold.";
+  }
+  const std::string n = std::to_string(suppress_below);
+  return "Counts from 1 to " + std::to_string(suppress_below - 1) + " (below " + n +
+         ") are withheld with their rates; zero is shown. Secondary disclosure: a withheld "
+         "cell can still be worked out from a visible total, from the other criteria or "
+         "groups, or from an earlier or later date; medload suppresses each cell on its own "
+         "and does not suppress complementary cells, so check tables before publishing.";
+}
+
+void WriteCohortText(std::ostream& out, const CohortTable& table) {
+  for (const std::string& line : Preamble(table)) out << line << "\n";
+  out << "\n";
+  std::vector<std::string> header = {"date", "group", "registered"};
+  for (const std::string& key : table.keys) {
+    header.push_back(key);
+    header.push_back("per 1000");
+  }
+  header.push_back("any ESP2013 per 1000 (95% CI)");
+  std::vector<std::vector<std::string>> rows;
+  for (const CohortRow& row : table.rows) {
+    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered)};
+    for (const CohortValue& value : row.values) {
+      cells.push_back(CountText(value, table.suppress_below));
+      cells.push_back(RateText(value.rate));
+    }
+    cells.push_back(StandardisedText(row.values.back()));
+    rows.push_back(std::move(cells));
+  }
+  WriteTextTable(out, header, rows);
+  WriteTextCaution(out);
+}
+
+void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
+  WriteCsvCaution(out);
+  out << CsvRow({"date", "group", "registered", "criterion", "count", "rate_per_1000",
+                 "standardised_per_1000", "standardised_lower", "standardised_upper",
+                 "suppressed"});
+  for (const CohortRow& row : table.rows) {
+    for (size_t k = 0; k < table.keys.size(); ++k) {
+      const CohortValue& value = row.values[k];
+      const bool suppressed = !value.count;
+      std::optional<double> standardised;
+      std::optional<double> lower;
+      std::optional<double> upper;
+      if (value.standardised) {
+        standardised = value.standardised->rate;
+        lower = value.standardised->lower;
+        upper = value.standardised->upper;
+      }
+      out << CsvRow({row.date.ToIso(), row.group, std::to_string(row.registered), table.keys[k],
+                     value.count ? std::to_string(*value.count) : "",
+                     OptionalText(value.rate, 4), OptionalText(standardised, 4),
+                     OptionalText(lower, 4), OptionalText(upper, 4),
+                     suppressed ? "yes" : "no"});
+    }
+  }
+}
+
+void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
+  WriteHtmlStart(out, "Cohort counts");
+  out << "<h1>Cohort counts by " << EscapeHtml(GroupByName(table.group_by)) << "</h1>\n";
+  for (const std::string& line : Preamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
+  for (size_t k = 0; k < table.keys.size(); ++k) {
+    out << "<figure>" << CohortTrendSvg(table, k) << "</figure>\n";
+  }
+  std::vector<std::string> header = {"date", "group", "registered"};
+  for (const std::string& key : table.keys) {
+    header.push_back(key);
+    header.push_back(key + " per 1000");
+    header.push_back(key + " ESP2013 per 1000 (95% CI)");
+  }
+  std::vector<std::vector<std::string>> rows;
+  for (const CohortRow& row : table.rows) {
+    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered)};
+    for (const CohortValue& value : row.values) {
+      cells.push_back(CountText(value, table.suppress_below));
+      cells.push_back(RateText(value.rate));
+      cells.push_back(StandardisedText(value));
+    }
+    rows.push_back(std::move(cells));
+  }
+  WriteHtmlTable(out, header, rows);
+  WriteHtmlEnd(out);
+}
+
+}  // namespace medload

@@ -1,0 +1,24 @@
+#include "medload/cohort/registration.h"
+
+#include <algorithm>
+
+namespace medload {
+
+std::optional<std::string> RegisteredPractice(const PatientHistory& history, Date on) {
+  if (history.registry) {
+    const PatientRecord& row = *history.registry;
+    if (row.registered_from && on < *row.registered_from) return std::nullopt;
+    if (row.registered_to && *row.registered_to < on) return std::nullopt;
+    return row.practice;
+  }
+  // The first dispensing after `on`; the one before it is the latest on or before `on`.
+  const auto after = std::upper_bound(
+      history.dispensings.begin(), history.dispensings.end(), on,
+      [](Date date, const DispensingRecord& record) { return date < record.dispensed_on; });
+  if (after == history.dispensings.begin()) return std::nullopt;
+  const DispensingRecord& latest = *(after - 1);
+  if (latest.dispensed_on < on - (kUnregisteredActivityDays - 1)) return std::nullopt;
+  return latest.practice;
+}
+
+}  // namespace medload

@@ -1,0 +1,58 @@
+#include <doctest/doctest.h>
+
+#include "cohort/population_fixture.h"
+#include "medload/cohort/cohort_writer.h"
+
+namespace medload {
+namespace {
+
+using testing::D;
+
+CohortTable TwoGroups() {
+  CohortTally tally;
+  tally.criteria = {"acb>=3"};
+  tally.dates = {D(2024, 1, 31), D(2024, 2, 29), D(2024, 3, 31)};
+  for (const char* group : {"A01", "B02"}) {
+    for (long d = 0; d < 3; ++d) {
+      CohortCell cell;
+      cell.registered = 100;
+      cell.counts = {10 + d * 5, 10 + d * 5};
+      cell.counts_by_band = {{}, {}};
+      tally.groups[group].push_back(cell);
+    }
+  }
+  tally.groups["B02"][1].counts = {2, 2};  // suppressed below 5: a gap in B02's line
+  return BuildCohortTable(tally, 5);
+}
+
+size_t Occurrences(const std::string& text, const std::string& needle) {
+  size_t n = 0;
+  for (size_t at = text.find(needle); at != std::string::npos; at = text.find(needle, at + 1)) ++n;
+  return n;
+}
+
+TEST_SUITE("cohort") {
+
+TEST_CASE("the trend chart has a title, axis labels and a text label per group") {
+  const std::string svg = CohortTrendSvg(TwoGroups(), 0);
+  CHECK(svg.rfind("<svg", 0) == 0);
+  CHECK(svg.find("acb&gt;=3: rate per 1000 registered, by practice") != std::string::npos);
+  CHECK(svg.find(">census date<") != std::string::npos);
+  CHECK(svg.find(">rate per 1000 registered<") != std::string::npos);
+  CHECK(svg.find(">A01</text>") != std::string::npos);
+  CHECK(svg.find(">B02</text>") != std::string::npos);
+  CHECK(svg.find(">2024-02-29<") != std::string::npos);
+}
+
+TEST_CASE("a suppressed point leaves a gap in its group's line") {
+  const std::string svg = CohortTrendSvg(TwoGroups(), 0);
+  // A01: three points, one segment; B02: two points in two segments (one M each).
+  CHECK(Occurrences(svg, "<circle") == 5);
+  CHECK(Occurrences(svg, "d=\"M") == 2);
+  CHECK(Occurrences(svg, " M") == 1);
+}
+
+}  // TEST_SUITE
+
+}  // namespace
+}  // namespace medload

@@ -1,0 +1,78 @@
+#include "medload/cohort/cohort_writer.h"
+
+#include <doctest/doctest.h>
+
+#include <sstream>
+
+#include "cohort/population_fixture.h"
+#include "medload/core/caution.h"
+
+namespace medload {
+namespace {
+
+using testing::D;
+
+CohortTable SmallTable(long suppress_below) {
+  CohortTally tally;
+  tally.criteria = {"items>=10"};
+  tally.dates = {D(2024, 1, 31)};
+  tally.measure = "concurrent";
+  CohortCell cell;
+  cell.registered = 50;
+  cell.registered_by_band[15] = 50;
+  cell.counts = {2, 2};
+  cell.counts_by_band = {{}, {}};
+  cell.counts_by_band[0][15] = 2;
+  cell.counts_by_band[1][15] = 2;
+  tally.groups["<A&B>"] = {cell};
+  return BuildCohortTable(tally, suppress_below);
+}
+
+TEST_SUITE("cohort") {
+
+TEST_CASE("the CSV starts with the caution and has one line per date, group and criterion") {
+  std::ostringstream out;
+  WriteCohortCsv(out, SmallTable(0));
+  const std::string text = out.str();
+  CHECK(text.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(text.find("date,group,registered,criterion,count,rate_per_1000,") != std::string::npos);
+  CHECK(text.find("2024-01-31,<A&B>,50,items>=10,2,40,40,") != std::string::npos);
+  CHECK(text.find("2024-01-31,<A&B>,50,any,2,40,40,") != std::string::npos);
+}
+
+TEST_CASE("suppressed CSV cells are empty and flagged") {
+  std::ostringstream out;
+  WriteCohortCsv(out, SmallTable(5));
+  CHECK(out.str().find("2024-01-31,<A&B>,50,items>=10,,,,,,yes") != std::string::npos);
+}
+
+TEST_CASE("the text table shows withheld counts as below the threshold and ends with the caution") {
+  std::ostringstream out;
+  WriteCohortText(out, SmallTable(5));
+  const std::string text = out.str();
+  CHECK(text.find("<5") != std::string::npos);
+  CHECK(text.find("Secondary disclosure") != std::string::npos);
+  CHECK(text.find("CAUTION:") != std::string::npos);
+}
+
+TEST_CASE("the HTML page has the banner, an escaped group and a trend chart") {
+  std::ostringstream out;
+  WriteCohortHtml(out, SmallTable(0));
+  const std::string html = out.str();
+  CHECK(html.find("CAUTION:") != std::string::npos);
+  CHECK(html.find("&lt;A&amp;B&gt;") != std::string::npos);
+  CHECK(html.find("<A&B>") == std::string::npos);
+  CHECK(html.find("<svg") != std::string::npos);
+}
+
+TEST_CASE("the suppression note states the rule and the secondary-disclosure limit") {
+  CHECK(SuppressionNote(0).find("No small-number suppression") == 0);
+  const std::string note = SuppressionNote(10);
+  CHECK(note.find("Counts from 1 to 9 (below 10) are withheld") == 0);
+  CHECK(note.find("does not suppress complementary cells") != std::string::npos);
+}
+
+}  // TEST_SUITE
+
+}  // namespace
+}  // namespace medload
