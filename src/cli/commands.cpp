@@ -7,7 +7,6 @@ namespace medload::cli {
 int RunMeds(Context& context, const std::vector<std::string>& args);
 int RunTimeline(Context& context, const std::vector<std::string>& args);
 int RunCohortCommand(Context& context, const std::vector<std::string>& args);
-int RunCohortCommand(Context& context, const std::vector<std::string>& args);
 int RunReview(Context& context, const std::vector<std::string>& args);
 int RunImportDispensing(Context& context, const std::vector<std::string>& args);
 int RunImportPatients(Context& context, const std::vector<std::string>& args);
@@ -22,7 +21,6 @@ const std::vector<Command>& Commands() {
   static const std::vector<Command> kCommands = {
       {"meds", "one patient's medicines active on a date, with scores and rules", RunMeds},
       {"timeline", "one patient's medication episodes as a chart or table", RunTimeline},
-      {"cohort", "counts and rates per group per census date (--shard, --merge)", RunCohortCommand},
       {"cohort", "counts and rates per group per census date (--shard, --merge)", RunCohortCommand},
       {"review", "ranked worklist of patients meeting any criterion on a date", RunReview},
       {"import dispensing", "load dispensing records (CSV or FHIR NDJSON; - is standard input)",
