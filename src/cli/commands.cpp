@@ -13,6 +13,8 @@ int RunImportPatients(Context& context, const std::vector<std::string>& args);
 int RunImportPractices(Context& context, const std::vector<std::string>& args);
 int RunImportReviews(Context& context, const std::vector<std::string>& args);
 int RunSynth(Context& context, const std::vector<std::string>& args);
+int RunReportCommand(Context& context, const std::vector<std::string>& args);
+int RunDemo(Context& context, const std::vector<std::string>& args);
 int RunFormularyCheck(Context& context, const std::vector<std::string>& args);
 int RunFormularyLookup(Context& context, const std::vector<std::string>& args);
 int RunFormularyUnmatched(Context& context, const std::vector<std::string>& args);
@@ -31,6 +33,8 @@ const std::vector<Command>& Commands() {
       {"formulary check", "validate the formulary tables; every fault as file:line: fault", RunFormularyCheck},
       {"formulary lookup", "show how a product description or code resolves", RunFormularyLookup},
       {"formulary unmatched", "stored products that nothing in the formulary recognises", RunFormularyUnmatched},
+      {"report", "the batch report of a care network into a folder (--config, --out)", RunReportCommand},
+      {"demo", "the bundled invented network: worklist, cohort table and report into a folder", RunDemo},
       {"synth", "write a synthetic, deterministic data set (invented network)", RunSynth},
   };
   return kCommands;

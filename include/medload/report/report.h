@@ -1,0 +1,87 @@
+// The batch report of a care network (spec section 8): one pass over the store builds a
+// finished model (monthly counts per practice and for the network, every practice's
+// worklist on the census date, the previous report's counts), and writers turn it into the
+// report folder. It does not parse the config (report_config.h) or format pages itself
+// (report_pages.h, digest.h).
+#pragma once
+
+#include <functional>
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "medload/cohort/cohort.h"
+#include "medload/report/report_config.h"
+#include "medload/review/worklist.h"
+#include "medload/store/store.h"
+
+namespace medload {
+
+class Analysis;
+
+// One practice (or the network total) over the census dates.
+struct ReportSeries {
+  std::string code;                       // practice code; the network name for the total
+  std::string name;                       // practice name (may be empty)
+  std::optional<long> list_size;          // from the practices table, if given
+  std::vector<long> registered;           // per census date
+  std::vector<std::vector<long>> counts;  // [key][date]: criteria in config order, then "any"
+};
+
+// The counts of the previous report run (dated before this census date), per practice.
+struct PreviousReport {
+  Date on;
+  std::map<std::string, std::vector<long>> counts;  // practice -> per key
+};
+
+struct ReportModel {
+  ReportConfig config;
+  Date on;                                  // the census date (config "on" or "latest")
+  std::vector<Date> dates;                  // month ends, oldest first; the last is `on`
+  std::vector<std::string> keys;            // criterion keys, then "any"
+  std::vector<ReportSeries> practices;      // sorted by code
+  ReportSeries network;                     // the sum of `practices`
+  std::map<std::string, Worklist> worklists;  // practice -> worklist on `on` (top N)
+  std::optional<PreviousReport> previous;   // the last report before `on`, if any
+  CohortTally tally;                        // the cohort counts behind the series
+  StoreSummary data;                        // provenance
+  std::string formulary_checksum;
+  std::string measure;                      // the measure options in words
+  long patients_seen = 0;                   // patients visited in the pass
+};
+
+// Called every so many patients with the number visited so far (progress on stderr).
+using ReportProgress = std::function<void(long patients)>;
+
+// The census date of "latest": the last month end on or before the latest dispensing.
+// Input failure when the store holds no dispensing.
+Result<Date> LatestCensusDate(const StoreSummary& summary);
+
+// Builds the model in one ordered pass over the store: each patient's timeline is built
+// once and evaluated on every census date they are registered on; on the census date
+// the same burden feeds the practice's worklist. Input failure on a storage error, a
+// practice in config.practices that the store does not know, or an unknown rule id.
+// `pseudonymise` (may be empty) replaces patient identifiers in the worklists after
+// ranking (review/pseudonym.h).
+Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis,
+                                     const ReportConfig& config,
+                                     const std::function<std::string(const std::string&)>& pseudonymise,
+                                     const ReportProgress& progress);
+
+// The key under which report runs are saved in the store ("since the last report"):
+// the network name and the criteria keys.
+std::string ReportRunKey(const ReportModel& model);
+// The payload saved for this run: {"on", "counts": {practice: [per key]}}.
+nlohmann::json ReportRunPayload(const ReportModel& model);
+// Reads the previous report's payload (as saved above). nullopt when malformed.
+std::optional<PreviousReport> ParsePreviousReport(const std::string& payload);
+
+// The change of `now` against `before`, when both are known.
+struct Change {
+  std::optional<long> patients;  // now - before
+  std::optional<double> percent; // 100 * (now - before) / before; absent when before = 0
+};
+Change ChangeOf(std::optional<long> now, std::optional<long> before);
+
+}  // namespace medload

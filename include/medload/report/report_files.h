@@ -1,0 +1,46 @@
+// Writing the report folder safely: file names made from data (practice codes) are
+// sanitised so they cannot leave the folder or collide, and files are written only inside
+// the output folder, never through a symbolic link. It does not decide what the files hold.
+#pragma once
+
+#include <string>
+#include <string_view>
+
+#include "medload/core/status.h"
+
+namespace medload {
+
+// A file-name stem from `text`: ASCII letters, digits, '_' and '-' are kept, every other
+// byte becomes '_'. When anything was replaced, "-" and the first 8 hex digits of the
+// SHA-256 of `text` are appended, so that two different codes never give the same stem.
+// Returns Status::Input naming the text when the result would be empty, "." or "..".
+Result<std::string> SafeFileStem(std::string_view text);
+
+// The first `digits` hex digits of the SHA-256 (FIPS 180-4) of `text` (at most 64).
+std::string HashHex(std::string_view text, size_t digits);
+
+// The report's output folder. Creates it (and its parents) when missing.
+class ReportFolder {
+ public:
+  // Fails with Input when `path` exists and is not a folder or cannot be created.
+  static Result<ReportFolder> Open(const std::string& path);
+
+  const std::string& path() const { return path_; }
+
+  // Creates the sub-folder `name` (one level, no separators). Refused with Input when it
+  // exists as a symbolic link or a file.
+  Status MakeSubfolder(std::string_view name) const;
+  // Writes `content` to `relative` ("index.html", "digests/WV001.eml"), replacing a
+  // regular file of that name. Refused with Input when `relative` is absolute, contains
+  // "..", or the file or its folder is a symbolic link.
+  Status WriteFile(std::string_view relative, std::string_view content) const;
+  // Removes the regular files in sub-folder `name` whose names end in `suffix` (stale
+  // digests from an earlier run), so a re-run leaves exactly this run's files.
+  Status RemoveFiles(std::string_view name, std::string_view suffix) const;
+
+ private:
+  explicit ReportFolder(std::string path) : path_(std::move(path)) {}
+  std::string path_;
+};
+
+}  // namespace medload

@@ -1,0 +1,65 @@
+// `medload report --config FILE --out DIR`: the batch report of a care network.
+#include <filesystem>
+#include <ostream>
+
+#include "cli/options.h"
+#include "medload/burden/analysis.h"
+#include "medload/io/output.h"
+#include "medload/report/report_config.h"
+#include "medload/report/report_writer.h"
+#include "medload/store/store.h"
+
+namespace medload::cli {
+
+// Shared with `demo`: prints where the report is, what it covered, and the caution.
+void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportConfig& config,
+                        const ReportOutcome& outcome) {
+  out << "Report \"" << config.title << "\" for " << config.network << ", census date " << outcome.on.ToIso()
+      << ": " << outcome.practices << " practices, " << outcome.digests.size() << " digest message(s).\n"
+      << "Open " << (std::filesystem::path(dir) / "index.html").string() << "\n";
+  for (const std::string& code : outcome.digests) out << "  digest for " << code << "\n";
+}
+
+// The caution as a text footer (demo cannot include io/output.h beside the importer).
+void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
+
+// A progress line on standard error every few thousand patients (none with --quiet).
+std::function<void(long)> ReportProgressLine(const Context& context) {
+  if (context.quiet) return {};
+  std::ostream* err = context.err;
+  return [err](long patients) { *err << "medload: report: " << patients << " patients read\n"; };
+}
+
+int RunReportCommand(Context& context, const std::vector<std::string>& args) {
+  po::options_description options("report options");
+  options.add_options()("config", po::value<std::string>(), "the report's JSON config (docs/report.md)")(
+      "out", po::value<std::string>(), "the folder to write the report into (created if missing)");
+  int exit_code = 0;
+  auto vm = ParseOptions(context, "medload report --config FILE --out DIR", options, {}, args, exit_code);
+  if (!vm) return exit_code;
+  auto fail = [&](const Status& status) {
+    *context.err << "medload: " << status.message() << "\n";
+    return status.exit_code();
+  };
+  if (vm->count("config") == 0U) return fail(Status::Usage("--config FILE is required"));
+  if (vm->count("out") == 0U) return fail(Status::Usage("--out DIR is required"));
+  const std::string config_path = (*vm)["config"].as<std::string>();
+  auto config = LoadReportConfig(config_path);
+  if (!config.ok()) return fail(config.status());
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  if (!store.ok()) return fail(store.status());
+  auto analysis = Analysis::Open(context.formulary_dir, config->measure, &*store);
+  if (!analysis.ok()) return fail(analysis.status());
+  ReportRunOptions run;
+  run.out_dir = (*vm)["out"].as<std::string>();
+  run.config_dir = std::filesystem::path(config_path).parent_path().string();
+  run.generated_at = UtcNow();
+  run.progress = ReportProgressLine(context);
+  auto outcome = RunReport(*store, *analysis, *config, run);
+  if (!outcome.ok()) return fail(outcome.status());
+  PrintReportOutcome(*context.out, run.out_dir, *config, *outcome);
+  WriteTextCaution(*context.out);
+  return 0;
+}
+
+}  // namespace medload::cli

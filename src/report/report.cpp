@@ -1,0 +1,279 @@
+#include "medload/report/report.h"
+
+#include <algorithm>
+#include <set>
+#include <utility>
+
+#include "medload/burden/analysis.h"
+#include "medload/cohort/registration.h"
+
+namespace medload {
+namespace {
+
+constexpr long kProgressEvery = 5000;
+
+// The month ends of the `months - 1` months before `on`, then `on` itself.
+std::vector<Date> CensusDates(Date on, int months) {
+  std::vector<Date> dates;
+  for (int back = months - 1; back >= 1; --back) {
+    int year = on.year();
+    int month = on.month() - back;
+    while (month < 1) {
+      month += 12;
+      --year;
+    }
+    dates.push_back(EndOfMonth(Date::FromCivil(year, month, 1)));
+  }
+  dates.push_back(on);
+  return dates;
+}
+
+std::vector<std::string> EntryWarnings(const Burden& burden) {
+  std::vector<std::string> warnings;
+  if (!burden.dbi_incomplete.empty()) {
+    std::string names;
+    for (const std::string& name : burden.dbi_incomplete) names += (names.empty() ? "" : ", ") + name;
+    warnings.push_back("dose unknown: " + names);
+  }
+  if (burden.age_unknown_for_rules) warnings.push_back("age unknown: age-limited rules not checked");
+  return warnings;
+}
+
+// A worklist row when the patient meets any criterion on the census date.
+std::optional<WorklistEntry> EntryOf(const PatientHistory& history, const std::string& practice,
+                                     const Timeline& timeline, const Burden& burden,
+                                     std::optional<int> age, const ReportConfig& config,
+                                     const BurdenTables& tables) {
+  WorklistEntry entry;
+  for (const Criterion& criterion : config.criteria) {
+    if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
+  }
+  if (entry.criteria_met.empty()) return std::nullopt;
+  entry.patient = history.patient_id;
+  entry.practice = practice;
+  entry.age = age;
+  entry.items = burden.items;
+  entry.acb = burden.acb;
+  entry.dbi = burden.dbi;
+  for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
+  entry.reasons = ExplainBurden(timeline, burden, tables);
+  entry.warnings = EntryWarnings(burden);
+  return entry;
+}
+
+// The practices the report covers: the configured list, or every practice in the store
+// and every practice seen in the counts (codes that are empty or "unknown" left out).
+Result<std::vector<PracticeRecord>> ChoosePractices(const std::vector<PracticeRecord>& known,
+                                                    const ReportConfig& config,
+                                                    const CohortTally& tally) {
+  std::map<std::string, PracticeRecord> by_code;
+  for (const PracticeRecord& record : known) by_code[record.practice] = record;
+  std::vector<PracticeRecord> chosen;
+  if (!config.practices.empty()) {
+    for (const std::string& code : config.practices) {
+      const auto it = by_code.find(code);
+      if (it == by_code.end() && tally.groups.count(code) == 0) {
+        return Status::Input("practice \"" + code + "\" of the config's /practices is not in the store");
+      }
+      chosen.push_back(it != by_code.end() ? it->second : PracticeRecord{code, "", "", std::nullopt});
+    }
+  } else {
+    for (const auto& [code, cells] : tally.groups) {
+      if (!code.empty() && code != kUnknownGroup && by_code.count(code) == 0) {
+        by_code[code] = PracticeRecord{code, "", "", std::nullopt};
+      }
+    }
+    for (const auto& [code, record] : by_code) chosen.push_back(record);
+  }
+  std::sort(chosen.begin(), chosen.end(),
+            [](const PracticeRecord& a, const PracticeRecord& b) { return a.practice < b.practice; });
+  return chosen;
+}
+
+ReportSeries SeriesOf(const PracticeRecord& practice, const CohortTally& tally, size_t keys,
+                      size_t dates) {
+  ReportSeries series;
+  series.code = practice.practice;
+  series.name = practice.name;
+  series.list_size = practice.list_size;
+  series.registered.assign(dates, 0);
+  series.counts.assign(keys, std::vector<long>(dates, 0));
+  const auto it = tally.groups.find(practice.practice);
+  if (it == tally.groups.end()) return series;
+  for (size_t d = 0; d < dates && d < it->second.size(); ++d) {
+    series.registered[d] = it->second[d].registered;
+    for (size_t k = 0; k < keys && k < it->second[d].counts.size(); ++k) series.counts[k][d] = it->second[d].counts[k];
+  }
+  return series;
+}
+
+void AddSeries(ReportSeries& into, const ReportSeries& from) {
+  for (size_t d = 0; d < into.registered.size(); ++d) into.registered[d] += from.registered[d];
+  for (size_t k = 0; k < into.counts.size(); ++k) {
+    for (size_t d = 0; d < into.counts[k].size(); ++d) into.counts[k][d] += from.counts[k][d];
+  }
+}
+
+}  // namespace
+
+Result<Date> LatestCensusDate(const StoreSummary& summary) {
+  if (!summary.latest_dispensed) return Status::Input("the store holds no dispensing; \"on\": \"latest\" needs data");
+  const Date latest = *summary.latest_dispensed;
+  if (EndOfMonth(latest) == latest) return latest;
+  return Date::FromCivil(latest.year(), latest.month(), 1) - 1;
+}
+
+namespace {
+
+// The pass: the cohort counter gets every patient; the census date's burden, computed once
+// inside the counter's call, also gives the worklist row.
+struct Pass {
+  CohortCounter counter;
+  std::map<std::string, std::vector<WorklistEntry>> entries;  // practice -> rows
+  std::map<std::string, long> considered;                     // practice -> registered on `on`
+  long patients = 0;
+};
+
+Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
+               Pass& pass, const ReportProgress& progress) {
+  return store.ForEachPatient([&](const PatientHistory& history) {
+    if (progress && ++pass.patients % kProgressEvery == 0) progress(pass.patients);
+    std::optional<Timeline> timeline;
+    std::optional<Burden> census;
+    pass.counter.Add(history, [&](Date date, std::optional<int> age) {
+      if (!timeline) timeline = analysis.BuildTimeline(history.dispensings);
+      Burden burden = analysis.Evaluate(*timeline, date, age);
+      if (date == on) census = burden;
+      return burden;
+    });
+    if (!census) return true;
+    const std::optional<std::string> practice = RegisteredPractice(history, on);
+    if (!practice) return true;
+    ++pass.considered[*practice];
+    const std::optional<int> age = AgeOn(history.registry, on);
+    auto entry = EntryOf(history, *practice, *timeline, *census, age, config, analysis.tables());
+    if (entry) pass.entries[*practice].push_back(std::move(*entry));
+    return true;
+  });
+}
+
+Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& model, long considered,
+                        const std::string& scale,
+                        const std::function<std::string(const std::string&)>& pseudonymise) {
+  Worklist worklist;
+  worklist.on = model.on;
+  worklist.criteria = model.config.criteria;
+  worklist.scale = scale;
+  worklist.patients_considered = considered;
+  std::sort(rows.begin(), rows.end(), RanksBefore);
+  worklist.patients_meeting = static_cast<long>(rows.size());
+  if (rows.size() > model.config.worklist_limit) rows.resize(model.config.worklist_limit);
+  for (size_t i = 0; i < rows.size(); ++i) {
+    rows[i].rank = static_cast<int>(i + 1);
+    if (pseudonymise) rows[i].patient = pseudonymise(rows[i].patient);
+  }
+  worklist.patients = std::move(rows);
+  return worklist;
+}
+
+}  // namespace
+
+Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, const ReportConfig& config,
+                                     const std::function<std::string(const std::string&)>& pseudonymise,
+                                     const ReportProgress& progress) {
+  ReportModel model;
+  model.config = config;
+  auto summary = store.Summary();
+  if (!summary.ok()) return summary.status();
+  model.data = *summary;
+  if (config.on) {
+    model.on = *config.on;
+  } else {
+    auto latest = LatestCensusDate(model.data);
+    if (!latest.ok()) return latest.status();
+    model.on = *latest;
+  }
+  model.dates = CensusDates(model.on, config.months);
+  if (Status status = CheckRulesExist(config.criteria, analysis.tables()); !status.ok()) return status;
+  for (const Criterion& criterion : config.criteria) model.keys.push_back(criterion.Key());
+  model.keys.push_back("any");
+  auto known = store.Practices();
+  if (!known.ok()) return known.status();
+  std::map<std::string, std::string> networks;
+  for (const PracticeRecord& record : *known) networks[record.practice] = record.network;
+  model.measure = DescribeMeasure(analysis.options());
+  model.formulary_checksum = analysis.formulary().checksum();
+  CohortOptions cohort;
+  cohort.dates = model.dates;
+  cohort.group_by = GroupBy::kPractice;
+  cohort.criteria = config.criteria;
+  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0};
+  if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
+  if (progress) progress(pass.patients);
+  model.patients_seen = pass.patients;
+  model.tally = pass.counter.Take();
+  auto chosen = ChoosePractices(*known, config, model.tally);
+  if (!chosen.ok()) return chosen.status();
+  model.network = ReportSeries{config.network, config.network, std::nullopt,
+                               std::vector<long>(model.dates.size(), 0),
+                               std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(model.dates.size(), 0))};
+  for (const PracticeRecord& practice : *chosen) {
+    model.practices.push_back(SeriesOf(practice, model.tally, model.keys.size(), model.dates.size()));
+    AddSeries(model.network, model.practices.back());
+    model.worklists[practice.practice] =
+        FinishWorklist(std::move(pass.entries[practice.practice]), model, pass.considered[practice.practice],
+                       analysis.tables().scale, pseudonymise);
+  }
+  auto previous = store.LatestRun("report", ReportRunKey(model), model.on.ToIso());
+  if (!previous.ok()) return previous.status();
+  if (previous->has_value()) model.previous = ParsePreviousReport(**previous);
+  return model;
+}
+
+std::string ReportRunKey(const ReportModel& model) {
+  std::string key = "network=" + model.config.network + "|criteria=";
+  for (size_t k = 0; k + 1 < model.keys.size(); ++k) key += (k == 0 ? "" : ";") + model.keys[k];
+  return key + "|measure=" + model.measure;
+}
+
+nlohmann::json ReportRunPayload(const ReportModel& model) {
+  nlohmann::json counts = nlohmann::json::object();
+  for (const ReportSeries& series : model.practices) {
+    nlohmann::json values = nlohmann::json::array();
+    for (const auto& per_date : series.counts) values.push_back(per_date.back());
+    counts[series.code] = values;
+  }
+  return {{"on", model.on.ToIso()}, {"keys", model.keys}, {"counts", counts}};
+}
+
+std::optional<PreviousReport> ParsePreviousReport(const std::string& payload) {
+  const nlohmann::json doc = nlohmann::json::parse(payload, nullptr, false);
+  if (!doc.is_object() || !doc.contains("on") || !doc.at("on").is_string() || !doc.contains("counts") ||
+      !doc.at("counts").is_object()) {
+    return std::nullopt;
+  }
+  const std::optional<Date> on = ParseDate(doc.at("on").get<std::string>());
+  if (!on) return std::nullopt;
+  PreviousReport previous;
+  previous.on = *on;
+  for (const auto& item : doc.at("counts").items()) {
+    if (!item.value().is_array()) return std::nullopt;
+    std::vector<long> values;
+    for (const auto& value : item.value()) {
+      if (!value.is_number_integer()) return std::nullopt;
+      values.push_back(value.get<long>());
+    }
+    previous.counts[item.key()] = std::move(values);
+  }
+  return previous;
+}
+
+Change ChangeOf(std::optional<long> now, std::optional<long> before) {
+  Change change;
+  if (!now || !before) return change;
+  change.patients = *now - *before;
+  if (*before != 0) change.percent = 100.0 * static_cast<double>(*now - *before) / static_cast<double>(*before);
+  return change;
+}
+
+}  // namespace medload

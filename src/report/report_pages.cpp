@@ -1,0 +1,150 @@
+// The report's HTML pages: the network overview and one page per practice.
+#include "medload/report/report_pages.h"
+
+#include <sstream>
+
+#include "medload/cohort/cohort_writer.h"
+#include "medload/io/output.h"
+#include "medload/io/worklist_writer.h"
+#include "medload/report/funnel.h"
+
+namespace medload {
+namespace {
+
+std::string CountText(long count, long suppress_below) {
+  return IsSuppressed(count, suppress_below) ? "<" + std::to_string(suppress_below) : std::to_string(count);
+}
+
+std::string RateText(long count, long registered, long suppress_below) {
+  if (registered < 1 || IsSuppressed(count, suppress_below)) return "-";
+  return FormatNumber(1000.0 * static_cast<double>(count) / static_cast<double>(registered), 1);
+}
+
+// The change of a count since `back` census dates earlier; "-" when that date is outside
+// the series or either count is suppressed.
+std::string ChangeText(const std::vector<long>& counts, size_t back, long suppress_below) {
+  if (counts.size() <= back) return "-";
+  const long now = counts.back();
+  const long then = counts[counts.size() - 1 - back];
+  if (IsSuppressed(now, suppress_below) || IsSuppressed(then, suppress_below)) return "-";
+  const Change change = ChangeOf(now, then);
+  std::string text = (*change.patients > 0 ? "+" : "") + std::to_string(*change.patients);
+  if (change.percent) text += " (" + std::string(*change.percent > 0 ? "+" : "") + FormatNumber(*change.percent, 1) + "%)";
+  return text;
+}
+
+std::string PositionText(const ReportModel& model, const ReportSeries& s, size_t key) {
+  const long n = s.registered.back();
+  const long count = s.counts[key].back();
+  const long network_n = model.network.registered.back();
+  if (n < 1 || network_n < 1 || IsSuppressed(count, model.config.suppress_below)) return "-";
+  const double p0 = static_cast<double>(model.network.counts[key].back()) / static_cast<double>(network_n);
+  for (const double coverage : {0.998, 0.95}) {
+    const FunnelPosition position = PositionOf(count, n, p0, coverage);
+    const std::string level = coverage > 0.99 ? "99.8%" : "95%";
+    if (position == FunnelPosition::kAbove) return "above " + level + " limit";
+    if (position == FunnelPosition::kBelow) return "below " + level + " limit";
+  }
+  return "within limits";
+}
+
+std::vector<std::string> SeriesRow(const ReportModel& model, const ReportSeries& s, size_t key,
+                                   const std::string& name) {
+  const long sb = model.config.suppress_below;
+  return {s.code == model.config.network ? std::string(kNetworkGroup) : s.code, name,
+          std::to_string(s.registered.back()), CountText(s.counts[key].back(), sb),
+          RateText(s.counts[key].back(), s.registered.back(), sb), ChangeText(s.counts[key], 1, sb),
+          ChangeText(s.counts[key], 12, sb)};
+}
+
+void WriteRunFacts(std::ostream& out, const ReportModel& model) {
+  std::string criteria;
+  for (size_t k = 0; k + 1 < model.keys.size(); ++k) criteria += (k == 0 ? "" : ", ") + model.keys[k];
+  out << "<p>Network: <strong>" << EscapeHtml(model.config.network) << "</strong>. Census date "
+      << EscapeHtml(model.on.ToIso()) << "; trend over " << model.dates.size() << " month ends from "
+      << EscapeHtml(model.dates.front().ToIso()) << ". Criteria: " << EscapeHtml(criteria)
+      << " (\"any\" = at least one). Measure: " << EscapeHtml(model.measure) << ".</p>\n";
+  if (model.data.earliest_dispensed && model.data.latest_dispensed) {
+    out << "<p class=\"note\">Dispensing records from " << EscapeHtml(model.data.earliest_dispensed->ToIso())
+        << " to " << EscapeHtml(model.data.latest_dispensed->ToIso()) << ". "
+        << EscapeHtml(SuppressionNote(model.config.suppress_below)) << "</p>\n";
+  }
+}
+
+}  // namespace
+
+std::string IndexHtml(const ReportModel& model, const std::map<std::string, PracticeFiles>& files,
+                      const std::vector<std::string>& digests) {
+  std::ostringstream out;
+  WriteHtmlStart(out, model.config.title);
+  WriteRunFacts(out, model);
+  out << "<h2>Practices</h2>\n<ul>\n";
+  for (const ReportSeries& s : model.practices) {
+    out << "<li><a href=\"" << EscapeHtml(files.at(s.code).page) << "\">" << EscapeHtml(s.code)
+        << (s.name.empty() ? "" : " " + EscapeHtml(s.name)) << "</a> (worklist <a href=\""
+        << EscapeHtml(files.at(s.code).worklist) << "\">CSV</a>)</li>\n";
+  }
+  out << "</ul>\n<p>Also in this folder: <a href=\"cohort.csv\">cohort.csv</a>, <a href=\"cohort.json\">"
+         "cohort.json</a>, <a href=\"run.json\">run.json</a>.</p>\n";
+  const CohortTable table = ReportCohortTable(model);
+  for (size_t k = 0; k < model.keys.size(); ++k) {
+    out << "<section class=\"criterion\">\n<h2>" << EscapeHtml(model.keys[k]) << "</h2>\n";
+    std::vector<std::vector<std::string>> rows;
+    for (const ReportSeries& s : model.practices) {
+      rows.push_back(SeriesRow(model, s, k, s.name));
+      rows.back().push_back(PositionText(model, s, k));
+    }
+    rows.push_back(SeriesRow(model, model.network, k, model.config.network));
+    rows.back().push_back("");
+    WriteHtmlTable(out, {"practice", "name", "registered", "patients", "per 1000", "change since previous month",
+                         "change since 12 months before", "against the network (funnel)"},
+                   rows);
+    out << "<figure>\n" << CohortTrendSvg(table, k) << "<figcaption>Monthly rate per 1000 registered, one labelled "
+        << "line per practice and the network total.</figcaption>\n</figure>\n<figure>\n" << FunnelSvg(model, k)
+        << "<figcaption>Each practice's rate on the census date against its registered patients, with the network "
+           "rate and exact binomial control limits (Spiegelhalter 2005): 95% dashed, 99.8% dotted. Practices "
+           "with withheld counts are not shown.</figcaption>\n</figure>\n</section>\n";
+  }
+  out << "<h2>Digests</h2>\n";
+  if (digests.empty()) out << "<p>No practice crossed a digest trigger.</p>\n";
+  else {
+    out << "<ul>\n";
+    for (const std::string& code : digests) {
+      out << "<li><a href=\"" << EscapeHtml(files.at(code).digest) << "\">" << EscapeHtml(code) << "</a></li>\n";
+    }
+    out << "</ul>\n";
+  }
+  WriteHtmlEnd(out);
+  return out.str();
+}
+
+std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeFiles& files) {
+  const ReportSeries& s = model.practices[index];
+  std::ostringstream out;
+  WriteHtmlStart(out, model.config.title + ": " + s.code + (s.name.empty() ? "" : " " + s.name));
+  out << "<p><a href=\"index.html\">Network overview</a></p>\n";
+  WriteRunFacts(out, model);
+  std::vector<std::vector<std::string>> rows;
+  for (size_t k = 0; k < model.keys.size(); ++k) {
+    rows.push_back(SeriesRow(model, s, k, model.keys[k]));
+    rows.back()[0] = model.keys[k];
+    rows.back()[1] = PositionText(model, s, k);
+  }
+  out << "<h2>On the census date</h2>\n";
+  WriteHtmlTable(out, {"criterion", "against the network (funnel)", "registered", "patients", "per 1000",
+                       "change since previous month", "change since 12 months before"},
+                 rows);
+  const CohortTable table = ReportCohortTable(model, &s.code);
+  out << "<h2>Trend</h2>\n";
+  for (size_t k = 0; k < model.keys.size(); ++k) out << "<figure>\n" << CohortTrendSvg(table, k) << "</figure>\n";
+  const Worklist& worklist = model.worklists.at(s.code);
+  out << "<h2>Worklist on " << EscapeHtml(model.on.ToIso()) << "</h2>\n<p>" << worklist.patients_meeting
+      << " of " << worklist.patients_considered << " registered patients meet a criterion; the first "
+      << worklist.patients.size() << " in review order are listed (all of them up to the limit in <a href=\""
+      << EscapeHtml(files.worklist) << "\">" << EscapeHtml(files.worklist) << "</a>).</p>\n";
+  WriteWorklistHtmlTable(out, worklist);
+  WriteHtmlEnd(out);
+  return out.str();
+}
+
+}  // namespace medload

@@ -1,0 +1,151 @@
+#include "medload/report/digest.h"
+
+#include <doctest/doctest.h>
+
+#include "medload/core/caution.h"
+#include "report/report_fixture.h"
+
+namespace medload {
+namespace {
+
+std::vector<std::string> SplitCrlf(const std::string& text) {
+  std::vector<std::string> lines;
+  size_t start = 0;
+  for (size_t end = text.find("\r\n"); end != std::string::npos; end = text.find("\r\n", start)) {
+    lines.push_back(text.substr(start, end - start));
+    start = end + 2;
+  }
+  lines.push_back(text.substr(start));
+  return lines;
+}
+
+Digest SampleDigest() {
+  Digest digest;
+  digest.practice = "WV001";
+  digest.practice_name = "Invented Surgery";
+  digest.network = "Invented Network";
+  digest.title = "Invented monthly report";
+  digest.on = Date::FromCivil(2026, 10, 31);
+  digest.registered = 1034;
+  digest.baseline = "the report of 2026-09-30";
+  digest.page = "practice-WV001.html";
+  digest.suppress_below = 5;
+  digest.measures.push_back({"items>=10", 52, 50.3, Change{6, 13.04}});
+  digest.measures.push_back({"acb>=3", std::nullopt, std::nullopt, Change{}});
+  digest.findings.push_back("items>=10: up 6 patients (+13%) since 2026-09-30");
+  digest.from = "team <team@example.invalid>";
+  digest.to = {"a@example.invalid", "b@example.invalid"};
+  return digest;
+}
+
+}  // namespace
+
+TEST_SUITE("report") {
+
+TEST_CASE("the Date header is the census date at midnight UTC with its weekday") {
+  // 2026-10-31 is a Saturday; 1970-01-01 a Thursday (common practice: calendar).
+  CHECK(MessageDate(Date::FromCivil(2026, 10, 31)) == "Sat, 31 Oct 2026 00:00:00 +0000");
+  CHECK(MessageDate(Date::FromCivil(1970, 1, 1)) == "Thu, 01 Jan 1970 00:00:00 +0000");
+  CHECK(MessageDate(Date::FromCivil(2024, 2, 29)) == "Thu, 29 Feb 2024 00:00:00 +0000");
+}
+
+TEST_CASE("a digest is an RFC 5322 message with CRLF line ends and lines of at most 78 characters") {
+  const std::string text = FormatDigest(SampleDigest());
+  // No bare LF: every LF is preceded by CR.
+  for (size_t i = 0; i < text.size(); ++i) {
+    if (text[i] == '\n') CHECK((i > 0 && text[i - 1] == '\r'));
+  }
+  const std::vector<std::string> lines = SplitCrlf(text);
+  for (const std::string& line : lines) {
+    CAPTURE(line);
+    CHECK(line.size() <= 78);
+  }
+  CHECK(lines[0] == "From: team <team@example.invalid>");
+  CHECK(lines[1] == "To: a@example.invalid, b@example.invalid");
+  CHECK(lines[2] == "Subject: [Invented Network] WV001: counts moved, census 2026-10-31");
+  CHECK(lines[3] == "Date: Sat, 31 Oct 2026 00:00:00 +0000");
+  CHECK(lines[4].rfind("Message-ID: <", 0) == 0);
+  CHECK(lines[5] == "MIME-Version: 1.0");
+  CHECK(lines[6] == "Content-Type: text/plain; charset=utf-8");
+  CHECK(text.find("\r\n\r\nInvented monthly report\r\n") != std::string::npos);
+  CHECK(text.find("- items>=10: 52 patients, 50.3 per 1000; change +6 (+13%)") != std::string::npos);
+  CHECK(text.find("- acb>=3: fewer than 5 patients (withheld)") != std::string::npos);
+  CHECK(text.find("CAUTION: this output supports clinical judgement") != std::string::npos);
+}
+
+TEST_CASE("the Message-ID depends on network, practice and date only") {
+  Digest a = SampleDigest();
+  Digest b = SampleDigest();
+  b.findings.clear();
+  const auto id = [](const Digest& d) { return SplitCrlf(FormatDigest(d))[4]; };
+  CHECK(id(a) == id(b));
+  b.practice = "WV002";
+  CHECK(id(a) != id(b));
+}
+
+TEST_CASE("header values cannot inject headers or carry non-ASCII bytes") {
+  Digest digest = SampleDigest();
+  digest.network = "Net\r\nBcc: evil@example.invalid \xc3\xa9";
+  const std::string text = FormatDigest(digest);
+  const std::string headers = text.substr(0, text.find("\r\n\r\n"));
+  CHECK(headers.find("\r\nBcc:") == std::string::npos);
+  for (const char c : headers) CHECK(static_cast<unsigned char>(c) < 0x80);
+}
+
+TEST_CASE("long header values are folded and long words split to keep 78 columns") {
+  Digest digest = SampleDigest();
+  digest.to.assign(6, "a-rather-long-address-for-folding@example.invalid");
+  digest.findings.push_back(std::string(120, 'x'));
+  for (const std::string& line : SplitCrlf(FormatDigest(digest))) CHECK(line.size() <= 78);
+}
+
+TEST_CASE("text wraps at the width with an indent on continuation lines") {
+  const auto lines = WrapText("one two three four five", 9, 2);
+  REQUIRE(lines.size() == 4);
+  CHECK(lines[0] == "one two");
+  CHECK(lines[1] == "  three");
+  CHECK(lines[2] == "  four");
+  CHECK(lines[3] == "  five");
+  CHECK(WrapText("", 10, 0) == std::vector<std::string>{""});
+}
+
+TEST_CASE("a practice whose count rose by the trigger gets a digest without any patient identifier") {
+  testing::ReportPopulation population;
+  const ReportConfig config = testing::TestConfig();
+  auto model = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(model.ok());
+  REQUIRE(model->practices.size() == 2);
+  const size_t a1 = model->practices[0].code == "A1" ? 0 : 1;
+  auto digest = BuildDigest(*model, a1, "practice-A1.html");
+  REQUIRE(digest.has_value());
+  CHECK(digest->baseline == "the previous month, 2024-05-31 (no earlier report)");
+  const std::string text = FormatDigest(*digest);
+  // 0 patients on 2024-05-31, 6 on 2024-06-30: a rise of 6 (no percentage from zero).
+  CHECK(text.find("- acb>=3: up 6 patients since 2024-05-31\r\n") != std::string::npos);
+  CHECK(text.find("To: team@example.invalid") != std::string::npos);
+  for (const std::string& id : testing::PatientIds()) {
+    CAPTURE(id);
+    CHECK(text.find(id) == std::string::npos);
+  }
+}
+
+TEST_CASE("a practice whose counts did not move gets no digest") {
+  testing::ReportPopulation population;
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {}, {});
+  REQUIRE(model.ok());
+  const size_t odd = model->practices[0].code == "A1" ? 1 : 0;
+  CHECK_FALSE(BuildDigest(*model, odd, "p.html").has_value());
+}
+
+TEST_CASE("no digest is made when digests are not configured") {
+  testing::ReportPopulation population;
+  ReportConfig config = testing::TestConfig();
+  config.digests.enabled = false;
+  auto model = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(model.ok());
+  for (size_t i = 0; i < model->practices.size(); ++i) CHECK_FALSE(BuildDigest(*model, i, "p.html").has_value());
+}
+
+}
+
+}  // namespace medload

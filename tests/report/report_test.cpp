@@ -1,0 +1,113 @@
+#include "medload/report/report.h"
+
+#include <doctest/doctest.h>
+
+#include "report/report_fixture.h"
+
+namespace medload {
+
+TEST_SUITE("report") {
+
+TEST_CASE("the latest census date is the last month end covered by the data") {
+  StoreSummary summary;
+  summary.latest_dispensed = Date::FromCivil(2026, 11, 14);
+  CHECK(LatestCensusDate(summary)->ToIso() == "2026-10-31");
+  summary.latest_dispensed = Date::FromCivil(2026, 10, 31);
+  CHECK(LatestCensusDate(summary)->ToIso() == "2026-10-31");
+  summary.latest_dispensed = Date::FromCivil(2026, 1, 3);
+  CHECK(LatestCensusDate(summary)->ToIso() == "2025-12-31");
+  summary.latest_dispensed.reset();
+  CHECK_FALSE(LatestCensusDate(summary).ok());
+}
+
+TEST_CASE("a change is given in patients and, from a non-zero count, in percent") {
+  const Change rise = ChangeOf(12L, 8L);
+  CHECK(*rise.patients == 4);
+  CHECK(*rise.percent == doctest::Approx(50.0));
+  const Change from_zero = ChangeOf(3L, 0L);
+  CHECK(*from_zero.patients == 3);
+  CHECK_FALSE(from_zero.percent.has_value());
+  CHECK_FALSE(ChangeOf(3L, std::nullopt).patients.has_value());
+}
+
+TEST_CASE("the model counts each practice per month and sums the network") {
+  testing::ReportPopulation population;
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {}, {});
+  REQUIRE(model.ok());
+  CHECK(model->on.ToIso() == "2024-06-30");
+  REQUIRE(model->dates.size() == 6);
+  CHECK(model->dates.front().ToIso() == "2024-01-31");
+  CHECK(model->keys == std::vector<std::string>{"acb>=3", "items>=2", "any"});
+  REQUIRE(model->practices.size() == 2);
+  const ReportSeries& a1 = model->practices[0];
+  CHECK(a1.code == "A1");
+  CHECK(a1.registered.back() == 8);
+  CHECK(a1.counts[0] == std::vector<long>{0, 0, 0, 0, 0, 6});   // acb>=3 from June
+  CHECK(a1.counts[1].back() == 8);                               // items>=2: everybody
+  CHECK(model->network.registered.back() == 14);
+  CHECK(model->network.counts[0].back() == 6);
+  CHECK(model->patients_seen == 14);
+  CHECK_FALSE(model->previous.has_value());
+}
+
+TEST_CASE("each practice's worklist is ranked, limited and made from the same pass") {
+  testing::ReportPopulation population;
+  ReportConfig config = testing::TestConfig();
+  config.worklist_limit = 3;
+  auto model = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(model.ok());
+  const Worklist& a1 = model->worklists.at("A1");
+  CHECK(a1.patients_meeting == 8);
+  CHECK(a1.patients_considered == 8);
+  REQUIRE(a1.patients.size() == 3);
+  CHECK(a1.patients[0].rank == 1);
+  CHECK(a1.patients[0].acb >= 3);  // the ACB patients rank first (spec section 6)
+  CHECK(a1.patients[0].patient == "ZQ7102");
+  CHECK(model->worklists.at(testing::kOddPractice).patients_meeting == 6);
+}
+
+TEST_CASE("worklist identifiers are replaced when a pseudonymiser is given") {
+  testing::ReportPopulation population;
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(),
+                                [](const std::string& id) { return "PX-" + std::string(id.rbegin(), id.rend()); }, {});
+  REQUIRE(model.ok());
+  CHECK(model->worklists.at("A1").patients[0].patient == "PX-2017QZ");
+}
+
+TEST_CASE("the configured practices restrict the report and an unknown one is refused") {
+  testing::ReportPopulation population;
+  ReportConfig config = testing::TestConfig();
+  config.practices = {"A1"};
+  auto model = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(model.ok());
+  REQUIRE(model->practices.size() == 1);
+  CHECK(model->network.registered.back() == 8);
+  config.practices = {"ZZ9"};
+  auto refused = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE_FALSE(refused.ok());
+  CHECK(refused.status().message() == "practice \"ZZ9\" of the config's /practices is not in the store");
+}
+
+TEST_CASE("a saved run payload reads back as the previous report") {
+  testing::ReportPopulation population;
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {}, {});
+  REQUIRE(model.ok());
+  const auto previous = ParsePreviousReport(ReportRunPayload(*model).dump());
+  REQUIRE(previous.has_value());
+  CHECK(previous->on.ToIso() == "2024-06-30");
+  CHECK(previous->counts.at("A1") == std::vector<long>{6, 8, 8});
+  CHECK_FALSE(ParsePreviousReport("{\"on\": 3}").has_value());
+}
+
+TEST_CASE("progress is reported with the number of patients read") {
+  testing::ReportPopulation population;
+  long last = 0;
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {},
+                                [&](long patients) { last = patients; });
+  REQUIRE(model.ok());
+  CHECK(last == 14);
+}
+
+}
+
+}  // namespace medload
