@@ -210,9 +210,7 @@ class Recogniser {
   bool MatchSpoon() {
     if (!IsNumber(i_) || !(Word(i_ + 1, "ml") || Word(i_ + 1, "mls"))) return false;
     const auto spoon = ReadDoseUnit(Text(i_ + 2));
-    if (!spoon || spoon->name != "ml" || spoon->factor != 5 || t_[i_ + 2].kind != TokenKind::kWord) {
-      return false;
-    }
+    if (!spoon || spoon->name != "ml" || spoon->factor != 5) return false;
     const double volume = t_[i_].number;
     if (!(volume > 0) || volume > 100) return false;
     Emit(ItemKind::kUnit, i_ + 3, volume, 0, "ml");

@@ -102,7 +102,8 @@ std::optional<double> TimesPerDay(const json& dosage, Notes& notes) {
   if (period) {
     const auto days = DaysPerUnit(String(repeat, "periodUnit"));
     if (!days) {
-      notes.Add(at + "/periodUnit \"" + String(repeat, "periodUnit") + "\" is not s|min|h|d|wk|mo|a");
+      notes.Add(at + "/periodUnit \"" + String(repeat, "periodUnit") +
+                "\" is not s|min|h|d|wk|mo|a");
       return std::nullopt;
     }
     return frequency_max.value_or(frequency.value_or(1)) / (*period * *days);

@@ -11,10 +11,11 @@ using nlohmann::json;
 // datatypes: Dosage (doseAndRate.doseQuantity) and Timing.repeat.
 json Dosage(double value, const char* unit, int frequency, double period,
             const char* period_unit) {
-  return json{{"doseAndRate", json::array({{{"doseQuantity", {{"value", value}, {"unit", unit}}}}})},
-              {"timing",
-               {{"repeat",
-                 {{"frequency", frequency}, {"period", period}, {"periodUnit", period_unit}}}}}};
+  json dosage = json::parse(R"({"doseAndRate": [{"doseQuantity": {}}], "timing": {"repeat": {}}})");
+  dosage["doseAndRate"][0]["doseQuantity"] = {{"value", value}, {"unit", unit}};
+  dosage["timing"]["repeat"] = {
+      {"frequency", frequency}, {"period", period}, {"periodUnit", period_unit}};
+  return dosage;
 }
 
 }  // namespace
@@ -43,13 +44,15 @@ TEST_CASE("the worked oral solution example reads as 15 mL a day") {
 
 TEST_CASE("every period unit of Timing.repeat converts to days") {
   // Source: HL7 FHIR R4 Timing.repeat.periodUnit value set: s | min | h | d | wk | mo | a.
+  // A month is read as 30 days and a year as 365 (the project's choice, as for text).
   struct Case {
     const char* unit;
     double period;
     double per_day;
   };
-  const Case cases[] = {{"s", 86400, 1},     {"min", 1440, 1}, {"h", 4, 6},   {"d", 2, 0.5},
-                        {"wk", 1, 1.0 / 7},  {"mo", 1, 1.0 / 30}, {"a", 1, 1.0 / 365}};
+  const Case cases[] = {{"s", 86400, 1},    {"min", 1440, 1},    {"h", 4, 6},
+                        {"d", 2, 0.5},      {"wk", 1, 1.0 / 7},  {"mo", 1, 1.0 / 30},
+                        {"a", 1, 1.0 / 365}};
   for (const Case& c : cases) {
     CAPTURE(c.unit);
     const DosageReading reading = ReadFhirDosage(Dosage(1, "tablet", 1, c.period, c.unit));
@@ -61,11 +64,11 @@ TEST_CASE("every period unit of Timing.repeat converts to days") {
 TEST_CASE("frequencyMax and a dose range use the upper values and period the shorter") {
   // Source: HL7 FHIR R4 Timing.repeat.frequencyMax / periodMax ("every 4 to 6 hours" is
   // period 4, periodMax 6) and Dosage.doseAndRate.doseRange.
-  json dosage = {
-      {"doseAndRate", json::array({{{"doseRange", {{"low", {{"value", 1}, {"unit", "tablet"}}},
-                                                   {"high", {{"value", 2}, {"unit", "tablet"}}}}}}})},
-      {"timing", {{"repeat", {{"frequency", 1}, {"frequencyMax", 2}, {"period", 4},
-                              {"periodMax", 6}, {"periodUnit", "h"}}}}}};
+  const json dosage = json::parse(R"({
+    "doseAndRate": [{"doseRange": {"low": {"value": 1, "unit": "tablet"},
+                                   "high": {"value": 2, "unit": "tablet"}}}],
+    "timing": {"repeat": {"frequency": 1, "frequencyMax": 2, "period": 4, "periodMax": 6,
+                          "periodUnit": "h"}}})");
   const DosageReading reading = ReadFhirDosage(dosage);
   REQUIRE(reading.units_per_day);
   CHECK(*reading.units_per_day == doctest::Approx(2 * 2 * 6));
@@ -75,8 +78,9 @@ TEST_CASE("as needed with maxDosePerPeriod uses the maximum per day") {
   // Source: HL7 FHIR R4 Dosage.asNeeded[x] and Dosage.maxDosePerPeriod (a Ratio).
   json dosage = Dosage(2, "tablet", 4, 1, "d");
   dosage["asNeededBoolean"] = true;
-  dosage["maxDosePerPeriod"] = {{"numerator", {{"value", 6}, {"unit", "tablet"}}},
-                                {"denominator", {{"value", 24}, {"unit", "h"}, {"code", "h"}}}};
+  dosage["maxDosePerPeriod"] = json::parse(R"({
+    "numerator": {"value": 6, "unit": "tablet"},
+    "denominator": {"value": 24, "unit": "h", "code": "h"}})");
   const DosageReading reading = ReadFhirDosage(dosage);
   CHECK(reading.as_needed);
   REQUIRE(reading.units_per_day);
@@ -94,26 +98,41 @@ TEST_CASE("as needed by a codeable concept without a maximum uses the frequency"
 
 TEST_CASE("a regular dose above its maxDosePerPeriod is limited to the maximum") {
   json dosage = Dosage(3, "tablet", 4, 1, "d");
-  dosage["maxDosePerPeriod"] = {{"numerator", {{"value", 8}}}, {"denominator", {{"value", 1}, {"code", "d"}}}};
+  dosage["maxDosePerPeriod"] =
+      json::parse(R"({"numerator": {"value": 8}, "denominator": {"value": 1, "code": "d"}})");
   const DosageReading reading = ReadFhirDosage(dosage);
   REQUIRE(reading.units_per_day);
   CHECK(*reading.units_per_day == doctest::Approx(8));
 }
 
+TEST_CASE("a maximum in another unit than the dose is not used") {
+  json dosage = Dosage(2, "tablet", 4, 1, "d");
+  dosage["asNeededBoolean"] = true;
+  dosage["maxDosePerPeriod"] = json::parse(R"({"numerator": {"value": 4, "unit": "g"}})");
+  const DosageReading reading = ReadFhirDosage(dosage);
+  REQUIRE(reading.units_per_day);
+  CHECK(*reading.units_per_day == doctest::Approx(8));
+  CHECK(reading.note == "maxDosePerPeriod is in mg, the dose in tablet");
+}
+
 TEST_CASE("repeat.when codes count administrations when there is no frequency") {
   // Source: HL7 FHIR R4 EventTiming: MORN, NIGHT; C = at a meal (three a day).
-  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", 1}}}}})},
-                 {"timing", {{"repeat", {{"when", json::array({"MORN", "NIGHT"})}}}}}};
+  json dosage = json::parse(R"({"doseAndRate": [{"doseQuantity": {"value": 1}}],
+                                "timing": {"repeat": {"when": ["MORN", "NIGHT"]}}})");
   REQUIRE(ReadFhirDosage(dosage).units_per_day);
   CHECK(*ReadFhirDosage(dosage).units_per_day == doctest::Approx(2));
   dosage["timing"]["repeat"]["when"] = json::array({"C"});
+  CHECK(*ReadFhirDosage(dosage).units_per_day == doctest::Approx(3));
+  dosage["timing"]["repeat"] =
+      json::parse(R"({"timeOfDay": ["08:00:00", "14:00:00", "20:00:00"]})");
   CHECK(*ReadFhirDosage(dosage).units_per_day == doctest::Approx(3));
 }
 
 TEST_CASE("a timing code such as BID gives the frequency") {
   // Source: HL7 FHIR R4 TimingAbbreviation value set (BID, TID, QID, Q4H, ...).
-  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", 2}, {"unit", "puff"}}}}})},
-                 {"timing", {{"code", {{"coding", json::array({{{"code", "BID"}}})}}}}}};
+  const json dosage = json::parse(R"({
+    "doseAndRate": [{"doseQuantity": {"value": 2, "unit": "puff"}}],
+    "timing": {"code": {"coding": [{"code": "BID"}]}}})");
   const DosageReading reading = ReadFhirDosage(dosage);
   REQUIRE(reading.units_per_day);
   CHECK(*reading.units_per_day == doctest::Approx(4));
@@ -121,8 +140,9 @@ TEST_CASE("a timing code such as BID gives the frequency") {
 }
 
 TEST_CASE("without a structured dose the text is read instead") {
-  json dosage = {{"text", "one tablet three times a day"},
-                 {"timing", {{"repeat", {{"frequency", 3}, {"period", 1}, {"periodUnit", "d"}}}}}};
+  const json dosage = json::parse(R"({
+    "text": "one tablet three times a day",
+    "timing": {"repeat": {"frequency": 3, "period": 1, "periodUnit": "d"}}})");
   const DosageReading reading = ReadFhirDosage(dosage);
   REQUIRE(reading.units_per_day);
   CHECK(*reading.units_per_day == doctest::Approx(3));
@@ -130,7 +150,8 @@ TEST_CASE("without a structured dose the text is read instead") {
 }
 
 TEST_CASE("structured as-needed survives a fallback to text without an as-needed phrase") {
-  json dosage = {{"text", "1-2 tablets every 4 hours"}, {"asNeededBoolean", true}};
+  const json dosage =
+      json::parse(R"({"text": "1-2 tablets every 4 hours", "asNeededBoolean": true})");
   const DosageReading reading = ReadFhirDosage(dosage);
   CHECK(reading.as_needed);
   REQUIRE(reading.units_per_day);
@@ -138,8 +159,9 @@ TEST_CASE("structured as-needed survives a fallback to text without an as-needed
 }
 
 TEST_CASE("values of the wrong type are named by pointer and never throw") {
-  json dosage = {{"doseAndRate", json::array({{{"doseQuantity", {{"value", "two"}}}}})},
-                 {"timing", {{"repeat", {{"frequency", 2}, {"period", 1}, {"periodUnit", "fortnight"}}}}}};
+  const json dosage = json::parse(R"({
+    "doseAndRate": [{"doseQuantity": {"value": "two"}}],
+    "timing": {"repeat": {"frequency": 2, "period": 1, "periodUnit": "fortnight"}}})");
   DosageReading reading;
   CHECK_NOTHROW(reading = ReadFhirDosage(dosage));
   CHECK_FALSE(reading.units_per_day);
@@ -154,8 +176,12 @@ TEST_CASE("odd JSON values give an empty or unknown reading") {
   CHECK(ReadFhirDosage(json::object()).understanding == Understanding::kEmpty);
   CHECK(ReadFhirDosage(json::array()).understanding == Understanding::kUnknown);
   CHECK(ReadFhirDosage(json(42)).note == "the Dosage is not a JSON object");
-  CHECK_NOTHROW(ReadFhirDosage(json{{"doseAndRate", 7}, {"timing", "daily"}, {"maxDosePerPeriod", json::array()}}));
-  CHECK_NOTHROW(ReadFhirDosage(json{{"doseAndRate", json::array({nullptr})}}));
+  CHECK_NOTHROW(ReadFhirDosage(
+      json::parse(R"({"doseAndRate": 7, "timing": "daily", "maxDosePerPeriod": []})")));
+  CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"doseAndRate": [null]})")));
+  CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"doseAndRate": [{"doseRange": 3}]})")));
+  CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"timing": {"repeat": [], "code": 1}})")));
+  CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"maxDosePerPeriod": {"numerator": 5}})")));
 }
 
 TEST_CASE("concurrent Dosage elements add up and sequential ones take the highest") {

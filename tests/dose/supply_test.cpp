@@ -48,7 +48,8 @@ TEST_CASE("the product default comes third and the option default last") {
   const Supply product = ComputeSupply(1, std::nullopt, unknown, 84, kDefaults);
   CHECK(product.days == 84);
   CHECK(product.rule == SupplyRule::kProductDefault);
-  const Supply fallback = ComputeSupply(1, std::nullopt, unknown, std::nullopt, SupplyOptions{21, 180});
+  const Supply fallback =
+      ComputeSupply(1, std::nullopt, unknown, std::nullopt, SupplyOptions{21, 180});
   CHECK(fallback.days == 21);
   CHECK(fallback.rule == SupplyRule::kDefaultDays);
 }
@@ -73,15 +74,17 @@ TEST_CASE("every rule is capped at the maximum supply days") {
   const Supply product = ComputeSupply(1, std::nullopt, DosageReading{}, 120, options);
   CHECK(product.days == 90);
   CHECK(product.capped);
-  const Supply fallback = ComputeSupply(1, std::nullopt, DosageReading{}, std::nullopt, SupplyOptions{200, 90});
+  const Supply fallback =
+      ComputeSupply(1, std::nullopt, DosageReading{}, std::nullopt, SupplyOptions{200, 90});
   CHECK(fallback.days == 90);
   CHECK(fallback.capped);
 }
 
 TEST_CASE("days are at least one whatever the options") {
   CHECK(ComputeSupply(1, std::nullopt, PerDay(8), std::nullopt, kDefaults).days == 1);
-  CHECK(ComputeSupply(1, std::nullopt, DosageReading{}, std::nullopt, SupplyOptions{0, 0}).days == 1);
-  CHECK(ComputeSupply(1, std::nullopt, DosageReading{}, std::nullopt, SupplyOptions{-5, -5}).days == 1);
+  const DosageReading none;
+  CHECK(ComputeSupply(1, std::nullopt, none, std::nullopt, SupplyOptions{0, 0}).days == 1);
+  CHECK(ComputeSupply(1, std::nullopt, none, std::nullopt, SupplyOptions{-5, -5}).days == 1);
 }
 
 TEST_CASE("the oral solution worked example lasts 30 days") {
@@ -110,7 +113,8 @@ TEST_CASE("a 5 ml spoon dose divides a quantity in ml") {
 
 TEST_CASE("an as-needed maximum gives the shortest supply") {
   // 32 tablets, "max 8 in 24 hours" as needed: at most 8 a day, so 4 days.
-  const DosageReading prn = ReadDosageText("1-2 tablets every 4-6 hours when required, max 8 in 24 hours");
+  const DosageReading prn =
+      ReadDosageText("1-2 tablets every 4-6 hours when required, max 8 in 24 hours");
   CHECK(prn.as_needed);
   const Supply supply = ComputeSupply(32, std::nullopt, prn, std::nullopt, kDefaults,
                                       QuantityUnit{"tablet", std::nullopt});
