@@ -124,9 +124,9 @@ int RunImport(Context& context, const std::vector<std::string>& args, InputKind 
   if (context.format == Format::kSvg) return Fail(context, Status::Usage("import writes text, csv, json or html"));
   const std::vector<std::string> files =
       vm->count("file") != 0U ? (*vm)["file"].as<std::vector<std::string>>() : std::vector<std::string>();
-  if (Status status = CheckFiles(files); !status.ok()) return Fail(context, status);
   Result<ImportOptions> options = ReadImportOptions(*vm, kind);
   if (!options.ok()) return Fail(context, options.status());
+  if (Status status = CheckFiles(files); !status.ok()) return Fail(context, status);
   Result<Store> store = Store::Open(context.db_path);
   if (!store.ok()) return Fail(context, store.status());
   std::ofstream rejects;
