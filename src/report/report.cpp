@@ -137,7 +137,8 @@ struct Pass {
 Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
   return store.ForEachPatient([&](const PatientHistory& history) {
-    if (progress && ++pass.patients % kProgressEvery == 0) progress(pass.patients);
+    ++pass.patients;
+    if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
     std::optional<Timeline> timeline;
     std::optional<Burden> census;
     pass.counter.Add(history, [&](Date date, std::optional<int> age) {
