@@ -50,7 +50,8 @@ std::optional<std::string> RiseFinding(const DigestMeasure& m, const DigestTrigg
   const bool by_patients = t.rise_patients && *m.change.patients >= *t.rise_patients;
   const bool by_percent = t.rise_percent && m.change.percent && *m.change.percent >= *t.rise_percent;
   if (!by_patients && !by_percent) return std::nullopt;
-  std::string text = m.key + ": up " + std::to_string(*m.change.patients) + " patients";
+  std::string text = m.key + ": up " + std::to_string(*m.change.patients) +
+                     (*m.change.patients == 1 ? " patient" : " patients");
   if (m.change.percent) text += " (" + SignedPercent(*m.change.percent) + ")";
   return text + " since " + since;
 }

@@ -2,14 +2,16 @@
 # Real-browser check of the demo report: writes the demo into a folder, opens index.html
 # in headless Chromium, checks that the page rendered its charts without console errors,
 # and keeps a screenshot beside the build.
-#   usage: check_report.sh MEDLOAD CHROMIUM OUTPUT_FOLDER
+#   usage: check_report.sh MEDLOAD CHROMIUM OUTPUT_FOLDER [DEMO_DATA_FOLDER]
 set -u
 medload=$1
 chromium=$2
 out=$(mkdir -p "$3" && cd "$3" && pwd)
 demo="$out/browser-demo"
 rm -rf "$demo"
-"$medload" --quiet demo --out "$demo" >"$out/browser-demo.txt" 2>&1 || { echo "demo failed"; cat "$out/browser-demo.txt"; exit 1; }
+data_args=()
+[ $# -ge 4 ] && data_args=(--data "$4")
+"$medload" --quiet demo --out "$demo" "${data_args[@]}" >"$out/browser-demo.txt" 2>&1 || { echo "demo failed"; cat "$out/browser-demo.txt"; exit 1; }
 page="file://$demo/index.html"
 flags=(--headless --no-sandbox --disable-gpu --disable-dev-shm-usage --no-first-run
        --user-data-dir="$out/browser-profile" --enable-logging=stderr --v=0)
