@@ -108,15 +108,16 @@ struct Dosages {
       {"two sprays into each nostril twice a day", "2 sprays each nostril bd"});
   CatalogueDosage liquid_15ml_bd = Regimen(15, 15, 2, 1, kD, false, "ml",
       {"15ml twice a day", "15ML TO BE TAKEN TWICE A DAY", "15ml bd"});
-  CatalogueDosage eye_drop_night = Regimen(1, 1, 1, 1, kD, false, "drop",
+  CatalogueDosage eye_drop_night = Regimen(2, 2, 1, 1, kD, false, "drop",  // one per eye
       {"one drop into both eyes at night", "ONE DROP TO BE USED IN BOTH EYES AT NIGHT",
        "1 drop both eyes nocte"});
+  // Creams: no structured dose (the amount per application is not said).
   CatalogueDosage apply_bd = Regimen(0, 0, 0, 1, kD, false, "",
       {"apply thinly twice a day", "APPLY TWICE A DAY", "apply bd"});
   CatalogueDosage apply_tds = Regimen(0, 0, 0, 1, kD, false, "",
       {"apply three times a day", "APPLY THREE TIMES A DAY FOR 7 DAYS", "apply tds"});
   CatalogueDosage injection_12_weekly = Regimen(1, 1, 1, 12, kW, false, "ampoule",
-      {"one injection every 12 weeks", "1ml every three months"});
+      {"one injection every 12 weeks", "1ml every 12 weeks"});
   // Courses.
   CatalogueDosage course_tds_cap = Regimen(1, 1, 3, 1, kD, false, "capsule",
       {"one capsule three times a day for seven days",
