@@ -188,10 +188,10 @@ class Recogniser {
 
   // "8am", "at 8 pm", "08:00", "22:30".
   bool MatchClockTime() {
-    if (!IsNumber(i_) || !IsWhole(t_[i_].number)) return false;
+    if (!IsNumber(i_) || !IsWhole(t_[i_].number) || t_[i_].number > 24) return false;
     const int hour = static_cast<int>(t_[i_].number);
-    if (Word(i_ + 1, ":") && IsNumber(i_ + 2) && t_[i_ + 2].text.size() == 2 && hour <= 24 &&
-        t_[i_ + 2].number < 60) {
+    if (Word(i_ + 1, ":") && IsNumber(i_ + 2) && t_[i_ + 2].text.size() == 2 &&
+        IsWhole(t_[i_ + 2].number) && t_[i_ + 2].number < 60) {
       const int minute = static_cast<int>(t_[i_ + 2].number);
       Emit(ItemKind::kEvent, i_ + 3, kClockEventBase + hour * 100 + minute);
       return true;

@@ -1,6 +1,7 @@
 #include "dose/dosage_lexer.h"
 
 #include <charconv>
+#include <cmath>
 
 namespace medload {
 namespace {
@@ -73,7 +74,7 @@ void EmitWordRun(std::string_view run, bool joined, std::vector<Token>& out) {
 // Adds a vulgar fraction: to a whole number just before it, or as a number of its own.
 void EmitFraction(double value, bool joined, std::vector<Token>& out) {
   if (joined && !out.empty() && out.back().kind == TokenKind::kNumber &&
-      out.back().number == static_cast<double>(static_cast<long long>(out.back().number))) {
+      out.back().number == std::floor(out.back().number)) {
     out.back().number += value;
     return;
   }

@@ -53,18 +53,38 @@ void AddDistinct(std::vector<int>& values, int value) {
   if (std::find(values.begin(), values.end(), value) == values.end()) values.push_back(value);
 }
 
-// Keeps only printable ASCII or valid UTF-8 of a word, at most 30 bytes, for the note.
+// The length of the well-formed UTF-8 sequence at word[i] (RFC 3629: no overlong forms,
+// no surrogates, nothing above U+10FFFF), or 0 when it is not one.
+size_t Utf8Length(std::string_view word, size_t i) {
+  const auto at = [&](size_t k) { return static_cast<unsigned char>(word[i + k]); };
+  const unsigned char lead = at(0);
+  size_t length = 0;
+  unsigned char low = 0x80;
+  unsigned char high = 0xBF;
+  if (lead < 0x80) return 1;
+  if (lead >= 0xC2 && lead <= 0xDF) length = 2;
+  if (lead >= 0xE0 && lead <= 0xEF) length = 3;
+  if (lead >= 0xF0 && lead <= 0xF4) length = 4;
+  if (lead == 0xE0) low = 0xA0;
+  if (lead == 0xED) high = 0x9F;
+  if (lead == 0xF0) low = 0x90;
+  if (lead == 0xF4) high = 0x8F;
+  if (length == 0 || i + length > word.size()) return 0;
+  if (at(1) < low || at(1) > high) return 0;
+  for (size_t k = 2; k < length; ++k) {
+    if ((at(k) & 0xC0) != 0x80) return 0;
+  }
+  return length;
+}
+
+// Keeps printable ASCII and well-formed UTF-8 of a word, at most 30 bytes, for the note;
+// anything else becomes '?'.
 std::string SafeWord(std::string_view word) {
   std::string safe;
   for (size_t i = 0; i < word.size() && safe.size() < 30;) {
+    const size_t length = Utf8Length(word, i);
     const auto byte = static_cast<unsigned char>(word[i]);
-    size_t length = byte < 0x80 ? 1 : byte >> 5 == 0x6 ? 2 : byte >> 4 == 0xE ? 3
-                                    : byte >> 3 == 0x1E ? 4 : 0;
-    bool valid = length > 0 && i + length <= word.size();
-    for (size_t k = 1; valid && k < length; ++k) {
-      valid = (static_cast<unsigned char>(word[i + k]) & 0xC0) == 0x80;
-    }
-    if (valid && (byte >= 0x20 || length > 1) && byte != 0x7F) {
+    if (length > 1 || (length == 1 && byte >= 0x20 && byte != 0x7F)) {
       safe.append(word.substr(i, length));
       i += length;
     } else {

@@ -192,6 +192,8 @@ const Case kCases[] = {
     {"0 tablets daily", kNone, kRegular, kUnknown, "tablet"},
     {"!!!", kNone, kRegular, kUnknown, ""},
     {"99999999999999999999 daily", kNone, kRegular, kUnknown, ""},
+    {"99999999999999999999am daily", kNone, kRegular, kUnknown, ""},
+    {"99999999999999999999\xC2\xBD daily", kNone, kRegular, kUnknown, ""},
     {"\xE4\xB8\x80\xE6\x97\xA5\xE4\xB8\x80\xE5\x9B\x9E", kNone, kRegular, kUnknown, ""},
     {"\xFF\xFE\x01 bd", 2, kRegular, kPartial, ""},
 };
@@ -245,6 +247,10 @@ TEST_CASE("the note names the words that were not understood") {
 TEST_CASE("the note never carries invalid UTF-8 from the text") {
   const DosageReading reading = ReadDosageText("\xFF\xFE\x01 bd");
   CHECK(reading.note == "did not understand \"??\"");
+  // Overlong forms and UTF-16 surrogates are not UTF-8 (RFC 3629); good text is kept.
+  CHECK(ReadDosageText("\xC0\xAF bd").note == "did not understand \"??\"");
+  CHECK(ReadDosageText("\xED\xA0\x80 bd").note == "did not understand \"???\"");
+  CHECK(ReadDosageText("caf\xC3\xA9 bd").note == "did not understand \"caf\xC3\xA9\"");
 }
 
 TEST_CASE("very long text is read up to the cap quickly and says so") {
