@@ -207,9 +207,19 @@ class Assembler {
     if (std::find(notes_.begin(), notes_.end(), note) == notes_.end()) notes_.push_back(note);
   }
 
+  struct PartsSum {
+    double regular = 0;     // units per day of the timed doses
+    bool timed = false;     // at least one dose had a timing
+    bool left_out = false;  // a dose had no timing
+    std::optional<double> first_dose;
+  };
+
   std::optional<double> Rate(const Part& part);
-  GroupResult Evaluate(Group& group);
-  void MaximumPerDay(Group& group, std::string_view unit, std::optional<double>& units,
+  std::string_view GroupUnit(const Group& group) const;
+  PartsSum SumParts(const Group& group, std::string_view unit,
+                    std::optional<double> max_administrations);
+  GroupResult Evaluate(const Group& group);
+  void MaximumPerDay(const Group& group, std::string_view unit, std::optional<double>& units,
                      std::optional<double>& administrations);
   std::string JoinedNotes() const;
 
@@ -248,7 +258,8 @@ std::optional<double> Assembler::Rate(const Part& part) {
   return rate;
 }
 
-void Assembler::MaximumPerDay(Group& group, std::string_view unit, std::optional<double>& units,
+void Assembler::MaximumPerDay(const Group& group, std::string_view unit,
+                              std::optional<double>& units,
                               std::optional<double>& administrations) {
   const Maximum& max = group.max;
   if (!max.present || (!max.amount && !max.count && max.events.empty())) return;
@@ -271,30 +282,26 @@ void Assembler::MaximumPerDay(Group& group, std::string_view unit, std::optional
   }
 }
 
-GroupResult Assembler::Evaluate(Group& group) {
-  GroupResult result;
+// The unit of a group: its first dose's, else its maximum's, else the verb's.
+std::string_view Assembler::GroupUnit(const Group& group) const {
   for (const Part& part : group.parts) {
-    if (!part.unit.empty()) {
-      result.unit = part.unit;
-      break;
-    }
+    if (!part.unit.empty()) return part.unit;
   }
-  if (result.unit.empty() && group.max.amount && !group.max.unit.empty() &&
-      group.max.unit != "dose") {
-    result.unit = group.max.unit;
+  if (group.max.amount && !group.max.unit.empty() && group.max.unit != "dose") {
+    return group.max.unit;
   }
-  if (result.unit.empty()) result.unit = unit_hint_;
-  std::optional<double> max_units;
-  std::optional<double> max_administrations;
-  MaximumPerDay(group, result.unit, max_units, max_administrations);
-  double regular = 0;
-  bool timed = false;
-  bool left_out = false;
-  std::optional<double> first_dose;
+  return unit_hint_;
+}
+
+// The regular daily amount of a group's doses in `unit`; a dose without its own timing
+// takes the maximum's administrations ("1-2 tablets up to four times a day").
+Assembler::PartsSum Assembler::SumParts(const Group& group, std::string_view unit,
+                                        std::optional<double> max_administrations) {
+  PartsSum sum;
   for (const Part& part : group.parts) {
     const double dose = part.amount.value_or(1) * part.factor * part.multiplier;
-    if (!part.unit.empty() && !SameDoseUnit(part.unit, result.unit)) {
-      Note("doses in more than one unit: only " + std::string(result.unit) + " counted");
+    if (!part.unit.empty() && !SameDoseUnit(part.unit, unit)) {
+      Note("doses in more than one unit: only " + std::string(unit) + " counted");
       doubtful_ = true;
       continue;
     }
@@ -302,23 +309,36 @@ GroupResult Assembler::Evaluate(Group& group) {
       Note("an amount too large to be a dose");
       continue;
     }
-    if (part.amount && !first_dose) first_dose = dose;
+    if (part.amount && !sum.first_dose) sum.first_dose = dose;
     auto rate = Rate(part);
     if (!rate) rate = max_administrations;
     if (!rate) {
-      if (part.amount) left_out = true;
+      sum.left_out = sum.left_out || part.amount.has_value();
       continue;
     }
-    regular += dose * *rate;
-    timed = true;
+    sum.regular += dose * *rate;
+    sum.timed = true;
   }
-  if (max_administrations && !max_units) max_units = first_dose.value_or(1) * *max_administrations;
+  return sum;
+}
+
+GroupResult Assembler::Evaluate(const Group& group) {
+  GroupResult result;
+  result.unit = GroupUnit(group);
+  std::optional<double> max_units;
+  std::optional<double> max_administrations;
+  MaximumPerDay(group, result.unit, max_units, max_administrations);
+  const PartsSum sum = SumParts(group, result.unit, max_administrations);
+  if (max_administrations && !max_units) {
+    max_units = sum.first_dose.value_or(1) * *max_administrations;
+  }
   // A dose left without a frequency matters unless an as-needed maximum sets the amount.
-  left_out_ = left_out_ || (left_out && !(as_needed_ && max_units));
+  left_out_ = left_out_ || (sum.left_out && !(as_needed_ && max_units));
   if (as_needed_) {
-    result.units_per_day = max_units ? max_units : timed ? std::optional(regular) : std::nullopt;
-  } else if (timed) {
-    result.units_per_day = max_units ? std::min(regular, *max_units) : regular;
+    result.units_per_day = max_units ? max_units : sum.timed ? std::optional(sum.regular)
+                                                             : std::nullopt;
+  } else if (sum.timed) {
+    result.units_per_day = max_units ? std::min(sum.regular, *max_units) : sum.regular;
   } else {
     result.units_per_day = max_units;
   }
@@ -346,7 +366,7 @@ DosageReading Assembler::Finish(bool truncated) {
   DosageReading reading;
   reading.as_needed = as_needed_;
   size_t with_units = 0;
-  for (Group& group : groups_) {
+  for (const Group& group : groups_) {
     const GroupResult result = Evaluate(group);
     if (!result.units_per_day) {
       if (reading.unit.empty()) reading.unit = std::string(result.unit);
