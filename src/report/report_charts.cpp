@@ -21,7 +21,7 @@ constexpr int kCurveSteps = 80;
 double NiceTop(double value) {
   if (value <= 0) return 1;
   const double power = std::pow(10.0, std::floor(std::log10(value)));
-  for (const double step : {1.0, 2.0, 2.5, 5.0, 10.0}) {
+  for (const double step : {1.0, 1.5, 2.0, 2.5, 5.0, 10.0}) {
     if (step * power >= value) return step * power;
   }
   return 10 * power;
