@@ -154,9 +154,12 @@ class Recogniser {
     const auto first = NumberAt(k);
     if (!first) return std::nullopt;
     Range range{first->value, first->value, first->next};
-    const size_t link = first->next;
-    if (Word(link, "-") || Word(link, "to") || Word(link, "or")) {
-      if (const auto second = NumberAt(link + 1)) {
+    // "2.5ml to 5ml": the unit may follow both numbers; the second one is kept.
+    const bool unit_between = UnitAt(first->next) && IsLink(first->next + 1);
+    const size_t link = unit_between ? first->next + 1 : first->next;
+    if (IsLink(link)) {
+      const auto second = NumberAt(link + 1);
+      if (second && (!unit_between || Text(second->next) == Text(first->next))) {
         range = Range{std::min(first->value, second->value),
                       std::max(first->value, second->value), second->next};
       }
@@ -168,13 +171,16 @@ class Recogniser {
     return range;
   }
 
+  bool IsLink(size_t k) const { return Word(k, "-") || Word(k, "to") || Word(k, "or"); }
+
   bool UnitAt(size_t k) const {
     return k < t_.size() && t_[k].kind == TokenKind::kWord && ReadDoseUnit(t_[k].text);
   }
 
   void Step() {
     if (MatchClockTime() || MatchSpoon() || MatchEvery() || MatchQHours() || MatchHourly() ||
-        MatchCount() || MatchPerTime() || MatchDuration() || MatchAmount() || MatchArticle() ||
+        MatchCount() || MatchPerTime() || MatchDuration() || MatchDayNumber() || MatchAmount() ||
+        MatchArticle() ||
         MatchOnAtNight() || MatchPhrase() || MatchUnit()) {
       return;
     }
@@ -306,6 +312,15 @@ class Recogniser {
     // "2 hours before bed", "30 minutes before food" are offsets, not doses: also fillers.
     if (!TimeUnitDays(Text(next))) return false;
     Emit(ItemKind::kFiller, next + 1);
+    return true;
+  }
+
+  // "on day 1", "days 1-3", "day one": which day of a course, not an amount.
+  bool MatchDayNumber() {
+    if (!Word(i_, "day") && !Word(i_, "days")) return false;
+    const auto range = RangeAt(i_ + 1);
+    if (!range) return false;
+    Emit(ItemKind::kFiller, range->next);
     return true;
   }
 

@@ -30,6 +30,7 @@ constexpr Phrase kPhrases[] = {
     {"if necessary", K::kAsNeeded}, {"as and when required", K::kAsNeeded},
     {"as and when needed", K::kAsNeeded}, {"as and when", K::kAsNeeded},
     {"if and when required", K::kAsNeeded}, {"when and if required", K::kAsNeeded},
+    {"after each loose stool", K::kAsNeeded}, {"after each loose motion", K::kAsNeeded},
     {"at onset", K::kAsNeeded}, {"at the onset", K::kAsNeeded}, {"on onset", K::kAsNeeded},
     // Maxima.
     {"max", K::kMaximum}, {"max .", K::kMaximum}, {"maximum", K::kMaximum},
@@ -117,7 +118,7 @@ constexpr Phrase kPhrases[] = {
     {"weekends", K::kWeekday, 96}, {"weekend", K::kWeekday, 96},
     {"except", K::kExceptDays}, {"except on", K::kExceptDays},
     {"excluding", K::kExceptDays}, {"not on", K::kExceptDays}, {"apart from", K::kExceptDays},
-    {"same day", K::kFiller}, {"once only", K::kFiller}, {"single dose", K::kFiller},
+    {"same day", K::kFiller}, {"first day", K::kFiller}, {"second day", K::kFiller}, {"once only", K::kFiller}, {"single dose", K::kFiller},
     // Both sides.
     {"each eye", K::kEachSide, 2}, {"both eyes", K::kEachSide, 2},
     {"each nostril", K::kEachSide, 2}, {"both nostrils", K::kEachSide, 2},
@@ -159,7 +160,8 @@ constexpr std::string_view kFillers[] = {
     "headache", "diarrhoea", "spasm", "spasms", "cramps", "dry", "symptoms", "flare",
     "flares", "attack", "attacks", "dizziness", "inflammation", "swelling", "inhaled",
     "sprayed", "instilled", "inserted", "insert", "applied", "massage", "rub", "sprinkle",
-    "mix", "mixed", "dilute", "diluted", "immediately", "stat", "apart", "may", "repeat",
+    "mix", "mixed", "dilute", "diluted", "immediately", "stat", "apart", "all", "change", "changed", "replace", "remove", "contents", "sl",
+    "may", "repeat",
     "repeated",
     "time", "a", "an", "(", ")", "\"",
     "'", "/", "!", "?", "*", "=", "[", "]", "#", "%", "<", ">", "_", "~", "@", "{", "}", "|",

@@ -70,6 +70,9 @@ TEST_CASE("amounts read digits, words, fractions and ranges at their upper value
   CHECK(ValueOf("one or two", 0) == 2);
   CHECK(ValueOf("3 to 2", 0) == 3);
   CHECK(ValueOf("2 x 5 ml", 0) == 10);
+  CHECK(Show("2.5ml to 5ml") == "amount unit=ml");
+  CHECK(ValueOf("2.5ml to 5ml", 0) == 5);
+  CHECK(Show("1 tablet or 2 capsules") == "amount unit=tablet - amount unit=capsule");
   CHECK(Show("half a tablet") == "amount unit=tablet");
   CHECK(Show("a quarter of a tablet") == "amount unit=tablet");
   CHECK(Show("a tablet") == "amount unit=tablet");
@@ -102,6 +105,8 @@ TEST_CASE("durations and offsets are understood and carry nothing") {
   CHECK(Show("x 5 days") == "-");
   CHECK(Show("2 hours before bed") == "- - event");
   CHECK(Show("30 minutes before food") == "- - -");
+  CHECK(Show("on day 1") == "- -");
+  CHECK(Show("days 2-5") == "-");
 }
 
 TEST_CASE("clock times are events and a number before am without a space is a time") {

@@ -85,6 +85,7 @@ const Case kCases[] = {
     {"one drop hourly", 24, kRegular, kFull, "drop"},
     {"suck one lozenge every 2 hours", 12, kRegular, kFull, "lozenge"},
     {"one patch every 72 hours", 1.0 / 3, kRegular, kFull, "patch"},
+    {"change patch weekly", 1.0 / 7, kRegular, kFull, "patch"},
     {"one tablet every other day", 0.5, kRegular, kFull, "tablet"},
     {"one on alternate days", 0.5, kRegular, kFull, ""},
     {"one tablet every 3 days", 1.0 / 3, kRegular, kFull, "tablet"},
@@ -117,6 +118,7 @@ const Case kCases[] = {
     // Units.
     {"5ml tds", 15, kRegular, kFull, "ml"},
     {"10ml twice a day", 20, kRegular, kFull, "ml"},
+    {"5ml - 10ml tds", 30, kRegular, kFull, "ml"},
     {"two 5ml spoonfuls three times a day", 30, kRegular, kFull, "ml"},
     {"2 x 5ml spoonfuls tds", 30, kRegular, kFull, "ml"},
     {"Take one 5ml spoonful 3 times/day", 15, kRegular, kFull, "ml"},
@@ -158,6 +160,8 @@ const Case kCases[] = {
     {"1 nocte prn", 1, kPrn, kFull, ""},
     {"one daily if needed", 1, kPrn, kFull, ""},
     {"5-10ml four times a day as needed", 40, kPrn, kFull, "ml"},
+    {"2.5ml to 5ml every four hours when required", 30, kPrn, kFull, "ml"},
+    {"one capsule after each loose stool, maximum four a day", 4, kPrn, kFull, "capsule"},
     {"2 puffs as required up to 4 times a day", 8, kPrn, kFull, "puff"},
     {"one when necessary", kNone, kPrn, kUnknown, ""},
     {"one tablet when required", kNone, kPrn, kUnknown, "tablet"},
@@ -171,6 +175,7 @@ const Case kCases[] = {
     {"1 tablet three times a day for 5 days then twice a day", 3, kRegular, kFull, "tablet"},
     {"1 tablet at night, increasing to 2 tablets at night", 2, kRegular, kFull, "tablet"},
     {"one tablet daily for 7 days", 1, kRegular, kFull, "tablet"},
+    {"TWO ON DAY ONE THEN ONE DAILY", 1, kRegular, kFull, ""},
     {"one capsule daily for 3 months then review", 1, kRegular, kFull, "capsule"},
     {"1 tablet daily 5/7", 1, kRegular, kFull, "tablet"},
     // No usable amount per day.
