@@ -1,6 +1,7 @@
 #include "medload/io/meds_writer.h"
 
 #include <algorithm>
+#include <cctype>
 #include <ostream>
 
 #include "medload/core/caution.h"
@@ -155,8 +156,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
 
 namespace {
 
-std::vector<std::string> Header() {
-  return {"medicine", "since", "until", "last dispensed", "supply", "dosage read", "score", "DBI"};
+std::vector<std::string> Header(const std::string& scale_label) {
+  return {"medicine", "since", "until", "last dispensed", "supply", "dosage read", scale_label, "DBI"};
 }
 
 std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
@@ -171,9 +172,15 @@ std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
   return rows;
 }
 
+std::string ScaleLabel(const MedsModel& model) {
+  std::string label = model.tables->scale;
+  for (char& c : label) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+  return label;
+}
+
 std::string Totals(const MedsModel& model) {
   const Burden& b = *model.burden;
-  return std::to_string(b.items) + " medicine(s); " + model.tables->scale + " " + std::to_string(b.acb) +
+  return std::to_string(b.items) + " medicine(s); " + ScaleLabel(model) + " " + std::to_string(b.acb) +
          "; DBI " + FormatNumber(b.dbi, 2);
 }
 
@@ -185,9 +192,9 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
       << ", age " << (model.age ? std::to_string(*model.age) : std::string("unknown")) << ", on "
       << b.on.ToIso() << " (" << MeasureName(model.options.measure) << ")\n"
       << Totals(model) << "\n\n";
-  WriteTextTable(out, Header(), TableRows(model));
+  WriteTextTable(out, Header(ScaleLabel(model)), TableRows(model));
   if (!b.score_contributions.empty()) {
-    out << "\n" << model.tables->scale << " contributions:";
+    out << "\n" << ScaleLabel(model) << " contributions:";
     for (const auto& c : b.score_contributions) out << " " << c.ingredient << " " << c.score << ";";
     out << "\n";
   }
@@ -226,7 +233,7 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   const Burden& b = *model.burden;
   WriteHtmlStart(out, "Medicines of patient " + model.patient + " on " + b.on.ToIso());
   out << "<p><strong>" << EscapeHtml(Totals(model)) << "</strong></p>\n";
-  WriteHtmlTable(out, Header(), TableRows(model));
+  WriteHtmlTable(out, Header(ScaleLabel(model)), TableRows(model));
   if (!b.rules.empty()) out << "<h2>Rules fired</h2>\n<ul>\n";
   for (const FiredRule& fired : b.rules) {
     out << "<li><strong>" << EscapeHtml(fired.rule->title) << "</strong> (" << EscapeHtml(fired.rule->id)

@@ -8,7 +8,7 @@
 #   contains        optional: lines that must each appear in standard output or error
 # The case runs in a fresh temporary folder (the store is medload.db there).
 set -u
-medload=$1
+medload=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
 CASE=$(cd "$2" && pwd)
 export CASE
 work=$(mktemp -d)
