@@ -61,4 +61,3 @@ BENCHMARK(BM_ReadDosageTextAtCap);
 
 }  // namespace
 
-BENCHMARK_MAIN();
