@@ -50,7 +50,9 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
 void WriteCheck(Context& context, const std::string& dir, const FormularyCheck& check) {
   std::ostream& out = *context.out;
   const auto counts = CheckCounts(check);
-  const std::string verdict = check.ok() ? "no faults" : std::to_string(check.faults.size()) + " faults";
+  const std::string verdict = check.ok()                  ? "no faults"
+                              : check.faults.size() == 1 ? "1 fault"
+                                                         : std::to_string(check.faults.size()) + " faults";
   switch (context.format) {
     case Format::kJson: {
       json counts_json = json::object();

@@ -168,7 +168,8 @@ void Interpret(const std::vector<Item>& chain, std::vector<Strength>& out) {
   std::string per;
   if (has_denominator) {
     const Item& last = chain.back();
-    per_amount = last.number.value_or(1) * last.factor;
+    // In the denominator's own unit: ml for volumes, hours for times, g for masses.
+    per_amount = last.number.value_or(1) * (last.kind == UnitKind::kMass ? last.factor / 1000 : last.factor);
     per = DenominatorName(last);
   }
   for (size_t k = 0; k < numerators; ++k) {

@@ -63,6 +63,8 @@ RawRecord ReadRecord(std::string_view content, size_t& pos, int& line) {
     } else if (c == '\n') {
       ++line;
       break;
+    } else if (was_quoted && (c == ' ' || c == '\t' || c == '\r')) {
+      continue;  // spacing after a closing quote
     } else {
       field += c;
     }
