@@ -2,6 +2,8 @@
 
 #include <doctest/doctest.h>
 
+#include "medload/dose/dosage_text.h"
+
 #include <cctype>
 #include <set>
 #include <string>
@@ -127,6 +129,27 @@ TEST_CASE("structured regimens have a dose unit and a dose range in order") {
     CHECK(dosage.dose_low <= dosage.dose_high);
     CHECK(dosage.period >= 1);
   }
+}
+
+TEST_CASE("every text of a structured regimen reads as the regimen's units per day") {
+  // The texts are written the ways British prescribers write them (common practice); the
+  // dosage-text reader is the project's own, so the days supply it derives from a line
+  // without one agrees with the days supply the generator states on other lines.
+  int texts = 0;
+  for (const CatalogueProduct& product : SynthCatalogue()) {
+    const std::optional<double> per_day = UnitsPerDay(*product.dosage);
+    if (!per_day) continue;
+    for (const std::string_view text : product.dosage->texts) {
+      CAPTURE(product.key);
+      CAPTURE(text);
+      const DosageReading reading = ReadDosageText(text);
+      REQUIRE(reading.units_per_day.has_value());
+      CHECK(*reading.units_per_day == doctest::Approx(*per_day));
+      CHECK(reading.as_needed == product.dosage->as_needed);
+      ++texts;
+    }
+  }
+  CHECK(texts > 300);
 }
 
 TEST_CASE("controlled drugs are supplied for 30 days or less") {
