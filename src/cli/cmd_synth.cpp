@@ -146,10 +146,9 @@ int RunSynth(Context& context, const std::vector<std::string>& args) {
   const std::chrono::duration<double> elapsed = std::chrono::steady_clock::now() - started;
   if (!context.quiet) {
     const double seconds = elapsed.count();
+    const double rate = seconds > 0 ? static_cast<double>(summary->dispensing_rows) / seconds : 0;
     *context.err << "medload: " << summary->dispensing_rows << " dispensing rows in "
-                 << FormatNumber(seconds, 2) << " s ("
-                 << FormatNumber(seconds > 0 ? static_cast<double>(summary->dispensing_rows) / seconds : 0, 0)
-                 << " rows/s)\n";
+                 << FormatNumber(seconds, 2) << " s (" << FormatNumber(rate, 0) << " rows/s)\n";
   }
   WriteSummary(context, *summary);
   return 0;

@@ -142,7 +142,8 @@ void ScheduleRepeat(const Repeat& repeat, const Period& period, const SynthWindo
     if (change_on && date >= *change_on) {
       product_index = *change_to;
       product = &SynthCatalogue()[product_index];
-      quantity = product->quantity * (quantity / SynthCatalogue()[repeat.medicine.product].quantity);
+      const double months = quantity / SynthCatalogue()[repeat.medicine.product].quantity;
+      quantity = product->quantity * months;
       text = PickText(*product, random);
       change_on.reset();
     }

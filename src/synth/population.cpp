@@ -75,7 +75,8 @@ int DrawAge(SynthRandom& random, size_t& band_index) {
 Date DrawBirthDate(int age, Date end, SynthRandom& random) {
   const Date latest = ClampedDay(end.year() - age, end.month(), end.day());
   const Date earliest = ClampedDay(end.year() - age - 1, end.month(), end.day()) + 1;
-  return earliest + static_cast<int32_t>(random.Below(static_cast<uint32_t>(latest - earliest + 1)));
+  const auto span = static_cast<uint32_t>(latest - earliest + 1);
+  return earliest + static_cast<int32_t>(random.Below(span));
 }
 
 // Deaths per 10,000 a year by age (from memory, rounded: England life tables).

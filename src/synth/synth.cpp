@@ -128,7 +128,8 @@ Status CheckSynthOptions(const SynthOptions& options) {
                          " is out of range: give 1 to 240");
   }
   if (options.end.year() < 1950 || options.end.year() > 2150) {
-    return Status::Usage("--end " + options.end.ToIso() + " is out of range: give a date in 1950-2150");
+    return Status::Usage("--end " + options.end.ToIso() +
+                         " is out of range: give a date in 1950-2150");
   }
   return Status::Ok();
 }

@@ -40,8 +40,8 @@ TEST_CASE("every catalogue product has a unique key, a quantity, a unit and a do
     REQUIRE(product.dosage != nullptr);
     CHECK_FALSE(product.dosage->texts.empty());
     CHECK_FALSE(product.medicine.empty());
-    CHECK(FindCatalogueProduct(product.key) == std::optional<size_t>(
-                                                   static_cast<size_t>(&product - SynthCatalogue().data())));
+    const auto position = static_cast<size_t>(&product - SynthCatalogue().data());
+    CHECK(FindCatalogueProduct(product.key) == std::optional<size_t>(position));
   }
   CHECK(SynthCatalogue().size() > 120);
   CHECK_FALSE(FindCatalogueProduct("no-such-product").has_value());
