@@ -10,6 +10,10 @@
 #include <set>
 #include <sstream>
 
+#include "medload/io/csv_reader.h"
+#include "medload/io/csv_records.h"
+#include "medload/io/fhir_reader.h"
+
 namespace medload {
 
 namespace {
@@ -75,6 +79,27 @@ bool IsPositiveWhole(const std::string& text) {
   int value = 0;
   const auto [end, error] = std::from_chars(text.data(), text.data() + text.size(), value);
   return error == std::errc() && end == text.data() + text.size() && value > 0;
+}
+
+// Runs every row of a CSV file through the import checks; returns the rows read, and
+// fails the test on the first fault.
+template <typename Record, typename Parse>
+long CheckCsvImport(const std::string& path, InputKind kind, Parse parse) {
+  std::ifstream in(path, std::ios::binary);
+  CsvReader reader(in);
+  CsvRow row;
+  REQUIRE(reader.Next(row));
+  Result<HeaderLayout> layout = HeaderLayout::Find(kind, row, {}, path);
+  REQUIRE(layout.ok());
+  const RowContext context{path, DateOrder::kIso};
+  Record record;
+  long rows = 0;
+  while (reader.Next(row)) {
+    const std::optional<RowFault> fault = parse(row, *layout, context, record);
+    if (fault) FAIL(fault->message);
+    ++rows;
+  }
+  return rows;
 }
 
 SynthOptions SmallOptions(uint64_t seed) {
@@ -241,6 +266,43 @@ TEST_CASE("the FHIR form holds the same completed dispensings as the CSV form") 
     if (nlohmann::json::parse(line).at("status") == "completed") ++completed;
   }
   CHECK(completed == static_cast<long>(csv_summary->dispensing_rows));
+}
+
+TEST_CASE("the project's own import checks accept every row of both forms") {
+  TempFolder csv("import_csv");
+  TempFolder fhir("import_fhir");
+  SynthOptions options = SmallOptions(13);
+  options.patients = 1500;
+  Result<SynthSummary> csv_summary = WriteSynthData(options, csv.path());
+  options.format = SynthFormat::kFhir;
+  Result<SynthSummary> fhir_summary = WriteSynthData(options, fhir.path());
+  REQUIRE(csv_summary.ok());
+  REQUIRE(fhir_summary.ok());
+  CHECK(CheckCsvImport<DispensingRecord>(csv.file("dispensing.csv"), InputKind::kDispensing,
+                                         ParseDispensingRow) ==
+        static_cast<long>(csv_summary->dispensing_rows));
+  CHECK(CheckCsvImport<PatientRecord>(csv.file("patients.csv"), InputKind::kPatients,
+                                      ParsePatientRow) ==
+        static_cast<long>(csv_summary->registered_patients));
+  CHECK(CheckCsvImport<PracticeRecord>(csv.file("practices.csv"), InputKind::kPractices,
+                                       ParsePracticeRow) == 3);
+  CHECK(CheckCsvImport<ReviewRecord>(csv.file("reviews.csv"), InputKind::kReviews,
+                                     ParseReviewRow) == static_cast<long>(csv_summary->reviews));
+  long dispenses = 0;
+  long structured = 0;
+  for (const char* name : {"dispensing.ndjson", "patients.ndjson"}) {
+    std::ifstream in(fhir.file(name), std::ios::binary);
+    FhirReader reader(in, name);
+    FhirItem item;
+    while (reader.Next(item)) {
+      if (item.kind == FhirItemKind::kRejected) FAIL(item.fault.message);
+      if (item.kind != FhirItemKind::kDispense) continue;
+      ++dispenses;
+      if (item.dispense.structured_units_per_day) ++structured;
+    }
+  }
+  CHECK(dispenses == static_cast<long>(fhir_summary->dispensing_rows));
+  CHECK(structured > dispenses / 10);  // about 40% of lines with a structured dosage
 }
 
 TEST_CASE("options out of range are usage errors naming the option") {
