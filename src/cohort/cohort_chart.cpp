@@ -99,12 +99,19 @@ struct Label {
   const char* colour = "";
 };
 
-// Moves labels apart so that none is closer than kLabelGap to the one above it.
+// Moves labels apart so that none is closer than kLabelGap to the one above it, and none
+// falls below the x axis.
 void SpreadLabels(std::vector<Label>& labels) {
   std::sort(labels.begin(), labels.end(),
             [](const Label& a, const Label& b) { return a.y != b.y ? a.y < b.y : a.group < b.group; });
   for (size_t i = 1; i < labels.size(); ++i) {
     labels[i].y = std::max(labels[i].y, labels[i - 1].y + kLabelGap);
+  }
+  // Then back up from the x axis, so that no label drops onto the date labels below it.
+  const double lowest = kHeight - kBottom + 4;
+  for (size_t i = labels.size(); i-- > 0;) {
+    const double limit = i + 1 < labels.size() ? labels[i + 1].y - kLabelGap : lowest;
+    labels[i].y = std::min(labels[i].y, limit);
   }
 }
 

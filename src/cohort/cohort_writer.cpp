@@ -114,8 +114,7 @@ void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
 }
 
 void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
-  WriteHtmlStart(out, "Cohort counts");
-  out << "<h1>Cohort counts by " << EscapeHtml(GroupByName(table.group_by)) << "</h1>\n";
+  WriteHtmlStart(out, "Cohort counts by " + std::string(GroupByName(table.group_by)));
   for (const std::string& line : Preamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
   for (size_t k = 0; k < table.keys.size(); ++k) {
     out << "<figure>" << CohortTrendSvg(table, k) << "</figure>\n";

@@ -1,5 +1,8 @@
 #include <doctest/doctest.h>
 
+#include <string>
+#include <vector>
+
 #include "cohort/population_fixture.h"
 #include "medload/cohort/cohort_writer.h"
 
@@ -50,6 +53,32 @@ TEST_CASE("a suppressed point leaves a gap in its group's line") {
   CHECK(Occurrences(svg, "<circle") == 5);
   CHECK(Occurrences(svg, "d=\"M") == 2);
   CHECK(Occurrences(svg, " M") == 1);
+}
+
+TEST_CASE("group labels at the line ends stay apart and above the date labels") {
+  CohortTally tally;
+  tally.criteria = {"items>=10"};
+  tally.dates = {D(2024, 1, 31), D(2024, 2, 29)};
+  for (const char* group : {"A01", "B02", "C03", "D04"}) {
+    CohortCell cell;
+    cell.registered = 100;
+    cell.counts = {0, 0};  // every line ends on the x axis
+    cell.counts_by_band = {{}, {}};
+    tally.groups[group] = {cell, cell};
+  }
+  const std::string svg = CohortTrendSvg(BuildCohortTable(tally, 0), 0);
+  // Labels are the texts placed right of the plot (x = 760 - 150 + 8 = 618).
+  const std::string marker = "<text x=\"618\" y=\"";
+  std::vector<double> ys;
+  for (size_t at = svg.find(marker); at != std::string::npos; at = svg.find(marker, at + 1)) {
+    ys.push_back(std::stod(svg.substr(at + marker.size())));
+  }
+  REQUIRE(ys.size() == 4);
+  for (size_t i = 0; i < ys.size(); ++i) {
+    CAPTURE(i);
+    CHECK(ys[i] <= 340 - 56 + 4);             // not below the x axis
+    if (i > 0) CHECK(ys[i] - ys[i - 1] >= 12 - 1e-9);  // not overlapping the one above
+  }
 }
 
 }  // TEST_SUITE
