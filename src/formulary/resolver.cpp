@@ -280,7 +280,7 @@ bool IsAtcLike(std::string_view code) {
 
 // Resolution by code; true if the code named something.
 bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_view system,
-                 const std::vector<Word>& words, const std::vector<Strength>& strengths, ResolvedProduct& product) {
+                 const std::vector<Strength>& strengths, ResolvedProduct& product) {
   std::string target;
   if (const ProductCode* row = formulary.FindCode(system, code)) {
     target = row->target;
@@ -304,7 +304,6 @@ bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_
   } else {
     product.non_medicine = true;  // a code for a non-medicine term
   }
-  (void)words;
   return true;
 }
 
@@ -331,7 +330,7 @@ ResolvedProduct Resolve(const Formulary& formulary, std::string_view description
   const std::vector<Word> words = SplitWords(text);
   const std::vector<Strength> strengths = ParseStrengths(text);
   SetFormAndStrengths(words, strengths, product);
-  if (!code.empty() && ResolveCode(formulary, code, code_system, words, strengths, product)) return product;
+  if (!code.empty() && ResolveCode(formulary, code, code_system, strengths, product)) return product;
   if (ResolveNonMedicine(formulary, words, product)) return product;
   if (const NamedProduct* named = FindNamedProduct(formulary, words)) {
     ApplyProduct(*named, strengths, product);
