@@ -79,6 +79,7 @@ constexpr FormWords kForms[] = {
     {"dusting powder", "dusting powder", Route::kTopical, "g"},
     {"medicated plaster", "medicated plaster", Route::kTopical, "plaster"},
     {"paint", "paint", Route::kTopical, "ml"},
+    {"spray", "spray", Route::kUnknown, "dose"},
     {"eye drop", "eye drops", Route::kOphthalmic, "ml"},
     {"eye ointment", "eye ointment", Route::kOphthalmic, "g"},
     {"eye gel", "eye gel", Route::kOphthalmic, "g"},
@@ -197,11 +198,15 @@ const NamedProduct* FindNamedProduct(const Formulary& formulary, const std::vect
   return best == nullptr ? nullptr : &products[best->target];
 }
 
-ResolvedIngredient WithStrength(const std::string& name, const Strength* strength) {
+ResolvedIngredient WithStrength(const std::string& name, const Strength* strength, std::string_view dose_unit) {
   ResolvedIngredient ingredient{name, std::nullopt, std::nullopt};
   if (strength != nullptr) {
     ingredient.mg_per_unit = strength->MgPerUnit();
     ingredient.mg_per_day = strength->MgPerDay();
+    // A percentage is mg per g or ml: it says nothing about one plaster or one tablet.
+    if (strength->unit == StrengthUnit::kPercent && dose_unit != "g" && dose_unit != "ml") {
+      ingredient.mg_per_unit.reset();
+    }
   }
   return ingredient;
 }
@@ -210,7 +215,8 @@ ResolvedIngredient WithStrength(const std::string& name, const Strength* strengt
 // a single ingredient takes the first strength; otherwise each takes the first strength
 // written after its name and before the next ingredient's name.
 std::vector<ResolvedIngredient> PairStrengths(const std::vector<Mention>& mentions,
-                                              const std::vector<Strength>& strengths, bool by_position) {
+                                              const std::vector<Strength>& strengths, bool by_position,
+                                              std::string_view dose_unit) {
   std::vector<ResolvedIngredient> out;
   for (size_t i = 0; i < mentions.size(); ++i) {
     const Strength* strength = nullptr;
@@ -227,7 +233,7 @@ std::vector<ResolvedIngredient> PairStrengths(const std::vector<Mention>& mentio
         }
       }
     }
-    out.push_back(WithStrength(mentions[i].name, strength));
+    out.push_back(WithStrength(mentions[i].name, strength, dose_unit));
   }
   return out;
 }
@@ -270,7 +276,7 @@ void ApplyProduct(const NamedProduct& named, const std::vector<Strength>& streng
   product.default_supply_days = named.supply_days_per_unit;
   std::vector<Mention> mentions;
   for (const std::string& name : named.ingredients) mentions.push_back(Mention{name, 0});
-  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), false);
+  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), false, product.dose_unit);
 }
 
 bool IsAtcLike(std::string_view code) {
@@ -300,7 +306,8 @@ bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_
   if (const NamedProduct* named = formulary.FindProduct(target)) {
     ApplyProduct(*named, strengths, product);
   } else if (const Ingredient* ingredient = formulary.FindIngredient(target)) {
-    product.ingredients = PairStrengths({Mention{ingredient->name, 0}}, ForRoute(strengths, product.route), false);
+    product.ingredients =
+        PairStrengths({Mention{ingredient->name, 0}}, ForRoute(strengths, product.route), false, product.dose_unit);
   } else {
     product.non_medicine = true;  // a code for a non-medicine term
   }
@@ -343,7 +350,7 @@ ResolvedProduct Resolve(const Formulary& formulary, std::string_view description
     product.match_detail = "no code, product or ingredient name recognised";
     return product;
   }
-  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), true);
+  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), true, product.dose_unit);
   product.match = MatchKind::kIngredient;
   product.match_detail = mentions.size() == 1 ? "ingredient name" : "ingredient names (combination)";
   return product;

@@ -119,6 +119,8 @@ std::vector<Item> ReadChain(std::string_view text, size_t& i) {
     if (!next) break;
     chain.push_back(*next);
     i = j;
+    // A denominator ends the chain: "100micrograms/dose / 6micrograms/dose" is two.
+    if (next->kind == UnitKind::kVolume || next->kind == UnitKind::kTime || next->kind == UnitKind::kCount) break;
   }
   return chain;
 }

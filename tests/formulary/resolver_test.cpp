@@ -95,6 +95,9 @@ TEST_CASE("product descriptions resolve to ingredients, strengths, route and dos
        Route::kNasal, "dose"},
       {"Levothyroxine sodium 25microgram tablets", MatchKind::kIngredient, {{"levothyroxine", 0.025, {}}},
        Route::kOral, "tablet"},
+      {"Fostair 100micrograms/dose / 6micrograms/dose inhaler", MatchKind::kProduct,
+       {{"beclometasone", 0.1, {}}, {"formoterol", 0.006, {}}}, Route::kInhaled, "puff"},
+      {"Lidocaine 5% medicated plasters", MatchKind::kProduct, {{"lidocaine", {}, {}}}, Route::kTopical, "plaster"},
       {"Medroxyprogesterone 150mg/1ml suspension for injection pre-filled syringes", MatchKind::kProduct,
        {{"medroxyprogesterone", 150, {}}}, Route::kParenteral, "ml"},
   };

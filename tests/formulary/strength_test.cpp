@@ -41,6 +41,7 @@ TEST_CASE("strengths are read in every way descriptions write them") {
       {"salbutamol 100micrograms/dose inhaler", {0.1}, {std::nullopt}},
       {"fluticasone 250micrograms/dose / salmeterol 25micrograms/dose inhaler", {0.25, 0.025},
        {std::nullopt, std::nullopt}},
+      {"fostair 100micrograms/dose / 6micrograms/dose inhaler", {0.1, 0.006}, {std::nullopt, std::nullopt}},
       {"co-phenotrope 2.5mg/25micrograms tablets", {2.5, 0.025}, {std::nullopt, std::nullopt}},
       {"haloperidol 50mg/1ml injection", {50}, {std::nullopt}},
       {"methotrexate 10mg/0.2ml injection", {50}, {std::nullopt}},
