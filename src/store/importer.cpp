@@ -4,9 +4,11 @@
 
 #include <openssl/evp.h>
 
+#include <algorithm>
 #include <array>
 #include <charconv>
 #include <ctime>
+#include <filesystem>
 #include <fstream>
 #include <iostream>
 #include <optional>
@@ -19,6 +21,12 @@
 
 namespace medload {
 namespace {
+
+// Below this many expected rows the per-patient index is always kept up to date row by row.
+constexpr uint64_t kDeferMinRows = 20000;
+// Rough bytes per row, to guess a file's rows from its size.
+constexpr uint64_t kCsvBytesPerRow = 80;
+constexpr uint64_t kNdjsonBytesPerRow = 600;
 
 std::string UtcNow() {
   const std::time_t now = std::time(nullptr);
@@ -83,6 +91,25 @@ class Session {
   }
 
   WriteSource source() const { return {summary_.run_id, summary_.file}; }
+
+  // For a load larger than the dispensings already stored, dropping the per-patient index
+  // and building it again before the commit is cheaper than inserting every row into it
+  // in file order. Both happen inside the file's transaction, so the index is never
+  // missing for other connections, and a rollback restores it.
+  Status DeferPatientIndexIfLarge(uint64_t expected_rows) {
+    if (expected_rows < kDeferMinRows) return Status::Ok();
+    Result<Statement> stmt = Statement::Prepare(db_, "SELECT COALESCE(MAX(id), 0) FROM dispensings");
+    if (!stmt.ok()) return stmt.status();
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    const auto stored = static_cast<uint64_t>(stmt->ColumnInt(0));
+    stmt->Reset();  // an open read cursor on the table would block the DROP
+    if (stored * 2 > expected_rows) return Status::Ok();
+    if (Status status = ExecSql(db_, "DROP INDEX dispensings_by_patient"); !status.ok()) return status;
+    patient_index_deferred_ = true;
+    return Status::Ok();
+  }
+  bool patient_index_live() const { return !patient_index_deferred_; }
   sqlite3* db() const { return db_; }
 
   // One more row read; reports progress.
@@ -131,6 +158,11 @@ class Session {
       if (Status status = InsertRun("rolled_back"); !status.ok()) return status;
       return trace->Commit();
     }
+    if (patient_index_deferred_) {
+      // The same definition as in the schema (store.cpp, version 1).
+      Status status = ExecSql(db_, "CREATE INDEX dispensings_by_patient ON dispensings(patient_id, dispensed_on)");
+      if (!status.ok()) return status;
+    }
     if (Status status = UpdateRun("committed"); !status.ok()) return status;
     return transaction_->Commit();
   }
@@ -175,12 +207,13 @@ class Session {
   const ImportOptions& options_;
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
+  bool patient_index_deferred_ = false;
 };
 
-// Reads every CSV row after the header: `parse` checks it, `write` stores it.
-template <typename Record, typename Parse, typename Write>
+// Reads every CSV row after the header: `parse` checks it, `store` stores it (and counts).
+template <typename Record, typename Parse, typename Store>
 Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowContext& context,
-                     Session& session, Parse parse, Write write) {
+                     Session& session, Parse parse, Store store) {
   Record record;
   CsvRow row;
   while (reader.Next(row)) {
@@ -189,9 +222,7 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
     }
-    Result<WriteOutcome> outcome = write(record, row.line);
-    if (!outcome.ok()) return outcome.status();
-    session.Count(*outcome);
+    if (Status status = store(record, row.line); !status.ok()) return status;
   }
   return Status::Ok();
 }
@@ -202,8 +233,59 @@ Status ImportCsvWith(CsvReader& reader, const HeaderLayout& layout, const RowCon
   Writer writer;
   if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
   return ImportCsvRows<Record>(reader, layout, context, session, parse,
-                               [&](const Record& record, size_t) { return writer.Write(record); });
+                               [&](const Record& record, size_t) -> Status {
+                                 Result<WriteOutcome> outcome = writer.Write(record);
+                                 if (!outcome.ok()) return outcome.status();
+                                 session.Count(*outcome);
+                                 return Status::Ok();
+                               });
 }
+
+// Valid dispensing rows held back and written in (patient, date, line) order: inserting
+// into the per-patient index in key order is several times cheaper than in file order,
+// and memory stays bounded by the batch.
+class DispensingBatch {
+ public:
+  static constexpr size_t kRows = 65536;
+
+  DispensingBatch(DispensingWriter& writer, Session& session) : writer_(writer), session_(session) {}
+
+  Status Add(const DispensingRecord& record, size_t line) {
+    if (size_ == records_.size()) records_.emplace_back();
+    records_[size_].record = record;  // reuses the slot's string capacity
+    records_[size_].line = line;
+    ++size_;
+    return size_ == kRows ? Flush() : Status::Ok();
+  }
+
+  Status Flush() {
+    order_.resize(size_);
+    for (size_t i = 0; i < size_; ++i) order_[i] = &records_[i];
+    std::sort(order_.begin(), order_.end(), [](const Slot* a, const Slot* b) {
+      if (const int c = a->record.patient_id.compare(b->record.patient_id); c != 0) return c < 0;
+      if (a->record.dispensed_on != b->record.dispensed_on) return a->record.dispensed_on < b->record.dispensed_on;
+      return a->line < b->line;
+    });
+    size_ = 0;
+    for (const Slot* slot : order_) {
+      Result<WriteOutcome> outcome = writer_.Write(slot->record, slot->line, false);
+      if (!outcome.ok()) return outcome.status();
+      session_.Count(*outcome);
+    }
+    return Status::Ok();
+  }
+
+ private:
+  struct Slot {
+    DispensingRecord record;
+    size_t line = 0;
+  };
+  DispensingWriter& writer_;
+  Session& session_;
+  std::vector<Slot> records_;
+  std::vector<const Slot*> order_;
+  size_t size_ = 0;
+};
 
 Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
                  const RowContext& context, Session& session) {
@@ -211,9 +293,21 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
     case InputKind::kDispensing: {
       DispensingWriter writer;
       if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
-      return ImportCsvRows<DispensingRecord>(
+      if (!session.patient_index_live()) {  // rows go in file order: record ids ascend
+        return ImportCsvRows<DispensingRecord>(
+            reader, layout, context, session, ParseDispensingRow,
+            [&](const DispensingRecord& record, size_t line) -> Status {
+              Result<WriteOutcome> outcome = writer.Write(record, line, false);
+              if (!outcome.ok()) return outcome.status();
+              session.Count(*outcome);
+              return Status::Ok();
+            });
+      }
+      DispensingBatch batch(writer, session);
+      Status status = ImportCsvRows<DispensingRecord>(
           reader, layout, context, session, ParseDispensingRow,
-          [&](const DispensingRecord& record, size_t line) { return writer.Write(record, line, false); });
+          [&](const DispensingRecord& record, size_t line) { return batch.Add(record, line); });
+      return status.ok() ? batch.Flush() : status;
     }
     case InputKind::kPatients:
       return ImportCsvWith<PatientWriter, PatientRecord>(reader, layout, context, session, ParsePatientRow);
@@ -263,7 +357,8 @@ Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSu
 
 // Reads the header and imports the CSV rows; a bad header stores nothing.
 Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& options,
-                      Session& session, ImportSummary& summary, bool& read_failed) {
+                      uint64_t size_bytes, Session& session, ImportSummary& summary,
+                      bool& read_failed) {
   CsvReader reader(in);
   CsvRow header;
   if (!reader.Next(header)) {
@@ -273,6 +368,10 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   Result<HeaderLayout> layout = HeaderLayout::Find(kind, header, options.columns, summary.file);
   if (!layout.ok()) return layout.status();
   if (Status status = session.Begin(); !status.ok()) return status;
+  if (kind == InputKind::kDispensing) {
+    Status status = session.DeferPatientIndexIfLarge(size_bytes / kCsvBytesPerRow);
+    if (!status.ok()) return status;
+  }
   const RowContext context{summary.file, options.date_order};
   Status status = ImportCsv(kind, reader, *layout, context, session);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
@@ -280,13 +379,17 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   return status;
 }
 
-Status ImportFhirInput(InputKind kind, std::istream& in, Session& session, ImportSummary& summary,
-                       bool& read_failed) {
+Status ImportFhirInput(InputKind kind, std::istream& in, uint64_t size_bytes, Session& session,
+                       ImportSummary& summary, bool& read_failed) {
   if (kind != InputKind::kDispensing && kind != InputKind::kPatients) {
     return Status::Input(summary.file + ": FHIR NDJSON is read for dispensing and patients only; " +
                          std::string(InputKindName(kind)) + " must be CSV");
   }
   if (Status status = session.Begin(); !status.ok()) return status;
+  if (kind == InputKind::kDispensing) {
+    Status status = session.DeferPatientIndexIfLarge(size_bytes / kNdjsonBytesPerRow);
+    if (!status.ok()) return status;
+  }
   FhirReader reader(in, summary.file);
   Status status = ImportFhir(kind, reader, session, summary);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
@@ -343,8 +446,13 @@ std::string DispensingKey(const DispensingRecord& record) {
   return key;
 }
 
-Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& in,
-                                   std::string_view file, const ImportOptions& options) {
+namespace {
+
+// ImportStream with the input's size in bytes when known (0 if not), to choose how to
+// maintain the per-patient index.
+Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in,
+                                  std::string_view file, const ImportOptions& options,
+                                  uint64_t size_bytes) {
   ImportSummary summary;
   summary.file = std::string(file);
   summary.kind = std::string(InputKindName(kind));
@@ -358,8 +466,9 @@ Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& i
   std::istream whole(&buffer);
   Session session(store, summary, options);
   bool read_failed = false;
-  Status status = ndjson ? ImportFhirInput(kind, whole, session, summary, read_failed)
-                         : ImportCsvInput(kind, whole, options, session, summary, read_failed);
+  Status status =
+      ndjson ? ImportFhirInput(kind, whole, size_bytes, session, summary, read_failed)
+             : ImportCsvInput(kind, whole, options, size_bytes, session, summary, read_failed);
   if (status.ok() && (read_failed || buffer.failed())) {
     status = Status::Input(summary.file + ": reading failed part way; nothing was stored");
   }
@@ -368,12 +477,21 @@ Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& i
   return summary;
 }
 
+}  // namespace
+
+Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& in,
+                                   std::string_view file, const ImportOptions& options) {
+  return ImportSized(store, kind, in, file, options, 0);
+}
+
 Result<ImportSummary> ImportFile(Store& store, InputKind kind, const std::string& path,
                                  const ImportOptions& options) {
   if (path == "-") return ImportStream(store, kind, std::cin, "<stdin>", options);
   std::ifstream in(path, std::ios::binary);
   if (!in) return Status::Input(path + ": cannot be read (missing, or no permission)");
-  return ImportStream(store, kind, in, path, options);
+  std::error_code error;
+  const uintmax_t size = std::filesystem::file_size(path, error);
+  return ImportSized(store, kind, in, path, options, error ? 0 : static_cast<uint64_t>(size));
 }
 
 }  // namespace medload

@@ -22,6 +22,20 @@ bool SameOptionalText(const Statement& stmt, int column, const std::optional<std
   return text.has_value() && stmt.ColumnText(column) == *text;
 }
 
+// YYYY-MM-DD into `out`, reusing its buffer (this runs once per imported row).
+void AssignIso(Date date, std::string& out) {
+  const int year = date.year();
+  const int month = date.month();
+  const int day = date.day();
+  const char text[10] = {static_cast<char>('0' + year / 1000 % 10), static_cast<char>('0' + year / 100 % 10),
+                         static_cast<char>('0' + year / 10 % 10),   static_cast<char>('0' + year % 10),
+                         '-',
+                         static_cast<char>('0' + month / 10),       static_cast<char>('0' + month % 10),
+                         '-',
+                         static_cast<char>('0' + day / 10),         static_cast<char>('0' + day % 10)};
+  out.assign(text, sizeof text);
+}
+
 }  // namespace
 
 Status DispensingWriter::Prepare(sqlite3* db, WriteSource source) {
@@ -48,7 +62,7 @@ Status DispensingWriter::Prepare(sqlite3* db, WriteSource source) {
 Result<WriteOutcome> DispensingWriter::Write(const DispensingRecord& record, size_t line,
                                              bool update_status) {
   key_ = DispensingKey(record);
-  date_ = record.dispensed_on.ToIso();
+  AssignIso(record.dispensed_on, date_);
   insert_.BindText(1, key_);
   insert_.BindText(2, record.record_id);
   insert_.BindText(3, record.patient_id);

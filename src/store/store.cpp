@@ -148,12 +148,16 @@ Store::~Store() { sqlite3_close(db_); }
 
 Status Store::Configure(const StoreOptions& options) {
   sqlite3_busy_timeout(db_, options.busy_timeout_ms);
-  // WAL lets readers run beside one writer and survives a killed writer; synchronous=NORMAL
-  // is durable across process crashes in WAL mode (only power loss may lose the last
-  // commit). The larger page cache matters for the dispensings indexes during imports.
+  // The page size applies only when the file is new (before WAL is set): 16 KiB pages
+  // make bulk imports cheaper (fewer pages and writes). WAL lets readers run beside one
+  // writer and survives a killed writer; synchronous=NORMAL is durable across process
+  // crashes in WAL mode (only power loss may lose the last commit). The larger page cache
+  // matters for the dispensings indexes during imports; temporary sort data stays in files
+  // so that memory does not grow with the store.
   const char* pragmas =
-      "PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL; PRAGMA foreign_keys=ON;"
-      " PRAGMA cache_size=-65536; PRAGMA temp_store=MEMORY;";
+      "PRAGMA page_size=16384; PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL;"
+      " PRAGMA foreign_keys=ON;"
+      " PRAGMA cache_size=-65536;";
   if (Status status = ExecSql(db_, pragmas); !status.ok()) {
     return Status::Input("cannot use the store \"" + path_ + "\": " + status.message());
   }
@@ -169,8 +173,14 @@ Result<int> Store::SchemaVersion() const {
 }
 
 Status Store::Migrate() {
-  // Inside the write transaction so that two processes opening a new store at once
-  // cannot both create the tables.
+  // A current store needs no write lock: commands that only read never wait for an import.
+  Result<int> seen = SchemaVersion();
+  if (!seen.ok()) {
+    return Status::Input("cannot use the store \"" + path_ + "\": " + seen.status().message());
+  }
+  if (*seen == kStoreSchemaVersion) return Status::Ok();
+  // Otherwise inside the write transaction, so that two processes opening a new store at
+  // once cannot both create the tables.
   Result<Transaction> transaction = Transaction::Begin(db_);
   if (!transaction.ok()) {
     return Status::Input("cannot use the store \"" + path_ + "\": " +
@@ -183,7 +193,7 @@ Status Store::Migrate() {
                          std::to_string(*version) + ", newer than this medload understands (" +
                          std::to_string(kStoreSchemaVersion) + "); use a newer medload");
   }
-  if (*version == kStoreSchemaVersion) return Status::Ok();  // rolls back: nothing to do
+  if (*version == kStoreSchemaVersion) return Status::Ok();  // another process migrated it
   for (int step = *version; step < kStoreSchemaVersion; ++step) {
     if (Status status = ExecSql(db_, kMigrations[static_cast<size_t>(step)]); !status.ok()) {
       return Status::Input("migrating the store \"" + path_ + "\" to version " +

@@ -318,6 +318,69 @@ TEST_CASE("re-importing registry rows updates changed rows and counts unchanged 
   CHECK(reviews->duplicates == 1);
 }
 
+bool HasPatientIndex(const Store& store) {
+  return Count(store, "SELECT COUNT(*) FROM sqlite_schema WHERE name = 'dispensings_by_patient'") == 1;
+}
+
+// The first page of the per-patient index: it changes when the index is built again.
+long PatientIndexRoot(const Store& store) {
+  return Count(store, "SELECT rootpage FROM sqlite_schema WHERE name = 'dispensings_by_patient'");
+}
+
+// `rows` rows of about 110 bytes, so that the file's size promises a large load.
+std::string WideDispensingFile(int first, int rows) {
+  std::string text = "record_id,patient_id,dispensed_on,product,quantity,days_supply,dosage\n";
+  for (int i = first; i < first + rows; ++i) {
+    text += "R" + std::to_string(i) + ",P" + std::to_string(i % 997) +
+            ",2024-01-05,Salbutamol 100micrograms/dose inhaler CFC free,1,30,"
+            "two puffs up to four times a day\n";
+  }
+  return text;
+}
+
+TEST_CASE("a load larger than the store rebuilds the per-patient index and keeps it usable") {
+  TempFolder folder;
+  Result<Store> store = Store::Open(folder.File("medload.db"));
+  REQUIRE(store.ok());
+  REQUIRE(Import(*store, InputKind::kDispensing, WideDispensingFile(0, 10)).ok());
+  const long small_root = PatientIndexRoot(*store);
+  REQUIRE(Import(*store, InputKind::kDispensing, WideDispensingFile(10, 10)).ok());
+  CHECK(PatientIndexRoot(*store) == small_root);  // a small load updates the index row by row
+  const std::string big = folder.Write("big.csv", WideDispensingFile(100, 30000));
+  Result<ImportSummary> summary = ImportFile(*store, InputKind::kDispensing, big, {});
+  REQUIRE(summary.ok());
+  CHECK(summary->imported == 30000);
+  CHECK(HasPatientIndex(*store));
+  CHECK(PatientIndexRoot(*store) != small_root);  // built again after the rows went in
+  long visited = 0;
+  std::string previous;
+  REQUIRE(store->ForEachPatient([&](const PatientHistory& history) {
+                 CHECK(previous < history.patient_id);
+                 previous = history.patient_id;
+                 visited += static_cast<long>(history.dispensings.size());
+                 return true;
+               }).ok());
+  CHECK(visited == 30020);
+  CHECK(store->DispensingsOf("P5")->size() == 31);
+}
+
+TEST_CASE("a rolled-back large load leaves the per-patient index as it was") {
+  TempFolder folder;
+  Result<Store> store = Store::Open(folder.File("medload.db"));
+  REQUIRE(store.ok());
+  const long root = PatientIndexRoot(*store);
+  const std::string bad =
+      folder.Write("bad.csv", WideDispensingFile(0, 30000) + "R-x,P1,2024-01-01,X,0,1,\n");
+  ImportOptions strict;
+  strict.max_reject_rate = 0;
+  Result<ImportSummary> rolled = ImportFile(*store, InputKind::kDispensing, bad, strict);
+  REQUIRE(rolled.ok());
+  CHECK(rolled->rolled_back);
+  CHECK(HasPatientIndex(*store));
+  CHECK(PatientIndexRoot(*store) == root);
+  CHECK(store->Summary()->dispensings == 0);
+}
+
 TEST_CASE("two imports into one store at the same time both complete") {
   TempFolder folder;
   const std::string db = folder.File("medload.db");
@@ -376,11 +439,17 @@ TEST_CASE("two processes importing into one store at the same time both complete
 TEST_CASE("an import killed mid-transaction leaves the store intact and a re-run completes it") {
   TempFolder folder;
   const std::string db = folder.File("medload.db");
-  const std::string file = folder.Write("big.csv", DispensingFile(0, 30000));
+  const std::string file = folder.Write("big.csv", WideDispensingFile(0, 30000));
   {
     Result<Store> store = Store::Open(db);
     REQUIRE(store.ok());
     REQUIRE(Import(*store, InputKind::kDispensing, DispensingFile(100000, 10)).ok());
+  }
+  long root = 0;
+  {
+    Result<Store> store = Store::Open(db);
+    REQUIRE(store.ok());
+    root = PatientIndexRoot(*store);
   }
   int ready[2];
   REQUIRE(pipe(ready) == 0);
@@ -415,6 +484,8 @@ TEST_CASE("an import killed mid-transaction leaves the store intact and a re-run
   CHECK(std::string(reinterpret_cast<const char*>(sqlite3_column_text(check, 0))) == "ok");
   sqlite3_finalize(check);
   CHECK(store->Summary()->dispensings == 10);  // only the earlier, committed file
+  CHECK(HasPatientIndex(*store));  // dropped inside the killed transaction: back again
+  CHECK(PatientIndexRoot(*store) == root);
   CHECK(store->Summary()->import_runs == 1);
   Result<ImportSummary> rerun = ImportFile(*store, InputKind::kDispensing, file, {});
   REQUIRE(rerun.ok());
