@@ -21,7 +21,6 @@ Result<Analysis> Analysis::Open(const std::string& formulary_dir, const MeasureO
   }
   Analysis analysis;
   analysis.formulary_ = std::make_unique<Formulary>(std::move(formulary).value());
-  analysis.cache_ = std::make_unique<ResolutionCache>(*analysis.formulary_);
   analysis.tables_ = TablesFromFormulary(*analysis.formulary_, options.scale);
   analysis.options_ = options;
   analysis.store_ = store;
@@ -29,7 +28,25 @@ Result<Analysis> Analysis::Open(const std::string& formulary_dir, const MeasureO
 }
 
 const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
-  return cache_->Resolve(record.product, record.code, record.code_system);
+  std::string key = record.product + '\x1f' + record.code + '\x1f' + record.code_system;
+  if (auto it = resolved_.find(key); it != resolved_.end()) return it->second;
+  const std::string& checksum = formulary_->checksum();
+  if (store_ != nullptr) {
+    auto saved = store_->CachedResolution(record.product, record.code, record.code_system, checksum);
+    if (saved.ok() && saved->has_value()) {
+      if (auto parsed = ParseResolution(**saved); parsed.ok()) {
+        return resolved_.emplace(std::move(key), std::move(parsed).value()).first->second;
+      }
+    }
+  }
+  ResolvedProduct product = medload::Resolve(*formulary_, record.product, record.code, record.code_system);
+  if (store_ != nullptr) {
+    // Best effort: a store that cannot be written (read-only file) only loses the cache.
+    const Status saved = store_->SaveResolution(record.product, record.code, record.code_system, checksum,
+                                                SerialiseResolution(product));
+    static_cast<void>(saved);
+  }
+  return resolved_.emplace(std::move(key), std::move(product)).first->second;
 }
 
 Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {
@@ -42,7 +59,7 @@ Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> 
   return EvaluateBurden(timeline, on, tables_, options_, age);
 }
 
-size_t Analysis::resolved_products() const { return cache_->size(); }
+size_t Analysis::resolved_products() const { return resolved_.size(); }
 
 std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on) {
   if (!registry || !registry->birth_date) return std::nullopt;

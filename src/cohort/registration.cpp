@@ -17,7 +17,7 @@ std::optional<std::string> RegisteredPractice(const PatientHistory& history, Dat
       [](Date date, const DispensingRecord& record) { return date < record.dispensed_on; });
   if (after == history.dispensings.begin()) return std::nullopt;
   const DispensingRecord& latest = *(after - 1);
-  if (on - latest.dispensed_on > kUnregisteredActivityDays) return std::nullopt;
+  if (on - latest.dispensed_on >= kUnregisteredActivityDays) return std::nullopt;
   return latest.practice;
 }
 

@@ -6,28 +6,12 @@
 
 #include <nlohmann/json.hpp>
 
+#include "medload/cohort/registration.h"
 #include "medload/io/output.h"
 #include "medload/store/store.h"
 
 namespace medload {
 namespace {
-
-// Registered on D (spec section 5): by the registry row, or, without one, at the practice
-// of the latest dispensing if there was a dispensing in the 365 days ending on D.
-std::optional<std::string> PracticeOn(const PatientHistory& history, Date on) {
-  if (history.registry) {
-    const PatientRecord& r = *history.registry;
-    if (r.registered_from && *r.registered_from > on) return std::nullopt;
-    if (r.registered_to && *r.registered_to < on) return std::nullopt;
-    return r.practice;
-  }
-  const DispensingRecord* latest = nullptr;
-  for (const DispensingRecord& record : history.dispensings) {
-    if (record.dispensed_on <= on) latest = &record;
-  }
-  if (latest == nullptr || latest->dispensed_on < on - 364) return std::nullopt;
-  return latest->practice;
-}
 
 std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
   std::string joined;
@@ -122,7 +106,7 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
   worklist.scale = analysis.tables().scale;
   const std::set<std::string> practices(options.practices.begin(), options.practices.end());
   Status status = store.ForEachPatient([&](const PatientHistory& history) {
-    const auto practice = PracticeOn(history, options.on);
+    const auto practice = RegisteredPractice(history, options.on);
     if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
     const std::optional<int> age = AgeOn(history.registry, options.on);
     if (options.age_min && (!age || *age < *options.age_min)) return true;

@@ -31,8 +31,9 @@ std::vector<FakePatient> HandPopulation() {
       Registered("P02", "A01", D(1980, 5, 5), std::nullopt, D(2024, 1, 31), 4),
       // Birth year only, stored as 1 July 1954 (spec section 5): 69 in all three months.
       Registered("P03", "B02", D(1954, 7, 1), std::nullopt, std::nullopt, 10),
-      // No registry row: dispensed 365 days before 31 January (counts then, not later).
-      Unregistered("P04", "B02", D(2023, 1, 31), 11),
+      // No registry row: dispensed 364 days before 31 January, inside the 365 days ending
+      // on it (counts then, not later).
+      Unregistered("P04", "B02", D(2023, 2, 1), 11),
       // No birth date: counted, but not in the standardised population.
       Registered("P05", "A01", std::nullopt, std::nullopt, std::nullopt, 0),
   };

@@ -68,12 +68,13 @@ TEST_CASE("a registered patient whose registration ended is not counted even if 
   CHECK_FALSE(RegisteredPractice(history, D(2024, 1, 31)).has_value());
 }
 
-TEST_CASE("without a registry row a dispensing 365 days before the date counts and 366 does not") {
+TEST_CASE("without a registry row a dispensing in the 365 days ending on the date counts") {
+  // The 365 days ending on 2024-12-31 run from 2024-01-01 (D-364) to 2024-12-31.
   const Date on = D(2024, 12, 31);
   CHECK(RegisteredPractice(Unregistered({{on, "A01"}}), on).has_value());
-  CHECK(RegisteredPractice(Unregistered({{on - 364, "A01"}}), on).has_value());
-  CHECK(RegisteredPractice(Unregistered({{on - 365, "A01"}}), on) ==
+  CHECK(RegisteredPractice(Unregistered({{on - 364, "A01"}}), on) ==
         std::optional<std::string>("A01"));
+  CHECK_FALSE(RegisteredPractice(Unregistered({{on - 365, "A01"}}), on).has_value());
   CHECK_FALSE(RegisteredPractice(Unregistered({{on - 366, "A01"}}), on).has_value());
 }
 

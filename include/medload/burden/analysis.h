@@ -7,6 +7,7 @@
 #include <optional>
 #include <span>
 #include <string>
+#include <unordered_map>
 
 #include "medload/burden/burden.h"
 #include "medload/burden/measure_options.h"
@@ -16,7 +17,6 @@
 namespace medload {
 
 class Store;
-class ResolutionCache;
 
 class Analysis {
  public:
@@ -30,7 +30,10 @@ class Analysis {
   Analysis& operator=(Analysis&&) noexcept;
   ~Analysis();
 
-  // The resolution of a record's product (cached). Valid for the Analysis's lifetime.
+  // The resolution of a record's product, resolved once per run: from this run's cache,
+  // else from the store's saved resolutions under the formulary's checksum, else by the
+  // resolver (then saved in the store, best effort: a read-only store still resolves).
+  // The reference stays valid for the Analysis's lifetime.
   const ResolvedProduct& Resolve(const DispensingRecord& record);
   Timeline BuildTimeline(std::span<const DispensingRecord> records);
   Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const;
@@ -44,7 +47,8 @@ class Analysis {
  private:
   Analysis() = default;
   std::unique_ptr<Formulary> formulary_;
-  std::unique_ptr<ResolutionCache> cache_;
+  // Keyed by product, code and code system; node-based, so references stay valid.
+  std::unordered_map<std::string, ResolvedProduct> resolved_;
   BurdenTables tables_;
   MeasureOptions options_;
   Store* store_ = nullptr;

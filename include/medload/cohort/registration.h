@@ -11,8 +11,8 @@
 namespace medload {
 
 // Days that a dispensing keeps a patient without a registry row on a practice's list: a
-// dispensing at most 365 days before the census date D counts (D-365 to D inclusive); one
-// 366 days before does not.
+// dispensing in the 365 days ending on the census date D counts (D-364 to D inclusive,
+// counted like the lookback window); one 365 days before D does not.
 inline constexpr int kUnregisteredActivityDays = 365;
 
 // The practice at which the patient counts as registered on `on`, or nullopt when they are
@@ -20,7 +20,7 @@ inline constexpr int kUnregisteredActivityDays = 365;
 // - With a registry row: its practice, when registered_from <= on <= registered_to (an
 //   absent bound is open).
 // - Without one: the practice of their latest counting dispensing on or before `on`, when
-//   that dispensing is at most kUnregisteredActivityDays days before `on`. That practice may
+//   that dispensing is in the kUnregisteredActivityDays days ending on `on`. That practice may
 //   be the empty string when the record did not name one.
 // REQUIRES: history.dispensings in date order (as Store::ForEachPatient gives them).
 std::optional<std::string> RegisteredPractice(const PatientHistory& history, Date on);

@@ -1,0 +1,54 @@
+#include "medload/burden/analysis.h"
+
+#include <doctest/doctest.h>
+
+#include "medload/formulary/resolver.h"
+#include "medload/store/store.h"
+
+namespace medload {
+
+TEST_SUITE("analysis") {
+
+TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum") {
+  auto store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  auto analysis = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
+  REQUIRE(analysis.ok());
+  DispensingRecord record;
+  record.product = "Amitriptyline 10mg tablets";
+  const ResolvedProduct& first = analysis->Resolve(record);
+  CHECK(&analysis->Resolve(record) == &first);
+  CHECK(analysis->resolved_products() == 1);
+  REQUIRE(first.is_medicine());
+  CHECK(first.ingredients[0].ingredient == "amitriptyline");
+
+  const std::string checksum = analysis->formulary().checksum();
+  auto saved = store->CachedResolution(record.product, "", "", checksum);
+  REQUIRE(saved.ok());
+  REQUIRE(saved->has_value());
+  // Another checksum (a changed table) has nothing saved, so it would re-resolve.
+  auto other = store->CachedResolution(record.product, "", "", std::string(64, '0'));
+  REQUIRE(other.ok());
+  CHECK_FALSE(other->has_value());
+
+  // A second run reads the saved resolution back: prove it by saving a marked one.
+  ResolvedProduct marked = first;
+  marked.match_detail = "saved earlier";
+  REQUIRE(store->SaveResolution(record.product, "", "", checksum, SerialiseResolution(marked)).ok());
+  auto again = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
+  REQUIRE(again.ok());
+  CHECK(again->Resolve(record).match_detail == "saved earlier");
+}
+
+TEST_CASE("an unknown scale is a usage error naming the known scales") {
+  MeasureOptions options;
+  options.scale = "nosuch";
+  auto analysis = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, options, nullptr);
+  REQUIRE_FALSE(analysis.ok());
+  CHECK(analysis.status().code() == StatusCode::kUsage);
+  CHECK(analysis.status().message().find("(known: acb, ars)") != std::string::npos);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
