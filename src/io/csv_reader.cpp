@@ -137,85 +137,96 @@ void CsvReader::FinishRecord(CsvRow& row) {
   }
 }
 
+void CsvReader::StartRecord() {
+  text_.clear();
+  field_data_.clear();
+  field_spans_.clear();
+  field_start_ = 0;
+  saw_quote_ = false;
+  fault_ = CsvFault::kNone;
+}
+
+// Inside quotes: a run of data, a line end (data too), or a quote that may close the field.
+void CsvReader::ScanQuoted(ScanState& state) {
+  const char* chunk = chunk_.data();
+  size_t run = pos_;
+  while (run < end_ && chunk[run] != '"' && chunk[run] != '\n') ++run;
+  if (run > pos_) {
+    AppendText(chunk + pos_, run - pos_);
+    AppendField(chunk + pos_, run - pos_);
+    pos_ = run;
+    return;
+  }
+  const char c = chunk[pos_++];
+  AppendText(&c, 1);
+  if (c == '\n') {
+    ++line_;
+    AppendField(&c, 1);
+  } else {
+    state = ScanState::kAfterQuote;
+  }
+}
+
+CsvReader::ScanState CsvReader::ScanRecord() {
+  ScanState state = ScanState::kFieldStart;
+  while (!AtEnd()) {
+    if (state == ScanState::kQuoted) {
+      ScanQuoted(state);
+      continue;
+    }
+    const char* chunk = chunk_.data();
+    const char c = chunk[pos_++];
+    if (c == '\n') {
+      ++line_;
+      break;
+    }
+    AppendText(&c, 1);
+    if (c == '"' && state == ScanState::kAfterQuote) {  // a doubled quote inside quotes
+      AppendField(&c, 1);
+      state = ScanState::kQuoted;
+    } else if (c == ',') {
+      EndField();
+      state = ScanState::kFieldStart;
+    } else if (c == '"' && state == ScanState::kFieldStart) {
+      saw_quote_ = true;
+      state = ScanState::kQuoted;
+    } else {
+      // Data: an unquoted field, a stray quote, or text after a closing quote (kept).
+      AppendField(&c, 1);
+      size_t run = pos_;
+      while (run < end_ && chunk[run] != ',' && chunk[run] != '\n') ++run;
+      AppendText(chunk + pos_, run - pos_);
+      AppendField(chunk + pos_, run - pos_);
+      pos_ = run;
+      state = ScanState::kUnquoted;
+    }
+  }
+  return state;
+}
+
+void CsvReader::EndRecord(ScanState state) {
+  if (state == ScanState::kQuoted && fault_ == CsvFault::kNone) fault_ = CsvFault::kUnclosedQuote;
+  // CRLF: the CR before the line end belongs to neither the text nor the last field.
+  if (!text_.empty() && text_.back() == '\r' && state != ScanState::kQuoted) {
+    text_.pop_back();
+    if (state == ScanState::kUnquoted && field_data_.size() > field_start_ &&
+        field_data_.back() == '\r') {
+      field_data_.pop_back();
+    }
+  }
+  EndField();
+}
+
 bool CsvReader::Next(CsvRow& row) {
   if (!started_) {
     SkipByteOrderMark();
     started_ = true;
   }
-  enum class State { kFieldStart, kUnquoted, kQuoted, kAfterQuote };
   for (;;) {
-    text_.clear();
-    field_data_.clear();
-    field_spans_.clear();
-    field_start_ = 0;
-    saw_quote_ = false;
-    fault_ = CsvFault::kNone;
+    StartRecord();
     row.line = line_;
     if (AtEnd()) return false;
-    State state = State::kFieldStart;
-    while (!AtEnd()) {
-      const char* chunk = chunk_.data();
-      const char c = chunk[pos_];
-      if (state == State::kQuoted) {
-        size_t run = pos_;
-        while (run < end_ && chunk[run] != '"' && chunk[run] != '\n') ++run;
-        if (run == pos_) {
-          ++pos_;
-          AppendText(&c, 1);
-          if (c == '\n') {
-            ++line_;
-            AppendField(&c, 1);
-          } else {
-            state = State::kAfterQuote;
-          }
-        } else {
-          AppendText(chunk + pos_, run - pos_);
-          AppendField(chunk + pos_, run - pos_);
-          pos_ = run;
-        }
-        continue;
-      }
-      if (c == '"' && state == State::kAfterQuote) {  // a doubled quote inside quotes
-        ++pos_;
-        AppendText(&c, 1);
-        AppendField(&c, 1);
-        state = State::kQuoted;
-        continue;
-      }
-      if (c == '\n') {
-        ++pos_;
-        ++line_;
-        break;
-      }
-      ++pos_;
-      AppendText(&c, 1);
-      if (c == ',') {
-        EndField();
-        state = State::kFieldStart;
-      } else if (c == '"' && state == State::kFieldStart) {
-        saw_quote_ = true;
-        state = State::kQuoted;
-      } else {
-        // Data: an unquoted field, a stray quote, or text after a closing quote (kept).
-        AppendField(&c, 1);
-        size_t run = pos_;
-        while (run < end_ && chunk[run] != ',' && chunk[run] != '\n') ++run;
-        AppendText(chunk + pos_, run - pos_);
-        AppendField(chunk + pos_, run - pos_);
-        pos_ = run;
-        state = State::kUnquoted;
-      }
-    }
-    if (state == State::kQuoted && fault_ == CsvFault::kNone) fault_ = CsvFault::kUnclosedQuote;
-    // CRLF: the CR before the line end belongs to neither the text nor the last field.
-    if (!text_.empty() && text_.back() == '\r' && state != State::kQuoted) {
-      text_.pop_back();
-      if (state == State::kUnquoted && field_data_.size() > field_start_ &&
-          field_data_.back() == '\r') {
-        field_data_.pop_back();
-      }
-    }
-    EndField();
+    EndRecord(ScanRecord());
     if (!saw_quote_ && fault_ == CsvFault::kNone && field_spans_.size() == 1 && IsBlank(text_)) {
       ++blank_lines_;
       continue;

@@ -65,8 +65,14 @@ class CsvReader {
   bool read_failed() const { return read_failed_; }
 
  private:
+  enum class ScanState { kFieldStart, kUnquoted, kQuoted, kAfterQuote };
+
   bool Fill();
   bool AtEnd();
+  void StartRecord();
+  ScanState ScanRecord();
+  void ScanQuoted(ScanState& state);
+  void EndRecord(ScanState state);
   void EndField();
   void FinishRecord(CsvRow& row);
   void AppendText(const char* data, size_t size);
