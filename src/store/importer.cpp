@@ -76,7 +76,15 @@ class Session {
   Session(Store& store, ImportSummary& summary, const ImportOptions& options)
       : db_(store.handle()), summary_(summary), options_(options) {}
 
+  ~Session() {
+    transaction_.reset();  // ends the transaction (rolling back unless committed) first
+    (void)SetMemoryMap(db_, true);
+  }
+  Session(const Session&) = delete;
+  Session& operator=(const Session&) = delete;
+
   Status Begin() {
+    if (Status status = SetMemoryMap(db_, false); !status.ok()) return status;
     Result<Transaction> transaction = Transaction::Begin(db_);
     if (!transaction.ok()) return transaction.status();
     transaction_.emplace(std::move(transaction.value()));

@@ -23,6 +23,11 @@ Status ExecSql(sqlite3* db, const char* sql) {
   return Status::Ok();
 }
 
+Status SetMemoryMap(sqlite3* db, bool on) {
+  // 2 GiB - 64 KiB: SQLite's default upper limit (SQLITE_MAX_MMAP_SIZE).
+  return ExecSql(db, on ? "PRAGMA mmap_size=2147418112" : "PRAGMA mmap_size=0");
+}
+
 int ChangedRows(sqlite3* db) { return sqlite3_changes(db); }
 
 int64_t LastInsertId(sqlite3* db) { return sqlite3_last_insert_rowid(db); }

@@ -161,7 +161,7 @@ Status Store::Configure(const StoreOptions& options) {
   if (Status status = ExecSql(db_, pragmas); !status.ok()) {
     return Status::Input("cannot use the store \"" + path_ + "\": " + status.message());
   }
-  return Status::Ok();
+  return SetMemoryMap(db_, true);
 }
 
 Result<int> Store::SchemaVersion() const {
