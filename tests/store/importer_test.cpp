@@ -231,6 +231,21 @@ TEST_CASE("a column mapping and a day-first date order apply to every row") {
   CHECK((*records)[0].dispensed_on.ToIso() == "2024-01-05");
 }
 
+TEST_CASE("an import reads without the memory map and turns it back on afterwards") {
+  TempFolder folder;
+  Result<Store> on_disk = Store::Open(folder.File("medload.db"));
+  REQUIRE(on_disk.ok());
+  CHECK(Count(*on_disk, "PRAGMA mmap_size") > 0);
+  long during = -1;
+  ImportOptions options;
+  options.progress_every = 10;
+  options.progress = [&](long) { during = Count(*on_disk, "PRAGMA mmap_size"); };
+  std::istringstream in(DispensingFile(0, 20));
+  REQUIRE(ImportStream(*on_disk, InputKind::kDispensing, in, "d.csv", options).ok());
+  CHECK(during == 0);
+  CHECK(Count(*on_disk, "PRAGMA mmap_size") > 0);
+}
+
 TEST_CASE("progress is reported every N rows") {
   Store store = Memory();
   std::vector<long> reports;
