@@ -134,6 +134,33 @@ TEST_CASE("over-long fields and records are rejected as too long") {
   CHECK(parsed.fault->message == "dispensing.csv:2: row: a field is longer than 64 KiB");
 }
 
+TEST_CASE("records over the reader's bounds have their own messages") {
+  const auto fault_of = [](const std::string& text, CsvLimits limits) {
+    std::istringstream in(std::string(kDispensingHeader) + "\n" + text + "\n");
+    CsvReader reader(in, limits);
+    CsvRow row;
+    REQUIRE(reader.Next(row));
+    Result<HeaderLayout> layout = HeaderLayout::Find(InputKind::kDispensing, row, {}, "d.csv");
+    REQUIRE(layout.ok());
+    REQUIRE(reader.Next(row));
+    DispensingRecord record;
+    std::optional<RowFault> fault = ParseDispensingRow(row, *layout, {"d.csv", DateOrder::kIso}, record);
+    REQUIRE(fault.has_value());
+    return *fault;
+  };
+  CsvLimits small_record;
+  small_record.max_record_bytes = 120;  // the header fits, the row does not
+  const RowFault long_record =
+      fault_of("R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,28,,," + std::string(100, 'x'), small_record);
+  CHECK(long_record.reason == "too_long");
+  CHECK(long_record.message == "d.csv:2: row: the record is longer than 1 MiB");
+  CsvLimits few_fields;
+  few_fields.max_fields = 11;
+  const RowFault many = fault_of("R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,28,,,,extra", few_fields);
+  CHECK(many.reason == "field_count");
+  CHECK(many.message == "d.csv:2: row: has too many fields, the header has 11");
+}
+
 TEST_CASE("quantities are read without the locale and days supply may be written 28.0") {
   const Parsed parsed = ParseOne(InputKind::kDispensing, kDispensingHeader,
                                  "R1,P1,A1,2024-03-01,Lactulose 3.35g/5ml oral solution,,,"
@@ -294,6 +321,9 @@ TEST_CASE("practice and review rows are checked") {
   CHECK(bad.fault->message == "dispensing.csv:2: list_size: \"lots\" is not a whole number");
   Parsed empty = ParseOne(InputKind::kPractices, practices, ",Nameless,North,");
   CHECK(empty.fault->reason == "missing_practice");
+  CHECK(empty.fault->message == "dispensing.csv:2: practice: is empty");
+  Parsed zero = ParseOne(InputKind::kPractices, practices, "A1,Ash Row Surgery,North,0");
+  CHECK(zero.fault->message == "dispensing.csv:2: list_size: \"0\" is not above zero");
   Parsed review = ParseOne(InputKind::kReviews, "patient_id,reviewed_on", "P1,2024-02-29");
   REQUIRE_FALSE(review.fault.has_value());
   CHECK(review.review.reviewed_on.ToIso() == "2024-02-29");
