@@ -1,0 +1,105 @@
+// libFuzzer target: the FHIR R4 NDJSON reader (io/fhir_reader.h). The input is one NDJSON
+// file of MedicationDispense and Patient resources.
+//
+// Invariants:
+// - nothing is lost: every physical line is either a blank line or exactly one item
+//   (a dispense, a patient or a rejection), on its own line number, lines going forward;
+// - the same holds with a small line limit, which only turns lines into too_long rejections;
+// - a rejection names `FILE:LINE: ` and a reason; a dispense has a patient, a product or a
+//   code, a real date, a finite quantity above zero, a days supply above zero, a known
+//   status, and a finite non-negative structured dose; a patient has an id and a known sex.
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <sstream>
+#include <string>
+#include <string_view>
+
+#include "fuzz/fuzz_check.h"
+#include "medload/io/fhir_reader.h"
+
+namespace medload {
+namespace {
+
+const std::string kFile = "fuzz.ndjson";
+
+size_t PhysicalLines(std::string_view input) {
+  if (input.empty()) return 0;
+  size_t lines = 0;
+  for (char c : input) lines += c == '\n' ? 1 : 0;
+  return input.back() == '\n' ? lines : lines + 1;
+}
+
+bool KnownStatus(std::string_view status) {
+  if (status.empty()) return true;
+  for (std::string_view code : MedicationDispenseStatuses()) {
+    if (code == status) return true;
+  }
+  return false;
+}
+
+void CheckDispense(const DispensingRecord& record) {
+  FuzzCheck(!record.patient_id.empty(), "a dispense has a patient");
+  FuzzCheck(!record.product.empty() || !record.code.empty(), "a dispense has a product or code");
+  FuzzCheck(std::isfinite(record.quantity) && record.quantity > 0, "quantity is finite and above 0");
+  FuzzCheck(!record.days_supply || *record.days_supply > 0, "days supply is above 0");
+  FuzzCheck(IsValidCivil(record.dispensed_on.year(), record.dispensed_on.month(),
+                         record.dispensed_on.day()),
+            "the dispensing date is a real date");
+  FuzzCheck(KnownStatus(record.status), "the status is a FHIR MedicationDispense status");
+  FuzzCheck(!record.structured_units_per_day || (std::isfinite(*record.structured_units_per_day) &&
+                                                 *record.structured_units_per_day >= 0),
+            "a structured dose is finite and not negative");
+}
+
+void CheckPatient(const PatientRecord& record) {
+  FuzzCheck(!record.patient_id.empty(), "a patient has an id");
+  FuzzCheck(record.sex.empty() || record.sex == "female" || record.sex == "male" ||
+                record.sex == "other" || record.sex == "unknown",
+            "sex is one of the four words");
+}
+
+// Reads everything; returns the number of items and checks each.
+size_t ReadAll(std::string_view input, size_t max_line_bytes, size_t& too_long) {
+  std::istringstream in{std::string(input)};
+  FhirReader reader(in, kFile, max_line_bytes);
+  FhirItem item;
+  size_t items = 0;
+  size_t previous = 0;
+  too_long = 0;
+  while (reader.Next(item)) {
+    ++items;
+    FuzzCheck(item.line > previous, "lines go forward");
+    previous = item.line;
+    FuzzCheck(item.text.size() <= max_line_bytes, "text is cut at the line limit");
+    switch (item.kind) {
+      case FhirItemKind::kDispense: CheckDispense(item.dispense); break;
+      case FhirItemKind::kPatient: CheckPatient(item.patient); break;
+      case FhirItemKind::kRejected:
+        FuzzCheck(!item.fault.reason.empty(), "a rejection has a reason");
+        FuzzCheck(StartsWith(item.fault.message, kFile + ":" + std::to_string(item.line) + ": "),
+                  "a rejection message starts FILE:LINE:");
+        too_long += item.fault.reason == "too_long" ? 1 : 0;
+        break;
+    }
+  }
+  FuzzCheck(!reader.read_failed(), "a string stream never fails to read");
+  FuzzCheck(items + reader.blank_lines() == PhysicalLines(input),
+            "nothing lost: lines = items + blank lines");
+  return items;
+}
+
+}  // namespace
+}  // namespace medload
+
+extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
+  using namespace medload;
+  const std::string_view input(reinterpret_cast<const char*>(data), size);
+  size_t too_long = 0;
+  const size_t items = ReadAll(input, 1024 * 1024, too_long);
+  FuzzCheck(too_long == 0 || size > 1024 * 1024, "no line is too long under the default limit");
+  size_t small_too_long = 0;
+  const size_t small_items = ReadAll(input, 64, small_too_long);
+  FuzzCheck(small_items >= items, "a line limit loses no line");
+  return 0;
+}
