@@ -1,6 +1,7 @@
 #include "medload/dose/fhir_dosage.h"
 
 #include <algorithm>
+#include <cmath>
 #include <map>
 #include <set>
 #include <string>
@@ -207,6 +208,10 @@ bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes) {
   } else if (regular) {
     reading.units_per_day = max ? std::min(*regular, max->value) : *regular;
   }
+  if (reading.units_per_day && !std::isfinite(*reading.units_per_day)) {
+    reading.units_per_day.reset();  // huge values (1e308 x 1e308): no usable daily amount
+    notes.Add("the structured dose and frequency give no finite amount per day");
+  }
   return reading.units_per_day.has_value();
 }
 
@@ -271,6 +276,11 @@ DosageReading ReadFhirDosageList(const json& dosage_instructions) {
     if (part.units_per_day && group.units_per_day && SameDoseUnit(group.unit, part_unit)) {
       *group.units_per_day += *part.units_per_day;
       if (part.understanding == Understanding::kPartial) group.understanding = part.understanding;
+      if (!std::isfinite(*group.units_per_day)) {
+        group.units_per_day.reset();
+        group.understanding = Understanding::kUnknown;
+        notes.Add("the concurrent parts add up to no finite amount per day");
+      }
     } else if (part.units_per_day || group.units_per_day) {
       group.units_per_day.reset();  // one concurrent part unusable: the sum is unknown
       group.understanding = Understanding::kUnknown;

@@ -109,7 +109,9 @@ void CsvReader::AppendText(const char* data, size_t size) {
 
 void CsvReader::AppendField(const char* data, size_t size) {
   if (fault_ != CsvFault::kNone) return;  // the fields of a faulty record are not kept
-  if (field_data_.size() - field_start_ + size > limits_.max_field_bytes) {
+  // One byte over the limit is let in: it may be the CR of a CRLF, dropped at the line
+  // end. EndField checks the field as kept.
+  if (field_data_.size() - field_start_ + size > limits_.max_field_bytes + 1) {
     fault_ = CsvFault::kFieldTooLong;
     return;
   }
@@ -118,6 +120,10 @@ void CsvReader::AppendField(const char* data, size_t size) {
 
 void CsvReader::EndField() {
   if (fault_ != CsvFault::kNone) return;
+  if (field_data_.size() - field_start_ > limits_.max_field_bytes) {
+    fault_ = CsvFault::kFieldTooLong;
+    return;
+  }
   if (field_spans_.size() >= limits_.max_fields) {
     fault_ = CsvFault::kTooManyFields;
     return;

@@ -25,6 +25,32 @@ bool IsBlank(std::string_view text) {
   return true;
 }
 
+// Arrays and objects nested deeper than this are refused before parsing: a FHIR resource
+// needs far fewer levels, and the JSON library copies and prints values recursively.
+constexpr size_t kMaxJsonNesting = 64;
+
+// True if `text` opens more than `limit` arrays or objects inside one another (brackets
+// inside strings do not count).
+bool NestedDeeperThan(std::string_view text, size_t limit) {
+  size_t depth = 0;
+  bool in_string = false;
+  bool escaped = false;
+  for (char c : text) {
+    if (in_string) {
+      if (escaped) escaped = false;
+      else if (c == '\\') escaped = true;
+      else if (c == '"') in_string = false;
+    } else if (c == '"') {
+      in_string = true;
+    } else if (c == '[' || c == '{') {
+      if (++depth > limit) return true;
+    } else if ((c == ']' || c == '}') && depth > 0) {
+      --depth;
+    }
+  }
+  return false;
+}
+
 // Builds the rejection of one element, named by its JSON pointer.
 struct Faults {
   std::string_view file;
@@ -326,6 +352,11 @@ void FhirReader::Interpret(FhirItem& item) {
   }
   if (!IsValidUtf8(line_text_)) {
     item.fault = fault("invalid_utf8", "row", "is not valid UTF-8 (save the file as UTF-8)");
+    return;
+  }
+  if (NestedDeeperThan(line_text_, kMaxJsonNesting)) {
+    item.fault = fault("bad_json", "row", "nests arrays and objects more than " +
+                                              std::to_string(kMaxJsonNesting) + " levels deep");
     return;
   }
   json resource;

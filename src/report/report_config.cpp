@@ -3,11 +3,31 @@
 #include <cmath>
 #include <fstream>
 #include <set>
+#include <utility>
+#include <vector>
 
 namespace medload {
 namespace {
 
 using nlohmann::json;
+
+// Arrays and objects nested deeper than this are refused before the document is copied:
+// a config needs four levels, and the JSON library copies and prints values recursively.
+constexpr size_t kMaxNesting = 32;
+
+// True if `doc` has arrays or objects more than `limit` levels deep (walked without
+// recursion, so any depth is safe to ask about).
+bool NestedDeeperThan(const json& doc, size_t limit) {
+  std::vector<std::pair<const json*, size_t>> stack = {{&doc, 1}};
+  while (!stack.empty()) {
+    const auto [value, depth] = stack.back();
+    stack.pop_back();
+    if (!value->is_structured()) continue;
+    if (depth > limit) return true;
+    for (const json& child : *value) stack.emplace_back(&child, depth + 1);
+  }
+  return false;
+}
 
 // Builds messages "FILE: /pointer: fault".
 class Reader {
@@ -197,6 +217,10 @@ Status ReadRequired(const Reader& r, const json& doc, ReportConfig& config) {
 Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) {
   const Reader r(file);
   if (!doc.is_object()) return r.Fault("", "the config must be a JSON object");
+  if (NestedDeeperThan(doc, kMaxNesting)) {
+    return r.Fault("", "nests arrays and objects more than " + std::to_string(kMaxNesting) +
+                           " levels deep");
+  }
   MEDLOAD_TRY(r.OnlyKeys(doc, "", kTopKeys));
   ReportConfig config;
   config.source = doc;
