@@ -7,6 +7,7 @@
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
+#include "medload/io/private_file.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"
@@ -66,6 +67,9 @@ Status WriteNetworkWorklist(Store& store, Analysis& analysis, const ReportConfig
   options.remember_run = false;
   auto worklist = BuildWorklist(store, analysis, options);
   if (!worklist.ok()) return worklist.status();
+  for (const char* name : {"network-worklist.csv", "network-worklist.html"}) {
+    if (Status status = PreparePrivateFile((dir / name).string()); !status.ok()) return status;
+  }
   std::ofstream csv(dir / "network-worklist.csv", std::ios::binary | std::ios::trunc);
   WriteWorklistCsv(csv, *worklist);
   std::ofstream html(dir / "network-worklist.html", std::ios::binary | std::ios::trunc);

@@ -10,6 +10,7 @@
 
 #include "cli/options.h"
 #include "medload/io/import_summary.h"
+#include "medload/io/private_file.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
 
@@ -19,6 +20,9 @@ namespace {
 constexpr int kExitInput = 2;
 constexpr int kExitRejected = 3;
 constexpr long kProgressEvery = 1000000;
+// How long an import waits for the store's write lock (another import, a migration): an
+// hour, so that imports started together by a scheduler run one after the other.
+constexpr int kImportWaitMs = 3600 * 1000;
 
 po::options_description ImportOptionsDescription(InputKind kind) {
   po::options_description options(std::string("import ") + std::string(InputKindName(kind)) +
@@ -127,11 +131,16 @@ int RunImport(Context& context, const std::vector<std::string>& args, InputKind 
   Result<ImportOptions> options = ReadImportOptions(*vm, kind);
   if (!options.ok()) return Fail(context, options.status());
   if (Status status = CheckFiles(files); !status.ok()) return Fail(context, status);
-  Result<Store> store = Store::Open(context.db_path);
+  // An import waits for another one's transaction to end, however long its file.
+  StoreOptions store_options;
+  store_options.busy_timeout_ms = kImportWaitMs;
+  Result<Store> store = Store::Open(context.db_path, store_options);
   if (!store.ok()) return Fail(context, store.status());
   std::ofstream rejects;
   if (vm->count("rejects") != 0U) {
     const std::string path = (*vm)["rejects"].as<std::string>();
+    // Rejected rows are the original rows, patient identifiers and all.
+    if (Status status = PreparePrivateFile(path); !status.ok()) return Fail(context, status);
     rejects.open(path, std::ios::binary | std::ios::trunc);
     if (!rejects) return Fail(context, Status::Input(path + ": cannot write the rejects file"));
     WriteRejectsHeader(rejects);

@@ -1,5 +1,7 @@
 // medload's entry point: splits the global options from the command and its own
 // options, opens the output, runs the command and returns its exit code.
+#include <csignal>
+
 #include <algorithm>
 #include <fstream>
 #include <iostream>
@@ -9,6 +11,7 @@
 
 #include "cli/context.h"
 #include "medload/core/caution.h"
+#include "medload/io/private_file.h"
 
 namespace medload::cli {
 namespace {
@@ -93,6 +96,17 @@ bool TakeGlobalOptions(std::vector<std::string>& args, Context& context, std::st
   return true;
 }
 
+// Who may read the command's --output file: commands whose output names patients (meds,
+// timeline, review, import with its rejected-row messages) write it owner-only;
+// practice- and network-level commands leave it to the umask.
+FileAccess OutputAccess(const Command& command) {
+  const std::string_view words = command.words;
+  for (const std::string_view shared : {"cohort", "report", "formulary", "synth", "demo"}) {
+    if (words.rfind(shared, 0) == 0) return FileAccess::kShared;
+  }
+  return FileAccess::kOwnerOnly;
+}
+
 // The longest command whose words start `args`, or nullptr.
 const Command* FindCommand(const std::vector<std::string>& args, size_t& words_used) {
   const Command* best = nullptr;
@@ -116,6 +130,9 @@ const Command* FindCommand(const std::vector<std::string>& args, size_t& words_u
 }
 
 int Main(int argc, char** argv) {
+  // Past a file size limit (RLIMIT_FSIZE) a write should fail with EFBIG, which the store
+  // reports as a full disk and rolls back, rather than kill the process.
+  std::signal(SIGXFSZ, SIG_IGN);
   std::vector<std::string> args(argv + 1, argv + argc);
   Context context;
   context.formulary_dir = MEDLOAD_SOURCE_FORMULARY;
@@ -144,6 +161,10 @@ int Main(int argc, char** argv) {
   }
   std::ofstream file;
   if (!context.output_path.empty() && context.output_path != "-") {
+    if (Status status = PrepareOutputFile(context.output_path, OutputAccess(*command)); !status.ok()) {
+      std::cerr << "medload: " << status.message() << "\n";
+      return kExitInput;
+    }
     file.open(context.output_path, std::ios::binary | std::ios::trunc);
     if (!file) {
       std::cerr << "medload: cannot write " << context.output_path << "\n";

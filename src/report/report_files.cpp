@@ -84,7 +84,8 @@ Status ReportFolder::MakeSubfolder(std::string_view name) const {
   return Status::Ok();
 }
 
-Status ReportFolder::WriteFile(std::string_view relative, std::string_view content) const {
+Status ReportFolder::WriteFile(std::string_view relative, std::string_view content,
+                               FileAccess access) const {
   if (!IsPlainRelative(relative)) {
     return Status::Input("\"" + std::string(relative) + "\" is not a file name inside the report folder");
   }
@@ -96,6 +97,7 @@ Status ReportFolder::WriteFile(std::string_view relative, std::string_view conte
       return Status::Input(step.string() + ": is a symbolic link; refusing to write through it");
     }
   }
+  if (Status status = PrepareOutputFile(target.string(), access); !status.ok()) return status;
   std::ofstream out(target, std::ios::binary | std::ios::trunc);
   out.write(content.data(), static_cast<std::streamsize>(content.size()));
   out.close();

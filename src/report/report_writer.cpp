@@ -48,9 +48,10 @@ Result<std::map<std::string, PracticeFiles>> FileNames(const ReportModel& model)
 struct Writer {
   const ReportFolder& folder;
   std::vector<std::string>& written;
-  Status Put(const std::string& name, const std::string& content) {
+  Status Put(const std::string& name, const std::string& content,
+             FileAccess access = FileAccess::kShared) {
     written.push_back(name);
-    return folder.WriteFile(name, content);
+    return folder.WriteFile(name, content, access);
   }
 };
 
@@ -67,10 +68,13 @@ Status WritePractices(const ReportModel& model, const std::map<std::string, Prac
   for (size_t i = 0; i < model.practices.size(); ++i) {
     const ReportSeries& s = model.practices[i];
     const PracticeFiles& names = files.at(s.code);
-    if (Status st = writer.Put(names.page, PracticeHtml(model, i, names)); !st.ok()) return st;
+    // The practice page and worklist name patients: owner-only (the overview, cohort
+    // tables and digests carry counts only).
+    const FileAccess patients = FileAccess::kOwnerOnly;
+    if (Status st = writer.Put(names.page, PracticeHtml(model, i, names), patients); !st.ok()) return st;
     std::ostringstream csv;
     WriteWorklistCsv(csv, model.worklists.at(s.code));
-    if (Status st = writer.Put(names.worklist, csv.str()); !st.ok()) return st;
+    if (Status st = writer.Put(names.worklist, csv.str(), patients); !st.ok()) return st;
     if (const auto digest = BuildDigest(model, i, names.page)) {
       if (Status st = writer.Put(names.digest, FormatDigest(*digest)); !st.ok()) return st;
       digests.push_back(s.code);
@@ -138,7 +142,14 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
     keyed = std::move(*loaded);
     pseudonymise = [&keyed](const std::string& id) { return keyed->Pseudonym(id); };
   }
-  auto model = BuildReportModel(store, analysis, config, pseudonymise, options.progress);
+  // One snapshot for every read of the model: imports committing meanwhile cannot make
+  // run.json's data counts disagree with the pass over the patients.
+  Result<ReportModel> model = Status::Input("store: no snapshot");
+  {
+    auto snapshot = store.BeginSnapshot();
+    if (!snapshot.ok()) return snapshot.status();
+    model = BuildReportModel(store, analysis, config, pseudonymise, options.progress);
+  }
   if (!model.ok()) return model.status();
   auto outcome = WriteReport(*model, options.out_dir, options.generated_at);
   if (!outcome.ok()) return outcome.status();

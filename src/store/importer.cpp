@@ -37,11 +37,21 @@ std::string UtcNow() {
   return buffer;
 }
 
+// True when the first line of `head` ends in a CR alone (classic Mac OS line ends).
+bool HasCrOnlyLineEnds(std::string_view head) {
+  const size_t end = head.find_first_of("\r\n");
+  return end != std::string_view::npos && head[end] == '\r' && end + 1 < head.size() &&
+         head[end + 1] != '\n';
+}
+
 // Serves bytes already read (to look at the start of the input) and then the rest of
-// the stream, so that the readers see the input whole.
+// the stream, so that the readers see the input whole. For input whose line ends are CR
+// alone, every CR is served as LF, so that the readers see its lines (and number them).
 class PrefixedBuffer : public std::streambuf {
  public:
-  PrefixedBuffer(std::string head, std::istream& rest) : head_(std::move(head)), rest_(rest) {
+  PrefixedBuffer(std::string head, std::istream& rest)
+      : head_(std::move(head)), rest_(rest), cr_to_lf_(HasCrOnlyLineEnds(head_)) {
+    Translate(head_.data(), head_.size());
     setg(head_.data(), head_.data(), head_.data() + head_.size());
   }
   bool failed() const { return rest_.bad(); }
@@ -52,13 +62,19 @@ class PrefixedBuffer : public std::streambuf {
     rest_.read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
     const std::streamsize got = rest_.gcount();
     if (got <= 0) return traits_type::eof();
+    Translate(buffer_.data(), static_cast<size_t>(got));
     setg(buffer_.data(), buffer_.data(), buffer_.data() + got);
     return traits_type::to_int_type(*gptr());
   }
 
  private:
+  void Translate(char* data, size_t size) const {
+    if (cr_to_lf_) std::replace(data, data + size, '\r', '\n');
+  }
+
   std::string head_;
   std::istream& rest_;
+  bool cr_to_lf_;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -456,6 +472,13 @@ std::string DispensingKey(const DispensingRecord& record) {
 
 namespace {
 
+// A storage failure (messages from src/store start "store") names the file being imported
+// and says what became of it: its transaction was rolled back.
+Status InFile(const ImportSummary& summary, Status status) {
+  if (status.ok() || status.message().rfind("store", 0) != 0) return status;
+  return Status::Input(summary.file + ": " + status.message() + "; nothing from this file was stored");
+}
+
 // ImportStream with the input's size in bytes when known (0 if not), to choose how to
 // maintain the per-patient index.
 Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in,
@@ -480,8 +503,8 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   if (status.ok() && (read_failed || buffer.failed())) {
     status = Status::Input(summary.file + ": reading failed part way; nothing was stored");
   }
-  if (!status.ok()) return status;  // the session's transaction rolls back
-  if (Status finished = session.Finish(); !finished.ok()) return finished;
+  if (!status.ok()) return InFile(summary, status);  // the session's transaction rolls back
+  if (Status finished = session.Finish(); !finished.ok()) return InFile(summary, finished);
   return summary;
 }
 

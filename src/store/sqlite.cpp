@@ -2,14 +2,35 @@
 
 #include <sqlite3.h>
 
+#include <cerrno>
 #include <utility>
 
 namespace medload {
+namespace {
+
+// Plain words for a write that failed for want of space. SQLite says "database or disk is
+// full" for a short write and "disk I/O error" when the system refuses a write outright
+// (EFBIG past a file size limit, EDQUOT over a quota); its saved errno is not reliable by
+// then, so any failed write gets the note.
+std::string DiskNote(sqlite3* db) {
+  if (db == nullptr) return "";
+  const int code = sqlite3_extended_errcode(db);
+  if ((code & 0xff) == SQLITE_FULL) return " (the store's disk is full, or a file size limit was reached)";
+  const int error = sqlite3_system_errno(db);
+  if (code == SQLITE_IOERR_WRITE ||
+      ((code & 0xff) == SQLITE_IOERR && (error == ENOSPC || error == EFBIG || error == EDQUOT))) {
+    return " (a write to the store failed: its disk may be full, or a file size limit was reached)";
+  }
+  return "";
+}
+
+}  // namespace
 
 std::string SqliteError(sqlite3* db, std::string_view context) {
   std::string message(context);
   message += ": ";
   message += db != nullptr ? sqlite3_errmsg(db) : "out of memory";
+  message += DiskNote(db);
   return message;
 }
 
@@ -18,7 +39,7 @@ Status ExecSql(sqlite3* db, const char* sql) {
   if (sqlite3_exec(db, sql, nullptr, nullptr, &error) != SQLITE_OK) {
     std::string message = error != nullptr ? error : sqlite3_errmsg(db);
     sqlite3_free(error);
-    return Status::Input("store: " + message);
+    return Status::Input("store: " + message + DiskNote(db));
   }
   return Status::Ok();
 }

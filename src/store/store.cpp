@@ -8,6 +8,7 @@
 #include <array>
 #include <utility>
 
+#include "medload/io/private_file.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -114,6 +115,12 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   const bool in_memory = path == ":memory:";
   if (options.must_exist && !in_memory && !FileExists(path)) {
     return Status::Input("no store at \"" + path + "\": import data first, or give --db PATH");
+  }
+  if (!in_memory && !path.empty() && !FileExists(path)) {
+    // A new store holds patient-level data: created owner-only, so that SQLite, which
+    // gives its -wal and -shm files the mode of the database file, creates them so too.
+    // A failure here (no such folder) is reported by the open below, in its own words.
+    (void)PreparePrivateFile(path);
   }
   sqlite3* db = nullptr;
   const int flags = SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE | SQLITE_OPEN_NOMUTEX;
@@ -224,9 +231,24 @@ Result<std::optional<std::string>> Store::CachedResolution(std::string_view prod
   return std::optional<std::string>(std::string(stmt->ColumnText(0)));
 }
 
+Result<StoreSnapshot> Store::BeginSnapshot() const {
+  if (sqlite3_get_autocommit(db_) == 0) {
+    return Status::Input("store: a snapshot cannot start inside another transaction");
+  }
+  // A deferred BEGIN: the first read takes the WAL read mark that fixes the view.
+  if (Status status = ExecSql(db_, "BEGIN DEFERRED"); !status.ok()) return status;
+  return StoreSnapshot(db_);
+}
+
+StoreSnapshot::~StoreSnapshot() {
+  // Only reads ran inside: ending it cannot fail in a way that loses anything.
+  if (db_ != nullptr) sqlite3_exec(db_, "ROLLBACK", nullptr, nullptr, nullptr);
+}
+
 Status Store::SaveResolution(std::string_view product, std::string_view code,
                              std::string_view code_system, std::string_view checksum,
                              std::string_view resolution_json) {
+  if (sqlite3_get_autocommit(db_) == 0) return Status::Ok();  // inside a snapshot
   Result<Statement> stmt = Statement::Prepare(
       db_,
       "INSERT INTO product_resolutions (product, code, code_system, formulary_checksum,"

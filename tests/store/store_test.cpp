@@ -173,6 +173,47 @@ TEST_CASE("the latest run is the newest one strictly before the date, and saves 
   CHECK(store->LatestRun("report", "net", "2024-12-31")->value_or("") == "feb again");
 }
 
+TEST_CASE("a new store and its -wal and -shm files are readable by their owner only") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  const mode_t old_mask = ::umask(022);
+  Result<Store> store = Store::Open(path);
+  ::umask(old_mask);
+  REQUIRE(store.ok());
+  REQUIRE(store->SaveRun("k", "key", "2024-01-01", "{}").ok());  // the WAL now holds a frame
+  for (const char* suffix : {"", "-wal", "-shm"}) {
+    CAPTURE(suffix);
+    struct stat info {};
+    REQUIRE(::stat((path + suffix).c_str(), &info) == 0);
+    CHECK((info.st_mode & 0777) == 0600);
+  }
+}
+
+TEST_CASE("reads inside a snapshot do not see what another connection commits meanwhile") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  {
+    Result<StoreSnapshot> snapshot = store->BeginSnapshot();
+    REQUIRE(snapshot.ok());
+    CHECK(store->Summary()->practices == 0);
+    // Another writer is not blocked by the snapshot...
+    ExecRaw(path, "INSERT INTO practices (practice) VALUES ('XA1')");
+    CHECK(QueryText(path, "SELECT COUNT(*) FROM practices") == "1");
+    // ...and the snapshot does not see its row.
+    CHECK(store->Summary()->practices == 0);
+    CHECK(store->Practices()->empty());
+    // The resolution cache is not written inside a snapshot (it would take the write lock).
+    CHECK(store->SaveResolution("X", "", "", "sum", "{}").ok());
+    CHECK_FALSE(store->BeginSnapshot().ok());  // one at a time
+  }
+  CHECK(store->Summary()->practices == 1);
+  CHECK_FALSE(store->CachedResolution("X", "", "", "sum")->has_value());
+  REQUIRE(store->SaveResolution("X", "", "", "sum", "{}").ok());
+  CHECK(store->CachedResolution("X", "", "", "sum")->has_value());
+}
+
 TEST_CASE("a moved store keeps working and the moved-from one is empty") {
   Result<Store> opened = Store::Open(":memory:");
   REQUIRE(opened.ok());

@@ -7,6 +7,7 @@
 #include <string_view>
 
 #include "medload/core/status.h"
+#include "medload/io/private_file.h"
 
 namespace medload {
 
@@ -32,8 +33,10 @@ class ReportFolder {
   Status MakeSubfolder(std::string_view name) const;
   // Writes `content` to `relative` ("index.html", "digests/WV001.eml"), replacing a
   // regular file of that name. Refused with Input when `relative` is absolute, contains
-  // "..", or the file or its folder is a symbolic link.
-  Status WriteFile(std::string_view relative, std::string_view content) const;
+  // "..", or the file or its folder is a symbolic link. With FileAccess::kOwnerOnly the
+  // file is created (or narrowed to) mode 0600: pages and worklists that name patients.
+  Status WriteFile(std::string_view relative, std::string_view content,
+                   FileAccess access = FileAccess::kShared) const;
   // Removes the regular files in sub-folder `name` whose names end in `suffix` (stale
   // digests from an earlier run), so a re-run leaves exactly this run's files.
   Status RemoveFiles(std::string_view name, std::string_view suffix) const;

@@ -31,7 +31,8 @@ struct ImportOptions {
 
 // Imports `in` as input of `kind`, naming it `file` in messages and in the store. The
 // format is found from the content: a first non-blank character '{' is FHIR NDJSON
-// (dispensing and patients only), anything else CSV.
+// (dispensing and patients only), anything else CSV. Line ends are LF or CRLF, or CR alone
+// when the first line ends so (every CR is then a line end).
 //
 // On success the file's rows are committed in one transaction and the summary says how
 // many were read, imported, duplicates and rejected (they always add up). When rejected

@@ -71,12 +71,28 @@ struct ImportRunRecord {
   long rejected = 0;
 };
 
+// A read snapshot (see Store::BeginSnapshot). Ends on destruction. Move-only.
+class StoreSnapshot {
+ public:
+  StoreSnapshot(StoreSnapshot&& other) noexcept : db_(std::exchange(other.db_, nullptr)) {}
+  StoreSnapshot& operator=(StoreSnapshot&&) = delete;
+  StoreSnapshot(const StoreSnapshot&) = delete;
+  StoreSnapshot& operator=(const StoreSnapshot&) = delete;
+  ~StoreSnapshot();
+
+ private:
+  friend class Store;
+  explicit StoreSnapshot(sqlite3* db) : db_(db) {}
+  sqlite3* db_ = nullptr;
+};
+
 class Store {
  public:
   // Creates or opens the store at `path` (":memory:" for a private in-memory store), in WAL
   // mode with foreign keys on, and migrates its schema to kStoreSchemaVersion in one
-  // transaction. Fails with Input naming the path when the folder is missing, the file is
-  // read-only, not a SQLite database, or from a newer medload.
+  // transaction. A new store file (and so its -wal and -shm files) is created readable by
+  // its owner only (mode 0600). Fails with Input naming the path when the folder is
+  // missing, the file is read-only, not a SQLite database, or from a newer medload.
   static Result<Store> Open(const std::string& path, const StoreOptions& options = {});
 
   Store(Store&& other) noexcept;
@@ -118,13 +134,21 @@ class Store {
   // Every import run, oldest first.
   Result<std::vector<ImportRunRecord>> ImportRuns() const;
 
+  // Starts a read snapshot: until the returned object is destroyed, every read through
+  // this store sees the data as committed when the first of them ran, whatever imports
+  // commit meanwhile in other connections (which are not blocked), so that a run's counts
+  // agree with each other. SaveResolution does nothing while a snapshot is open (the cache
+  // is best effort; a write would hold the store's write lock to the snapshot's end).
+  // Fails with Input when a transaction is already open on this connection.
+  Result<StoreSnapshot> BeginSnapshot() const;
+
   // The resolution saved for this product under this formulary checksum, or nullopt.
   // `resolution` is opaque JSON text owned by the formulary module.
   Result<std::optional<std::string>> CachedResolution(std::string_view product,
                                                       std::string_view code,
                                                       std::string_view code_system,
                                                       std::string_view checksum) const;
-  // Saves (or replaces) the resolution for the key above.
+  // Saves (or replaces) the resolution for the key above (nothing inside a snapshot).
   Status SaveResolution(std::string_view product, std::string_view code,
                         std::string_view code_system, std::string_view checksum,
                         std::string_view resolution_json);

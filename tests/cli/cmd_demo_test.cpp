@@ -1,0 +1,33 @@
+// `medload demo` as a process: who may read the files it writes.
+#include <doctest/doctest.h>
+#include <sys/stat.h>
+
+#include "cli/medload_process.h"
+#include "store/temp_folder.h"
+
+namespace medload {
+
+TEST_SUITE("cli") {
+
+TEST_CASE("the demo's network worklist is owner-only and its cohort table follows the umask") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  const mode_t old_mask = ::umask(022);
+  const ProcessResult result = RunMedload({"--quiet", "demo", "--out", "demo"}, run);
+  ::umask(old_mask);
+  REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  const std::pair<const char*, mode_t> files[] = {{"demo/network-worklist.csv", 0600},
+                                                  {"demo/network-worklist.html", 0600},
+                                                  {"demo/cohort.csv", 0644},
+                                                  {"demo/index.html", 0644}};
+  for (const auto& [name, mode] : files) {
+    CAPTURE(name);
+    struct stat info {};
+    REQUIRE(::stat(folder.File(name).c_str(), &info) == 0);
+    CHECK((info.st_mode & 0777) == mode);
+  }
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload

@@ -1,0 +1,241 @@
+// Hostile names and privacy across the commands that write files for others to read: the
+// report folder, and the HTML and CSV outputs of meds, review, timeline and cohort. Runs
+// the real binary (MEDLOAD_BINARY) on a small invented network whose identifiers, names
+// and products carry markup, formula cells and path parts.
+#include <doctest/doctest.h>
+#include <sys/stat.h>
+
+#include <filesystem>
+
+#include "cli/medload_process.h"
+#include "cli/output_checks.h"
+#include "store/temp_folder.h"
+
+namespace medload {
+namespace {
+
+namespace fs = std::filesystem;
+
+// Patient identifiers chosen to be found easily if they leak into an output.
+const std::vector<std::string> kPatients = {"=HYPERLINK(1)", "<script>alert(1)</script>", "ZQ7001",
+                                            "@ZQ7002", "ZQ7003/../x"};
+
+// A store with two practices ("../up" and "+X2" as codes) whose patients all take
+// enough medicines to be on every worklist, and a report config for it.
+void BuildNetwork(const TempFolder& folder, const ProcessOptions& run) {
+  folder.Write("practices.csv",
+               "practice,name,network,list_size\n"
+               "../up,<b>Invented</b> Alder & Sons,Invented Net,900\n"
+               "+X2,=Invented Birch,Invented Net,800\n");
+  std::string patients = "patient_id,birth_date,sex,practice\n";
+  std::string dispensing = "patient_id,practice,dispensed_on,product,quantity,days_supply\n";
+  for (size_t i = 0; i < kPatients.size(); ++i) {
+    const std::string id = "\"" + kPatients[i] + "\"";
+    const std::string practice = i % 2 == 0 ? "../up" : "+X2";
+    patients += id + ",1940," + (i % 2 == 0 ? "F" : "M") + "," + practice + "\n";
+    for (const char* product : {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets",
+                                "<img src=x onerror=alert(1)> 5mg tablets", "-2+3 tablets"}) {
+      dispensing += id + "," + practice + ",2024-03-01,\"" + std::string(product) + "\",28,28\n";
+    }
+  }
+  folder.Write("patients.csv", patients);
+  folder.Write("dispensing.csv", dispensing);
+  for (const char* kind : {"practices", "patients", "dispensing"}) {
+    const ProcessResult result = RunMedload(
+        {"--quiet", "import", kind, folder.File(std::string(kind) + ".csv"), "--max-reject-rate", "1"}, run);
+    REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  }
+  folder.Write("network.json",
+               R"({"title":"Invented <i>Net</i>","network":"Invented Net","on":"2024-03-10","months":2,)"
+               R"("criteria":["items>=1","acb>=3"],"digests":{"to":["team@example.invalid"],)"
+               R"("triggers":{"rise_patients":1}}})");
+}
+
+mode_t ModeOf(const std::string& path) {
+  struct stat info {};
+  REQUIRE(::stat(path.c_str(), &info) == 0);
+  return info.st_mode & 0777;
+}
+
+void CheckNoRawMarkup(const std::string& html) {
+  CHECK(html.find("<script>") == std::string::npos);
+  CHECK(html.find("<img") == std::string::npos);
+  CHECK(html.find("<b>Invented") == std::string::npos);
+  CHECK(html.find("<i>Net") == std::string::npos);
+}
+
+}  // namespace
+
+TEST_SUITE("cli") {
+
+TEST_CASE("markup in names, identifiers and products is escaped in every HTML output") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  size_t pages = 0;
+  for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File("out"))) {
+    if (entry.path().extension() != ".html") continue;
+    CAPTURE(entry.path().string());
+    CheckNoRawMarkup(ReadWholeFile(entry.path().string()));
+    ++pages;
+  }
+  CHECK(pages == 3);  // the overview and two practice pages
+  CHECK(ReadWholeFile(folder.File("out/index.html")).find("&lt;b&gt;Invented&lt;/b&gt; Alder &amp; Sons") !=
+        std::string::npos);
+  const std::vector<std::vector<std::string>> commands = {
+      {"--format", "html", "meds", kPatients[1], "--on", "2024-03-10"},
+      {"--format", "html", "review", "--on", "2024-03-10", "--at-least", "items=1"},
+      {"--format", "html", "timeline", kPatients[1], "--to", "2024-03-10"},
+      {"--format", "html", "cohort", "--on", "2024-03-10", "--at-least", "items=1"},
+      {"--format", "html", "import", "dispensing", folder.File("dispensing.csv"), "--max-reject-rate", "1"}};
+  for (const std::vector<std::string>& args : commands) {
+    CAPTURE(args[2]);
+    ProcessResult result = RunMedload(args, run);
+    REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+    CHECK(result.out.find("<!DOCTYPE html>") == 0);
+    CheckNoRawMarkup(result.out);
+  }
+}
+
+TEST_CASE("no CSV output starts a cell with a formula character") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  size_t files = 0;
+  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    if (entry.path().extension() != ".csv") continue;
+    CAPTURE(entry.path().string());
+    CHECK_FALSE(HasFormulaCell(ReadWholeFile(entry.path().string())));
+    ++files;
+  }
+  CHECK(files == 3);  // cohort.csv and a worklist per practice
+  const std::vector<std::vector<std::string>> commands = {
+      {"--format", "csv", "meds", kPatients[0], "--on", "2024-03-10"},
+      {"--format", "csv", "review", "--on", "2024-03-10", "--at-least", "items=1"},
+      {"--format", "csv", "timeline", kPatients[0], "--to", "2024-03-10"},
+      {"--format", "csv", "cohort", "--on", "2024-03-10", "--at-least", "items=1"},
+      {"--format", "csv", "formulary", "unmatched"},
+      {"--format", "csv", "import", "dispensing", folder.File("dispensing.csv"), "--max-reject-rate", "1"}};
+  for (const std::vector<std::string>& args : commands) {
+    CAPTURE(args[2]);
+    ProcessResult result = RunMedload(args, run);
+    REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+    CHECK(result.out.rfind("# ", 0) == 0);
+    CHECK_FALSE(HasFormulaCell(result.out));
+  }
+  // The checker itself finds what it is looking for.
+  CHECK(HasFormulaCell("a,=b\n"));
+  CHECK(HasFormulaCell("\"@x\",1\n"));
+  CHECK(HasFormulaCell("-x\n"));
+  CHECK_FALSE(HasFormulaCell("-1.5,'=b\n"));
+}
+
+TEST_CASE("practice codes with path parts give file names inside the report folder") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  fs::create_directories(folder.File("deep/down"));
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "deep/down/out"}, run);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File("deep/down/out"))) {
+    CAPTURE(entry.path().string());
+    const std::string name = entry.path().filename().string();
+    CHECK(name.find("..") == std::string::npos);
+    CHECK(name.find('+') == std::string::npos);
+  }
+  CHECK_FALSE(fs::exists(folder.File("deep/down/up")));
+  CHECK_FALSE(fs::exists(folder.File("deep/up")));
+  CHECK_FALSE(fs::exists(folder.File("deep/down/practice-")));
+  size_t pages = 0;
+  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("deep/down/out"))) {
+    if (entry.path().filename().string().rfind("practice-", 0) == 0) ++pages;
+  }
+  CHECK(pages == 2);
+}
+
+TEST_CASE("a symbolic link inside the report folder is refused and nothing is written through it") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  fs::create_directories(folder.File("elsewhere"));
+  fs::create_directories(folder.File("out"));
+  fs::create_symlink(folder.File("elsewhere/stolen.html"), folder.File("out/index.html"));
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err.find("index.html: is a symbolic link; refusing to write through it") != std::string::npos);
+  CHECK_FALSE(fs::exists(folder.File("elsewhere/stolen.html")));
+}
+
+TEST_CASE("network-level outputs carry no patient identifier") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  std::vector<std::string> network_level = {"out/index.html", "out/cohort.csv", "out/cohort.json", "out/run.json"};
+  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out/digests"))) {
+    network_level.push_back(fs::relative(entry.path(), folder.File("")).string());
+  }
+  CHECK(network_level.size() > 4);  // at least one digest was written
+  std::vector<std::string> texts;
+  for (const std::string& name : network_level) texts.push_back(ReadWholeFile(folder.File(name)));
+  for (const char* format : {"text", "csv", "json", "html"}) {
+    texts.push_back(RunMedload({"--format", format, "cohort", "--on", "2024-03-10", "--at-least", "items=1"}, run).out);
+  }
+  // The practice pages do name them: the check can find what it looks for.
+  bool practice_page_names_a_patient = false;
+  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    if (entry.path().filename().string().rfind("worklist-", 0) != 0) continue;
+    practice_page_names_a_patient =
+        practice_page_names_a_patient || ReadWholeFile(entry.path().string()).find("ZQ700") != std::string::npos;
+  }
+  CHECK(practice_page_names_a_patient);
+  for (size_t i = 0; i < texts.size(); ++i) {
+    CAPTURE(i < network_level.size() ? network_level[i] : "cohort output");
+    CHECK_FALSE(texts[i].empty());
+    for (const char* id : {"ZQ7001", "ZQ7002", "ZQ7003", "HYPERLINK", "alert(1)"}) {
+      CAPTURE(id);
+      CHECK(texts[i].find(id) == std::string::npos);
+    }
+  }
+}
+
+TEST_CASE("report pages and worklists that name patients are owner-only, the overview is not") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  const mode_t old_mask = ::umask(022);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  ::umask(old_mask);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  size_t private_files = 0;
+  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    const std::string name = entry.path().filename().string();
+    CAPTURE(name);
+    if (name.rfind("practice-", 0) == 0 || name.rfind("worklist-", 0) == 0) {
+      CHECK(ModeOf(entry.path().string()) == 0600);
+      ++private_files;
+    } else if (entry.is_regular_file()) {
+      CHECK(ModeOf(entry.path().string()) == 0644);
+    }
+  }
+  CHECK(private_files == 4);
+  // A re-run narrows a worklist that was made readable by others in the meantime.
+  const std::string worklist = [&] {
+    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+      if (entry.path().filename().string().rfind("worklist-", 0) == 0) return entry.path().string();
+    }
+    return std::string();
+  }();
+  REQUIRE(::chmod(worklist.c_str(), 0644) == 0);
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run).exit_code == 0);
+  CHECK(ModeOf(worklist) == 0600);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload

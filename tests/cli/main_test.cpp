@@ -1,0 +1,144 @@
+// The command line's handling of the store path and the --output file, as a process:
+// missing, read-only and unwritable stores, and who may read what the commands write.
+#include <doctest/doctest.h>
+#include <sys/stat.h>
+
+#include <filesystem>
+
+#include "cli/medload_process.h"
+#include "store/temp_folder.h"
+
+namespace medload {
+namespace {
+
+namespace fs = std::filesystem;
+
+constexpr uid_t kNobody = 65534;
+
+mode_t ModeOf(const std::string& path) {
+  struct stat info {};
+  REQUIRE(::stat(path.c_str(), &info) == 0);
+  return info.st_mode & 0777;
+}
+
+// A store holding the import fixtures, in `folder`.
+void ImportFixtures(const ProcessOptions& run) {
+  for (const char* kind : {"practices", "patients", "dispensing", "reviews"}) {
+    const ProcessResult result =
+        RunMedload({"--quiet", "import", kind, std::string(MEDLOAD_TEST_DATA) + "/import/" + kind + ".csv",
+                    "--max-reject-rate", "1"},
+                   run);
+    REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  }
+}
+
+// Permissions do not bind the superuser: as root, the command runs as nobody, in a
+// folder that nobody may enter.
+ProcessOptions Unprivileged(const TempFolder& folder) {
+  ProcessOptions run = InFolder(folder.File(""));
+  if (geteuid() == 0) {
+    run.run_as = kNobody;
+    ::chmod(folder.File("").c_str(), 0755);
+  }
+  return run;
+}
+
+const std::vector<std::vector<std::string>> kReadCommands = {
+    {"review", "--on", "2024-01-31", "--at-least", "items=1"},
+    {"meds", "WV-P0001", "--on", "2024-01-31"},
+    {"cohort", "--on", "2024-01-31", "--at-least", "items=1"},
+    {"timeline", "WV-P0001"},
+    {"formulary", "unmatched"}};
+
+}  // namespace
+
+TEST_SUITE("cli") {
+
+TEST_CASE("read commands on a store that does not exist fail with exit 2 naming it and create nothing") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  for (std::vector<std::string> args : kReadCommands) {
+    CAPTURE(args[0]);
+    args.insert(args.begin(), {"--db", "missing.db"});
+    const ProcessResult result = RunMedload(args, run);
+    CHECK(result.exit_code == 2);
+    CHECK(result.err.find("no store at \"missing.db\"") != std::string::npos);
+    CHECK_FALSE(fs::exists(folder.File("missing.db")));
+    CHECK_FALSE(fs::exists(folder.File("missing.db-wal")));
+  }
+}
+
+TEST_CASE("a read-only store file is refused with exit 2 naming it, and left unchanged") {
+  TempFolder folder;
+  ImportFixtures(InFolder(folder.File("")));
+  const std::string db = folder.File("medload.db");
+  REQUIRE(::chmod(db.c_str(), 0444) == 0);
+  const auto size = fs::file_size(db);
+  const ProcessOptions run = Unprivileged(folder);
+  std::vector<std::vector<std::string>> commands = kReadCommands;
+  commands.push_back({"import", "dispensing", std::string(MEDLOAD_TEST_DATA) + "/import/dispensing.csv"});
+  for (const std::vector<std::string>& args : commands) {
+    CAPTURE(args[0]);
+    const ProcessResult result = RunMedload(args, run);
+    CHECK(result.exit_code == 2);
+    CHECK(result.err.find("\"medload.db\"") != std::string::npos);
+  }
+  CHECK(fs::file_size(db) == size);
+  CHECK(ModeOf(db) == 0444);
+}
+
+TEST_CASE("a store in a folder that cannot be written is refused with exit 2 naming it") {
+  TempFolder folder;
+  ImportFixtures(InFolder(folder.File("")));
+  const ProcessOptions run = Unprivileged(folder);
+  if (run.run_as) REQUIRE(::chown(folder.File("medload.db").c_str(), kNobody, kNobody) == 0);
+  // The store's -wal and -shm files cannot be made beside it.
+  REQUIRE(::chmod(folder.File("").c_str(), 0555) == 0);
+  for (const std::vector<std::string>& args : kReadCommands) {
+    CAPTURE(args[0]);
+    const ProcessResult result = RunMedload(args, run);
+    CHECK(result.exit_code == 2);
+    CHECK(result.err.find("\"medload.db\"") != std::string::npos);
+  }
+  REQUIRE(::chmod(folder.File("").c_str(), 0755) == 0);
+}
+
+TEST_CASE("a store made by an import is readable by its owner only") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  const mode_t old_mask = ::umask(022);
+  const ProcessResult result =
+      RunMedload({"--quiet", "import", "practices", std::string(MEDLOAD_TEST_DATA) + "/import/practices.csv"}, run);
+  ::umask(old_mask);
+  REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  CHECK(ModeOf(folder.File("medload.db")) == 0600);
+}
+
+TEST_CASE("--output of a patient-level command is owner-only, of a practice-level one follows the umask") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  ImportFixtures(run);
+  const mode_t old_mask = ::umask(022);
+  const std::vector<std::pair<std::vector<std::string>, mode_t>> commands = {
+      {{"meds", "WV-P0001", "--on", "2024-01-31", "--output", "meds.txt"}, 0600},
+      {{"timeline", "WV-P0001", "--output", "timeline.txt"}, 0600},
+      {{"review", "--on", "2024-01-31", "--at-least", "items=1", "--output", "review.txt"}, 0600},
+      {{"cohort", "--on", "2024-01-31", "--at-least", "items=1", "--output", "cohort.txt"}, 0644}};
+  for (const auto& [args, mode] : commands) {
+    CAPTURE(args[0]);
+    const ProcessResult result = RunMedload(args, run);
+    CHECK_MESSAGE(result.exit_code == 0, result.err);
+    CHECK(ModeOf(folder.File(args.back())) == mode);
+  }
+  // An existing file that others could read is narrowed when a worklist is written to it.
+  folder.Write("old-review.txt", "old\n");
+  REQUIRE(::chmod(folder.File("old-review.txt").c_str(), 0644) == 0);
+  CHECK(RunMedload({"review", "--on", "2024-01-31", "--at-least", "items=1", "--output", "old-review.txt"}, run)
+            .exit_code == 0);
+  CHECK(ModeOf(folder.File("old-review.txt")) == 0600);
+  ::umask(old_mask);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
