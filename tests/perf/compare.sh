@@ -1,0 +1,162 @@
+#!/usr/bin/env bash
+# Whole-process comparison of medload's heavy commands against `sqlite3 .import` of the
+# same dispensing file, for people measuring performance (ctest does not run it).
+#
+#   tests/perf/compare.sh --rows N --medload PATH --work DIR [--runs R]
+#
+# --rows N      approximate dispensing rows; `medload synth --patients N/19.2 --months 12`
+#               (52,000 patients gave 1,000,213 rows). The data set is generated once
+#               into DIR/data-PATIENTS and reused when present.
+# --medload     the medload executable to measure (a Release build)
+# --work DIR    where the data, the stores and the results go
+# --runs R      hyperfine runs per command (default 3)
+#
+# In one hyperfine run (so that every command meets the same machine load) it times:
+#   sqlite3 .import --csv of dispensing.csv into a fresh database (the reference),
+#   medload import dispensing into a fresh store (practices and patients loaded in
+#     hyperfine's --prepare step, not timed),
+#   medload cohort over the last 12 month-ends the data covers,
+#   medload review on the last of them (--limit 50),
+# the last two with --at-least items=10 --at-least acb=3 against a store loaded once.
+# Then it takes each command's peak resident memory with /usr/bin/time -f "%M" (one more
+# run each) and prints a markdown table. Needs hyperfine, sqlite3, jq, GNU date and awk.
+# The machine's load changes every figure: note it (uptime) beside the table.
+set -euo pipefail
+
+rows=""
+medload=""
+work=""
+runs=3
+
+usage() {
+  sed -n '5,12p' "$0" | sed 's/^# \{0,1\}//' >&2
+  exit 2
+}
+
+while [[ $# -gt 0 ]]; do
+  case "$1" in
+    --rows) rows="${2:-}"; shift 2 ;;
+    --medload) medload="${2:-}"; shift 2 ;;
+    --work) work="${2:-}"; shift 2 ;;
+    --runs) runs="${2:-}"; shift 2 ;;
+    -h|--help) usage ;;
+    *) echo "compare.sh: unknown argument: $1" >&2; usage ;;
+  esac
+done
+
+fail() { echo "compare.sh: $1" >&2; usage; }
+[[ "$rows" =~ ^[0-9]+$ && "$rows" -ge 20 ]] || fail "--rows needs a whole number >= 20"
+[[ "$runs" =~ ^[0-9]+$ && "$runs" -ge 1 ]] || fail "--runs needs a whole number >= 1"
+[[ -n "$medload" && -x "$medload" ]] || fail "--medload must name an executable"
+[[ -n "$work" ]] || { echo "compare.sh: --work is required" >&2; usage; }
+for tool in hyperfine sqlite3 jq awk /usr/bin/time; do
+  command -v "$tool" >/dev/null || { echo "compare.sh: $tool is not installed" >&2; exit 2; }
+done
+
+medload="$(cd "$(dirname "$medload")" && pwd)/$(basename "$medload")"
+mkdir -p "$work"
+work="$(cd "$work" && pwd)"
+# The commands are strings handed to hyperfine's shell and to sqlite3's own parser.
+for path in "$medload" "$work"; do
+  [[ "$path" =~ ^[A-Za-z0-9_./+-]+$ ]] || fail "use a path without spaces or quotes: $path"
+done
+
+# N / 19.2 patients, rounded to the nearest whole patient.
+patients=$(( (rows * 10 + 96) / 192 ))
+(( patients >= 1 )) || patients=1
+data="$work/data-$patients"
+csv="$data/dispensing.csv"
+
+if [[ -s "$csv" && -s "$data/patients.csv" && -s "$data/practices.csv" ]]; then
+  echo "reusing $data" >&2
+else
+  echo "generating $patients patients, 12 months into $data" >&2
+  "$medload" --quiet synth --patients "$patients" --months 12 --seed 7 --out "$data" >/dev/null
+fi
+data_rows=$(( $(wc -l < "$csv") - 1 ))
+
+# The last 12 month-ends the data covers: D2 is the last month-end on or before the
+# latest dispensing date, D1 the month-end eleven months before it.
+read -r first_day last_day < <(awk -F, 'NR > 1 { if (min == "" || $4 < min) min = $4;
+  if ($4 > max) max = $4 } END { print min, max }' "$csv")
+month_end() { date -d "$(date -d "$1" +%Y-%m-01) +1 month -1 day" +%F; }
+d2="$(month_end "$last_day")"
+[[ "$d2" == "$last_day" ]] || d2="$(date -d "$(date -d "$last_day" +%Y-%m-01) -1 day" +%F)"
+d1="$(month_end "$(date -d "$(date -d "$d2" +%Y-%m-01) -11 months" +%F)")"
+if [[ "$d1" < "$first_day" ]]; then
+  echo "note: the data start on $first_day, after the first census date $d1" >&2
+fi
+echo "$data_rows dispensing rows from $first_day to $last_day; census dates $d1 to $d2" >&2
+
+run="$work/run"
+mkdir -p "$run"
+q() { printf '%q' "$1"; }
+ml="$(q "$medload") --quiet"
+sqlite_db="$(q "$run/sqlite.db")"
+import_db="$(q "$run/import.db")"
+store_db="$(q "$run/store.db")"
+criteria="--at-least items=10 --at-least acb=3"
+
+prepare_sqlite="rm -f $sqlite_db*"
+prepare_import="rm -f $import_db* &&
+  $ml --db $import_db import practices $(q "$data/practices.csv") >/dev/null &&
+  $ml --db $import_db import patients $(q "$data/patients.csv") >/dev/null"
+cmd_sqlite="sqlite3 $sqlite_db -cmd '.import --csv $(q "$csv") t' .quit"
+cmd_import="$ml --db $import_db import dispensing $(q "$csv")"
+cmd_cohort="$ml --db $store_db cohort --from $d1 --to $d2 $criteria"
+cmd_review="$ml --db $store_db review --on $d2 $criteria --limit 50"
+
+# The store the cohort and review read: loaded once per medload build and data set.
+stamp="$(sha256sum "$medload" | cut -c1-16) $patients"
+if [[ ! -s "$run/store.db" || "$(cat "$run/store.stamp" 2>/dev/null)" != "$stamp" ]]; then
+  echo "loading the store for cohort and review" >&2
+  rm -f "$run/store.db"* "$run/store.stamp"
+  for kind in practices patients dispensing reviews; do
+    [[ -s "$data/$kind.csv" ]] || continue
+    "$medload" --quiet --db "$run/store.db" import "$kind" "$data/$kind.csv" >/dev/null
+  done
+  echo "$stamp" > "$run/store.stamp"
+fi
+
+names=("sqlite3 .import (reference)" "medload import dispensing" "medload cohort (12 month-ends)"
+       "medload review (one date)")
+commands=("$cmd_sqlite" "$cmd_import" "$cmd_cohort" "$cmd_review")
+prepares=("$prepare_sqlite" "$prepare_import" "true" "true")
+
+json="$run/hyperfine.json"
+hyperfine_args=(--runs "$runs" --export-json "$json" --style basic)
+for i in "${!commands[@]}"; do
+  hyperfine_args+=(--prepare "${prepares[$i]}" --command-name "${names[$i]}" "${commands[$i]}")
+done
+hyperfine "${hyperfine_args[@]}" >&2
+
+# Peak resident memory: one more run of each, after its prepare step.
+peaks=()
+for i in "${!commands[@]}"; do
+  bash -c "${prepares[$i]}"
+  /usr/bin/time -f "%M" -o "$run/peak.txt" bash -c "exec ${commands[$i]}" >/dev/null
+  peaks+=("$(tail -n 1 "$run/peak.txt")")
+done
+
+echo
+echo "$data_rows dispensing rows ($patients patients, $first_day to $last_day), $runs runs each;" \
+     "cohort $d1 to $d2 by month, review on $d2; load average: $(cut -d' ' -f1-3 /proc/loadavg)"
+echo
+echo "| command | median wall s | peak MB | vs sqlite3 import | per row µs |"
+echo "|---|---|---|---|---|"
+reference="$(jq -r '.results[0].median' "$json")"
+for i in "${!commands[@]}"; do
+  median="$(jq -r ".results[$i].median" "$json")"
+  awk -v name="${names[$i]}" -v m="$median" -v ref="$reference" -v kb="${peaks[$i]}" \
+      -v n="$data_rows" 'BEGIN { printf "| %s | %.2f | %.1f | %.2fx | %.2f |\n",
+      name, m, kb / 1024, m / ref, m * 1e6 / n }'
+done
+# CPU time tells more than wall time on a loaded machine.
+echo
+printf 'CPU s (user + system, mean of the runs):'
+for i in "${!commands[@]}"; do
+  jq -r ".results[$i] | \" \\(.command): \\(.user + .system | . * 100 | round / 100)\"" "$json" |
+    tr -d '\n'
+  (( i + 1 < ${#commands[@]} )) && printf ';'
+done
+echo
