@@ -16,6 +16,7 @@
 
 #include "medload/io/csv_reader.h"
 #include "medload/io/fhir_reader.h"
+#include "store/control_characters.h"
 #include "store/record_writers.h"
 #include "store/sqlite.h"
 
@@ -242,7 +243,11 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
   CsvRow row;
   while (reader.Next(row)) {
     session.Tick();
-    if (std::optional<RowFault> fault = parse(row, layout, context, record)) {
+    std::optional<RowFault> fault;
+    // The reader's own faults (UTF-8, length) come first; then control characters.
+    if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
+    if (!fault) fault = parse(row, layout, context, record);
+    if (fault) {
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
     }
@@ -353,6 +358,12 @@ Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSu
   FhirItem item;
   while (reader.Next(item)) {
     session.Tick();
+    if (item.kind != FhirItemKind::kRejected) {
+      if (std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true)) {
+        item.kind = FhirItemKind::kRejected;
+        item.fault = std::move(*fault);
+      }
+    }
     if (item.kind == FhirItemKind::kDispense && kind != InputKind::kDispensing) {
       item.kind = FhirItemKind::kRejected;
       item.fault = {"unsupported_resource",

@@ -264,6 +264,31 @@ TEST_CASE("line ends of a CR alone are line ends, and rows keep their line numbe
   CHECK(Count(store, "SELECT source_line FROM dispensings WHERE patient_id = 'P3'") == 4);
 }
 
+TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> csv = Import(store, InputKind::kDispensing,
+                                     std::string("patient_id,dispensed_on,product,quantity\n"
+                                                 "P1,2024-01-05,X,1\nP") +
+                                         '\0' + "2,2024-01-05,X,1\nP3,2024-01-05,\x1B]0;title\x07X,1\n",
+                                     options);
+  REQUIRE(csv.ok());
+  CHECK(csv->read == 3);
+  CHECK(csv->imported == 1);
+  CHECK(csv->reasons == std::map<std::string, long>{{"control_character", 2}});
+  CHECK(csv->examples.front() == "dispensing.csv:3: row: holds the control character 0x00 (at byte 2); remove it from the file");
+  Result<ImportSummary> fhir = Import(
+      store, InputKind::kDispensing,
+      R"({"resourceType":"MedicationDispense","id":"m9","subject":{"reference":"Patient/P9"},)"
+      R"("medicationCodeableConcept":{"text":"X\u001b[2J"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      options);
+  REQUIRE(fhir.ok());
+  CHECK(fhir->rejected == 1);
+  CHECK(fhir->reasons == std::map<std::string, long>{{"control_character", 1}});
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings WHERE patient_id = 'P9'") == 0);
+}
+
 TEST_CASE("progress is reported every N rows") {
   Store store = Memory();
   std::vector<long> reports;
