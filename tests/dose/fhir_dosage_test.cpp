@@ -202,6 +202,22 @@ TEST_CASE("concurrent Dosage elements add up and sequential ones take the highes
   CHECK(ReadFhirDosageList(json("text")).understanding == Understanding::kEmpty);
 }
 
+TEST_CASE("a dose and frequency too large for a finite daily amount give no units per day") {
+  // Found by the dosage_text fuzz target: 1e308 doses twice every 1e-300 seconds came out
+  // as an infinite amount per day.
+  const DosageReading reading = ReadFhirDosage(Dosage(1e308, "tablet", 2, 1e-300, "s"));
+  CHECK_FALSE(reading.units_per_day);
+  CHECK(reading.understanding == Understanding::kUnknown);
+  CHECK(reading.note.find("no finite amount per day") != std::string::npos);
+}
+
+TEST_CASE("concurrent parts adding up past the largest number give no units per day") {
+  const json list = json::array({Dosage(1e308, "tablet", 1, 1, "d"), Dosage(1e308, "tablet", 1, 1, "d")});
+  const DosageReading reading = ReadFhirDosageList(list);
+  CHECK_FALSE(reading.units_per_day);
+  CHECK(reading.understanding == Understanding::kUnknown);
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

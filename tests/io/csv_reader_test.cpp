@@ -143,6 +143,20 @@ TEST_CASE("an over-long field is a fault and reading continues at the next recor
   CHECK(rows[3].fields == std::vector<std::string>{"ok", "3"});
 }
 
+TEST_CASE("a field of exactly the limit fits before a CRLF, quoted or not") {
+  // Found by the csv_reader fuzz target: the CR of a CRLF counted against the field.
+  CsvLimits limits;
+  limits.max_field_bytes = 7;
+  const std::vector<ReadRow> rows =
+      ReadAll("1234567\r\n\"1234567\"\r\na,1234567\r\n12345678\r\n\"1234567\r\"\r\n", limits);
+  REQUIRE(rows.size() == 5);
+  CHECK(rows[0].fields == std::vector<std::string>{"1234567"});
+  CHECK(rows[1].fields == std::vector<std::string>{"1234567"});
+  CHECK(rows[2].fields == std::vector<std::string>{"a", "1234567"});
+  CHECK(rows[3].fault == CsvFault::kFieldTooLong);  // eight bytes are still too many
+  CHECK(rows[4].fault == CsvFault::kFieldTooLong);  // a CR inside quotes is data
+}
+
 TEST_CASE("an over-long record keeps only the first bytes of its text") {
   CsvLimits limits;
   limits.max_record_bytes = 32;

@@ -264,6 +264,22 @@ TEST_CASE("an as-needed structured instruction is marked as needed") {
   CHECK(*item.dispense.structured_units_per_day == doctest::Approx(8));  // high value x 4 a day
 }
 
+TEST_CASE("a line nesting arrays or objects more than 64 levels deep is rejected unparsed") {
+  // Found by fuzzing: copying or printing a deeply nested value recursed once per level
+  // until the stack overflowed.
+  const std::string deep = std::string(200000, '[') + std::string(200000, ']');
+  const FhirItem item = ReadOne(R"({"resourceType":"MedicationDispense","status":)" + deep + "}");
+  CHECK(item.kind == FhirItemKind::kRejected);
+  CHECK(item.fault.reason == "bad_json");
+  CHECK(item.fault.message ==
+        "dispensing.ndjson:1: row: nests arrays and objects more than 64 levels deep");
+  // 64 levels are read; brackets inside strings do not count.
+  const std::string levels = std::string(63, '[') + std::string(63, ']');
+  const FhirItem shallow = ReadOne(R"({"resourceType":"Patient","id":"P[{[{\"[","x":)" + levels + "}");
+  CHECK(shallow.kind == FhirItemKind::kPatient);
+  CHECK(shallow.patient.patient_id == "P[{[{\"[");
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

@@ -131,6 +131,22 @@ TEST_CASE("the normalised parameters fill in every default and hide the key file
   CHECK(parameters.at("digests").is_null());
 }
 
+TEST_CASE("a config nesting arrays more than 32 levels deep is refused without recursing") {
+  // Found by the report_config fuzz target: keeping a copy of a deeply nested document
+  // recursed once per level until the stack overflowed.
+  const std::string deep = std::string(100000, '[') + std::string(100000, ']');
+  auto config = Read(R"({"title": "T", "network": "N", "criteria": ["items>=10"], "scale": )" +
+                     deep + "}");
+  REQUIRE_FALSE(config.ok());
+  CHECK(config.status().message() ==
+        "network.json: /: nests arrays and objects more than 32 levels deep");
+  // 32 levels are read (and then refused for what they hold, not for their depth).
+  auto shallow = Read(R"({"title": "T", "network": "N", "criteria": ["items>=10"], "scale": )" +
+                      std::string(31, '[') + std::string(31, ']') + "}");
+  REQUIRE_FALSE(shallow.ok());
+  CHECK(shallow.status().message() == "network.json: /scale: must be a string");
+}
+
 }
 
 }  // namespace medload
