@@ -51,6 +51,12 @@ inline pid_t StartMedload(const std::vector<std::string>& args, const ProcessOpt
                           const std::string& name = "medload") {
   const std::string out = options.folder + "/" + name + ".out";
   const std::string err = options.folder + "/" + name + ".err";
+  std::string program = MEDLOAD_BINARY;
+  std::vector<std::string> copies = args;
+  std::vector<char*> argv;
+  argv.push_back(program.data());
+  for (std::string& arg : copies) argv.push_back(arg.data());
+  argv.push_back(nullptr);
   const pid_t child = fork();
   if (child != 0) return child;
   // In the child: only async-signal-safe calls until exec.
@@ -66,12 +72,6 @@ inline pid_t StartMedload(const std::vector<std::string>& args, const ProcessOpt
     if (setrlimit(RLIMIT_FSIZE, &limit) != 0) _exit(125);
   }
   if (options.run_as && (setgid(*options.run_as) != 0 || setuid(*options.run_as) != 0)) _exit(125);
-  std::vector<char*> argv;
-  std::string program = MEDLOAD_BINARY;
-  argv.push_back(program.data());
-  std::vector<std::string> copies = args;
-  for (std::string& arg : copies) argv.push_back(arg.data());
-  argv.push_back(nullptr);
   execv(program.c_str(), argv.data());
   _exit(126);
 }
