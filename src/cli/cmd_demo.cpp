@@ -4,12 +4,13 @@
 #include <filesystem>
 #include <fstream>
 #include <ostream>
+#include <sstream>
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
-#include "medload/io/private_file.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/report/report_config.h"
+#include "medload/report/report_files.h"
 #include "medload/report/report_writer.h"
 #include "medload/review/worklist.h"
 #include "medload/store/importer.h"
@@ -67,15 +68,18 @@ Status WriteNetworkWorklist(Store& store, Analysis& analysis, const ReportConfig
   options.remember_run = false;
   auto worklist = BuildWorklist(store, analysis, options);
   if (!worklist.ok()) return worklist.status();
-  for (const char* name : {"network-worklist.csv", "network-worklist.html"}) {
-    if (Status status = PreparePrivateFile((dir / name).string()); !status.ok()) return status;
-  }
-  std::ofstream csv(dir / "network-worklist.csv", std::ios::binary | std::ios::trunc);
+  // Through the report folder's writer: never through a symbolic link, and owner-only,
+  // as the worklist names patients.
+  auto folder = ReportFolder::Open(dir.string());
+  if (!folder.ok()) return folder.status();
+  std::ostringstream csv;
   WriteWorklistCsv(csv, *worklist);
-  std::ofstream html(dir / "network-worklist.html", std::ios::binary | std::ios::trunc);
+  std::ostringstream html;
   WriteWorklistHtml(html, *worklist, config.network + ": review worklist on " + on.ToIso());
-  if (!csv || !html) return Status::Input((dir / "network-worklist.*").string() + ": cannot be written");
-  return Status::Ok();
+  if (Status status = folder->WriteFile("network-worklist.csv", csv.str(), FileAccess::kOwnerOnly); !status.ok()) {
+    return status;
+  }
+  return folder->WriteFile("network-worklist.html", html.str(), FileAccess::kOwnerOnly);
 }
 
 }  // namespace

@@ -2,6 +2,8 @@
 #include <doctest/doctest.h>
 #include <sys/stat.h>
 
+#include <filesystem>
+
 #include "cli/medload_process.h"
 #include "store/temp_folder.h"
 
@@ -26,6 +28,17 @@ TEST_CASE("the demo's network worklist is owner-only and its cohort table follow
     REQUIRE(::stat(folder.File(name).c_str(), &info) == 0);
     CHECK((info.st_mode & 0777) == mode);
   }
+}
+
+TEST_CASE("the demo does not write its network worklist through a symbolic link") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  std::filesystem::create_directories(folder.File("demo"));
+  std::filesystem::create_symlink(folder.File("stolen.csv"), folder.File("demo/network-worklist.csv"));
+  const ProcessResult result = RunMedload({"--quiet", "demo", "--out", "demo"}, run);
+  CHECK(result.exit_code == 2);
+  CHECK(result.err.find("network-worklist.csv: is a symbolic link; refusing to write through it") != std::string::npos);
+  CHECK_FALSE(std::filesystem::exists(folder.File("stolen.csv")));
 }
 
 }  // TEST_SUITE
