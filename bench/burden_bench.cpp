@@ -1,5 +1,6 @@
 // Kernels of the per-patient computation: building one patient's timeline (resolution
-// cached, supplies, episodes) and evaluating it on one census date.
+// cached, supplies, episodes) and evaluating it on one census date and on a year of
+// month-ends.
 #include <benchmark/benchmark.h>
 
 #include "medload/burden/analysis.h"
@@ -54,6 +55,23 @@ void BM_EvaluateOneDate(benchmark::State& state) {
   state.SetItemsProcessed(state.iterations());
 }
 BENCHMARK(BM_EvaluateOneDate);
+
+// One timeline evaluated on the 12 month-ends of a year, as a monthly cohort series does
+// for each patient; items are patient-dates.
+void BM_EvaluateSeries(benchmark::State& state) {
+  const auto records = Patient();
+  Analysis& analysis = SharedAnalysis();
+  const Timeline timeline = analysis.BuildTimeline(records);
+  std::vector<Date> dates;
+  for (int month = 1; month <= 12; ++month) {
+    dates.push_back(EndOfMonth(Date::FromCivil(2025, month, 1)));
+  }
+  for (auto _ : state) {
+    for (Date on : dates) benchmark::DoNotOptimize(analysis.Evaluate(timeline, on, 84));
+  }
+  state.SetItemsProcessed(state.iterations() * static_cast<int64_t>(dates.size()));
+}
+BENCHMARK(BM_EvaluateSeries);
 
 }  // namespace
 }  // namespace medload
