@@ -153,7 +153,8 @@ TEST_CASE("a full disk fails the import with exit 2, names the file and stores n
   struct stat info {};
   REQUIRE(::stat(db.c_str(), &info) == 0);
   // Writes past the store file's size plus 256 KiB fail (EFBIG; SIGXFSZ is ignored), as
-  // on a disk that fills up while the file's rows are being written.
+  // on a disk that fills up while the file's rows are being written. Source: POSIX
+  // setrlimit(), RLIMIT_FSIZE.
   ProcessOptions limited = run;
   limited.file_size_limit = static_cast<rlim_t>(info.st_size) + 256 * 1024;
   ProcessResult full = RunMedload({"--db", "medload.db", "import", "dispensing", big}, limited);

@@ -8,7 +8,7 @@ namespace medload {
 
 // True when `text` (CSV) holds a cell that a spreadsheet would run as a formula: one
 // starting (after its opening quote, if any) with =, +, @, tab or CR, or with - and not a
-// number.
+// number. Source: OWASP, "CSV Injection" (the characters that start a formula).
 inline bool HasFormulaCell(const std::string& text) {
   bool quoted = false;
   bool cell_start = true;
