@@ -71,7 +71,12 @@ if [[ -s "$csv" && -s "$data/patients.csv" && -s "$data/practices.csv" ]]; then
   echo "reusing $data" >&2
 else
   echo "generating $patients patients, 12 months into $data" >&2
-  "$medload" --quiet synth --patients "$patients" --months 12 --seed 7 --out "$data" >/dev/null
+  # Into a side folder first, so that an interrupted run leaves nothing to reuse.
+  rm -rf "$data.partial"
+  "$medload" --quiet synth --patients "$patients" --months 12 --seed 7 --out "$data.partial" \
+    >/dev/null
+  rm -rf "$data"
+  mv "$data.partial" "$data"
 fi
 data_rows=$(( $(wc -l < "$csv") - 1 ))
 
