@@ -28,14 +28,15 @@ Result<Analysis> Analysis::Open(const std::string& formulary_dir, const MeasureO
 }
 
 const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
-  std::string key = record.product + '\x1f' + record.code + '\x1f' + record.code_system;
+  std::string& key = key_scratch_;
+  key.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
   if (auto it = resolved_.find(key); it != resolved_.end()) return it->second;
   const std::string& checksum = formulary_->checksum();
   if (store_ != nullptr) {
     auto saved = store_->CachedResolution(record.product, record.code, record.code_system, checksum);
     if (saved.ok() && saved->has_value()) {
       if (auto parsed = ParseResolution(**saved); parsed.ok()) {
-        return resolved_.emplace(std::move(key), std::move(parsed).value()).first->second;
+        return resolved_.emplace(key, std::move(parsed).value()).first->second;
       }
     }
   }
@@ -46,13 +47,20 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
                                                 SerialiseResolution(product));
     static_cast<void>(saved);
   }
-  return resolved_.emplace(std::move(key), std::move(product)).first->second;
+  return resolved_.emplace(key, std::move(product)).first->second;
 }
 
 Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {
   return medload::BuildTimeline(records, [this](const DispensingRecord& r) -> const ResolvedProduct& {
     return Resolve(r);
-  }, options_);
+  }, options_, &dosages_);
+}
+
+Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records,
+                                 std::span<const ResolvedProduct* const> products) {
+  return medload::BuildTimeline(records, [&](const DispensingRecord& r) -> const ResolvedProduct& {
+    return *products[static_cast<size_t>(&r - records.data())];
+  }, options_, &dosages_);
 }
 
 Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const {

@@ -71,7 +71,7 @@ void FinishMedicine(Medicine& medicine, const MeasureOptions& options) {
 }  // namespace
 
 Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveFn& resolve,
-                       const MeasureOptions& options) {
+                       const MeasureOptions& options, DosageTextCache* dosages) {
   Timeline timeline;
   std::map<std::string, Medicine> medicines;
   std::map<std::string, UnmatchedProduct> unmatched;
@@ -90,7 +90,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       ++timeline.non_medicine_items;
       continue;
     }
-    DosageReading dosage = ReadRecordDosage(record);
+    DosageReading dosage = ReadRecordDosage(record, dosages);
     if ((options.exclude_prn && dosage.as_needed) || RouteExcluded(product.route, options)) {
       ++timeline.excluded_items;
       continue;

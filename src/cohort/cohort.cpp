@@ -4,6 +4,7 @@
 #include <utility>
 
 #include "medload/burden/analysis.h"
+#include "medload/burden/patient_pass.h"
 #include "medload/cohort/registration.h"
 
 namespace medload {
@@ -71,13 +72,11 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
-    if (!counter.Wants(history)) return true;
-    // Built on the first date that needs it, then reused for every later date.
-    std::optional<Timeline> timeline;
-    counter.Add(history, [&](Date on, std::optional<int> age) {
-      if (!timeline) timeline = analysis.BuildTimeline(history.dispensings);
-      return analysis.Evaluate(*timeline, on, age);
+  Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    if (!counter.Wants(patient.history())) return true;
+    // The timeline is built on the first date that needs it, then reused.
+    counter.Add(patient.history(), [&](Date on, std::optional<int> age) {
+      return analysis.Evaluate(patient.timeline(), on, age);
     });
     return true;
   });

@@ -95,7 +95,7 @@ Supply ComputeSupply(double quantity, std::optional<int> record_days_supply,
   return supply;
 }
 
-DosageReading ReadRecordDosage(const DispensingRecord& record) {
+DosageReading ReadRecordDosage(const DispensingRecord& record, DosageTextCache* cache) {
   if (record.structured_units_per_day && *record.structured_units_per_day > 0) {
     DosageReading reading;
     reading.units_per_day = record.structured_units_per_day;
@@ -104,7 +104,7 @@ DosageReading ReadRecordDosage(const DispensingRecord& record) {
     reading.note = "from the structured dosage";
     return reading;
   }
-  DosageReading reading = ReadDosageText(record.dosage);
+  DosageReading reading = cache != nullptr ? cache->Read(record.dosage) : ReadDosageText(record.dosage);
   reading.as_needed = reading.as_needed || record.structured_as_needed;
   return reading;
 }

@@ -5,6 +5,7 @@
 #include <utility>
 
 #include "medload/burden/analysis.h"
+#include "medload/burden/patient_pass.h"
 #include "medload/cohort/registration.h"
 
 namespace medload {
@@ -136,14 +137,13 @@ struct Pass {
 
 Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
-  return store.ForEachPatient([&](const PatientHistory& history) {
+  return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    const PatientHistory& history = patient.history();
     ++pass.patients;
     if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
-    std::optional<Timeline> timeline;
     std::optional<Burden> census;
     pass.counter.Add(history, [&](Date date, std::optional<int> age) {
-      if (!timeline) timeline = analysis.BuildTimeline(history.dispensings);
-      Burden burden = analysis.Evaluate(*timeline, date, age);
+      Burden burden = analysis.Evaluate(patient.timeline(), date, age);
       if (date == on) census = burden;
       return burden;
     });
@@ -152,7 +152,7 @@ Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& confi
     if (!practice) return true;
     ++pass.considered[*practice];
     const std::optional<int> age = AgeOn(history.registry, on);
-    auto entry = EntryOf(history, *practice, *timeline, *census, age, config, analysis.tables());
+    auto entry = EntryOf(history, *practice, patient.timeline(), *census, age, config, analysis.tables());
     if (entry) pass.entries[*practice].push_back(std::move(*entry));
     return true;
   });

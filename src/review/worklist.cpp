@@ -8,6 +8,7 @@
 
 #include "medload/cohort/registration.h"
 #include "medload/io/output.h"
+#include "medload/burden/patient_pass.h"
 #include "medload/store/store.h"
 
 namespace medload {
@@ -105,13 +106,14 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
   worklist.criteria = options.criteria;
   worklist.scale = analysis.tables().scale;
   const std::set<std::string> practices(options.practices.begin(), options.practices.end());
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+  Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    const PatientHistory& history = patient.history();
     const auto practice = RegisteredPractice(history, options.on);
     if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
     const std::optional<int> age = AgeOn(history.registry, options.on);
     if (options.age_min && (!age || *age < *options.age_min)) return true;
     ++worklist.patients_considered;
-    const Timeline timeline = analysis.BuildTimeline(history.dispensings);
+    const Timeline& timeline = patient.timeline();
     const Burden burden = analysis.Evaluate(timeline, options.on, age);
     WorklistEntry entry;
     for (const Criterion& criterion : options.criteria) {

@@ -145,6 +145,9 @@ Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& v
   Result<bool> patient_row = patients->Step();
   Result<bool> dispensing_row = dispensings->Step();
   PatientHistory history;
+  // Records beyond the current patient's count wait here with their string buffers, so
+  // that reading the next patient reuses memory instead of allocating per field.
+  std::vector<DispensingRecord> spare;
   while (patient_row.ok() && dispensing_row.ok() && (*patient_row || *dispensing_row)) {
     const std::string_view registry_id = *patient_row ? patients->ColumnText(0) : "";
     const std::string_view dispensed_id = *dispensing_row ? dispensings->ColumnText(1) : "";
@@ -152,16 +155,27 @@ Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& v
     else if (!*dispensing_row) history.patient_id.assign(registry_id);
     else history.patient_id.assign(std::min(registry_id, dispensed_id));
     history.registry.reset();
-    history.dispensings.clear();
+    size_t used = 0;
     if (*patient_row && registry_id == history.patient_id) {
       history.registry = ReadPatient(*patients);
       patient_row = patients->Step();
     }
     while (dispensing_row.ok() && *dispensing_row &&
            dispensings->ColumnText(1) == history.patient_id) {
-      Status status = ReadDispensing(*dispensings, history.dispensings.emplace_back());
+      if (used == history.dispensings.size()) {
+        history.dispensings.emplace_back();
+        if (!spare.empty()) {
+          history.dispensings.back() = std::move(spare.back());
+          spare.pop_back();
+        }
+      }
+      Status status = ReadDispensing(*dispensings, history.dispensings[used++]);
       if (!status.ok()) return status;
       dispensing_row = dispensings->Step();
+    }
+    while (history.dispensings.size() > used) {
+      spare.push_back(std::move(history.dispensings.back()));
+      history.dispensings.pop_back();
     }
     if (!dispensing_row.ok()) break;
     if (!visit(history)) return Status::Ok();

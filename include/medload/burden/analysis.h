@@ -12,6 +12,7 @@
 #include "medload/burden/burden.h"
 #include "medload/burden/measure_options.h"
 #include "medload/core/status.h"
+#include "medload/dose/dosage_cache.h"
 #include "medload/formulary/formulary.h"
 
 namespace medload {
@@ -36,6 +37,10 @@ class Analysis {
   // The reference stays valid for the Analysis's lifetime.
   const ResolvedProduct& Resolve(const DispensingRecord& record);
   Timeline BuildTimeline(std::span<const DispensingRecord> records);
+  // The same, with each record's product already resolved (products[i] for records[i]):
+  // touches neither the resolutions nor the store, so another thread may Resolve meanwhile.
+  Timeline BuildTimeline(std::span<const DispensingRecord> records,
+                         std::span<const ResolvedProduct* const> products);
   Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const;
 
   const Formulary& formulary() const { return *formulary_; }
@@ -49,6 +54,8 @@ class Analysis {
   std::unique_ptr<Formulary> formulary_;
   // Keyed by product, code and code system; node-based, so references stay valid.
   std::unordered_map<std::string, ResolvedProduct> resolved_;
+  std::string key_scratch_;  // Resolve's lookup key, reused to save an allocation per call
+  DosageTextCache dosages_;  // each distinct dosage text read once per run
   BurdenTables tables_;
   MeasureOptions options_;
   Store* store_ = nullptr;

@@ -57,8 +57,8 @@ struct Timeline {
 using ResolveFn = std::function<const ResolvedProduct&(const DispensingRecord&)>;
 
 // Builds the timeline of one patient from all of their dispensing records (any order).
-// Pure apart from calling `resolve`.
+// Pure apart from calling `resolve` and filling `dosages` (may be null: no cache).
 Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveFn& resolve,
-                       const MeasureOptions& options);
+                       const MeasureOptions& options, DosageTextCache* dosages = nullptr);
 
 }  // namespace medload

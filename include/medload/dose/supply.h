@@ -8,6 +8,7 @@
 #include <string_view>
 
 #include "medload/core/records.h"
+#include "medload/dose/dosage_cache.h"
 #include "medload/dose/dosage_text.h"
 
 namespace medload {
@@ -57,8 +58,8 @@ Supply ComputeSupply(double quantity, std::optional<int> record_days_supply,
                      const SupplyOptions& options, const QuantityUnit& quantity_unit = {});
 
 // The dosage of a dispensing record: its structured FHIR units per day when the reader
-// kept one (unit: the record's), else ReadDosageText of its text; as-needed when either
-// says so.
-DosageReading ReadRecordDosage(const DispensingRecord& record);
+// kept one (unit: the record's), else ReadDosageText of its text (through `cache` when
+// given); as-needed when either says so.
+DosageReading ReadRecordDosage(const DispensingRecord& record, DosageTextCache* cache = nullptr);
 
 }  // namespace medload
