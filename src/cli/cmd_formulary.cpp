@@ -184,7 +184,8 @@ void WriteLookup(Context& context, const LookupModel& model) {
   for (const ResolvedIngredient& ingredient : model.product.ingredients) rows.push_back(IngredientCells(formulary, ingredient));
   const auto facts = ProductFacts(model);
   if (context.format == Format::kJson) {
-    out << LookupJson(model).dump(2) << "\n";
+    // The description and code are echoed as given: bytes that are not UTF-8 become U+FFFD.
+    out << LookupJson(model).dump(2, ' ', false, json::error_handler_t::replace) << "\n";
   } else if (context.format == Format::kCsv) {
     WriteCsvCaution(out);
     std::vector<std::string> header;

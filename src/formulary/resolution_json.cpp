@@ -96,7 +96,11 @@ Result<ResolvedProduct> ResolvedProductFromJson(const nlohmann::json& value) {
   return product;
 }
 
-std::string SerialiseResolution(const ResolvedProduct& product) { return ResolvedProductToJson(product).dump(); }
+std::string SerialiseResolution(const ResolvedProduct& product) {
+  // A code or code system that is not UTF-8 reaches match_detail as written: its bad bytes
+  // become U+FFFD rather than an exception out of the measures.
+  return ResolvedProductToJson(product).dump(-1, ' ', false, json::error_handler_t::replace);
+}
 
 Result<ResolvedProduct> ParseResolution(std::string_view text) {
   const json value = json::parse(text.begin(), text.end(), nullptr, false);

@@ -207,6 +207,9 @@ double Tidy(double value) { return std::round(value * 1e9) / 1e9; }
 }  // namespace
 
 std::optional<double> Strength::MgPerUnit() const {
+  // "0mg" is a misprint, not a dose of nothing: no mg per unit (the dose is then unknown
+  // and counted as such) rather than a burden of zero.
+  if (!(amount > 0)) return std::nullopt;
   if (per == "hour") return std::nullopt;
   if (unit == StrengthUnit::kUnits) return std::nullopt;
   if (unit == StrengthUnit::kPercent) {
@@ -218,7 +221,7 @@ std::optional<double> Strength::MgPerUnit() const {
 }
 
 std::optional<double> Strength::MgPerDay() const {
-  if (per != "hour" || unit != StrengthUnit::kMg) return std::nullopt;
+  if (per != "hour" || unit != StrengthUnit::kMg || !(amount > 0)) return std::nullopt;
   return Tidy(amount * 24 / per_amount);
 }
 
