@@ -204,25 +204,28 @@ namespace {
 // Keeps results free of binary noise (0.6000000000000001 -> 0.6).
 double Tidy(double value) { return std::round(value * 1e9) / 1e9; }
 
+// "0mg" (or an amount that rounds to 0) is a misprint, not a dose of nothing: no mg at
+// all (the dose is then unknown and counted as such) rather than a burden of zero.
+std::optional<double> AboveZero(double mg) {
+  return mg > 0 && std::isfinite(mg) ? std::optional<double>(mg) : std::nullopt;
+}
+
 }  // namespace
 
 std::optional<double> Strength::MgPerUnit() const {
-  // "0mg" is a misprint, not a dose of nothing: no mg per unit (the dose is then unknown
-  // and counted as such) rather than a burden of zero.
-  if (!(amount > 0)) return std::nullopt;
   if (per == "hour") return std::nullopt;
   if (unit == StrengthUnit::kUnits) return std::nullopt;
   if (unit == StrengthUnit::kPercent) {
     // 1% is 1 g per 100 g (or 100 ml): 10 mg per g or ml.
     if (!per.empty()) return std::nullopt;
-    return Tidy(amount * 10);
+    return AboveZero(Tidy(amount * 10));
   }
-  return Tidy(amount / per_amount);
+  return AboveZero(Tidy(amount / per_amount));
 }
 
 std::optional<double> Strength::MgPerDay() const {
-  if (per != "hour" || unit != StrengthUnit::kMg || !(amount > 0)) return std::nullopt;
-  return Tidy(amount * 24 / per_amount);
+  if (per != "hour" || unit != StrengthUnit::kMg) return std::nullopt;
+  return AboveZero(Tidy(amount * 24 / per_amount));
 }
 
 std::vector<Strength> ParseStrengths(std::string_view text) {
