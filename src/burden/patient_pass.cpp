@@ -54,15 +54,11 @@ class Handover {
   std::deque<Batch*> queue_;
 };
 
-// Copies `history` into `slot`, reusing the slot's string buffers, and resolves every
-// dispensing's product on this (the store's) thread.
-void Fill(Slot& slot, const PatientHistory& history, Analysis& analysis) {
-  slot.history.patient_id = history.patient_id;
-  slot.history.registry = history.registry;
-  slot.history.dispensings.assign(history.dispensings.begin(), history.dispensings.end());
-  slot.products.resize(history.dispensings.size());
-  for (size_t i = 0; i < history.dispensings.size(); ++i) {
-    slot.products[i] = &analysis.Resolve(history.dispensings[i]);
+// Resolves every dispensing's product of the slot's patient, on this (the store's) thread.
+void ResolveAll(Slot& slot, Analysis& analysis) {
+  slot.products.resize(slot.history.dispensings.size());
+  for (size_t i = 0; i < slot.history.dispensings.size(); ++i) {
+    slot.products[i] = &analysis.Resolve(slot.history.dispensings[i]);
   }
 }
 
@@ -94,20 +90,24 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
     }
   });
 
+  Result<PatientCursor> cursor = store.Patients();
+  Status status = cursor.ok() ? Status::Ok() : cursor.status();
   Batch* filling = to_reader.Take();
   filling->used = 0;
   filling->last = false;
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
-    if (stop.load(std::memory_order_relaxed)) return false;
-    Fill(filling->slots[filling->used++], history, analysis);
-    if (filling->used == kPatientsPerBatch) {
+  while (status.ok() && !stop.load(std::memory_order_relaxed)) {
+    Slot& slot = filling->slots[filling->used];
+    Result<bool> more = cursor->Next(slot.history);
+    if (!more.ok()) status = more.status();
+    if (!more.ok() || !*more) break;
+    ResolveAll(slot, analysis);
+    if (++filling->used == kPatientsPerBatch) {
       to_worker.Put(filling);
       filling = to_reader.Take();
       filling->used = 0;
       filling->last = false;
     }
-    return true;
-  });
+  }
   filling->last = true;
   to_worker.Put(filling);
   worker.join();

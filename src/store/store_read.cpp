@@ -132,9 +132,60 @@ Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_i
   return std::optional<PatientRecord>(ReadPatient(*stmt));
 }
 
-Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
-  // Two cursors in the same bytewise patient_id order, merged: one pass, no per-patient
-  // query. The dispensings cursor walks the (patient_id, dispensed_on) index.
+// Two cursors in the same bytewise patient_id order, merged: one pass, no per-patient
+// query. The dispensings cursor walks the (patient_id, dispensed_on) index.
+struct PatientCursor::State {
+  Statement patients;
+  Statement dispensings;
+  Result<bool> patient_row = false;
+  Result<bool> dispensing_row = false;
+  // Records beyond a patient's count wait here with their string buffers, so that reading
+  // the next patient reuses memory instead of allocating per field.
+  std::vector<DispensingRecord> spare;
+};
+
+PatientCursor::PatientCursor(std::unique_ptr<State> state) : state_(std::move(state)) {}
+PatientCursor::PatientCursor(PatientCursor&&) noexcept = default;
+PatientCursor& PatientCursor::operator=(PatientCursor&&) noexcept = default;
+PatientCursor::~PatientCursor() = default;
+
+Result<bool> PatientCursor::Next(PatientHistory& into) {
+  State& s = *state_;
+  if (!s.patient_row.ok()) return s.patient_row.status();
+  if (!s.dispensing_row.ok()) return s.dispensing_row.status();
+  if (!*s.patient_row && !*s.dispensing_row) return false;
+  const std::string_view registry_id = *s.patient_row ? s.patients.ColumnText(0) : "";
+  const std::string_view dispensed_id = *s.dispensing_row ? s.dispensings.ColumnText(1) : "";
+  if (!*s.patient_row) into.patient_id.assign(dispensed_id);
+  else if (!*s.dispensing_row) into.patient_id.assign(registry_id);
+  else into.patient_id.assign(std::min(registry_id, dispensed_id));
+  into.registry.reset();
+  if (*s.patient_row && registry_id == into.patient_id) {
+    into.registry = ReadPatient(s.patients);
+    s.patient_row = s.patients.Step();
+  }
+  size_t used = 0;
+  while (s.dispensing_row.ok() && *s.dispensing_row && s.dispensings.ColumnText(1) == into.patient_id) {
+    if (used == into.dispensings.size()) {
+      into.dispensings.emplace_back();
+      if (!s.spare.empty()) {
+        into.dispensings.back() = std::move(s.spare.back());
+        s.spare.pop_back();
+      }
+    }
+    if (Status status = ReadDispensing(s.dispensings, into.dispensings[used++]); !status.ok()) return status;
+    s.dispensing_row = s.dispensings.Step();
+  }
+  while (into.dispensings.size() > used) {
+    s.spare.push_back(std::move(into.dispensings.back()));
+    into.dispensings.pop_back();
+  }
+  if (!s.dispensing_row.ok()) return s.dispensing_row.status();
+  return true;
+}
+
+Result<PatientCursor> Store::Patients() const {
+  auto state = std::make_unique<PatientCursor::State>();
   Result<Statement> patients = Statement::Prepare(
       db_, std::string("SELECT ") + kPatientColumns + " FROM patients ORDER BY patient_id");
   if (!patients.ok()) return patients.status();
@@ -142,47 +193,22 @@ Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& v
       db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
                " ORDER BY patient_id, dispensed_on, id");
   if (!dispensings.ok()) return dispensings.status();
-  Result<bool> patient_row = patients->Step();
-  Result<bool> dispensing_row = dispensings->Step();
+  state->patients = std::move(patients).value();
+  state->dispensings = std::move(dispensings).value();
+  state->patient_row = state->patients.Step();
+  state->dispensing_row = state->dispensings.Step();
+  return PatientCursor(std::move(state));
+}
+
+Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
+  Result<PatientCursor> cursor = Patients();
+  if (!cursor.ok()) return cursor.status();
   PatientHistory history;
-  // Records beyond the current patient's count wait here with their string buffers, so
-  // that reading the next patient reuses memory instead of allocating per field.
-  std::vector<DispensingRecord> spare;
-  while (patient_row.ok() && dispensing_row.ok() && (*patient_row || *dispensing_row)) {
-    const std::string_view registry_id = *patient_row ? patients->ColumnText(0) : "";
-    const std::string_view dispensed_id = *dispensing_row ? dispensings->ColumnText(1) : "";
-    if (!*patient_row) history.patient_id.assign(dispensed_id);
-    else if (!*dispensing_row) history.patient_id.assign(registry_id);
-    else history.patient_id.assign(std::min(registry_id, dispensed_id));
-    history.registry.reset();
-    size_t used = 0;
-    if (*patient_row && registry_id == history.patient_id) {
-      history.registry = ReadPatient(*patients);
-      patient_row = patients->Step();
-    }
-    while (dispensing_row.ok() && *dispensing_row &&
-           dispensings->ColumnText(1) == history.patient_id) {
-      if (used == history.dispensings.size()) {
-        history.dispensings.emplace_back();
-        if (!spare.empty()) {
-          history.dispensings.back() = std::move(spare.back());
-          spare.pop_back();
-        }
-      }
-      Status status = ReadDispensing(*dispensings, history.dispensings[used++]);
-      if (!status.ok()) return status;
-      dispensing_row = dispensings->Step();
-    }
-    while (history.dispensings.size() > used) {
-      spare.push_back(std::move(history.dispensings.back()));
-      history.dispensings.pop_back();
-    }
-    if (!dispensing_row.ok()) break;
-    if (!visit(history)) return Status::Ok();
+  for (;;) {
+    Result<bool> more = cursor->Next(history);
+    if (!more.ok()) return more.status();
+    if (!*more || !visit(history)) return Status::Ok();
   }
-  if (!patient_row.ok()) return patient_row.status();
-  if (!dispensing_row.ok()) return dispensing_row.status();
-  return Status::Ok();
 }
 
 Result<std::vector<PracticeRecord>> Store::Practices() const {

@@ -137,6 +137,29 @@ TEST_CASE("the visit stops when the callback returns false") {
   CHECK(visits == 2);
 }
 
+TEST_CASE("a cursor reusing one history gives each patient exactly their own records") {
+  Store store = Loaded();
+  Result<PatientCursor> cursor = store.Patients();
+  REQUIRE(cursor.ok());
+  PatientHistory history;
+  std::vector<std::pair<std::string, std::vector<std::string>>> seen;
+  for (;;) {
+    Result<bool> more = cursor->Next(history);
+    REQUIRE(more.ok());
+    if (!*more) break;
+    std::vector<std::string> ids;
+    for (const DispensingRecord& record : history.dispensings) ids.push_back(record.record_id);
+    seen.emplace_back(history.patient_id, ids);
+  }
+  // P1 has three dispensings, P2 one (the reused history shrinks), P3 none, P4 one.
+  REQUIRE(seen.size() == 4);
+  CHECK(seen[0] == std::pair<std::string, std::vector<std::string>>{"P1", {"d3", "d4", "d2"}});
+  CHECK(seen[1] == std::pair<std::string, std::vector<std::string>>{"P2", {"d1"}});
+  CHECK(seen[2] == std::pair<std::string, std::vector<std::string>>{"P3", {}});
+  CHECK(seen[3] == std::pair<std::string, std::vector<std::string>>{"P4", {"d5"}});
+  CHECK_FALSE(cursor->Next(history).value());
+}
+
 TEST_CASE("the pass over every patient reads the index in order without sorting") {
   Store store = Loaded();
   sqlite3_stmt* stmt = nullptr;

@@ -5,6 +5,7 @@
 #pragma once
 
 #include <functional>
+#include <memory>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -86,6 +87,26 @@ class StoreSnapshot {
   sqlite3* db_ = nullptr;
 };
 
+// Reads every patient in turn, in the order and with the content ForEachPatient gives,
+// into a history the caller owns: its string and vector buffers are reused from one
+// patient to the next. The Store must outlive the cursor.
+class PatientCursor {
+ public:
+  PatientCursor(PatientCursor&&) noexcept;
+  PatientCursor& operator=(PatientCursor&&) noexcept;
+  ~PatientCursor();
+
+  // Fills `into` with the next patient and returns true, or returns false after the last.
+  // Fails with Input on a storage error or a malformed stored date.
+  Result<bool> Next(PatientHistory& into);
+
+ private:
+  friend class Store;
+  struct State;
+  explicit PatientCursor(std::unique_ptr<State> state);
+  std::unique_ptr<State> state_;
+};
+
 class Store {
  public:
   // Creates or opens the store at `path` (":memory:" for a private in-memory store), in WAL
@@ -119,6 +140,8 @@ class Store {
   // history passed to `visit` is valid during the call only. `visit` returns false to stop
   // early (the result is then Ok). Fails with Input on a storage error.
   Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
+  // The same pass as a cursor (see PatientCursor). Fails with Input on a storage error.
+  Result<PatientCursor> Patients() const;
 
   // All practices, by practice code.
   Result<std::vector<PracticeRecord>> Practices() const;
