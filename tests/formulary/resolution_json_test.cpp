@@ -66,6 +66,20 @@ TEST_CASE("a damaged resolution is an input status naming the element") {
     CHECK(parsed.status().message() == c.message);
   }
 }
+TEST_CASE("a code system that is not UTF-8 is serialised with U+FFFD instead of throwing") {
+  // Found by the resolver fuzz target: the code system is written into match_detail as
+  // given, and a byte that is not UTF-8 made the JSON library throw.
+  const ResolvedProduct product =
+      Resolve(testing::BundledFormulary(), "", "N02AJ06", "http\xff://www.whocc.no/atc");
+  REQUIRE(product.match == MatchKind::kCode);
+  std::string text;
+  REQUIRE_NOTHROW(text = SerialiseResolution(product));
+  auto parsed = ParseResolution(text);
+  REQUIRE(parsed.ok());
+  CHECK(parsed->match == MatchKind::kCode);
+  CHECK(parsed->match_detail.find("http\xEF\xBF\xBD://www.whocc.no/atc") != std::string::npos);
+  CHECK(parsed->ingredients.size() == product.ingredients.size());
+}
 
 }  // TEST_SUITE
 

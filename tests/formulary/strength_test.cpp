@@ -90,6 +90,21 @@ TEST_CASE("strengths keep their order and position in the text") {
   CHECK(ParseStrengths("200/6 inhaler")[0].bare);
 }
 
+TEST_CASE("a strength of zero gives no mg per unit or per day") {
+  // Found by the resolver fuzz target: "Amlodipine 0mg tablet" resolved to 0 mg a tablet,
+  // a burden of nothing instead of an unknown dose.
+  for (const char* text : {"0mg", "0.0mg/5ml", "0micrograms/hour", "0.0000000000000001mg"}) {
+    CAPTURE(text);
+    const std::vector<Strength> strengths = ParseStrengths(NormaliseText(text));
+    REQUIRE(strengths.size() == 1);
+    CHECK_FALSE(strengths[0].MgPerUnit());
+    CHECK_FALSE(strengths[0].MgPerDay());
+  }
+  const std::vector<Strength> half = ParseStrengths(NormaliseText("0.5mg"));
+  REQUIRE(half.size() == 1);
+  CHECK(half[0].MgPerUnit() == 0.5);
+}
+
 }  // TEST_SUITE
 
 }  // namespace
