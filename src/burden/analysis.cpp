@@ -63,8 +63,9 @@ Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records,
   }, options_, &dosages_);
 }
 
-Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const {
-  return EvaluateBurden(timeline, on, tables_, options_, age);
+Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> age,
+                          const std::vector<bool>* matches) const {
+  return EvaluateBurden(timeline, on, tables_, options_, age, matches);
 }
 
 size_t Analysis::resolved_products() const { return resolved_.size(); }

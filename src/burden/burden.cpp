@@ -154,14 +154,32 @@ bool MeasuresHold(const RuleMeasures& measures, const Burden& burden) {
          (!measures.dbi || burden.dbi >= *measures.dbi - 1e-9);
 }
 
+size_t RequirementCount(const BurdenTables& tables) {
+  size_t count = 0;
+  for (const Rule& rule : tables.rules) count += rule.require.size();
+  return count;
+}
+
+// Flags of MatchRuleRequirements, with where this rule's requirements start in them.
+struct PreparedMatches {
+  const std::vector<bool>* flags = nullptr;  // null: work each match out
+  size_t per_medicine = 0;                   // requirements of all rules
+  size_t first = 0;                          // flat index of the rule's first requirement
+};
+
 std::optional<FiredRule> Fire(const Rule& rule, const Timeline& timeline, const BurdenTables& tables,
-                              const Burden& burden) {
+                              const Burden& burden, const PreparedMatches& prepared) {
   if (!MeasuresHold(rule.measures, burden)) return std::nullopt;
   std::set<size_t> involved;
-  for (const RuleRequirement& requirement : rule.require) {
+  for (size_t k = 0; k < rule.require.size(); ++k) {
+    const RuleRequirement& requirement = rule.require[k];
     int matched = 0;
     for (const ActiveMedicine& active : burden.active) {
-      if (!MedicineMatches(timeline.medicines[active.medicine], requirement, tables)) continue;
+      const bool meets =
+          prepared.flags != nullptr
+              ? (*prepared.flags)[active.medicine * prepared.per_medicine + prepared.first + k]
+              : MedicineMatches(timeline.medicines[active.medicine], requirement, tables);
+      if (!meets) continue;
       ++matched;
       involved.insert(active.medicine);
     }
@@ -172,14 +190,31 @@ std::optional<FiredRule> Fire(const Rule& rule, const Timeline& timeline, const 
 
 }  // namespace
 
+std::vector<bool> MatchRuleRequirements(const Timeline& timeline, const BurdenTables& tables) {
+  std::vector<bool> matches;
+  matches.reserve(timeline.medicines.size() * RequirementCount(tables));
+  for (const Medicine& medicine : timeline.medicines) {
+    for (const Rule& rule : tables.rules) {
+      for (const RuleRequirement& requirement : rule.require) {
+        matches.push_back(MedicineMatches(medicine, requirement, tables));
+      }
+    }
+  }
+  return matches;
+}
+
 Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tables,
-                      const MeasureOptions& options, std::optional<int> age) {
+                      const MeasureOptions& options, std::optional<int> age,
+                      const std::vector<bool>* matches) {
   Burden burden;
   burden.on = on;
   burden.active = FindActive(timeline, on, options);
   burden.items = static_cast<int>(burden.active.size());
   ScoreAndDose(timeline, tables, burden);
-  for (const Rule& rule : tables.rules) {
+  PreparedMatches prepared{matches, matches != nullptr ? RequirementCount(tables) : 0, 0};
+  for (size_t first = 0; const Rule& rule : tables.rules) {
+    prepared.first = first;
+    first += rule.require.size();
     if (rule.age_min) {
       if (!age) {
         burden.age_unknown_for_rules = true;
@@ -187,7 +222,9 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
       }
       if (*age < *rule.age_min) continue;
     }
-    if (auto fired = Fire(rule, timeline, tables, burden)) burden.rules.push_back(std::move(*fired));
+    if (auto fired = Fire(rule, timeline, tables, burden, prepared)) {
+      burden.rules.push_back(std::move(*fired));
+    }
   }
   return burden;
 }

@@ -14,6 +14,11 @@ const Timeline& PassPatient::timeline() {
   return *timeline_;
 }
 
+Burden PassPatient::Evaluate(Date on, std::optional<int> age) {
+  if (!matches_) matches_ = MatchRuleRequirements(timeline(), analysis_.tables());
+  return analysis_.Evaluate(timeline(), on, age, &*matches_);
+}
+
 namespace {
 
 constexpr size_t kPatientsPerBatch = 128;

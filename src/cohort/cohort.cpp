@@ -76,7 +76,7 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
     if (!counter.Wants(patient.history())) return true;
     // The timeline is built on the first date that needs it, then reused.
     counter.Add(patient.history(), [&](Date on, std::optional<int> age) {
-      return analysis.Evaluate(patient.timeline(), on, age);
+      return patient.Evaluate(on, age);
     });
     return true;
   });

@@ -143,7 +143,7 @@ Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& confi
     if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
     std::optional<Burden> census;
     pass.counter.Add(history, [&](Date date, std::optional<int> age) {
-      Burden burden = analysis.Evaluate(patient.timeline(), date, age);
+      Burden burden = patient.Evaluate(date, age);
       if (date == on) census = burden;
       return burden;
     });

@@ -83,9 +83,19 @@ struct Fixture {
     }, options);
   }
 
+  // Evaluates with and without the per-timeline rule matches; both must fire the same
+  // rules with the same medicines.
   Burden On(const std::vector<DispensingRecord>& records, Date on, std::optional<int> age = 80) const {
     const Timeline timeline = Build(records);
-    return EvaluateBurden(timeline, on, tables, options, age);
+    Burden plain = EvaluateBurden(timeline, on, tables, options, age);
+    const std::vector<bool> matches = MatchRuleRequirements(timeline, tables);
+    const Burden prepared = EvaluateBurden(timeline, on, tables, options, age, &matches);
+    REQUIRE(plain.rules.size() == prepared.rules.size());
+    for (size_t i = 0; i < plain.rules.size(); ++i) {
+      CHECK(plain.rules[i].rule == prepared.rules[i].rule);
+      CHECK(plain.rules[i].medicines == prepared.rules[i].medicines);
+    }
+    return plain;
   }
 };
 
@@ -233,6 +243,24 @@ TEST_CASE("the ACE inhibitor, diuretic and NSAID rule fires only with all three 
   // The NSAID course has ended (5 Jan + 7 days - 1 = 11 Jan) and the grace does not
   // extend an episode past its last supply.
   CHECK(f.On(records, D(2024, 1, 12)).rules.empty());
+}
+
+TEST_CASE("rule matches worked out once serve every date, firing only with the medicines active then") {
+  Fixture f;
+  const std::vector<DispensingRecord> records = {
+      Rx("ramipril 5mg capsules", D(2024, 1, 1), 28, 28), Rx("furosemide 40mg tablets", D(2024, 1, 1), 28, 28),
+      Rx("ibuprofen 400mg tablets", D(2024, 1, 20), 28, 28)};
+  const Timeline timeline = f.Build(records);
+  const std::vector<bool> matches = MatchRuleRequirements(timeline, f.tables);
+  size_t requirements = 0;
+  for (const Rule& rule : f.tables.rules) requirements += rule.require.size();
+  CHECK(matches.size() == timeline.medicines.size() * requirements);
+  // 10 January: ibuprofen not yet dispensed; 25 January: all three are active.
+  CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80, &matches).rules.empty());
+  const Burden later = EvaluateBurden(timeline, D(2024, 1, 25), f.tables, f.options, 80, &matches);
+  REQUIRE(later.rules.size() == 1);
+  CHECK(later.rules[0].rule->id == "aki-triple");
+  CHECK(later.rules[0].medicines.size() == 3);
 }
 
 TEST_CASE("a requirement counts distinct medicines, so two NSAIDs fire the duplication rule") {

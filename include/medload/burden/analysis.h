@@ -41,7 +41,9 @@ class Analysis {
   // touches neither the resolutions nor the store, so another thread may Resolve meanwhile.
   Timeline BuildTimeline(std::span<const DispensingRecord> records,
                          std::span<const ResolvedProduct* const> products);
-  Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age) const;
+  // `matches`: MatchRuleRequirements(timeline, tables()), or null (see EvaluateBurden).
+  Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age,
+                  const std::vector<bool>* matches = nullptr) const;
 
   const Formulary& formulary() const { return *formulary_; }
   const BurdenTables& tables() const { return tables_; }

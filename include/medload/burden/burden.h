@@ -65,8 +65,16 @@ struct Burden {
 
 std::string_view DoseBasisName(DoseBasis basis);
 
+// Which medicines meet which rule requirements: one flag per medicine of `timeline` and
+// requirement of `tables.rules` (rules in order, then their requirements), medicine-major.
+// It does not depend on a date, so every date of a series can share it.
+std::vector<bool> MatchRuleRequirements(const Timeline& timeline, const BurdenTables& tables);
+
 // Evaluates the timeline on `on`. `age` is the completed age on that date, if known.
+// `matches`, if given, must be MatchRuleRequirements(timeline, tables); without it the
+// matches are worked out for the medicines active on `on`.
 Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tables,
-                      const MeasureOptions& options, std::optional<int> age);
+                      const MeasureOptions& options, std::optional<int> age,
+                      const std::vector<bool>* matches = nullptr);
 
 }  // namespace medload

@@ -24,12 +24,16 @@ class PassPatient {
   const PatientHistory& history() const { return history_; }
   // The timeline of history().dispensings, built once on the first call.
   const Timeline& timeline();
+  // The burden on `on` (age: completed years then, if known). Rule matches are worked out
+  // once per patient, so a series of dates costs little more than one.
+  Burden Evaluate(Date on, std::optional<int> age);
 
  private:
   const PatientHistory& history_;
   std::span<const ResolvedProduct* const> products_;  // products_[i] resolves dispensing i
   Analysis& analysis_;
   std::optional<Timeline> timeline_;
+  std::optional<std::vector<bool>> matches_;  // MatchRuleRequirements of the timeline
 };
 
 // Returns false to stop the pass early.
