@@ -31,7 +31,7 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
   std::string& key = key_scratch_;
   key.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
   if (auto it = resolved_.find(key); it != resolved_.end()) return it->second;
-  const std::string& checksum = formulary_->checksum();
+  const std::string checksum = ResolutionKey();
   if (store_ != nullptr) {
     auto saved = store_->CachedResolution(record.product, record.code, record.code_system, checksum);
     if (saved.ok() && saved->has_value()) {
@@ -48,6 +48,10 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
     static_cast<void>(saved);
   }
   return resolved_.emplace(key, std::move(product)).first->second;
+}
+
+std::string Analysis::ResolutionKey() const {
+  return formulary_->checksum() + " medload " MEDLOAD_VERSION;
 }
 
 Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {

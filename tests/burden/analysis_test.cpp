@@ -9,7 +9,7 @@ namespace medload {
 
 TEST_SUITE("analysis") {
 
-TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum") {
+TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum and version") {
   auto store = Store::Open(":memory:");
   REQUIRE(store.ok());
   auto analysis = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
@@ -22,7 +22,8 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
   REQUIRE(first.is_medicine());
   CHECK(first.ingredients[0].ingredient == "amitriptyline");
 
-  const std::string checksum = analysis->formulary().checksum();
+  const std::string checksum = analysis->ResolutionKey();
+  CHECK(checksum == analysis->formulary().checksum() + " medload " MEDLOAD_VERSION);
   auto saved = store->CachedResolution(record.product, "", "", checksum);
   REQUIRE(saved.ok());
   REQUIRE(saved->has_value());
@@ -30,6 +31,10 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
   auto other = store->CachedResolution(record.product, "", "", std::string(64, '0'));
   REQUIRE(other.ok());
   CHECK_FALSE(other->has_value());
+  // Nor has the same tables' checksum under another medload version (an upgrade).
+  auto older = store->CachedResolution(record.product, "", "", analysis->formulary().checksum() + " medload 0.0.1");
+  REQUIRE(older.ok());
+  CHECK_FALSE(older->has_value());
 
   // A second run reads the saved resolution back: prove it by saving a marked one.
   ResolvedProduct marked = first;

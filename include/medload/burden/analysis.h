@@ -1,6 +1,7 @@
 // What a run needs to turn patients' records into burden: the formulary, its tables
 // flattened for the chosen scale, and product resolutions cached per run and in the
-// store (keyed by the formulary checksum, so a changed table re-resolves).
+// store (keyed by the formulary checksum and the medload version, so a changed table or
+// an upgrade re-resolves).
 #pragma once
 
 #include <memory>
@@ -32,10 +33,13 @@ class Analysis {
   ~Analysis();
 
   // The resolution of a record's product, resolved once per run: from this run's cache,
-  // else from the store's saved resolutions under the formulary's checksum, else by the
+  // else from the store's saved resolutions under ResolutionKey(), else by the
   // resolver (then saved in the store, best effort: a read-only store still resolves).
   // The reference stays valid for the Analysis's lifetime.
   const ResolvedProduct& Resolve(const DispensingRecord& record);
+  // The key saved resolutions are kept under: the formulary checksum and this medload's
+  // version, so that a changed table or an upgraded resolver resolves again.
+  std::string ResolutionKey() const;
   Timeline BuildTimeline(std::span<const DispensingRecord> records);
   // The same, with each record's product already resolved (products[i] for records[i]):
   // touches neither the resolutions nor the store, so another thread may Resolve meanwhile.
