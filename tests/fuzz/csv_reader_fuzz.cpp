@@ -266,6 +266,9 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   CheckRoundTrip(reference);
   const CsvLimits small{7, 40, 5};
   CheckLimits(reference, ReadAll(input, small), small);
-  CheckRecords(ReadAll(input, CsvLimits()), static_cast<DateOrder>(size % 3));
+  // Under 512 bytes the default limits cannot be reached: the reference read is that read
+  // (each reader allocates a 256 KiB buffer, the main cost of an execution).
+  const DateOrder order = static_cast<DateOrder>(size % 3);
+  CheckRecords(size < 512 ? reference : ReadAll(input, CsvLimits()), order);
   return 0;
 }
