@@ -3,6 +3,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
+#include "medload/core/census_note.h"
 #include "medload/io/meds_writer.h"
 #include "medload/store/store.h"
 
@@ -39,6 +40,11 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
     return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
   }
 
+  auto data = store->Summary();
+  if (!data.ok()) return fail(data.status());
+  std::optional<std::string> census_note = CensusBeyondDataNote(*on, data->latest_dispensed);
+  if (census_note && !context.quiet) *context.err << "medload: warning: " << *census_note << "\n";
+
   const Timeline timeline = analysis->BuildTimeline(*records);
   const std::optional<int> age = AgeOn(*registry, *on);
   const Burden burden = analysis->Evaluate(timeline, *on, age);
@@ -53,6 +59,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.tables = &analysis->tables();
   model.records = *records;
   model.options = *measure;
+  model.census_note = census_note;
   switch (context.format) {
     case Format::kJson: *context.out << MedsJson(model).dump(2) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

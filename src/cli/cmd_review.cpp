@@ -2,6 +2,7 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
+#include "medload/core/census_note.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
@@ -68,6 +69,12 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) return fail(worklist.status());
+  auto data = store->Summary();
+  if (!data.ok()) return fail(data.status());
+  if (auto note = CensusBeyondDataNote(worklist->on, data->latest_dispensed)) {
+    if (!context.quiet) *context.err << "medload: warning: " << *note << "\n";
+    worklist->notes.push_back(std::move(*note));
+  }
   if (pseudonymiser) {
     for (WorklistEntry& entry : worklist->patients) entry.patient = pseudonymiser->Pseudonym(entry.patient);
   }

@@ -56,6 +56,7 @@ json CohortJson(const CohortTable& table, const CohortTally* raw) {
       "known age; 95% limits by Dobson et al. 1991";
   document["shards"] = table.shards;
   document["complete"] = table.complete;
+  document["notes"] = table.notes;
   json rows = json::array();
   for (const CohortRow& row : table.rows) rows.push_back(RowJson(table, row));
   document["rows"] = rows;

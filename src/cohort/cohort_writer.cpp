@@ -46,6 +46,7 @@ std::vector<std::string> Preamble(const CohortTable& table) {
     lines.push_back("INCOMPLETE: only " + table.shards + " were merged; counts are partial.");
   }
   lines.push_back(SuppressionNote(table.suppress_below));
+  for (const std::string& note : table.notes) lines.push_back("Warning: " + note + ".");
   return lines;
 }
 
@@ -89,6 +90,7 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
+  for (const std::string& note : table.notes) out << "# note: " << note << "\n";
   out << CsvRow({"date", "group", "registered", "criterion", "count", "rate_per_1000",
                  "standardised_per_1000", "standardised_lower", "standardised_upper",
                  "suppressed"});

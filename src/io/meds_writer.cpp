@@ -81,6 +81,11 @@ std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& 
 
 std::vector<std::string> MedsWarnings(const MedsModel& model) {
   std::vector<std::string> warnings;
+  if (model.census_note && !model.census_note->empty()) {
+    std::string sentence = *model.census_note + ".";
+    sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+    warnings.push_back(std::move(sentence));
+  }
   for (const UnmatchedProduct* product : RecentUnmatched(model)) {
     warnings.push_back("\"" + product->product + "\" (" + std::to_string(product->items) +
                        " item(s), last " + product->last_dispensed.ToIso() +
@@ -216,6 +221,7 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
+  if (model.census_note) out << "# note: " << *model.census_note << "\n";
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "last_dispensed", "product",
                  "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes"});
   for (const Row& row : Rows(model)) {

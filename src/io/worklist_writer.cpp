@@ -2,6 +2,8 @@
 
 #include <ostream>
 
+#include "medload/cohort/cohort_table.h"
+#include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
 #include "medload/io/output.h"
 
@@ -22,18 +24,51 @@ std::vector<std::string> CriteriaKeys(const Worklist& worklist) {
   return keys;
 }
 
-std::string Summary(const Worklist& w) {
-  return std::to_string(w.patients_meeting) + " of " + std::to_string(w.patients_considered) +
-         " registered patients meet " + Join(CriteriaKeys(w), " or ") + " on " + w.on.ToIso() +
-         (w.patients.size() < static_cast<size_t>(w.patients_meeting)
-              ? "; the first " + std::to_string(w.patients.size()) + " are listed"
-              : "") +
-         (w.excluded_recent_review > 0
-              ? "; " + std::to_string(w.excluded_recent_review) + " left out after a recent review"
-              : "");
+// The report's suppression applies to the count of meeting patients.
+bool MeetingWithheld(const Worklist& w) { return IsSuppressed(w.patients_meeting, w.suppress_below); }
+
+size_t NotShown(const Worklist& w) {
+  const size_t meeting = static_cast<size_t>(w.patients_meeting);
+  return meeting > w.patients.size() ? meeting - w.patients.size() : 0;
 }
 
 }  // namespace
+
+const char* const kRankIsSortingOrder =
+    "the rank is a sorting order (more rules fired, then higher score, more items, higher DBI, "
+    "older age), not a clinical priority: every rule weighs the same, so judge each patient's need";
+
+std::vector<std::string> WorklistNotes(const Worklist& worklist) {
+  std::vector<std::string> notes = worklist.notes;
+  notes.emplace_back(kRankIsSortingOrder);
+  if (MeetingWithheld(worklist)) {
+    if (NotShown(worklist) > 0) {
+      notes.push_back("more patients meet the criteria than are shown: the list stops at the first " +
+                      std::to_string(worklist.patients.size()));
+    }
+    notes.push_back(SuppressionNote(worklist.suppress_below));
+  } else if (const size_t hidden = NotShown(worklist); hidden > 0) {
+    notes.push_back(std::to_string(hidden) + " more patient(s) who meet the criteria are not shown: the list stops at " +
+                    "the first " + std::to_string(worklist.patients.size()));
+  }
+  return notes;
+}
+
+std::string WorklistSummary(const Worklist& w) {
+  const std::string meeting = MeetingWithheld(w) ? "fewer than " + std::to_string(w.suppress_below)
+                                                 : std::to_string(w.patients_meeting);
+  std::string summary = meeting + " of " + std::to_string(w.patients_considered) +
+                        " registered patients meet " + Join(CriteriaKeys(w), " or ") + " on " + w.on.ToIso();
+  if (NotShown(w) > 0) summary += "; the first " + std::to_string(w.patients.size()) + " are listed";
+  if (w.excluded_recent_review > 0) {
+    summary += "; " + std::to_string(w.excluded_recent_review) + " left out after a recent review";
+  }
+  if (w.excluded_age_unknown > 0) {
+    summary += "; " + std::to_string(w.excluded_age_unknown) + " left out by --age-min because their age is unknown (" +
+               std::to_string(w.excluded_age_unknown_meeting) + " of them meet a criterion)";
+  }
+  return summary;
+}
 
 nlohmann::json WorklistJson(const Worklist& worklist) {
   nlohmann::json patients = nlohmann::json::array();
@@ -48,11 +83,17 @@ nlohmann::json WorklistJson(const Worklist& worklist) {
           {"patients", patients}, {"patients_considered", worklist.patients_considered},
           {"patients_meeting", worklist.patients_meeting},
           {"excluded_recent_review", worklist.excluded_recent_review},
+          {"excluded_age_unknown", worklist.excluded_age_unknown},
+          {"excluded_age_unknown_meeting", worklist.excluded_age_unknown_meeting},
+          {"patients_not_shown", NotShown(worklist)}, {"summary", WorklistSummary(worklist)},
+          {"notes", WorklistNotes(worklist)}, {"warnings", worklist.notes},
           {"compared_with_previous_run", worklist.has_previous_run}, {"caution", std::string(kCaution)}};
 }
 
 void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
-  out << "Review worklist: " << Summary(worklist) << "\n\n";
+  out << "Review worklist: " << WorklistSummary(worklist) << "\n";
+  for (const std::string& note : WorklistNotes(worklist)) out << "Note: " << note << ".\n";
+  out << "\n";
   std::vector<std::vector<std::string>> rows;
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " *" : ""), e.practice, Age(e),
@@ -71,6 +112,9 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
 
 void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   WriteCsvCaution(out);
+  out << "# census date: " << worklist.on.ToIso() << "\n";
+  out << "# summary: " << WorklistSummary(worklist) << "\n";
+  for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "dbi", "rules", "criteria_met", "new",
                  "reasons", "warnings"});
   for (const WorklistEntry& e : worklist.patients) {
@@ -90,9 +134,14 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
   WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "reasons"}, rows);
 }
 
+void WriteWorklistHtmlNotes(std::ostream& out, const Worklist& worklist) {
+  for (const std::string& note : WorklistNotes(worklist)) out << "<p class=\"note\">" << EscapeHtml(note) << ".</p>\n";
+}
+
 void WriteWorklistHtml(std::ostream& out, const Worklist& worklist, const std::string& title) {
   WriteHtmlStart(out, title);
-  out << "<p>" << EscapeHtml(Summary(worklist)) << ".</p>\n";
+  out << "<p>" << EscapeHtml(WorklistSummary(worklist)) << ".</p>\n";
+  WriteWorklistHtmlNotes(out, worklist);
   WriteWorklistHtmlTable(out, worklist);
   WriteHtmlEnd(out);
 }

@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "medload/cohort/cohort_writer.h"
+#include "medload/core/census_note.h"
 #include "medload/io/output.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/report/funnel.h"
@@ -57,6 +58,12 @@ std::vector<std::string> SeriesRow(const ReportModel& model, const ReportSeries&
           ChangeText(s.counts[key], 12, sb)};
 }
 
+void WriteWarnings(std::ostream& out, const ReportModel& model) {
+  for (const std::string& warning : ReportWarnings(model)) {
+    out << "<p class=\"note\"><strong>Warning:</strong> " << EscapeHtml(warning) << ".</p>\n";
+  }
+}
+
 void WriteRunFacts(std::ostream& out, const ReportModel& model) {
   std::string criteria;
   for (size_t k = 0; k + 1 < model.keys.size(); ++k) criteria += (k == 0 ? "" : ", ") + model.keys[k];
@@ -69,9 +76,23 @@ void WriteRunFacts(std::ostream& out, const ReportModel& model) {
         << " to " << EscapeHtml(model.data.latest_dispensed->ToIso()) << ". "
         << EscapeHtml(SuppressionNote(model.config.suppress_below)) << "</p>\n";
   }
+  WriteWarnings(out, model);
 }
 
 }  // namespace
+
+std::vector<std::string> ReportWarnings(const ReportModel& model) {
+  std::vector<std::string> warnings;
+  if (auto note = CensusBeyondDataNote(model.on, model.data.latest_dispensed)) warnings.push_back(std::move(*note));
+  return warnings;
+}
+
+Worklist ReportWorklist(const ReportModel& model, const std::string& code) {
+  Worklist worklist = model.worklists.at(code);
+  worklist.suppress_below = model.config.suppress_below;
+  worklist.notes = ReportWarnings(model);
+  return worklist;
+}
 
 std::string IndexHtml(const ReportModel& model, const std::map<std::string, PracticeFiles>& files,
                       const std::vector<std::string>& digests) {
@@ -137,11 +158,12 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
   const CohortTable table = ReportCohortTable(model, &s.code);
   out << "<h2>Trend</h2>\n";
   for (size_t k = 0; k < model.keys.size(); ++k) out << "<figure>\n" << CohortTrendSvg(table, k) << "</figure>\n";
-  const Worklist& worklist = model.worklists.at(s.code);
-  out << "<h2>Worklist on " << EscapeHtml(model.on.ToIso()) << "</h2>\n<p>" << worklist.patients_meeting
-      << " of " << worklist.patients_considered << " registered patients meet a criterion; the first "
-      << worklist.patients.size() << " in review order are listed (all of them up to the limit in <a href=\""
-      << EscapeHtml(files.worklist) << "\">" << EscapeHtml(files.worklist) << "</a>).</p>\n";
+  const Worklist worklist = ReportWorklist(model, s.code);
+  out << "<h2>Worklist on " << EscapeHtml(model.on.ToIso()) << "</h2>\n<p>" << EscapeHtml(WorklistSummary(worklist))
+      << " (in review order; the same list is in <a href=\"" << EscapeHtml(files.worklist) << "\">"
+      << EscapeHtml(files.worklist) << "</a>).</p>\n<p class=\"note\">This page and its worklist CSV name "
+      << "patients: they are patient-level files for the practice, not for publication.</p>\n";
+  WriteWorklistHtmlNotes(out, worklist);
   WriteWorklistHtmlTable(out, worklist);
   WriteHtmlEnd(out);
   return out.str();

@@ -73,7 +73,7 @@ Status WritePractices(const ReportModel& model, const std::map<std::string, Prac
     const FileAccess patients = FileAccess::kOwnerOnly;
     if (Status st = writer.Put(names.page, PracticeHtml(model, i, names), patients); !st.ok()) return st;
     std::ostringstream csv;
-    WriteWorklistCsv(csv, model.worklists.at(s.code));
+    WriteWorklistCsv(csv, ReportWorklist(model, s.code));
     if (Status st = writer.Put(names.worklist, csv.str(), patients); !st.ok()) return st;
     if (const auto digest = BuildDigest(model, i, names.page)) {
       if (Status st = writer.Put(names.digest, FormatDigest(*digest)); !st.ok()) return st;
@@ -103,6 +103,7 @@ json RunJson(const ReportModel& model, const std::vector<std::string>& files, co
                     {"worklist_rows", worklist_rows}}},
           {"previous_report", model.previous ? json(model.previous->on.ToIso()) : json(nullptr)},
           {"files", files},
+          {"warnings", ReportWarnings(model)},
           {"caution", std::string(kCaution)}};
 }
 
@@ -117,6 +118,7 @@ Result<ReportOutcome> WriteReport(const ReportModel& model, const std::string& o
   ReportOutcome outcome;
   outcome.on = model.on;
   outcome.practices = model.practices.size();
+  outcome.warnings = ReportWarnings(model);
   Writer writer{*folder, outcome.files};
   if (Status s = WriteCohortFiles(model, writer); !s.ok()) return s;
   if (Status s = WritePractices(model, *files, writer, outcome.digests); !s.ok()) return s;

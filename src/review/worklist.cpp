@@ -111,14 +111,19 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
     const auto practice = RegisteredPractice(history, options.on);
     if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
     const std::optional<int> age = AgeOn(history.registry, options.on);
-    if (options.age_min && (!age || *age < *options.age_min)) return true;
-    ++worklist.patients_considered;
+    if (options.age_min && age && *age < *options.age_min) return true;
     const Timeline& timeline = patient.timeline();
     const Burden burden = analysis.Evaluate(timeline, options.on, age);
     WorklistEntry entry;
     for (const Criterion& criterion : options.criteria) {
       if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
     }
+    if (options.age_min && !age) {
+      ++worklist.excluded_age_unknown;
+      if (!entry.criteria_met.empty()) ++worklist.excluded_age_unknown_meeting;
+      return true;
+    }
+    ++worklist.patients_considered;
     if (entry.criteria_met.empty()) return true;
     if (options.reviewed_within_days) {
       const auto it = reviewed.find(history.patient_id);

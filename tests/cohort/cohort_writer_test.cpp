@@ -72,6 +72,26 @@ TEST_CASE("the suppression note states the rule and the secondary-disclosure lim
   CHECK(note.find("does not suppress complementary cells") != std::string::npos);
 }
 
+TEST_CASE("a table's warnings appear in the text, CSV, HTML and JSON") {
+  CohortTable table = SmallTable(0);
+  const std::string warning = "the census date 2024-01-31 is 30 days after the latest dispensing loaded (2024-01-01)";
+  std::ostringstream text;
+  WriteCohortText(text, table);
+  CHECK(text.str().find("Warning:") == std::string::npos);
+  CHECK(CohortJson(table, nullptr).at("notes").empty());
+  table.notes = {warning};
+  std::ostringstream text_with, csv, html;
+  WriteCohortText(text_with, table);
+  WriteCohortCsv(csv, table);
+  WriteCohortHtml(html, table);
+  CHECK(text_with.str().find("Warning: " + warning + ".") != std::string::npos);
+  CHECK(html.str().find("Warning: " + warning + ".") != std::string::npos);
+  // CSV: the caution first, then the warning as a comment line, then the header.
+  const std::string lines = csv.str();
+  CHECK(lines.compare(lines.find('\n') + 1, 8 + warning.size() + 1, "# note: " + warning + "\n") == 0);
+  CHECK(CohortJson(table, nullptr).at("notes") == nlohmann::json::array({warning}));
+}
+
 }  // TEST_SUITE
 
 }  // namespace

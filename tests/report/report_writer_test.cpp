@@ -73,6 +73,47 @@ TEST_CASE("the report folder holds the overview, a page, worklist and digest per
   CHECK(nlohmann::json::parse(ReadAll(temp.File("out/cohort.json"))).contains("caution"));
 }
 
+TEST_CASE("a census date beyond the data is warned of in run.json, the pages and the worklist CSVs") {
+  testing::ReportPopulation population;  // the latest dispensing is 2024-06-01
+  TempFolder temp;
+  auto outcome = RunReport(population.store, population.analysis, testing::TestConfig(),
+                           Options(temp.File("out"), "2024-07-01T00:00:00Z"));
+  REQUIRE(outcome.ok());
+  const std::string warning = "the census date 2024-06-30 is 29 days after the latest dispensing loaded (2024-06-01)";
+  REQUIRE(outcome->warnings.size() == 1);
+  CHECK(outcome->warnings[0].rfind(warning, 0) == 0);
+  const nlohmann::json run = nlohmann::json::parse(ReadAll(temp.File("out/run.json")));
+  REQUIRE(run.at("warnings").size() == 1);
+  CHECK(run.at("warnings")[0] == outcome->warnings[0]);
+  CHECK(ReadAll(temp.File("out/index.html")).find(warning) != std::string::npos);
+  CHECK(ReadAll(temp.File("out/practice-A1.html")).find(warning) != std::string::npos);
+  CHECK(ReadAll(temp.File("out/worklist-A1.csv")).find("# note: " + warning) != std::string::npos);
+  // "latest" takes the last month end on or before the data: no warning.
+  auto config = testing::TestConfig();
+  config.on.reset();
+  auto latest = RunReport(population.store, population.analysis, config, Options(temp.File("latest"), "x"));
+  REQUIRE(latest.ok());
+  CHECK(latest->on == Date::FromCivil(2024, 5, 31));
+  CHECK(latest->warnings.empty());
+  CHECK(nlohmann::json::parse(ReadAll(temp.File("latest/run.json"))).at("warnings").empty());
+}
+
+TEST_CASE("a report worklist CSV gives the census date, what the rank means and what the limit left out") {
+  testing::ReportPopulation population;
+  TempFolder temp;
+  auto config = testing::TestConfig();
+  config.worklist_limit = 3;
+  auto outcome = RunReport(population.store, population.analysis, config, Options(temp.File("out"), "x"));
+  REQUIRE(outcome.ok());
+  const std::string csv = ReadAll(temp.File("out/worklist-A1.csv"));
+  CHECK(csv.rfind("# CAUTION", 0) == 0);
+  CHECK(csv.compare(csv.find('\n') + 1, 26, "# census date: 2024-06-30\n") == 0);
+  CHECK(csv.find("not a clinical priority") != std::string::npos);
+  // A1 has 8 meeting patients; 3 are listed.
+  CHECK(csv.find("# note: 5 more patient(s) who meet the criteria are not shown: the list stops at the first 3\n") !=
+        std::string::npos);
+}
+
 TEST_CASE("every value from the data is escaped in the pages") {
   testing::ReportPopulation population;
   TempFolder temp;

@@ -2,10 +2,16 @@
 
 #include <doctest/doctest.h>
 
+#include <algorithm>
+#include <filesystem>
+#include <fstream>
 #include <sstream>
+
+#include <nlohmann/json.hpp>
 
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
+#include "store/temp_folder.h"
 
 namespace medload {
 namespace {
@@ -154,6 +160,72 @@ TEST_CASE("patients are marked new against the previous run with the same criter
   REQUIRE(wide.ok());
   REQUIRE(wide->patients.size() == 3);
   for (const auto& e : wide->patients) CHECK(e.is_new);
+}
+
+TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknown age") {
+  Population p;
+  Import(p.store, InputKind::kPatients, "patient_id,birth_date,sex,practice,registered_from,registered_to\nF,,female,PA,,\n");
+  Import(p.store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\n"
+         "F,2024-01-02,Mystery tonic 200ml,1,28\n"
+         "F,2024-01-03,Diazepam tablets,28,28\n"
+         "F,2024-01-03,Codeine 30mg tablets,28,28\n");
+  // The bundled rules have no age limit: a copy of the formulary adds one, so that a
+  // patient of unknown age has a rule that cannot be judged.
+  TempFolder temp;
+  const std::filesystem::path formulary = temp.File("formulary");
+  std::filesystem::copy(MEDLOAD_SOURCE_FORMULARY, formulary, std::filesystem::copy_options::recursive);
+  std::ifstream rules_in(formulary / "rules.json");
+  nlohmann::json rules = nlohmann::json::parse(rules_in);
+  rules_in.close();
+  rules["rules"].push_back({{"id", "test-older-opioid"}, {"title", "Opioid at 65 or over"},
+                            {"explanation", "A test rule."}, {"source", "test"}, {"age_min", 65},
+                            {"require", {{{"classes", {"opioid"}}, {"at_least", 1}}}}});
+  std::ofstream(formulary / "rules.json") << rules.dump();
+  auto aged = Analysis::Open(formulary.string(), MeasureOptions{}, nullptr);
+  REQUIRE(aged.ok());
+  WorklistOptions options = On(D(2024, 1, 10), {AtLeast("items=2")});
+  options.remember_run = false;
+  auto list = BuildWorklist(p.store, *aged, options);
+  REQUIRE(list.ok());
+  const auto f = std::find_if(list->patients.begin(), list->patients.end(), [](const auto& e) { return e.patient == "F"; });
+  REQUIRE(f != list->patients.end());
+  CHECK(f->warnings == std::vector<std::string>{"1 recent product(s) not recognised", "dose unknown: diazepam",
+                                                "age unknown: age-limited rules not checked"});
+  // A has only recognised products with strengths, and a known age: no warnings.
+  REQUIRE(list->patients.front().patient == "A");
+  CHECK(list->patients.front().warnings.empty());
+  // With the bundled rules (no age limit) F's age leaves no rule unjudged.
+  auto bundled = p.Build(On(D(2024, 1, 10), {AtLeast("items=2")}));
+  for (const auto& e : bundled.patients) {
+    if (e.patient == "F") CHECK(e.warnings.size() == 2);
+  }
+  // An unmatched product dispensed longer ago than the longest supply is not recent.
+  Import(p.store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\nF,2024-09-01,Ramipril 5mg capsules,28,28\n");
+  auto later = p.Build(On(D(2024, 9, 10), {AtLeast("items=1")}));
+  REQUIRE(later.patients.size() == 1);
+  CHECK(later.patients[0].patient == "F");
+  CHECK(later.patients[0].warnings.empty());
+}
+
+TEST_CASE("patients of unknown age left out by the minimum age are counted") {
+  Population p;
+  Import(p.store, InputKind::kPatients,
+         "patient_id,birth_date,sex,practice,registered_from,registered_to\nF,,female,PA,,\nG,,male,PB,,\n");
+  Import(p.store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\nF,2024-01-03,Ramipril 5mg capsules,28,28\n");
+  auto options = On(D(2024, 1, 10), {AtLeast("items=1")});
+  auto all_ages = p.Build(options);
+  CHECK(all_ages.excluded_age_unknown == 0);
+  CHECK(all_ages.patients_considered == 5);
+  options.age_min = 80;
+  auto list = p.Build(options);
+  CHECK(list.excluded_age_unknown == 2);          // F and G
+  CHECK(list.excluded_age_unknown_meeting == 1);  // only F has a medicine
+  CHECK(list.patients_considered == 2);           // A and C; B is too young
+  options.practices = {"PB"};
+  CHECK(p.Build(options).excluded_age_unknown == 1);
 }
 
 TEST_CASE("a worklist without criteria or with an unknown rule is refused") {

@@ -37,6 +37,9 @@ struct CohortTable {
   bool complete = true;               // false when a merge lacked some shards
   std::string shards;                 // e.g. "1/1", "3 of 4 shards"
   std::vector<CohortRow> rows;        // by date, then group
+  // Warnings about the whole table set by the caller (e.g. census dates after the latest
+  // dispensing loaded); every writer prints them.
+  std::vector<std::string> notes;
 };
 
 // Small-number suppression: a count c with 0 < c < suppress_below is withheld (null), and

@@ -25,6 +25,9 @@ struct MedsModel {
   const BurdenTables* tables = nullptr;
   std::span<const DispensingRecord> records;  // the records the timeline was built from
   MeasureOptions options;
+  // Set when the census date is after the latest dispensing loaded (CensusBeyondDataNote):
+  // the first warning, and a `# note:` line after the caution in CSV.
+  std::optional<std::string> census_note;
 };
 
 // Warnings a clinician must see with this patient's figures (unmatched products, doses

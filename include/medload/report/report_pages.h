@@ -6,6 +6,7 @@
 
 #include <map>
 #include <string>
+#include <vector>
 
 #include "medload/cohort/cohort_table.h"
 #include "medload/report/report.h"
@@ -21,6 +22,15 @@ struct PracticeFiles {
   std::string worklist;  // "worklist-<stem>.csv"
   std::string digest;    // "digests/<stem>.eml"
 };
+
+// Warnings about the whole report, plain sentences: a census date after the latest
+// dispensing loaded (CensusBeyondDataNote). Empty when there is nothing to warn of.
+std::vector<std::string> ReportWarnings(const ReportModel& model);
+
+// The worklist of practice `code` as the report writes it (page and CSV): the model's
+// list with config.suppress_below applied to its meeting count and ReportWarnings as notes.
+// REQUIRES: model.worklists has `code`.
+Worklist ReportWorklist(const ReportModel& model, const std::string& code);
 
 // The cohort table of the report: the chosen practices and the network total, counts
 // suppressed below config.suppress_below. With `only` set, that practice and the total.

@@ -22,10 +22,11 @@ struct ReportOutcome {
   std::vector<std::string> digests;  // practice codes that got a digest, sorted
   Date on;                           // the census date used
   size_t practices = 0;
+  std::vector<std::string> warnings;  // ReportWarnings: also in run.json and the pages
 };
 
 // run.json: version, generated_at, parameters, formulary checksum, census dates, data
-// date range and row counts, previous report date, files.
+// date range and row counts, previous report date, files, and "warnings" (ReportWarnings).
 nlohmann::json RunJson(const ReportModel& model, const std::vector<std::string>& files,
                        const std::string& generated_at);
 

@@ -50,7 +50,18 @@ struct Worklist {
   long patients_considered = 0;           // registered on the date (after practice filter)
   long patients_meeting = 0;              // before --limit
   long excluded_recent_review = 0;
+  // Registered (after the practice filter) but left out by --age-min because the age is
+  // unknown; and how many of those would have met a criterion.
+  long excluded_age_unknown = 0;
+  long excluded_age_unknown_meeting = 0;
   bool has_previous_run = false;          // "new" flags compare with an earlier run
+  // Warnings about the whole list, set by the caller (e.g. a census date after the latest
+  // dispensing loaded, CensusBeyondDataNote); every writer prints them.
+  std::vector<std::string> notes;
+  // The report's small-number threshold: when above 1, a meeting count from 1 to N-1 is
+  // written "fewer than N" in the summary and notes (the rows still name the patients:
+  // a worklist is a patient-level file). 0 in `review`.
+  long suppress_below = 0;
 };
 
 // The fixed review order (spec section 6): more rules fired first, then higher acb, more
