@@ -4,6 +4,8 @@
 
 #include <sstream>
 
+#include "medload/core/caution.h"
+
 namespace medload {
 namespace {
 
@@ -119,6 +121,16 @@ TEST_CASE("a meeting count below the report's threshold is withheld from the sum
   CHECK(Has(text, "(below 5) are withheld"));
   w.suppress_below = 3;  // 3 is not below 3: shown
   CHECK(Has(Text(w), "3 of 40 registered patients meet"));
+}
+
+TEST_CASE("every worklist format carries the caution") {
+  const Worklist w = Sample();
+  CHECK(Has(Text(w), "CAUTION: this output supports clinical judgement"));
+  CHECK(Csv(w).rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(WorklistJson(w).at("caution") == std::string(kCaution));
+  const std::string html = Html(w);
+  CHECK(Has(html, "class=\"caution\""));
+  CHECK(html.find("class=\"caution\"") < html.find("<table"));
 }
 
 }  // TEST_SUITE
