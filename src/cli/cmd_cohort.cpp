@@ -11,6 +11,7 @@
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
 #include "medload/core/census_note.h"
+#include "medload/io/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -115,7 +116,7 @@ void Write(const Context& context, const CohortTable& table, const CohortTally& 
     case Format::kJson: {
       // The raw tally would undo suppression, so it is only written when nothing is withheld.
       const CohortTally* raw = table.suppress_below <= 1 ? &tally : nullptr;
-      *context.out << CohortJson(table, raw).dump(2) << "\n";
+      *context.out << JsonText(CohortJson(table, raw)) << "\n";
       break;
     }
     case Format::kCsv: WriteCohortCsv(*context.out, table); break;

@@ -9,6 +9,7 @@
 #include "medload/core/caution.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
+#include "medload/io/json_text.h"
 #include "medload/io/output.h"
 #include "medload/store/store.h"
 
@@ -57,8 +58,8 @@ void WriteCheck(Context& context, const std::string& dir, const FormularyCheck& 
     case Format::kJson: {
       json counts_json = json::object();
       for (const auto& [name, value] : counts) counts_json[name] = value;
-      out << json{{"formulary", dir}, {"ok", check.ok()}, {"faults", check.faults}, {"counts", counts_json},
-                  {"caution", std::string(kCaution)}}.dump(2)
+      out << JsonText(json{{"formulary", dir}, {"ok", check.ok()}, {"faults", check.faults},
+                           {"counts", counts_json}, {"caution", std::string(kCaution)}})
           << "\n";
       return;
     }
@@ -185,7 +186,7 @@ void WriteLookup(Context& context, const LookupModel& model) {
   const auto facts = ProductFacts(model);
   if (context.format == Format::kJson) {
     // The description and code are echoed as given: bytes that are not UTF-8 become U+FFFD.
-    out << LookupJson(model).dump(2, ' ', false, json::error_handler_t::replace) << "\n";
+    out << JsonText(LookupJson(model)) << "\n";
   } else if (context.format == Format::kCsv) {
     WriteCsvCaution(out);
     std::vector<std::string> header;
@@ -263,8 +264,9 @@ void WriteUnmatched(Context& context, const std::vector<ProductCount>& products,
         list.push_back({{"product", p.product}, {"code", p.code}, {"code_system", p.code_system},
                         {"items", p.items}, {"patients", p.patients}});
       }
-      out << json{{"products", list}, {"unmatched_products", products.size()}, {"unmatched_items", items},
-                  {"formulary_checksum", checksum}, {"caution", std::string(kCaution)}}.dump(2)
+      out << JsonText(json{{"products", list}, {"unmatched_products", products.size()},
+                           {"unmatched_items", items}, {"formulary_checksum", checksum},
+                           {"caution", std::string(kCaution)}})
           << "\n";
       return;
     }

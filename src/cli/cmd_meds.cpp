@@ -4,6 +4,7 @@
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
 #include "medload/core/census_note.h"
+#include "medload/io/json_text.h"
 #include "medload/io/meds_writer.h"
 #include "medload/store/store.h"
 
@@ -61,7 +62,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.options = *measure;
   model.census_note = census_note;
   switch (context.format) {
-    case Format::kJson: *context.out << MedsJson(model).dump(2) << "\n"; break;
+    case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;
     case Format::kHtml: WriteMedsHtml(*context.out, model); break;
     case Format::kSvg: return fail(Status::Usage("meds writes text, csv, json or html"));

@@ -3,6 +3,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/core/census_note.h"
+#include "medload/io/json_text.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
@@ -79,7 +80,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
     for (WorklistEntry& entry : worklist->patients) entry.patient = pseudonymiser->Pseudonym(entry.patient);
   }
   switch (context.format) {
-    case Format::kJson: *context.out << WorklistJson(*worklist).dump(2) << "\n"; break;
+    case Format::kJson: *context.out << JsonText(WorklistJson(*worklist)) << "\n"; break;
     case Format::kCsv: WriteWorklistCsv(*context.out, *worklist); break;
     case Format::kHtml: WriteWorklistHtml(*context.out, *worklist, "Review worklist on " + worklist->on.ToIso()); break;
     case Format::kSvg: return fail(Status::Usage("review writes text, csv, json or html"));

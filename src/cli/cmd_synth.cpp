@@ -7,6 +7,7 @@
 
 #include "cli/options.h"
 #include "medload/core/caution.h"
+#include "medload/io/json_text.h"
 #include "medload/io/output.h"
 #include "medload/synth/synth.h"
 
@@ -84,7 +85,7 @@ void WriteSummary(Context& context, const SynthSummary& summary) {
   const std::vector<std::string> header = {"file", "rows"};
   switch (context.format) {
     case Format::kJson:
-      out << SummaryJson(summary).dump(2) << "\n";
+      out << JsonText(SummaryJson(summary)) << "\n";
       return;
     case Format::kCsv:
       WriteCsvCaution(out);

@@ -3,6 +3,7 @@
 #include <ostream>
 
 #include "medload/core/caution.h"
+#include "medload/io/json_text.h"
 #include "medload/io/output.h"
 
 namespace medload {
@@ -173,7 +174,7 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
 }
 
 void WriteImportJson(const std::vector<ImportSummary>& files, std::ostream& out) {
-  out << ImportJson(files).dump(2) << "\n";
+  out << JsonText(ImportJson(files)) << "\n";
 }
 
 void WriteImportHtml(const std::vector<ImportSummary>& files, std::ostream& out) {

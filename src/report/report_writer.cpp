@@ -9,6 +9,7 @@
 #include "medload/burden/analysis.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
+#include "medload/io/json_text.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/report/digest.h"
 #include "medload/report/report_files.h"
@@ -60,7 +61,7 @@ Status WriteCohortFiles(const ReportModel& model, Writer& writer) {
   std::ostringstream csv;
   WriteCohortCsv(csv, table);
   if (Status s = writer.Put("cohort.csv", csv.str()); !s.ok()) return s;
-  return writer.Put("cohort.json", CohortJson(table, nullptr).dump(2) + "\n");
+  return writer.Put("cohort.json", JsonText(CohortJson(table, nullptr)) + "\n");
 }
 
 Status WritePractices(const ReportModel& model, const std::map<std::string, PracticeFiles>& files,
@@ -126,7 +127,7 @@ Result<ReportOutcome> WriteReport(const ReportModel& model, const std::string& o
   outcome.files.push_back("run.json");
   std::sort(outcome.files.begin(), outcome.files.end());
   std::sort(outcome.digests.begin(), outcome.digests.end());
-  if (Status s = folder->WriteFile("run.json", RunJson(model, outcome.files, generated_at).dump(2) + "\n"); !s.ok()) {
+  if (Status s = folder->WriteFile("run.json", JsonText(RunJson(model, outcome.files, generated_at)) + "\n"); !s.ok()) {
     return s;
   }
   return outcome;
@@ -155,7 +156,7 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
   if (!model.ok()) return model.status();
   auto outcome = WriteReport(*model, options.out_dir, options.generated_at);
   if (!outcome.ok()) return outcome.status();
-  if (Status s = store.SaveRun("report", ReportRunKey(*model), model->on.ToIso(), ReportRunPayload(*model).dump());
+  if (Status s = store.SaveRun("report", ReportRunKey(*model), model->on.ToIso(), JsonText(ReportRunPayload(*model), -1));
       !s.ok()) {
     return s;
   }

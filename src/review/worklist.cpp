@@ -6,9 +6,10 @@
 
 #include <nlohmann/json.hpp>
 
-#include "medload/cohort/registration.h"
-#include "medload/io/output.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/cohort/registration.h"
+#include "medload/io/json_text.h"
+#include "medload/io/output.h"
 #include "medload/store/store.h"
 
 namespace medload {
@@ -174,7 +175,7 @@ Status MarkNewAndSave(Store& store, const WorklistOptions& options, Worklist& wo
     entry.is_new = worklist.has_previous_run && before.count(entry.patient) == 0;
     saved["patients"].push_back(entry.patient);
   }
-  return store.SaveRun("review", key, worklist.on.ToIso(), saved.dump());
+  return store.SaveRun("review", key, worklist.on.ToIso(), JsonText(saved, -1));
 }
 
 }  // namespace medload
