@@ -105,9 +105,9 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;
   }
-  auto data = store->Summary();
-  if (!data.ok()) return data.status();
-  note = BeyondDataNote(options->dates, data->latest_dispensed);
+  auto latest = store->LatestDispensed();
+  if (!latest.ok()) return latest.status();
+  note = BeyondDataNote(options->dates, *latest);
   return medload::RunCohort(*store, *analysis, *options);
 }
 
@@ -164,7 +164,7 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   if (!tally.ok()) return fail(tally.status());
   CohortTable table = BuildCohortTable(*tally, suppress_below);
   if (beyond_data) {
-    if (!context.quiet) *context.err << "medload: warning: " << *beyond_data << "\n";
+    Warn(context, *beyond_data);
     table.notes.push_back(std::move(*beyond_data));
   }
   if (!table.complete && !context.quiet) {

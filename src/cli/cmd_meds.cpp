@@ -41,10 +41,10 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
     return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
   }
 
-  auto data = store->Summary();
-  if (!data.ok()) return fail(data.status());
-  std::optional<std::string> census_note = CensusBeyondDataNote(*on, data->latest_dispensed);
-  if (census_note && !context.quiet) *context.err << "medload: warning: " << *census_note << "\n";
+  auto latest = store->LatestDispensed();
+  if (!latest.ok()) return fail(latest.status());
+  std::optional<std::string> census_note = CensusBeyondDataNote(*on, *latest);
+  if (census_note) Warn(context, *census_note);
 
   const Timeline timeline = analysis->BuildTimeline(*records);
   const std::optional<int> age = AgeOn(*registry, *on);

@@ -57,9 +57,7 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
   if (!outcome.ok()) return fail(outcome.status());
-  if (!context.quiet) {
-    for (const std::string& warning : outcome->warnings) *context.err << "medload: warning: " << warning << "\n";
-  }
+  for (const std::string& warning : outcome->warnings) Warn(context, warning);
   PrintReportOutcome(*context.out, run.out_dir, *config, *outcome);
   WriteTextCaution(*context.out);
   return 0;

@@ -70,10 +70,10 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) return fail(worklist.status());
-  auto data = store->Summary();
-  if (!data.ok()) return fail(data.status());
-  if (auto note = CensusBeyondDataNote(worklist->on, data->latest_dispensed)) {
-    if (!context.quiet) *context.err << "medload: warning: " << *note << "\n";
+  auto latest = store->LatestDispensed();
+  if (!latest.ok()) return fail(latest.status());
+  if (auto note = CensusBeyondDataNote(worklist->on, *latest)) {
+    Warn(context, *note);
     worklist->notes.push_back(std::move(*note));
   }
   if (pseudonymiser) {

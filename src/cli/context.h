@@ -2,8 +2,9 @@
 // formulary paths, the output format and stream, and the error stream. Private to cli/.
 #pragma once
 
-#include <iosfwd>
+#include <ostream>
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace medload::cli {
@@ -19,6 +20,11 @@ struct Context {
   std::ostream* out = nullptr;         // where results go
   std::ostream* err = nullptr;         // diagnostics and progress
 };
+
+// Writes "medload: warning: TEXT" on the error stream, unless --quiet.
+inline void Warn(const Context& context, std::string_view text) {
+  if (!context.quiet) *context.err << "medload: warning: " << text << "\n";
+}
 
 // A command: its words ("import dispensing"), a one-line summary, and its entry point.
 // `args` are the tokens after the command words, global options removed. Returns the

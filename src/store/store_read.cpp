@@ -255,6 +255,15 @@ Result<std::vector<ProductCount>> Store::ProductCounts() const {
   return counts;
 }
 
+Result<std::optional<Date>> Store::LatestDispensed() const {
+  Result<Statement> stmt = Statement::Prepare(
+      db_, std::string("SELECT MAX(dispensed_on) FROM dispensings WHERE ") + kCounting);
+  if (!stmt.ok()) return stmt.status();
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  return ColumnDate(*stmt, 0);
+}
+
 Result<StoreSummary> Store::Summary() const {
   StoreSummary summary;
   Result<Statement> span = Statement::Prepare(

@@ -217,6 +217,7 @@ TEST_CASE("the summary gives the date span of counting dispensings and every tab
   REQUIRE(summary.ok());
   CHECK(summary->earliest_dispensed->ToIso() == "2024-01-01");
   CHECK(summary->latest_dispensed->ToIso() == "2024-02-01");  // d1 (March) no longer counts
+  CHECK(store.LatestDispensed().value() == summary->latest_dispensed);
   CHECK(summary->dispensings == 5);
   CHECK(summary->counting_dispensings == 4);
   CHECK(summary->patients == 3);
@@ -236,6 +237,7 @@ TEST_CASE("an empty store has no date span") {
   REQUIRE(summary.ok());
   CHECK_FALSE(summary->earliest_dispensed.has_value());
   CHECK(summary->dispensings == 0);
+  CHECK_FALSE(store->LatestDispensed().value().has_value());
   int visits = 0;
   REQUIRE(store->ForEachPatient([&](const PatientHistory&) { return ++visits > 0; }).ok());
   CHECK(visits == 0);

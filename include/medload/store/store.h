@@ -154,6 +154,9 @@ class Store {
   Result<std::vector<ProductCount>> ProductCounts() const;
   // Date span and row counts, for run provenance.
   Result<StoreSummary> Summary() const;
+  // The date of the latest counting dispensing (Summary().latest_dispensed alone, without
+  // counting every table), or nullopt when there is none.
+  Result<std::optional<Date>> LatestDispensed() const;
   // Every import run, oldest first.
   Result<std::vector<ImportRunRecord>> ImportRuns() const;
 
