@@ -41,13 +41,27 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
     }
   }
   ResolvedProduct product = medload::Resolve(*formulary_, record.product, record.code, record.code_system);
-  if (store_ != nullptr) {
+  const bool later = store_ != nullptr && store_->InSnapshot();
+  if (store_ != nullptr && !later) {
     // Best effort: a store that cannot be written (read-only file) only loses the cache.
     const Status saved = store_->SaveResolution(record.product, record.code, record.code_system, checksum,
                                                 SerialiseResolution(product));
     static_cast<void>(saved);
   }
-  return resolved_.emplace(key, std::move(product)).first->second;
+  const ResolvedProduct& resolved = resolved_.emplace(key, std::move(product)).first->second;
+  if (later) unsaved_.push_back({record.product, record.code, record.code_system, &resolved});
+  return resolved;
+}
+
+void Analysis::SaveResolutions() {
+  if (store_ == nullptr || store_->InSnapshot()) return;
+  const std::string checksum = ResolutionKey();
+  for (const Unsaved& entry : unsaved_) {
+    const Status saved = store_->SaveResolution(entry.product, entry.code, entry.code_system, checksum,
+                                                SerialiseResolution(*entry.resolution));
+    static_cast<void>(saved);
+  }
+  unsaved_.clear();
 }
 
 std::string Analysis::ResolutionKey() const {

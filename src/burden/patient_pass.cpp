@@ -6,6 +6,8 @@
 #include <exception>
 #include <mutex>
 #include <thread>
+#include <unordered_map>
+#include <utility>
 
 namespace medload {
 
@@ -21,8 +23,15 @@ Burden PassPatient::Evaluate(Date on, std::optional<int> age) {
 
 namespace {
 
+// The pass is cut into ranges of about this many registered patients; with two
+// connections, each reads every other range.
+constexpr size_t kPatientsPerRange = 128;
 constexpr size_t kPatientsPerBatch = 128;
-constexpr size_t kBatches = 4;  // at most this many batches in flight: memory stays bounded
+// Batches each reader may have filled and not yet visited: enough for it to read ahead a
+// range or two while the visitor works through the other reader's, and no more, so that
+// memory stays bounded whatever the store's size.
+constexpr size_t kBatchesPerReader = 4;
+constexpr size_t kMaxReaders = 2;
 
 struct Slot {
   PatientHistory history;
@@ -32,10 +41,19 @@ struct Slot {
 struct Batch {
   std::vector<Slot> slots = std::vector<Slot>(kPatientsPerBatch);
   size_t used = 0;
-  bool last = false;  // the reader has finished: nothing follows this batch
+  bool range_end = false;    // the last batch of its range
+  bool reader_done = false;  // the reader has stopped: nothing follows this batch
+  Status status;             // a read failure; nothing follows it but reader_done
+  std::exception_ptr failure;
+  void Clear() {
+    used = 0;
+    range_end = reader_done = false;
+    status = Status::Ok();
+    failure = nullptr;
+  }
 };
 
-// A blocking hand-over of batch pointers from one thread to the other.
+// A blocking first-in first-out hand-over of batch pointers between two threads.
 class Handover {
  public:
   void Put(Batch* batch) {
@@ -59,28 +77,162 @@ class Handover {
   std::deque<Batch*> queue_;
 };
 
-// Resolves every dispensing's product of the slot's patient, on this (the store's) thread.
-void ResolveAll(Slot& slot, Analysis& analysis) {
-  slot.products.resize(slot.history.dispensings.size());
-  for (size_t i = 0; i < slot.history.dispensings.size(); ++i) {
-    slot.products[i] = &analysis.Resolve(slot.history.dispensings[i]);
+// Products resolved for one reader: its own map in front of the run's Analysis, which
+// readers share under one lock (the Analysis and its store connection are not
+// thread-safe; the map makes the lock rare, once per distinct product and reader).
+class ReaderResolutions {
+ public:
+  ReaderResolutions(Analysis& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
+
+  const ResolvedProduct* Resolve(const DispensingRecord& record) {
+    key_.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
+    if (auto it = seen_.find(key_); it != seen_.end()) return it->second;
+    const ResolvedProduct* product = nullptr;
+    {
+      std::lock_guard guard(lock_);
+      product = &analysis_.Resolve(record);
+    }
+    seen_.emplace(key_, product);
+    return product;
   }
+
+ private:
+  Analysis& analysis_;
+  std::mutex& lock_;
+  std::unordered_map<std::string, const ResolvedProduct*> seen_;
+  std::string key_;
+};
+
+// One reader: its connection, the ranges it reads (every n-th), its batches.
+struct Reader {
+  const Store* source = nullptr;
+  std::optional<Date> latest_dispensed;  // among the records it read
+  std::vector<Batch> batches = std::vector<Batch>(kBatchesPerReader);
+  Handover free;    // batches the visitor has finished with
+  Handover filled;  // batches ready to visit, in range order
+};
+
+// Reads ranges first, first + step, ... into batches until done or `stop`; always ends
+// with a batch marked reader_done.
+void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_t first, size_t step,
+                ReaderResolutions& resolutions, const std::atomic<bool>& stop) {
+  Batch* batch = nullptr;
+  auto take = [&] {
+    batch = reader.free.Take();
+    batch->Clear();
+  };
+  auto hand_over = [&] {
+    Batch* ready = std::exchange(batch, nullptr);
+    reader.filled.Put(ready);
+  };
+  try {
+    for (size_t r = first; r < ranges.size() && !stop.load(std::memory_order_relaxed); r += step) {
+      take();
+      Result<PatientCursor> cursor = reader.source->Patients(ranges[r]);
+      if (!cursor.ok()) {
+        batch->status = cursor.status();
+        hand_over();
+        break;
+      }
+      bool failed = false;
+      while (!stop.load(std::memory_order_relaxed)) {
+        Slot& slot = batch->slots[batch->used];
+        Result<bool> more = cursor->Next(slot.history);
+        if (!more.ok()) {
+          batch->status = more.status();
+          failed = true;
+          break;
+        }
+        if (!*more) break;
+        slot.products.resize(slot.history.dispensings.size());
+        for (size_t i = 0; i < slot.history.dispensings.size(); ++i) {
+          slot.products[i] = resolutions.Resolve(slot.history.dispensings[i]);
+        }
+        if (!slot.history.dispensings.empty()) {
+          // In date order: the last is the patient's latest.
+          const Date last = slot.history.dispensings.back().dispensed_on;
+          if (!reader.latest_dispensed || *reader.latest_dispensed < last) reader.latest_dispensed = last;
+        }
+        if (++batch->used == kPatientsPerBatch) {
+          hand_over();
+          take();
+        }
+      }
+      batch->range_end = true;
+      hand_over();
+      if (failed) break;
+    }
+  } catch (...) {
+    // The batch being filled when the throw came (or a fresh one) carries the fault.
+    if (batch == nullptr) take();
+    batch->failure = std::current_exception();
+    hand_over();
+  }
+  take();
+  batch->reader_done = true;
+  reader.filled.Put(batch);
 }
 
 }  // namespace
 
-Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit) {
-  std::vector<Batch> batches(kBatches);
-  Handover to_worker;
-  Handover to_reader;
-  for (Batch& batch : batches) to_reader.Put(&batch);
+Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit,
+                              PassFacts* facts) {
+  // Two connections need one snapshot to agree on: the caller's, or one for the pass.
+  std::optional<StoreSnapshot> own_snapshot;
+  if (!store.InSnapshot()) {
+    Result<StoreSnapshot> snapshot = store.BeginSnapshot();
+    if (!snapshot.ok()) return snapshot.status();
+    own_snapshot.emplace(std::move(snapshot).value());
+  }
+  Result<std::vector<PatientIdRange>> ranges = store.PatientRanges(kPatientsPerRange);
+  if (!ranges.ok()) return ranges.status();
+  // A second reader when the store has a peer connection and more than one range; the
+  // store's own connection then serves only the shared resolutions. Otherwise one reader
+  // on the store's connection: an in-memory store, or an import committed just now.
+  std::vector<Store> peers;
+  if (ranges->size() > 1) {
+    for (size_t i = 0; i < kMaxReaders; ++i) {
+      Result<Store> peer = store.OpenPeer();
+      if (!peer.ok()) break;
+      peers.push_back(std::move(peer).value());
+    }
+    if (peers.size() < kMaxReaders) peers.clear();
+  }
+  const size_t readers_used = peers.empty() ? 1 : peers.size();
+  std::vector<Reader> readers(readers_used);
+  std::mutex resolution_lock;
+  std::vector<ReaderResolutions> resolutions;
+  for (size_t i = 0; i < readers_used; ++i) {
+    readers[i].source = peers.empty() ? &store : &peers[i];
+    for (Batch& batch : readers[i].batches) readers[i].free.Put(&batch);
+    resolutions.emplace_back(analysis, resolution_lock);
+  }
   std::atomic<bool> stop{false};
-  std::exception_ptr failure;
+  std::vector<std::thread> threads;
+  for (size_t i = 0; i < readers_used; ++i) {
+    threads.emplace_back(ReadRanges, std::ref(readers[i]), std::cref(*ranges), i, readers_used,
+                         std::ref(resolutions[i]), std::cref(stop));
+  }
 
-  std::thread worker([&] {
-    for (;;) {
-      Batch* batch = to_worker.Take();
-      for (size_t i = 0; i < batch->used && !stop.load(std::memory_order_relaxed); ++i) {
+  // The visitor, on this thread, in range order: range r comes from reader r % n.
+  Status status;
+  std::exception_ptr failure;
+  std::vector<bool> reader_done(readers_used, false);
+  // Takes the reader's next batch, keeping the first fault it carries.
+  auto next = [&](size_t reader) {
+    Batch* batch = readers[reader].filled.Take();
+    if (batch->failure && !failure && status.ok()) failure = batch->failure;
+    if (!batch->status.ok() && !failure && status.ok()) status = batch->status;
+    if (batch->reader_done) reader_done[reader] = true;
+    if (failure || !status.ok() || batch->reader_done) stop = true;
+    return batch;
+  };
+  for (size_t r = 0; r < ranges->size() && !stop; ++r) {
+    const size_t reader = r % readers_used;
+    for (bool range_end = false; !range_end && !stop;) {
+      Batch* batch = next(reader);
+      range_end = batch->range_end;
+      for (size_t i = 0; i < batch->used && !stop; ++i) {
         try {
           PassPatient patient(batch->slots[i].history, batch->slots[i].products, analysis);
           if (!visit(patient)) stop = true;
@@ -89,34 +241,27 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
           stop = true;
         }
       }
-      const bool last = batch->last;
-      to_reader.Put(batch);
-      if (last) return;
-    }
-  });
-
-  Result<PatientCursor> cursor = store.Patients();
-  Status status = cursor.ok() ? Status::Ok() : cursor.status();
-  Batch* filling = to_reader.Take();
-  filling->used = 0;
-  filling->last = false;
-  while (status.ok() && !stop.load(std::memory_order_relaxed)) {
-    Slot& slot = filling->slots[filling->used];
-    Result<bool> more = cursor->Next(slot.history);
-    if (!more.ok()) status = more.status();
-    if (!more.ok() || !*more) break;
-    ResolveAll(slot, analysis);
-    if (++filling->used == kPatientsPerBatch) {
-      to_worker.Put(filling);
-      filling = to_reader.Take();
-      filling->used = 0;
-      filling->last = false;
+      readers[reader].free.Put(batch);
     }
   }
-  filling->last = true;
-  to_worker.Put(filling);
-  worker.join();
+  // Stop the readers and take back every batch until each says it is done.
+  stop = true;
+  for (size_t reader = 0; reader < readers_used; ++reader) {
+    while (!reader_done[reader]) readers[reader].free.Put(next(reader));
+  }
+  for (std::thread& thread : threads) thread.join();
+  peers.clear();
+  own_snapshot.reset();
+  analysis.SaveResolutions();
   if (failure) std::rethrow_exception(failure);
+  if (status.ok() && facts != nullptr) {
+    facts->latest_dispensed.reset();
+    for (const Reader& reader : readers) {
+      if (reader.latest_dispensed && (!facts->latest_dispensed || *facts->latest_dispensed < *reader.latest_dispensed)) {
+        facts->latest_dispensed = reader.latest_dispensed;
+      }
+    }
+  }
   return status;
 }
 

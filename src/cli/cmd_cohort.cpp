@@ -105,10 +105,9 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;
   }
-  auto latest = store->LatestDispensed();
-  if (!latest.ok()) return latest.status();
-  note = BeyondDataNote(options->dates, *latest);
-  return medload::RunCohort(*store, *analysis, *options);
+  auto tally = medload::RunCohort(*store, *analysis, *options);
+  if (tally.ok()) note = BeyondDataNote(options->dates, tally->latest_dispensed);
+  return tally;
 }
 
 void Write(const Context& context, const CohortTable& table, const CohortTally& tally) {

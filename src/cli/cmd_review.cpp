@@ -70,9 +70,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) return fail(worklist.status());
-  auto latest = store->LatestDispensed();
-  if (!latest.ok()) return fail(latest.status());
-  if (auto note = CensusBeyondDataNote(worklist->on, *latest)) {
+  if (auto note = CensusBeyondDataNote(worklist->on, worklist->latest_dispensed)) {
     Warn(context, *note);
     worklist->notes.push_back(std::move(*note));
   }

@@ -72,6 +72,7 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
+  PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     if (!counter.Wants(patient.history())) return true;
     // The timeline is built on the first date that needs it, then reused.
@@ -79,9 +80,11 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
       return patient.Evaluate(on, age);
     });
     return true;
-  });
+  }, &facts);
   if (!status.ok()) return status;
-  return counter.Take();
+  CohortTally tally = counter.Take();
+  tally.latest_dispensed = facts.latest_dispensed;
+  return tally;
 }
 
 namespace {

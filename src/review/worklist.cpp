@@ -107,6 +107,7 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
   worklist.criteria = options.criteria;
   worklist.scale = analysis.tables().scale;
   const std::set<std::string> practices(options.practices.begin(), options.practices.end());
+  PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
     const auto practice = RegisteredPractice(history, options.on);
@@ -144,8 +145,9 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
     entry.warnings = EntryWarnings(timeline, burden, options.on, analysis.options().supply.max_supply_days);
     worklist.patients.push_back(std::move(entry));
     return true;
-  });
+  }, &facts);
   if (!status.ok()) return status;
+  worklist.latest_dispensed = facts.latest_dispensed;
   std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(worklist.patients.size());
   if (options.remember_run) {

@@ -45,17 +45,18 @@ Status DispensingWriter::Prepare(sqlite3* db, WriteSource source) {
       db,
       "INSERT INTO dispensings (dedup_key, record_id, patient_id, practice, dispensed_on,"
       " product, code, code_system, quantity, unit, days_supply, dosage,"
-      " structured_units_per_day, structured_as_needed, status, source_file, source_line,"
-      " run_id) VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16,"
-      " ?17, ?18) ON CONFLICT (dedup_key) DO NOTHING");
+      " structured_units_per_day, structured_as_needed, status, source_line, run_id)"
+      " VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17)"
+      " ON CONFLICT (dedup_key) DO NOTHING");
   if (!insert.ok()) return insert.status();
   insert_ = std::move(insert.value());
   Result<Statement> update = Statement::Prepare(
-      db, "UPDATE dispensings SET status = ?2, run_id = ?3 WHERE dedup_key = ?1 AND status <> ?2");
+      db,
+      "UPDATE dispensings SET status = ?2, run_id = ?3, source_line = ?4"
+      " WHERE dedup_key = ?1 AND status <> ?2");
   if (!update.ok()) return update.status();
   update_status_ = std::move(update.value());
-  insert_.BindText(16, source_.file);
-  insert_.BindInt(18, source_.run_id);
+  insert_.BindInt(17, source_.run_id);
   return Status::Ok();
 }
 
@@ -78,13 +79,14 @@ Result<WriteOutcome> DispensingWriter::Write(const DispensingRecord& record, siz
   insert_.BindOptionalDouble(13, record.structured_units_per_day);
   insert_.BindInt(14, record.structured_as_needed ? 1 : 0);
   insert_.BindText(15, record.status);
-  insert_.BindInt(17, static_cast<int64_t>(line));
+  insert_.BindInt(16, static_cast<int64_t>(line));
   if (Status status = insert_.Run(); !status.ok()) return status;
   if (ChangedRows(db_) == 1) return WriteOutcome::kImported;
   if (!update_status || record.record_id.empty()) return WriteOutcome::kDuplicate;
   update_status_.BindText(1, key_);
   update_status_.BindText(2, record.status);
   update_status_.BindInt(3, source_.run_id);
+  update_status_.BindInt(4, static_cast<int64_t>(line));
   if (Status status = update_status_.Run(); !status.ok()) return status;
   return ChangedRows(db_) == 1 ? WriteOutcome::kUpdated : WriteOutcome::kDuplicate;
 }

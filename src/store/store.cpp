@@ -102,6 +102,11 @@ CREATE TABLE runs (
   UNIQUE (kind, criteria_key, run_date)
 );
 )sql",
+    // 1 -> 2: a dispensing names its file through its import run (run_id), not in every
+    // row; with source_line, (run_id, source_line) is where the row was last read.
+    R"sql(
+ALTER TABLE dispensings DROP COLUMN source_file;
+)sql",
 };
 
 bool FileExists(const std::string& path) {
@@ -109,9 +114,22 @@ bool FileExists(const std::string& path) {
   return ::stat(path.c_str(), &info) == 0;
 }
 
+// Once per process, before SQLite starts: no memory-use statistics, which SQLite keeps
+// under one process-wide lock taken on every allocation (it is built without lookaside
+// memory, so that is every row), and which two connections read on two threads at once
+// would fight over. Nothing here reads the statistics.
+void ConfigureSqliteOnce() {
+  static const bool configured = [] {
+    sqlite3_config(SQLITE_CONFIG_MEMSTATUS, 0);
+    return true;
+  }();
+  static_cast<void>(configured);
+}
+
 }  // namespace
 
 Result<Store> Store::Open(const std::string& path, const StoreOptions& options) {
+  ConfigureSqliteOnce();
   const bool in_memory = path == ":memory:";
   if (options.must_exist && !in_memory && !FileExists(path)) {
     return Status::Input("no store at \"" + path + "\": import data first, or give --db PATH");
@@ -238,6 +256,49 @@ Result<StoreSnapshot> Store::BeginSnapshot() const {
   // A deferred BEGIN: the first read takes the WAL read mark that fixes the view.
   if (Status status = ExecSql(db_, "BEGIN DEFERRED"); !status.ok()) return status;
   return StoreSnapshot(db_);
+}
+
+bool Store::InSnapshot() const { return sqlite3_get_autocommit(db_) == 0; }
+
+namespace {
+
+// The newest import run as this connection sees it: every import, committed or rolled
+// back, adds its row in its own transaction, so two snapshots with the same newest run
+// hold the same imported records.
+Result<int64_t> NewestImportRun(sqlite3* db) {
+  Result<Statement> stmt = Statement::Prepare(db, "SELECT COALESCE(MAX(id), 0) FROM import_runs");
+  if (!stmt.ok()) return stmt.status();
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  return *row ? stmt->ColumnInt(0) : 0;
+}
+
+}  // namespace
+
+Result<Store> Store::OpenPeer() const {
+  if (!InSnapshot()) return Status::Input("store: a peer connection needs an open snapshot");
+  if (path_.empty() || path_ == ":memory:") {
+    return Status::Input("store: a store in memory has no peer connection");
+  }
+  Result<int64_t> mine = NewestImportRun(db_);  // also fixes this snapshot's view
+  if (!mine.ok()) return mine.status();
+  StoreOptions options;
+  options.must_exist = true;
+  Result<Store> peer = Store::Open(path_, options);
+  if (!peer.ok()) return peer.status();
+  // A smaller memory map (160 MiB) and page cache (16 MiB) than a store's own connection
+  // (256 and 64): mapped file pages count in the process's resident size once per
+  // connection that touches them, and two peers read one file, so that two peers and the
+  // store's own connection together stay under 512 MB however large the store grows.
+  if (Status status = ExecSql(peer->db_, "PRAGMA mmap_size=167772160; PRAGMA cache_size=-16384;");
+      !status.ok()) {
+    return status;
+  }
+  if (Status status = ExecSql(peer->db_, "BEGIN DEFERRED"); !status.ok()) return status;
+  Result<int64_t> theirs = NewestImportRun(peer->db_);
+  if (!theirs.ok()) return theirs.status();
+  if (*theirs != *mine) return Status::Input("store: an import committed while the run started");
+  return peer;
 }
 
 StoreSnapshot::~StoreSnapshot() {

@@ -137,6 +137,7 @@ Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_i
 struct PatientCursor::State {
   Statement patients;
   Statement dispensings;
+  PatientIdRange range;  // the bounds the statements are bound to (they must outlive it)
   Result<bool> patient_row = false;
   Result<bool> dispensing_row = false;
   // Records beyond a patient's count wait here with their string buffers, so that reading
@@ -184,20 +185,60 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   return true;
 }
 
-Result<PatientCursor> Store::Patients() const {
+Result<PatientCursor> Store::Patients() const { return Patients(PatientIdRange{}); }
+
+Result<PatientCursor> Store::Patients(const PatientIdRange& range) const {
   auto state = std::make_unique<PatientCursor::State>();
+  state->range = range;
+  // Bounds only where the range has them, so that SQLite stops the index walk at `to`.
+  std::string bounds;
+  if (!range.from.empty()) bounds += " AND patient_id >= ?1";
+  if (!range.to.empty()) bounds += " AND patient_id < ?2";
   Result<Statement> patients = Statement::Prepare(
-      db_, std::string("SELECT ") + kPatientColumns + " FROM patients ORDER BY patient_id");
+      db_, std::string("SELECT ") + kPatientColumns + " FROM patients WHERE 1" + bounds +
+               " ORDER BY patient_id");
   if (!patients.ok()) return patients.status();
   Result<Statement> dispensings = Statement::Prepare(
       db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
-               " ORDER BY patient_id, dispensed_on, id");
+               bounds + " ORDER BY patient_id, dispensed_on, id");
   if (!dispensings.ok()) return dispensings.status();
+  for (Statement* stmt : {&patients.value(), &dispensings.value()}) {
+    if (!state->range.from.empty()) stmt->BindText(1, state->range.from);
+    if (!state->range.to.empty()) stmt->BindText(2, state->range.to);
+  }
   state->patients = std::move(patients).value();
   state->dispensings = std::move(dispensings).value();
   state->patient_row = state->patients.Step();
   state->dispensing_row = state->dispensings.Step();
   return PatientCursor(std::move(state));
+}
+
+Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_range) const {
+  if (patients_per_range == 0) patients_per_range = 1;
+  // Every n-th id of the registry starts a range; the dispensings' ids (a walk of their
+  // index) when the registry is too small to share out.
+  std::vector<std::string> starts;
+  for (const char* sql : {"SELECT patient_id FROM patients ORDER BY patient_id",
+                          "SELECT DISTINCT patient_id FROM dispensings ORDER BY patient_id"}) {
+    Result<Statement> stmt = Statement::Prepare(db_, sql);
+    if (!stmt.ok()) return stmt.status();
+    starts.clear();
+    size_t seen = 0;
+    for (;;) {
+      Result<bool> row = stmt->Step();
+      if (!row.ok()) return row.status();
+      if (!*row) break;
+      if (seen > 0 && seen % patients_per_range == 0) starts.emplace_back(stmt->ColumnText(0));
+      ++seen;
+    }
+    if (seen >= 2 * patients_per_range) break;
+  }
+  std::vector<PatientIdRange> ranges(starts.size() + 1);
+  for (size_t i = 0; i < starts.size(); ++i) {
+    ranges[i].to = starts[i];
+    ranges[i + 1].from = starts[i];
+  }
+  return ranges;
 }
 
 Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {

@@ -3,10 +3,13 @@
 #include <doctest/doctest.h>
 
 #include <cstdio>
+#include <memory>
+#include <stdexcept>
 #include <sstream>
 #include <thread>
 
 #include "medload/store/importer.h"
+#include "store/temp_folder.h"
 
 namespace medload {
 namespace {
@@ -18,79 +21,144 @@ void Import(Store& store, InputKind kind, const std::string& csv) {
   REQUIRE(summary->rejected == 0);
 }
 
-// 700 invented patients (more than several hand-over batches), each with one to four
-// medicines; patient P0007 has an unmatched product.
-struct ManyPatients {
-  Store store = std::move(Store::Open(":memory:").value());
-  Analysis analysis = std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
-  static constexpr int kPatients = 700;
+std::string PatientId(int p) {
+  char id[8];
+  std::snprintf(id, sizeof id, "P%04d", p);
+  return id;
+}
 
-  ManyPatients() {
+// 700 invented patients (more than several ranges and hand-over batches), each with one
+// to four medicines; patient P0007 has an unmatched product. In memory (read by one
+// reader), or in a file with a registry row for every other patient and 100 registered
+// patients without dispensings (read by two readers on two connections).
+struct ManyPatients {
+  static constexpr int kPatients = 700;
+  std::unique_ptr<TempFolder> folder;
+  Store store;
+  Analysis analysis;
+
+  explicit ManyPatients(bool in_file = false)
+      : folder(in_file ? std::make_unique<TempFolder>() : nullptr),
+        store(std::move(Store::Open(in_file ? folder->File("pass.db") : ":memory:").value())),
+        analysis(std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, in_file ? &store : nullptr).value())) {
     const char* products[] = {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets", "Codeine 30mg tablets",
                               "Ramipril 5mg capsules"};
     std::string rows = "patient_id,dispensed_on,product,quantity,dosage\n";
     for (int p = 0; p < kPatients; ++p) {
-      char id[8];
-      std::snprintf(id, sizeof id, "P%04d", p);
-      for (int m = 0; m <= p % 4; ++m) rows += std::string(id) + ",2024-01-0" + std::to_string(m + 1) + "," + products[m] + ",56,1 bd\n";
+      const std::string id = PatientId(p);
+      for (int m = 0; m <= p % 4; ++m) {
+        rows += id + ",2024-0" + std::to_string(1 + p % 9) + "-0" + std::to_string(m + 1) + "," + products[m] + ",56,1 bd\n";
+      }
       if (p == 7) rows += "P0007,2024-01-02,Unheard-of tonic 5ml,100,5ml tds\n";
     }
     Import(store, InputKind::kDispensing, rows);
+    if (!in_file) return;
+    std::string registry = "patient_id,birth_date,sex,practice\n";
+    for (int p = 0; p < kPatients + 100; p += 2) registry += PatientId(p) + ",1940-01-01,F,A1\n";
+    for (int p = kPatients; p < kPatients + 100; ++p) registry += PatientId(p) + ",1950-01-01,M,A1\n";
+    Import(store, InputKind::kPatients, registry);
   }
 };
 
-TEST_SUITE("burden") {
-
-TEST_CASE("the two-thread pass visits every patient once, in store order, with the same timelines as one thread") {
-  ManyPatients population;
+// What a pass showed the visitor, patient by patient.
+struct Visited {
   std::vector<std::string> ids;
+  std::vector<size_t> dispensings;
   std::vector<size_t> medicines;
   std::vector<size_t> unmatched;
-  Status status = ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient& patient) {
-    ids.push_back(patient.history().patient_id);
-    medicines.push_back(patient.timeline().medicines.size());
-    unmatched.push_back(patient.timeline().unmatched.size());
-    return true;
-  });
-  REQUIRE(status.ok());
-  REQUIRE(ids.size() == static_cast<size_t>(ManyPatients::kPatients));
+};
 
-  size_t i = 0;
-  Status sequential = population.store.ForEachPatient([&](const PatientHistory& history) {
-    CHECK(ids[i] == history.patient_id);
-    const Timeline timeline = population.analysis.BuildTimeline(history.dispensings);
-    CHECK(medicines[i] == timeline.medicines.size());
-    CHECK(unmatched[i] == timeline.unmatched.size());
-    ++i;
+Visited Pass(ManyPatients& population, PassFacts* facts = nullptr) {
+  Visited seen;
+  Status status = ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient& patient) {
+    seen.ids.push_back(patient.history().patient_id);
+    seen.dispensings.push_back(patient.history().dispensings.size());
+    seen.medicines.push_back(patient.timeline().medicines.size());
+    seen.unmatched.push_back(patient.timeline().unmatched.size());
     return true;
-  });
-  REQUIRE(sequential.ok());
-  CHECK(i == ids.size());
-  CHECK(medicines[0] == 1);
-  CHECK(medicines[3] == 4);
-  CHECK(unmatched[7] == 1);
+  }, facts);
+  REQUIRE(status.ok());
+  return seen;
 }
 
-TEST_CASE("the visitor runs on one thread that is not the caller's") {
-  ManyPatients population;
-  const std::thread::id caller = std::this_thread::get_id();
-  std::vector<std::thread::id> seen;
-  REQUIRE(ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
-            if (seen.empty() || seen.back() != std::this_thread::get_id()) seen.push_back(std::this_thread::get_id());
-            return true;
-          }).ok());
-  REQUIRE(seen.size() == 1);
-  CHECK(seen[0] != caller);
+// The same, one patient at a time on this thread, as the store's own pass gives them.
+Visited Sequential(ManyPatients& population) {
+  Visited seen;
+  REQUIRE(population.store.ForEachPatient([&](const PatientHistory& history) {
+    const Timeline timeline = population.analysis.BuildTimeline(history.dispensings);
+    seen.ids.push_back(history.patient_id);
+    seen.dispensings.push_back(history.dispensings.size());
+    seen.medicines.push_back(timeline.medicines.size());
+    seen.unmatched.push_back(timeline.unmatched.size());
+    return true;
+  }).ok());
+  return seen;
+}
+
+}  // namespace
+
+TEST_SUITE("burden") {
+
+TEST_CASE("the pass visits every patient once, in store order, with the same timelines as one thread") {
+  for (const bool in_file : {false, true}) {
+    CAPTURE(in_file);
+    ManyPatients population(in_file);
+    PassFacts facts;
+    const Visited seen = Pass(population, &facts);
+    const Visited expected = Sequential(population);
+    REQUIRE(seen.ids.size() == static_cast<size_t>(ManyPatients::kPatients + (in_file ? 100 : 0)));
+    CHECK(seen.ids == expected.ids);
+    CHECK(seen.dispensings == expected.dispensings);
+    CHECK(seen.medicines == expected.medicines);
+    CHECK(seen.unmatched == expected.unmatched);
+    CHECK(seen.medicines[0] == 1);
+    CHECK(seen.medicines[3] == 4);
+    CHECK(seen.unmatched[7] == 1);
+    // Dispensing dates run up to September (patient numbers 8, 17, ... ; fourth medicine).
+    CHECK(facts.latest_dispensed == population.store.LatestDispensed().value());
+    CHECK(facts.latest_dispensed == Date::FromCivil(2024, 9, 4));
+  }
+}
+
+TEST_CASE("the visitor runs on the caller's thread") {
+  for (const bool in_file : {false, true}) {
+    ManyPatients population(in_file);
+    const std::thread::id caller = std::this_thread::get_id();
+    int elsewhere = 0;
+    REQUIRE(ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
+              if (std::this_thread::get_id() != caller) ++elsewhere;
+              return true;
+            }).ok());
+    CHECK(elsewhere == 0);
+  }
 }
 
 TEST_CASE("a visitor that returns false stops the pass, and the result is Ok") {
-  ManyPatients population;
-  int visited = 0;
-  Status status = ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
-    return ++visited < 300;
-  });
-  CHECK(status.ok());
-  CHECK(visited == 300);
+  for (const bool in_file : {false, true}) {
+    ManyPatients population(in_file);
+    int visited = 0;
+    Status status = ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
+      return ++visited < 300;
+    });
+    CHECK(status.ok());
+    CHECK(visited == 300);
+  }
+}
+
+TEST_CASE("a visitor that throws stops the readers, and the exception reaches the caller") {
+  for (const bool in_file : {false, true}) {
+    ManyPatients population(in_file);
+    int visited = 0;
+    CHECK_THROWS_WITH(ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
+                        if (++visited == 450) throw std::runtime_error("visitor failed");
+                        return true;
+                      }),
+                      "visitor failed");
+    CHECK(visited == 450);
+    // The store is usable afterwards: the pass's snapshot and peers are gone.
+    CHECK_FALSE(population.store.InSnapshot());
+    CHECK(Pass(population).ids.size() >= static_cast<size_t>(ManyPatients::kPatients));
+  }
 }
 
 TEST_CASE("a timeline is built only for a patient whose visitor asks for it") {
@@ -108,7 +176,36 @@ TEST_CASE("a timeline is built only for a patient whose visitor asks for it") {
   CHECK(built == ManyPatients::kPatients / 10);
 }
 
+TEST_CASE("resolutions made during the pass are saved in the store when it ends") {
+  ManyPatients population(true);
+  const std::string key = population.analysis.ResolutionKey();
+  CHECK_FALSE(population.store.CachedResolution("Codeine 30mg tablets", "", "", key)->has_value());
+  Pass(population);
+  CHECK(population.store.CachedResolution("Codeine 30mg tablets", "", "", key)->has_value());
+  CHECK(population.store.CachedResolution("Unheard-of tonic 5ml", "", "", key)->has_value());
+}
+
+TEST_CASE("a pass inside the caller's snapshot reads that snapshot and saves nothing until it ends") {
+  ManyPatients population(true);
+  const std::string key = population.analysis.ResolutionKey();
+  size_t visited = 0;
+  {
+    Result<StoreSnapshot> snapshot = population.store.BeginSnapshot();
+    REQUIRE(snapshot.ok());
+    REQUIRE(population.store.Summary().ok());  // the snapshot's view is fixed here
+    // Another connection imports a new patient meanwhile.
+    Result<Store> other = Store::Open(population.store.path());
+    REQUIRE(other.ok());
+    Import(*other, InputKind::kDispensing, "patient_id,dispensed_on,product,quantity\nP9999,2024-02-01,Ramipril 5mg capsules,28\n");
+    visited = Pass(population).ids.size();
+    CHECK_FALSE(population.store.CachedResolution("Codeine 30mg tablets", "", "", key)->has_value());
+  }
+  CHECK(visited == static_cast<size_t>(ManyPatients::kPatients + 100));
+  population.analysis.SaveResolutions();
+  CHECK(population.store.CachedResolution("Codeine 30mg tablets", "", "", key)->has_value());
+  CHECK(Pass(population).ids.size() == visited + 1);
+}
+
 }  // TEST_SUITE
 
-}  // namespace
 }  // namespace medload

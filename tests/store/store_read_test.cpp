@@ -160,6 +160,55 @@ TEST_CASE("a cursor reusing one history gives each patient exactly their own rec
   CHECK_FALSE(cursor->Next(history).value());
 }
 
+TEST_CASE("ranges share out the pass: their cursors together give every patient once, in order") {
+  Store store = Loaded();
+  using Seen = std::vector<std::pair<std::string, size_t>>;  // patient, dispensings
+  auto read = [&](const PatientIdRange& range, Seen& into) {
+    Result<PatientCursor> cursor = store.Patients(range);
+    REQUIRE(cursor.ok());
+    PatientHistory history;
+    for (;;) {
+      Result<bool> more = cursor->Next(history);
+      REQUIRE(more.ok());
+      if (!*more) break;
+      into.emplace_back(history.patient_id, history.dispensings.size());
+    }
+  };
+  Seen whole;
+  read(PatientIdRange{}, whole);
+  REQUIRE(whole == Seen{{"P1", 3}, {"P2", 1}, {"P3", 0}, {"P4", 1}});
+  // One registry patient per range: P1 | P2 | P3 and P4 (P4 has no registry row).
+  Result<std::vector<PatientIdRange>> by_registry = store.PatientRanges(1);
+  REQUIRE(by_registry.ok());
+  REQUIRE(by_registry->size() == 3);
+  CHECK(by_registry->front().from.empty());
+  CHECK(by_registry->back().to.empty());
+  // Two per range: three registry rows are too few to share out, so the dispensings'
+  // patients (P1, P2, P4) cut it: P1, P2, P3 | P4.
+  Result<std::vector<PatientIdRange>> by_dispensings = store.PatientRanges(2);
+  REQUIRE(by_dispensings.ok());
+  REQUIRE(by_dispensings->size() == 2);
+  CHECK((*by_dispensings)[1].from == "P4");
+  for (const auto* ranges : {&*by_registry, &*by_dispensings}) {
+    Seen joined;
+    for (const PatientIdRange& range : *ranges) read(range, joined);
+    CHECK(joined == whole);
+  }
+  Seen middle;
+  read(PatientIdRange{"P2", "P4"}, middle);
+  CHECK(middle == Seen{{"P2", 1}, {"P3", 0}});
+}
+
+TEST_CASE("an empty store is one range with nothing in it") {
+  Result<Store> store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  Result<std::vector<PatientIdRange>> ranges = store->PatientRanges(128);
+  REQUIRE(ranges.ok());
+  REQUIRE(ranges->size() == 1);
+  PatientHistory history;
+  CHECK_FALSE(store->Patients((*ranges)[0])->Next(history).value());
+}
+
 TEST_CASE("the pass over every patient reads the index in order without sorting") {
   Store store = Loaded();
   sqlite3_stmt* stmt = nullptr;

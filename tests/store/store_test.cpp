@@ -214,6 +214,77 @@ TEST_CASE("reads inside a snapshot do not see what another connection commits me
   CHECK(store->CachedResolution("X", "", "", "sum")->has_value());
 }
 
+TEST_CASE("a store of schema version 1 migrates to 2 and keeps its dispensings") {
+  TempFolder folder;
+  const std::string path = folder.File("v1.db");
+  // The version 1 dispensings table, as a store written by that schema holds it.
+  ExecRaw(path,
+          "CREATE TABLE import_runs (id INTEGER PRIMARY KEY, kind TEXT NOT NULL, file TEXT NOT NULL,"
+          " started TEXT NOT NULL, finished TEXT, outcome TEXT NOT NULL DEFAULT 'running',"
+          " read INTEGER NOT NULL DEFAULT 0, imported INTEGER NOT NULL DEFAULT 0,"
+          " duplicates INTEGER NOT NULL DEFAULT 0, rejected INTEGER NOT NULL DEFAULT 0,"
+          " not_counted INTEGER NOT NULL DEFAULT 0);"
+          "CREATE TABLE dispensings (id INTEGER PRIMARY KEY, dedup_key TEXT NOT NULL UNIQUE,"
+          " record_id TEXT NOT NULL DEFAULT '', patient_id TEXT NOT NULL,"
+          " practice TEXT NOT NULL DEFAULT '', dispensed_on TEXT NOT NULL,"
+          " product TEXT NOT NULL DEFAULT '', code TEXT NOT NULL DEFAULT '',"
+          " code_system TEXT NOT NULL DEFAULT '', quantity REAL NOT NULL,"
+          " unit TEXT NOT NULL DEFAULT '', days_supply INTEGER, dosage TEXT NOT NULL DEFAULT '',"
+          " structured_units_per_day REAL, structured_as_needed INTEGER NOT NULL DEFAULT 0,"
+          " status TEXT NOT NULL DEFAULT '', source_file TEXT NOT NULL,"
+          " source_line INTEGER NOT NULL, run_id INTEGER NOT NULL REFERENCES import_runs(id));"
+          "CREATE INDEX dispensings_by_patient ON dispensings(patient_id, dispensed_on);"
+          "INSERT INTO import_runs (kind, file, started, outcome) VALUES"
+          " ('dispensing', 'old.csv', '2024-01-01T00:00:00Z', 'committed');"
+          "INSERT INTO dispensings (dedup_key, record_id, patient_id, dispensed_on, product,"
+          " quantity, source_file, source_line, run_id) VALUES"
+          " ('r:d1', 'd1', 'P1', '2024-01-05', 'Amlodipine 5mg tablets', 28, 'old.csv', 2, 1);"
+          "PRAGMA user_version=1;");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+    CHECK(store->SchemaVersion().value() == 2);
+    Result<std::vector<DispensingRecord>> kept = store->DispensingsOf("P1");
+    REQUIRE(kept.ok());
+    REQUIRE(kept->size() == 1);
+    CHECK((*kept)[0].product == "Amlodipine 5mg tablets");
+  }
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('dispensings') WHERE name = 'source_file'") == "0");
+  CHECK(QueryText(path, "SELECT i.file || ':' || d.source_line FROM dispensings d JOIN import_runs i"
+                        " ON i.id = d.run_id") == "old.csv:2");
+}
+
+TEST_CASE("a peer connection reads the same snapshot, and is refused when it could not") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  ExecRaw(path, "INSERT INTO import_runs (kind, file, started) VALUES ('practices', 'a.csv', 'now');"
+                "INSERT INTO practices (practice) VALUES ('XA1')");
+  CHECK_FALSE(store->OpenPeer().ok());  // no snapshot open
+  {
+    Result<StoreSnapshot> snapshot = store->BeginSnapshot();
+    REQUIRE(snapshot.ok());
+    CHECK(store->InSnapshot());
+    Result<Store> peer = store->OpenPeer();
+    REQUIRE(peer.ok());
+    CHECK(peer->InSnapshot());
+    // A practice committed now is seen by neither.
+    ExecRaw(path, "INSERT INTO import_runs (kind, file, started) VALUES ('practices', 'b.csv', 'now');"
+                  "INSERT INTO practices (practice) VALUES ('XB2')");
+    CHECK(store->Practices()->size() == 1);
+    CHECK(peer->Practices()->size() == 1);
+    // A peer opened after that commit would see it: refused.
+    CHECK_FALSE(store->OpenPeer().ok());
+  }
+  CHECK_FALSE(store->InSnapshot());
+  Result<Store> memory = Store::Open(":memory:");
+  REQUIRE(memory.ok());
+  Result<StoreSnapshot> snapshot = memory->BeginSnapshot();
+  REQUIRE(snapshot.ok());
+  CHECK_FALSE(memory->OpenPeer().ok());  // nothing for another connection to open
+}
+
 TEST_CASE("a moved store keeps working and the moved-from one is empty") {
   Result<Store> opened = Store::Open(":memory:");
   REQUIRE(opened.ok());

@@ -9,6 +9,7 @@
 #include <span>
 #include <string>
 #include <unordered_map>
+#include <vector>
 
 #include "medload/burden/burden.h"
 #include "medload/burden/measure_options.h"
@@ -40,6 +41,10 @@ class Analysis {
   // The key saved resolutions are kept under: the formulary checksum and this medload's
   // version, so that a changed table or an upgraded resolver resolves again.
   std::string ResolutionKey() const;
+  // Saves in the store the resolutions made while it was inside a snapshot (which cannot
+  // be written); does nothing while it still is. Best effort, like every save of the
+  // cache: a store that cannot be written only loses the cache.
+  void SaveResolutions();
   Timeline BuildTimeline(std::span<const DispensingRecord> records);
   // The same, with each record's product already resolved (products[i] for records[i]):
   // touches neither the resolutions nor the store, so another thread may Resolve meanwhile.
@@ -62,6 +67,11 @@ class Analysis {
   std::unordered_map<std::string, ResolvedProduct> resolved_;
   std::string key_scratch_;  // Resolve's lookup key, reused to save an allocation per call
   DosageTextCache dosages_;  // each distinct dosage text read once per run
+  struct Unsaved {
+    std::string product, code, code_system;
+    const ResolvedProduct* resolution;
+  };
+  std::vector<Unsaved> unsaved_;  // resolved inside a snapshot: saved by SaveResolutions
   BurdenTables tables_;
   MeasureOptions options_;
   Store* store_ = nullptr;

@@ -1,6 +1,7 @@
-// The one ordered pass over every patient that review, cohort and report make. The calling
-// thread reads the store and resolves products; a second thread builds timelines and runs
-// the visitor, so reading and computing share the machine's two cores. Order is kept.
+// The one ordered pass over every patient that review, cohort and report make. Reader
+// threads (two, each on its own connection to one snapshot, taking every other range of
+// patients) read the store and resolve products; the calling thread builds timelines and
+// runs the visitor, in patient order, so reading and computing share the machine's cores.
 #pragma once
 
 #include <functional>
@@ -36,14 +37,25 @@ class PassPatient {
   std::optional<std::vector<bool>> matches_;  // MatchRuleRequirements of the timeline
 };
 
+// What the pass saw besides what it showed the visitor.
+struct PassFacts {
+  // The latest counting dispensing among the patients read (every patient, unless the
+  // visitor stopped the pass early): Store::LatestDispensed without a walk of the table.
+  std::optional<Date> latest_dispensed;
+};
+
 // Returns false to stop the pass early.
 using PassVisit = std::function<bool(PassPatient&)>;
 
-// Calls `visit` for every patient of Store::ForEachPatient, in the same order, all on one
-// thread (not the caller's), so `visit` may update state of its own without locks; that
-// state is safe to read again when this returns. `analysis` must not be used by anyone
-// else during the pass. Memory holds a bounded number of patients. Returns the store's
-// error, if any; stopping early is Ok.
-Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit);
+// Calls `visit` for every patient of Store::ForEachPatient, in the same order, all on the
+// calling thread, so `visit` may update state of its own without locks. `analysis` must
+// not be used by anyone else during the pass. The pass reads one snapshot: the caller's
+// if one is open on `store`, else its own; resolutions made inside it are saved in the
+// store afterwards (Analysis::SaveResolutions) when no snapshot of the caller's is open.
+// Memory holds a bounded number of patients. Returns the store's error, if any; stopping
+// early is Ok. A store in memory, or one an import has just committed to, is read on
+// its own connection by one reader thread. `facts` (may be null) is filled on success.
+Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit,
+                              PassFacts* facts = nullptr);
 
 }  // namespace medload

@@ -50,6 +50,9 @@ struct CohortTally {
   std::set<uint32_t> shards;          // which of the N shards it covers
   long patients = 0;                  // patients in these shards, registered or not
   std::map<std::string, std::vector<CohortCell>> groups;  // group -> one cell per date
+  // The latest counting dispensing in the store RunCohort read (every patient, whatever
+  // the shard), for the census-date warning. Not saved with the tally nor merged.
+  std::optional<Date> latest_dispensed;
 
   // True when every one of the N shards is covered.
   bool complete() const { return shards.size() == shard_count; }

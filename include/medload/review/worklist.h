@@ -55,6 +55,9 @@ struct Worklist {
   long excluded_age_unknown = 0;
   long excluded_age_unknown_meeting = 0;
   bool has_previous_run = false;          // "new" flags compare with an earlier run
+  // The latest counting dispensing in the store (BuildWorklist's pass reads every patient),
+  // for CensusBeyondDataNote; none when the store holds no dispensing.
+  std::optional<Date> latest_dispensed;
   // Warnings about the whole list, set by the caller (e.g. a census date after the latest
   // dispensing loaded, CensusBeyondDataNote); every writer prints them.
   std::vector<std::string> notes;

@@ -20,7 +20,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 1;
+inline constexpr int kStoreSchemaVersion = 2;
 
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
@@ -70,6 +70,13 @@ struct ImportRunRecord {
   long imported = 0;
   long duplicates = 0;
   long rejected = 0;
+};
+
+// A half-open range [from, to) of patient ids in bytewise order; an empty bound is open
+// (from "" starts at the first patient, to "" runs to the last).
+struct PatientIdRange {
+  std::string from;
+  std::string to;
 };
 
 // A read snapshot (see Store::BeginSnapshot). Ends on destruction. Move-only.
@@ -142,6 +149,13 @@ class Store {
   Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
   // The same pass as a cursor (see PatientCursor). Fails with Input on a storage error.
   Result<PatientCursor> Patients() const;
+  // The same pass over the patients of one range only.
+  Result<PatientCursor> Patients(const PatientIdRange& range) const;
+  // Consecutive ranges that together hold every patient id once, in order, each with
+  // about `patients_per_range` patients of the registry (of the dispensings when the
+  // registry has fewer than two ranges' worth), so that the pass can be shared out by
+  // range. At least one range.
+  Result<std::vector<PatientIdRange>> PatientRanges(size_t patients_per_range) const;
 
   // All practices, by practice code.
   Result<std::vector<PracticeRecord>> Practices() const;
@@ -167,6 +181,15 @@ class Store {
   // is best effort; a write would hold the store's write lock to the snapshot's end).
   // Fails with Input when a transaction is already open on this connection.
   Result<StoreSnapshot> BeginSnapshot() const;
+  // True while a snapshot (or any transaction) is open on this connection.
+  bool InSnapshot() const;
+  // Another connection to this store's file, inside a snapshot that shows exactly the
+  // data this connection's open snapshot shows (checked by the last import run, which
+  // every import adds in its own transaction), for reading on another thread. Its
+  // snapshot ends when it is destroyed. Fails with Input when this connection has no
+  // snapshot, the store lives in memory, or an import committed between the two
+  // snapshots; the caller then reads on this connection alone.
+  Result<Store> OpenPeer() const;
 
   // The resolution saved for this product under this formulary checksum, or nullopt.
   // `resolution` is opaque JSON text owned by the formulary module.
