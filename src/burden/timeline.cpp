@@ -56,6 +56,27 @@ std::string KeyOf(const std::vector<ResolvedIngredient>& group) {
   return key;
 }
 
+// A product's groups with their medicine keys, worked out once per product per timeline
+// (a patient's history repeats a few products many times).
+struct ProductGroups {
+  const ResolvedProduct* product = nullptr;
+  std::vector<std::pair<std::string, std::vector<ResolvedIngredient>>> groups;  // key, ingredients
+};
+
+const ProductGroups& GroupsOf(std::vector<ProductGroups>& seen, const ResolvedProduct& product,
+                              CountBy count_by) {
+  for (const ProductGroups& entry : seen) {
+    if (entry.product == &product) return entry;
+  }
+  ProductGroups& entry = seen.emplace_back();
+  entry.product = &product;
+  for (auto& group : Groups(product, count_by)) {
+    std::string key = KeyOf(group);
+    entry.groups.emplace_back(std::move(key), std::move(group));
+  }
+  return entry;
+}
+
 void FinishMedicine(Medicine& medicine, const MeasureOptions& options) {
   std::stable_sort(medicine.uses.begin(), medicine.uses.end(), [](const auto& a, const auto& b) {
     return a.dispensed_on != b.dispensed_on ? a.dispensed_on < b.dispensed_on : a.record < b.record;
@@ -75,6 +96,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
   Timeline timeline;
   std::map<std::string, Medicine> medicines;
   std::map<std::string, UnmatchedProduct> unmatched;
+  std::vector<ProductGroups> product_groups;
   for (size_t i = 0; i < records.size(); ++i) {
     const DispensingRecord& record = records[i];
     if (!Counts(record)) {
@@ -100,15 +122,18 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,
                                         ProductDefaultSupplyDays(product, record.quantity), options.supply,
                                         quantity_unit);
-    for (auto& group : Groups(product, options.count_by)) {
-      const std::string key = KeyOf(group);
+    const auto& groups = GroupsOf(product_groups, product, options.count_by).groups;
+    for (size_t g = 0; g < groups.size(); ++g) {
+      const auto& [key, ingredients] = groups[g];
       Medicine& medicine = medicines[key];
       if (medicine.key.empty()) {
         medicine.key = key;
-        for (const auto& ingredient : group) medicine.ingredients.push_back(ingredient.ingredient);
+        for (const auto& ingredient : ingredients) medicine.ingredients.push_back(ingredient.ingredient);
       }
-      medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply, dosage,
-                                            product.route, record.product, std::move(group)});
+      // The reading is moved into the last group's use (most products have one group).
+      medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply,
+                                            g + 1 == groups.size() ? std::move(dosage) : dosage,
+                                            product.route, record.product, ingredients});
     }
   }
   for (auto& [key, medicine] : medicines) {

@@ -290,7 +290,7 @@ Result<Store> Store::OpenPeer() const {
   // (256 and 64): mapped file pages count in the process's resident size once per
   // connection that touches them, and two peers read one file, so that two peers and the
   // store's own connection together stay under 512 MB however large the store grows.
-  if (Status status = ExecSql(peer->db_, "PRAGMA mmap_size=167772160; PRAGMA cache_size=-16384;");
+  if (Status status = ExecSql(peer->db_, "PRAGMA mmap_size=184549376; PRAGMA cache_size=-8192;");
       !status.ok()) {
     return status;
   }

@@ -53,7 +53,8 @@ struct Timeline {
   int not_dispensed_items = 0;             // records whose status does not count
 };
 
-// Resolves one record's product; the reference must stay valid while BuildTimeline runs.
+// Resolves one record's product; the reference must stay valid, and unchanged, while
+// BuildTimeline runs (it works out each product's groups once, by address).
 using ResolveFn = std::function<const ResolvedProduct&(const DispensingRecord&)>;
 
 // Builds the timeline of one patient from all of their dispensing records (any order).
