@@ -153,6 +153,7 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
     if (!snapshot.ok()) return snapshot.status();
     model = BuildReportModel(store, analysis, config, pseudonymise, options.progress);
   }
+  analysis.SaveResolutions();  // those made inside the snapshot, for the next run
   if (!model.ok()) return model.status();
   auto outcome = WriteReport(*model, options.out_dir, options.generated_at);
   if (!outcome.ok()) return outcome.status();
