@@ -102,10 +102,12 @@ import_db="$(q "$run/import.db")"
 store_db="$(q "$run/store.db")"
 criteria="--at-least items=10 --at-least acb=3"
 
-prepare_sqlite="rm -f $sqlite_db*"
+# Every prepare step ends with `sync`, so that no command is timed while the kernel is
+# still writing out the files of the one before (a 1M-row import leaves ~400 MB to write).
+prepare_sqlite="rm -f $sqlite_db* && sync"
 prepare_import="rm -f $import_db* &&
   $ml --db $import_db import practices $(q "$data/practices.csv") >/dev/null &&
-  $ml --db $import_db import patients $(q "$data/patients.csv") >/dev/null"
+  $ml --db $import_db import patients $(q "$data/patients.csv") >/dev/null && sync"
 cmd_sqlite="sqlite3 $sqlite_db -cmd '.import --csv $(q "$csv") t' .quit"
 cmd_import="$ml --db $import_db import dispensing $(q "$csv")"
 cmd_cohort="$ml --db $store_db cohort --from $d1 --to $d2 $criteria"
@@ -126,7 +128,7 @@ fi
 names=("sqlite3 .import (reference)" "medload import dispensing" "medload cohort (12 month-ends)"
        "medload review (one date)")
 commands=("$cmd_sqlite" "$cmd_import" "$cmd_cohort" "$cmd_review")
-prepares=("$prepare_sqlite" "$prepare_import" "true" "true")
+prepares=("$prepare_sqlite" "$prepare_import" "sync" "sync")
 
 json="$run/hyperfine.json"
 hyperfine_args=(--runs "$runs" --export-json "$json" --style basic)
