@@ -42,6 +42,27 @@ TEST_CASE("control characters in a record are found as bytes, and in JSON also a
   }
 }
 
+TEST_CASE("every byte value is judged the same inside long text as on its own, at any position") {
+  // The check's quick pass over plain text must never hide a fault: each of the 256 byte
+  // values, alone and inside 40 bytes of plain text at each position, in CSV and JSON.
+  for (const bool json : {false, true}) {
+    for (int value = 0; value < 256; ++value) {
+      const char byte = static_cast<char>(value);
+      const bool control = (value < 0x20 && value != '\t' && value != '\n' && value != '\r') || value == 0x7F;
+      CAPTURE(json);
+      CAPTURE(value);
+      CHECK(ControlCharacterFault("d.csv", 1, std::string(1, byte), json).has_value() == control);
+      for (size_t at = 0; at < 40; at += 7) {
+        std::string text(40, 'a');
+        text[at] = byte;
+        const std::optional<RowFault> fault = ControlCharacterFault("d.csv", 1, text, json);
+        REQUIRE(fault.has_value() == control);
+        if (fault) CHECK(fault->message.find("(at byte " + std::to_string(at + 1) + ")") != std::string::npos);
+      }
+    }
+  }
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload
