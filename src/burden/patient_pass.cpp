@@ -198,6 +198,16 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
     }
     if (peers.size() < kMaxReaders) peers.clear();
   }
+  // With peers reading, the store's own connection serves only the resolutions: its map
+  // is released, so that pages it mapped before the pass (a report's summary walks the
+  // whole table) do not count again beside the peers' maps. Best effort.
+  struct MapRelease {
+    const Store* store = nullptr;
+    ~MapRelease() {
+      if (store != nullptr) static_cast<void>(store->UseMemoryMap(true));
+    }
+  } map_release;
+  if (!peers.empty() && store.UseMemoryMap(false).ok()) map_release.store = &store;
   const size_t readers_used = peers.empty() ? 1 : peers.size();
   std::vector<Reader> readers(readers_used);
   std::mutex resolution_lock;

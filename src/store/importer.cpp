@@ -96,12 +96,14 @@ class Session {
   ~Session() {
     transaction_.reset();  // ends the transaction (rolling back unless committed) first
     (void)SetMemoryMap(db_, true);
+    (void)SetPageCache(db_, false);
   }
   Session(const Session&) = delete;
   Session& operator=(const Session&) = delete;
 
   Status Begin() {
     if (Status status = SetMemoryMap(db_, false); !status.ok()) return status;
+    if (Status status = SetPageCache(db_, true); !status.ok()) return status;
     Result<Transaction> transaction = Transaction::Begin(db_);
     if (!transaction.ok()) return transaction.status();
     transaction_.emplace(std::move(transaction.value()));

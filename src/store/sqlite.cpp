@@ -51,6 +51,10 @@ Status SetMemoryMap(sqlite3* db, bool on) {
   return ExecSql(db, on ? "PRAGMA mmap_size=268435456" : "PRAGMA mmap_size=0");
 }
 
+Status SetPageCache(sqlite3* db, bool importing) {
+  return ExecSql(db, importing ? "PRAGMA cache_size=-65536" : "PRAGMA cache_size=-16384");
+}
+
 int ChangedRows(sqlite3* db) { return sqlite3_changes(db); }
 
 int64_t LastInsertId(sqlite3* db) { return sqlite3_last_insert_rowid(db); }

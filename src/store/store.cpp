@@ -176,16 +176,16 @@ Status Store::Configure(const StoreOptions& options) {
   // The page size applies only when the file is new (before WAL is set): 16 KiB pages
   // make bulk imports cheaper (fewer pages and writes). WAL lets readers run beside one
   // writer and survives a killed writer; synchronous=NORMAL is durable across process
-  // crashes in WAL mode (only power loss may lose the last commit). The larger page cache
-  // matters for the dispensings indexes during imports; temporary sort data stays in files
-  // so that memory does not grow with the store.
+  // crashes in WAL mode (only power loss may lose the last commit). The page cache is the
+  // reading one (SetPageCache); temporary sort data stays in files so that memory does
+  // not grow with the store.
   const char* pragmas =
       "PRAGMA page_size=16384; PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL;"
-      " PRAGMA foreign_keys=ON;"
-      " PRAGMA cache_size=-65536;";
+      " PRAGMA foreign_keys=ON;";
   if (Status status = ExecSql(db_, pragmas); !status.ok()) {
     return Status::Input("cannot use the store \"" + path_ + "\": " + status.message());
   }
+  if (Status status = SetPageCache(db_, false); !status.ok()) return status;
   return SetMemoryMap(db_, true);
 }
 
@@ -260,6 +260,8 @@ Result<StoreSnapshot> Store::BeginSnapshot() const {
 
 bool Store::InSnapshot() const { return sqlite3_get_autocommit(db_) == 0; }
 
+Status Store::UseMemoryMap(bool on) const { return SetMemoryMap(db_, on); }
+
 namespace {
 
 // The newest import run as this connection sees it: every import, committed or rolled
@@ -286,10 +288,10 @@ Result<Store> Store::OpenPeer() const {
   options.must_exist = true;
   Result<Store> peer = Store::Open(path_, options);
   if (!peer.ok()) return peer.status();
-  // A smaller memory map (160 MiB) and page cache (16 MiB) than a store's own connection
-  // (256 and 64): mapped file pages count in the process's resident size once per
-  // connection that touches them, and two peers read one file, so that two peers and the
-  // store's own connection together stay under 512 MB however large the store grows.
+  // A smaller memory map (176 MiB) and page cache (8 MiB) than a store's own connection
+  // (256 and 16): mapped file pages count in the process's resident size once per
+  // connection that maps them, and two peers read one file, so that the two peers and the
+  // store's own connection stay under 512 MB together however large the store grows.
   if (Status status = ExecSql(peer->db_, "PRAGMA mmap_size=184549376; PRAGMA cache_size=-8192;");
       !status.ok()) {
     return status;

@@ -91,6 +91,22 @@ TEST_CASE("every row read is imported, a duplicate or rejected, and the counts a
   CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'R6'") == 9);
 }
 
+TEST_CASE("an import reads and writes with the large page cache and no map, then gives both back") {
+  TempFolder folder;
+  Result<Store> opened = Store::Open(folder.File("medload.db"));
+  REQUIRE(opened.ok());
+  Store& store = *opened;
+  CHECK(Count(store, "PRAGMA cache_size") == -16384);
+  CHECK(Count(store, "PRAGMA mmap_size") == 268435456);
+  REQUIRE(Import(store, InputKind::kDispensing, DispensingFile(1, 5)).ok());
+  CHECK(Count(store, "PRAGMA cache_size") == -16384);
+  CHECK(Count(store, "PRAGMA mmap_size") == 268435456);
+  REQUIRE(store.UseMemoryMap(false).ok());
+  CHECK(Count(store, "PRAGMA mmap_size") == 0);
+  REQUIRE(store.UseMemoryMap(true).ok());
+  CHECK(Count(store, "PRAGMA mmap_size") == 268435456);
+}
+
 TEST_CASE("importing the same file twice imports nothing new") {
   Store store = Memory();
   ImportOptions options;

@@ -183,6 +183,11 @@ class Store {
   Result<StoreSnapshot> BeginSnapshot() const;
   // True while a snapshot (or any transaction) is open on this connection.
   bool InSnapshot() const;
+  // Stops (false) or resumes (true) reading this connection through its memory map.
+  // Stopping releases the file pages it had mapped from the process's resident size,
+  // unless a statement still holds one (then nothing changes); while peers read (their
+  // own maps), this connection's earlier reads then stop counting twice.
+  Status UseMemoryMap(bool on) const;
   // Another connection to this store's file, inside a snapshot that shows exactly the
   // data this connection's open snapshot shows (checked by the last import run, which
   // every import adds in its own transaction), for reading on another thread. Its
