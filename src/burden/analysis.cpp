@@ -27,9 +27,13 @@ Result<Analysis> Analysis::Open(const std::string& formulary_dir, const MeasureO
   return analysis;
 }
 
+void ProductKeyOf(const DispensingRecord& record, std::string& into) {
+  into.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
+}
+
 const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
   std::string& key = key_scratch_;
-  key.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
+  ProductKeyOf(record, key);
   if (auto it = resolved_.find(key); it != resolved_.end()) return it->second;
   const std::string checksum = ResolutionKey();
   if (store_ != nullptr) {
@@ -41,15 +45,11 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
     }
   }
   ResolvedProduct product = medload::Resolve(*formulary_, record.product, record.code, record.code_system);
-  const bool later = store_ != nullptr && store_->InSnapshot();
-  if (store_ != nullptr && !later) {
-    // Best effort: a store that cannot be written (read-only file) only loses the cache.
-    const Status saved = store_->SaveResolution(record.product, record.code, record.code_system, checksum,
-                                                SerialiseResolution(product));
-    static_cast<void>(saved);
-  }
   const ResolvedProduct& resolved = resolved_.emplace(key, std::move(product)).first->second;
-  if (later) unsaved_.push_back({record.product, record.code, record.code_system, &resolved});
+  if (store_ != nullptr) {
+    unsaved_.push_back({record.product, record.code, record.code_system, &resolved});
+    SaveResolutions();  // now, unless a snapshot is open
+  }
   return resolved;
 }
 
@@ -57,6 +57,7 @@ void Analysis::SaveResolutions() {
   if (store_ == nullptr || store_->InSnapshot()) return;
   const std::string checksum = ResolutionKey();
   for (const Unsaved& entry : unsaved_) {
+    // Best effort: a store that cannot be written (read-only file) only loses the cache.
     const Status saved = store_->SaveResolution(entry.product, entry.code, entry.code_system, checksum,
                                                 SerialiseResolution(*entry.resolution));
     static_cast<void>(saved);

@@ -85,7 +85,7 @@ class ReaderResolutions {
   ReaderResolutions(Analysis& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
 
   const ResolvedProduct* Resolve(const DispensingRecord& record) {
-    key_.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
+    ProductKeyOf(record, key_);
     if (auto it = seen_.find(key_); it != seen_.end()) return it->second;
     const ResolvedProduct* product = nullptr;
     {

@@ -71,11 +71,15 @@ class Analysis {
     std::string product, code, code_system;
     const ResolvedProduct* resolution;
   };
-  std::vector<Unsaved> unsaved_;  // resolved inside a snapshot: saved by SaveResolutions
+  std::vector<Unsaved> unsaved_;  // resolved, not yet saved (a snapshot was open)
   BurdenTables tables_;
   MeasureOptions options_;
   Store* store_ = nullptr;
 };
+
+// The key a record's product is resolved under within a run: product, code and code
+// system (Analysis::Resolve's cache, and the pass's per-reader maps in front of it).
+void ProductKeyOf(const DispensingRecord& record, std::string& into);
 
 // Age in completed years on `on` from a registry row, if its birth date is known.
 std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on);
