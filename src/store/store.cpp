@@ -6,6 +6,8 @@
 #include <sys/stat.h>
 
 #include <array>
+#include <chrono>
+#include <thread>
 #include <utility>
 
 #include "medload/io/private_file.h"
@@ -182,10 +184,22 @@ Status Store::Configure(const StoreOptions& options) {
   const char* pragmas =
       "PRAGMA page_size=16384; PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL;"
       " PRAGMA foreign_keys=ON;";
-  if (Status status = ExecSql(db_, pragmas); !status.ok()) {
+  // Switching a new file to WAL needs its exclusive lock, and SQLite does not call the busy
+  // handler for it (a connection holding a read lock could deadlock waiting): when several
+  // processes open a new store at once, the losers are told "database is locked" at once.
+  // They wait here instead, within the same busy timeout.
+  Status status = ExecSql(db_, pragmas);
+  const auto give_up = std::chrono::steady_clock::now() +
+                       std::chrono::milliseconds(options.busy_timeout_ms);
+  while (!status.ok() && sqlite3_errcode(db_) == SQLITE_BUSY &&
+         std::chrono::steady_clock::now() < give_up) {
+    std::this_thread::sleep_for(std::chrono::milliseconds(2));
+    status = ExecSql(db_, pragmas);
+  }
+  if (!status.ok()) {
     return Status::Input("cannot use the store \"" + path_ + "\": " + status.message());
   }
-  if (Status status = SetPageCache(db_, false); !status.ok()) return status;
+  if (Status cache = SetPageCache(db_, false); !cache.ok()) return cache;
   return SetMemoryMap(db_, true);
 }
 

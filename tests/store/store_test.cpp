@@ -133,13 +133,16 @@ TEST_CASE("must_exist refuses a missing store without creating it") {
 TEST_CASE("two processes' worth of connections can open a new store at the same time") {
   TempFolder folder;
   const std::string path = folder.File("medload.db");
-  bool ok[4] = {};
+  std::string faults[4];
   std::vector<std::thread> threads;
-  for (bool& result : ok) {
-    threads.emplace_back([&path, &result] { result = Store::Open(path).ok(); });
+  for (std::string& fault : faults) {
+    threads.emplace_back([&path, &fault] {
+      Result<Store> store = Store::Open(path);
+      fault = store.ok() ? "" : store.status().message();
+    });
   }
   for (std::thread& thread : threads) thread.join();
-  for (bool result : ok) CHECK(result);
+  for (const std::string& fault : faults) CHECK(fault == "");
   CHECK(QueryText(path, "PRAGMA user_version") == std::to_string(kStoreSchemaVersion));
 }
 
