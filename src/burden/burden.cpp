@@ -82,9 +82,10 @@ std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
 }
 
 std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::string& ingredient) {
-  const auto it = std::find_if(use.ingredients.begin(), use.ingredients.end(),
+  if (!use.ingredients) return std::nullopt;
+  const auto it = std::find_if(use.ingredients->begin(), use.ingredients->end(),
                                [&](const auto& i) { return i.ingredient == ingredient; });
-  if (it == use.ingredients.end()) return std::nullopt;
+  if (it == use.ingredients->end()) return std::nullopt;
   DbiContribution dose;
   dose.ingredient = ingredient;
   if (it->mg_per_day) {

@@ -180,6 +180,8 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
   // Two connections need one snapshot to agree on: the caller's, or one for the pass.
   std::optional<StoreSnapshot> own_snapshot;
   if (!store.InSnapshot()) {
+    // The first pass after an import packs each history once (best effort).
+    if (Status packed = store.RefreshPackedHistories(); !packed.ok()) return packed;
     Result<StoreSnapshot> snapshot = store.BeginSnapshot();
     if (!snapshot.ok()) return snapshot.status();
     own_snapshot.emplace(std::move(snapshot).value());

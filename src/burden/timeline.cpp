@@ -60,7 +60,8 @@ std::string KeyOf(const std::vector<ResolvedIngredient>& group) {
 // (a patient's history repeats a few products many times).
 struct ProductGroups {
   const ResolvedProduct* product = nullptr;
-  std::vector<std::pair<std::string, std::vector<ResolvedIngredient>>> groups;  // key, ingredients
+  // key, ingredients
+  std::vector<std::pair<std::string, std::shared_ptr<const std::vector<ResolvedIngredient>>>> groups;
 };
 
 const ProductGroups& GroupsOf(std::vector<ProductGroups>& seen, const ResolvedProduct& product,
@@ -72,7 +73,8 @@ const ProductGroups& GroupsOf(std::vector<ProductGroups>& seen, const ResolvedPr
   entry.product = &product;
   for (auto& group : Groups(product, count_by)) {
     std::string key = KeyOf(group);
-    entry.groups.emplace_back(std::move(key), std::move(group));
+    entry.groups.emplace_back(std::move(key),
+                              std::make_shared<const std::vector<ResolvedIngredient>>(std::move(group)));
   }
   return entry;
 }
@@ -128,7 +130,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       Medicine& medicine = medicines[key];
       if (medicine.key.empty()) {
         medicine.key = key;
-        for (const auto& ingredient : ingredients) medicine.ingredients.push_back(ingredient.ingredient);
+        for (const auto& ingredient : *ingredients) medicine.ingredients.push_back(ingredient.ingredient);
       }
       // The reading is moved into the last group's use (most products have one group).
       medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply,

@@ -148,6 +148,7 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
   // One snapshot for every read of the model: imports committing meanwhile cannot make
   // run.json's data counts disagree with the pass over the patients.
   Result<ReportModel> model = Status::Input("store: no snapshot");
+  if (Status packed = store.RefreshPackedHistories(); !packed.ok()) return packed;
   {
     auto snapshot = store.BeginSnapshot();
     if (!snapshot.ok()) return snapshot.status();

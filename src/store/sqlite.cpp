@@ -87,6 +87,10 @@ void Statement::BindText(int index, std::string_view text) {
   sqlite3_bind_text(stmt_, index, text.data(), static_cast<int>(text.size()), SQLITE_STATIC);
 }
 
+void Statement::BindBlob(int index, std::string_view bytes) {
+  sqlite3_bind_blob(stmt_, index, bytes.data(), static_cast<int>(bytes.size()), SQLITE_STATIC);
+}
+
 void Statement::BindInt(int index, int64_t value) { sqlite3_bind_int64(stmt_, index, value); }
 
 void Statement::BindDouble(int index, double value) { sqlite3_bind_double(stmt_, index, value); }
@@ -127,6 +131,12 @@ std::string_view Statement::ColumnText(int index) const {
   return {text, static_cast<size_t>(sqlite3_column_bytes(stmt_, index))};
 }
 
+std::string_view Statement::ColumnBlob(int index) const {
+  const auto* bytes = static_cast<const char*>(sqlite3_column_blob(stmt_, index));
+  if (bytes == nullptr) return {};
+  return {bytes, static_cast<size_t>(sqlite3_column_bytes(stmt_, index))};
+}
+
 int64_t Statement::ColumnInt(int index) const { return sqlite3_column_int64(stmt_, index); }
 
 double Statement::ColumnDouble(int index) const { return sqlite3_column_double(stmt_, index); }
@@ -138,6 +148,15 @@ bool Statement::ColumnIsNull(int index) const {
 Result<Transaction> Transaction::Begin(sqlite3* db) {
   if (Status status = ExecSql(db, "BEGIN IMMEDIATE"); !status.ok()) return status;
   return Transaction(db);
+}
+
+Result<std::optional<Transaction>> Transaction::TryBegin(sqlite3* db, int busy_timeout_ms) {
+  sqlite3_busy_timeout(db, 0);
+  const int rc = sqlite3_exec(db, "BEGIN IMMEDIATE", nullptr, nullptr, nullptr);
+  sqlite3_busy_timeout(db, busy_timeout_ms);
+  if (rc == SQLITE_OK) return std::optional<Transaction>(Transaction(db));
+  if ((rc & 0xff) == SQLITE_BUSY) return std::optional<Transaction>();
+  return Status::Input(SqliteError(db, "store: starting a write"));
 }
 
 Transaction::Transaction(Transaction&& other) noexcept : db_(std::exchange(other.db_, nullptr)) {}

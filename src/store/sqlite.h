@@ -54,6 +54,7 @@ class Statement {
   // Parameters are numbered from 1. Text is NOT copied: the bytes must stay alive and
   // unchanged until the next Step() has returned.
   void BindText(int index, std::string_view text);
+  void BindBlob(int index, std::string_view bytes);
   void BindInt(int index, int64_t value);
   void BindDouble(int index, double value);
   void BindNull(int index);
@@ -70,6 +71,7 @@ class Statement {
 
   // Columns are numbered from 0. Text views are valid until the next Step() or Reset().
   std::string_view ColumnText(int index) const;
+  std::string_view ColumnBlob(int index) const;
   int64_t ColumnInt(int index) const;
   double ColumnDouble(int index) const;
   bool ColumnIsNull(int index) const;
@@ -85,6 +87,9 @@ class Statement {
 class Transaction {
  public:
   static Result<Transaction> Begin(sqlite3* db);
+  // Begin without waiting: nullopt when another connection holds the write lock. The
+  // connection's busy timeout is set back to `busy_timeout_ms` afterwards.
+  static Result<std::optional<Transaction>> TryBegin(sqlite3* db, int busy_timeout_ms);
 
   Transaction(Transaction&& other) noexcept;
   Transaction& operator=(Transaction&&) = delete;

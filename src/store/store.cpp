@@ -109,6 +109,23 @@ CREATE TABLE runs (
     R"sql(
 ALTER TABLE dispensings DROP COLUMN source_file;
 )sql",
+    // 2 -> 3: a packed copy of each patient's counting dispensings, which the ordered pass
+    // reads while it is current: while the state row names the newest dispensing. An update
+    // or delete of any dispensing removes the state row (an insert raises the newest id).
+    R"sql(
+CREATE TABLE packed_histories (
+  patient_id TEXT PRIMARY KEY,
+  packed BLOB NOT NULL
+);
+CREATE TABLE packed_histories_state (
+  id INTEGER PRIMARY KEY CHECK (id = 1),
+  newest_dispensing INTEGER
+);
+CREATE TRIGGER dispensing_updated_unpacks AFTER UPDATE ON dispensings
+  BEGIN DELETE FROM packed_histories_state; END;
+CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
+  BEGIN DELETE FROM packed_histories_state; END;
+)sql",
 };
 
 bool FileExists(const std::string& path) {
@@ -160,13 +177,16 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
 }
 
 Store::Store(Store&& other) noexcept
-    : db_(std::exchange(other.db_, nullptr)), path_(std::move(other.path_)) {}
+    : db_(std::exchange(other.db_, nullptr)),
+      path_(std::move(other.path_)),
+      busy_timeout_ms_(other.busy_timeout_ms_) {}
 
 Store& Store::operator=(Store&& other) noexcept {
   if (this != &other) {
     sqlite3_close(db_);
     db_ = std::exchange(other.db_, nullptr);
     path_ = std::move(other.path_);
+    busy_timeout_ms_ = other.busy_timeout_ms_;
   }
   return *this;
 }
@@ -175,6 +195,7 @@ Store::~Store() { sqlite3_close(db_); }
 
 Status Store::Configure(const StoreOptions& options) {
   sqlite3_busy_timeout(db_, options.busy_timeout_ms);
+  busy_timeout_ms_ = options.busy_timeout_ms;
   // The page size applies only when the file is new (before WAL is set): 16 KiB pages
   // make bulk imports cheaper (fewer pages and writes). WAL lets readers run beside one
   // writer and survives a killed writer; synchronous=NORMAL is durable across process

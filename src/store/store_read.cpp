@@ -1,9 +1,11 @@
 // The store's read API over imported records: one patient's history, the ordered pass
 // over every patient, practices, reviews, product counts and provenance figures.
 #include <algorithm>
+#include <span>
 #include <utility>
 
 #include "medload/store/store.h"
+#include "store/packed_history.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -133,10 +135,12 @@ Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_i
 }
 
 // Two cursors in the same bytewise patient_id order, merged: one pass, no per-patient
-// query. The dispensings cursor walks the (patient_id, dispensed_on) index.
+// query. The dispensings cursor reads the packed copy of each history when it is current,
+// else walks the (patient_id, dispensed_on) index of the dispensings.
 struct PatientCursor::State {
   Statement patients;
   Statement dispensings;
+  bool packed = false;  // `dispensings` reads packed_histories (patient_id, packed)
   PatientIdRange range;  // the bounds the statements are bound to (they must outlive it)
   Result<bool> patient_row = false;
   Result<bool> dispensing_row = false;
@@ -156,7 +160,8 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   if (!s.dispensing_row.ok()) return s.dispensing_row.status();
   if (!*s.patient_row && !*s.dispensing_row) return false;
   const std::string_view registry_id = *s.patient_row ? s.patients.ColumnText(0) : "";
-  const std::string_view dispensed_id = *s.dispensing_row ? s.dispensings.ColumnText(1) : "";
+  const int id_column = s.packed ? 0 : 1;
+  const std::string_view dispensed_id = *s.dispensing_row ? s.dispensings.ColumnText(id_column) : "";
   if (!*s.patient_row) into.patient_id.assign(dispensed_id);
   else if (!*s.dispensing_row) into.patient_id.assign(registry_id);
   else into.patient_id.assign(std::min(registry_id, dispensed_id));
@@ -164,6 +169,23 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   if (*s.patient_row && registry_id == into.patient_id) {
     into.registry = ReadPatient(s.patients);
     s.patient_row = s.patients.Step();
+  }
+  if (s.packed) {
+    if (*s.dispensing_row && s.dispensings.ColumnText(0) == into.patient_id) {
+      if (Status status = UnpackHistory(s.dispensings.ColumnBlob(1), into.patient_id,
+                                        into.dispensings, s.spare);
+          !status.ok()) {
+        return status;
+      }
+      s.dispensing_row = s.dispensings.Step();
+    } else {
+      while (!into.dispensings.empty()) {
+        s.spare.push_back(std::move(into.dispensings.back()));
+        into.dispensings.pop_back();
+      }
+    }
+    if (!s.dispensing_row.ok()) return s.dispensing_row.status();
+    return true;
   }
   size_t used = 0;
   while (s.dispensing_row.ok() && *s.dispensing_row && s.dispensings.ColumnText(1) == into.patient_id) {
@@ -198,9 +220,20 @@ Result<PatientCursor> Store::Patients(const PatientIdRange& range) const {
       db_, std::string("SELECT ") + kPatientColumns + " FROM patients WHERE 1" + bounds +
                " ORDER BY patient_id");
   if (!patients.ok()) return patients.status();
-  Result<Statement> dispensings = Statement::Prepare(
-      db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
-               bounds + " ORDER BY patient_id, dispensed_on, id");
+  // The packed copy only inside a snapshot, where the check and the reading see the same
+  // store.
+  if (InSnapshot()) {
+    Result<bool> current = PackedHistoriesCurrent();
+    if (!current.ok()) return current.status();
+    state->packed = *current;
+  }
+  Result<Statement> dispensings =
+      state->packed
+          ? Statement::Prepare(db_, "SELECT patient_id, packed FROM packed_histories WHERE 1" +
+                                        bounds + " ORDER BY patient_id")
+          : Statement::Prepare(db_, std::string("SELECT ") + kDispensingColumns +
+                                        " FROM dispensings WHERE " + kCounting + bounds +
+                                        " ORDER BY patient_id, dispensed_on, id");
   if (!dispensings.ok()) return dispensings.status();
   for (Statement* stmt : {&patients.value(), &dispensings.value()}) {
     if (!state->range.from.empty()) stmt->BindText(1, state->range.from);
@@ -211,6 +244,66 @@ Result<PatientCursor> Store::Patients(const PatientIdRange& range) const {
   state->patient_row = state->patients.Step();
   state->dispensing_row = state->dispensings.Step();
   return PatientCursor(std::move(state));
+}
+
+Result<bool> Store::PackedHistoriesCurrent() const {
+  Result<long> current = QueryCount(
+      db_,
+      "SELECT EXISTS (SELECT 1 FROM packed_histories_state WHERE id = 1 AND"
+      " newest_dispensing IS (SELECT MAX(id) FROM dispensings))");
+  if (!current.ok()) return current.status();
+  return *current != 0;
+}
+
+Status Store::RefreshPackedHistories() const {
+  if (InSnapshot()) return Status::Ok();
+  Result<bool> current = PackedHistoriesCurrent();
+  if (!current.ok()) return current.status();
+  if (*current) return Status::Ok();
+  Result<std::optional<Transaction>> transaction = Transaction::TryBegin(db_, busy_timeout_ms_);
+  if (!transaction.ok()) return transaction.status();
+  if (!transaction->has_value()) return Status::Ok();  // an import is writing: read the table
+  current = PackedHistoriesCurrent();  // another process may have packed meanwhile
+  if (!current.ok()) return current.status();
+  if (*current) return Status::Ok();
+  if (Status status = PackHistories(); !status.ok()) return status;
+  return (*transaction)->Commit();
+}
+
+Status Store::PackHistories() const {
+  if (Status status = ExecSql(db_, "DELETE FROM packed_histories"); !status.ok()) return status;
+  Result<Statement> read = Statement::Prepare(
+      db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
+               " ORDER BY patient_id, dispensed_on, id");
+  if (!read.ok()) return read.status();
+  Result<Statement> insert =
+      Statement::Prepare(db_, "INSERT INTO packed_histories (patient_id, packed) VALUES (?1, ?2)");
+  if (!insert.ok()) return insert.status();
+  std::vector<DispensingRecord> records;
+  size_t used = 0;
+  std::string packed;
+  const auto flush = [&]() -> Status {
+    if (used == 0) return Status::Ok();
+    packed = PackHistory(std::span<const DispensingRecord>(records.data(), used));
+    insert->BindText(1, records[0].patient_id);
+    insert->BindBlob(2, packed);
+    used = 0;
+    return insert->Run();
+  };
+  for (;;) {
+    Result<bool> row = read->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    if (used > 0 && read->ColumnText(1) != records[0].patient_id) {
+      if (Status status = flush(); !status.ok()) return status;
+    }
+    if (used == records.size()) records.emplace_back();
+    if (Status status = ReadDispensing(*read, records[used++]); !status.ok()) return status;
+  }
+  if (Status status = flush(); !status.ok()) return status;
+  return ExecSql(db_,
+                 "INSERT OR REPLACE INTO packed_histories_state (id, newest_dispensing)"
+                 " VALUES (1, (SELECT MAX(id) FROM dispensings))");
 }
 
 Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_range) const {

@@ -5,6 +5,7 @@
 
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
+#include "store/temp_folder.h"
 
 namespace medload {
 namespace {
@@ -45,9 +46,155 @@ void SetStatus(Store& store, const char* record_id, const char* status) {
   REQUIRE(sqlite3_exec(store.handle(), sql.c_str(), nullptr, nullptr, nullptr) == SQLITE_OK);
 }
 
+// Every patient of one pass: id, registry presence and every field of each dispensing.
+std::vector<std::string> Pass(const Store& store, const PatientIdRange& range = {}) {
+  Result<PatientCursor> cursor = store.Patients(range);
+  REQUIRE(cursor.ok());
+  PatientHistory history;
+  std::vector<std::string> seen;
+  for (;;) {
+    Result<bool> more = cursor->Next(history);
+    REQUIRE(more.ok());
+    if (!*more) break;
+    std::string line = history.patient_id + (history.registry ? " registered:" : ":");
+    for (const DispensingRecord& r : history.dispensings) {
+      line += " [" + r.record_id + "|" + r.patient_id + "|" + r.practice + "|" +
+              r.dispensed_on.ToIso() + "|" + r.product + "|" + r.code + "|" + r.code_system +
+              "|" + std::to_string(r.quantity) + "|" + r.unit + "|" +
+              (r.days_supply ? std::to_string(*r.days_supply) : "-") + "|" + r.dosage + "|" +
+              (r.structured_units_per_day ? std::to_string(*r.structured_units_per_day) : "-") +
+              "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
+    }
+    seen.push_back(line);
+  }
+  return seen;
+}
+
+// The same pass read from the packed copy: packed first, then read inside a snapshot.
+std::vector<std::string> PackedPass(const Store& store, const PatientIdRange& range = {}) {
+  REQUIRE(store.RefreshPackedHistories().ok());
+  REQUIRE(store.PackedHistoriesCurrent().value());
+  Result<StoreSnapshot> snapshot = store.BeginSnapshot();
+  REQUIRE(snapshot.ok());
+  return Pass(store, range);
+}
+
+void Exec(Store& store, const std::string& sql) {
+  REQUIRE(sqlite3_exec(store.handle(), sql.c_str(), nullptr, nullptr, nullptr) == SQLITE_OK);
+}
+
 }  // namespace
 
 TEST_SUITE("store_read") {
+
+TEST_CASE("the packed copy gives the same pass as the dispensings, whole and by range") {
+  Store store = Loaded();
+  Load(store, InputKind::kDispensing,
+       "record_id,patient_id,practice,dispensed_on,product,quantity,days_supply,dosage,unit\n"
+       "e1,P1,A1,2024-04-01,Morphine 10mg/5ml oral solution,300,,5ml four times a day,ml\n"
+       "e2,P5,A2,2024-04-02,Naproxen 250mg tablets,56,,,\n");
+  SetStatus(store, "d2", "entered-in-error");  // a dispensing that does not count
+  const std::vector<std::string> table = Pass(store);
+  REQUIRE(table.size() == 5);
+  CHECK(table[0].find("[d2|") == std::string::npos);
+  CHECK(PackedPass(store) == table);
+  Result<std::vector<PatientIdRange>> ranges = store.PatientRanges(1);
+  REQUIRE(ranges.ok());
+  REQUIRE(ranges->size() > 2);
+  std::vector<std::string> joined;
+  for (const PatientIdRange& range : *ranges) {
+    const std::vector<std::string> part = PackedPass(store, range);
+    CHECK(part == Pass(store, range));
+    joined.insert(joined.end(), part.begin(), part.end());
+  }
+  CHECK(joined == table);
+}
+
+TEST_CASE("an import, an update or a delete of a dispensing leaves the packed copy stale until packed again") {
+  Store store = Loaded();
+  REQUIRE(store.RefreshPackedHistories().ok());
+  CHECK(store.PackedHistoriesCurrent().value());
+  SUBCASE("import") {
+    Load(store, InputKind::kDispensing,
+         "record_id,patient_id,practice,dispensed_on,product,quantity,days_supply\n"
+         "f1,P3,A2,2024-05-01,Amlodipine 5mg tablets,28,28\n");
+  }
+  SUBCASE("a status update") { SetStatus(store, "d1", "cancelled"); }
+  SUBCASE("a delete") { Exec(store, "DELETE FROM dispensings WHERE record_id = 'd5'"); }
+  SUBCASE("a delete of the newest then an insert of the same id") {
+    Exec(store, "DELETE FROM dispensings WHERE id = (SELECT MAX(id) FROM dispensings)");
+    REQUIRE(store.RefreshPackedHistories().ok());
+    Exec(store,
+         "INSERT INTO dispensings (dedup_key, patient_id, dispensed_on, product, quantity,"
+         " source_line, run_id) VALUES ('x', 'P9', '2024-06-01', 'Sertraline 50mg tablets', 28, 2, 1)");
+  }
+  CHECK_FALSE(store.PackedHistoriesCurrent().value());
+  std::vector<std::string> inside;
+  {
+    // Stale inside a snapshot: the pass reads the dispensings themselves.
+    Result<StoreSnapshot> snapshot = store.BeginSnapshot();
+    REQUIRE(snapshot.ok());
+    CHECK_FALSE(store.PackedHistoriesCurrent().value());
+    inside = Pass(store);
+  }
+  CHECK(inside == Pass(store));
+  CHECK(PackedPass(store) == Pass(store));
+}
+
+TEST_CASE("packing does nothing inside a snapshot or while another connection writes") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  Load(*store, InputKind::kDispensing, kDispensing);
+  {
+    Result<StoreSnapshot> snapshot = store->BeginSnapshot();
+    REQUIRE(snapshot.ok());
+    CHECK(store->RefreshPackedHistories().ok());
+  }
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  StoreOptions patient;
+  patient.busy_timeout_ms = 3600 * 1000;  // a wait would be noticed: the test would hang
+  Result<Store> reader = Store::Open(path, patient);
+  REQUIRE(reader.ok());
+  Exec(*store, "BEGIN IMMEDIATE");
+  CHECK(reader->RefreshPackedHistories().ok());
+  Exec(*store, "ROLLBACK");
+  CHECK_FALSE(reader->PackedHistoriesCurrent().value());
+  CHECK(reader->RefreshPackedHistories().ok());
+  CHECK(store->PackedHistoriesCurrent().value());
+}
+
+TEST_CASE("a damaged packed history stops the pass with an error naming the patient") {
+  Store store = Loaded();
+  REQUIRE(store.RefreshPackedHistories().ok());
+  Exec(store, "UPDATE packed_histories SET packed = x'0102' WHERE patient_id = 'P2'");
+  Result<StoreSnapshot> snapshot = store.BeginSnapshot();
+  REQUIRE(snapshot.ok());
+  Result<PatientCursor> cursor = store.Patients();
+  REQUIRE(cursor.ok());
+  PatientHistory history;
+  REQUIRE(cursor->Next(history).value());  // P1
+  Result<bool> damaged = cursor->Next(history);
+  REQUIRE_FALSE(damaged.ok());
+  CHECK(damaged.status().message().find("patient \"P2\" is damaged") != std::string::npos);
+}
+
+TEST_CASE("the pass over the packed copy reads its key in order without sorting") {
+  Store store = Loaded();
+  sqlite3_stmt* stmt = nullptr;
+  const char* sql = "EXPLAIN QUERY PLAN SELECT patient_id, packed FROM packed_histories WHERE 1"
+                    " AND patient_id >= ?1 AND patient_id < ?2 ORDER BY patient_id";
+  REQUIRE(sqlite3_prepare_v2(store.handle(), sql, -1, &stmt, nullptr) == SQLITE_OK);
+  std::string plan;
+  while (sqlite3_step(stmt) == SQLITE_ROW) {
+    plan += reinterpret_cast<const char*>(sqlite3_column_text(stmt, 3));
+    plan += "\n";
+  }
+  sqlite3_finalize(stmt);
+  CAPTURE(plan);
+  CHECK(plan.find("TEMP B-TREE") == std::string::npos);
+}
 
 TEST_CASE("one patient's dispensings come in date order, then import order") {
   Store store = Loaded();

@@ -217,7 +217,7 @@ TEST_CASE("reads inside a snapshot do not see what another connection commits me
   CHECK(store->CachedResolution("X", "", "", "sum")->has_value());
 }
 
-TEST_CASE("a store of schema version 1 migrates to 2 and keeps its dispensings") {
+TEST_CASE("a store of schema version 1 migrates to the current version and keeps its dispensings") {
   TempFolder folder;
   const std::string path = folder.File("v1.db");
   // The version 1 dispensings table, as a store written by that schema holds it.
@@ -246,13 +246,18 @@ TEST_CASE("a store of schema version 1 migrates to 2 and keeps its dispensings")
   {
     Result<Store> store = Store::Open(path);
     REQUIRE(store.ok());
-    CHECK(store->SchemaVersion().value() == 2);
+    CHECK(store->SchemaVersion().value() == kStoreSchemaVersion);
     Result<std::vector<DispensingRecord>> kept = store->DispensingsOf("P1");
     REQUIRE(kept.ok());
     REQUIRE(kept->size() == 1);
     CHECK((*kept)[0].product == "Amlodipine 5mg tablets");
+    // Version 3's packed copy starts empty and stale, and packs what version 1 held.
+    CHECK_FALSE(store->PackedHistoriesCurrent().value());
+    REQUIRE(store->RefreshPackedHistories().ok());
+    CHECK(store->PackedHistoriesCurrent().value());
   }
   CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('dispensings') WHERE name = 'source_file'") == "0");
+  CHECK(QueryText(path, "SELECT patient_id FROM packed_histories") == "P1");
   CHECK(QueryText(path, "SELECT i.file || ':' || d.source_line FROM dispensings d JOIN import_runs i"
                         " ON i.id = d.run_id") == "old.csv:2");
 }

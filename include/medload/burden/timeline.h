@@ -4,6 +4,7 @@
 #pragma once
 
 #include <functional>
+#include <memory>
 #include <span>
 #include <string>
 #include <vector>
@@ -26,7 +27,9 @@ struct DispensingUse {
   DosageReading dosage;       // how the instruction was read
   Route route = Route::kUnknown;
   std::string product;        // the description as dispensed
-  std::vector<ResolvedIngredient> ingredients;  // this medicine's ingredients, with strengths
+  // This medicine's ingredients, with strengths; shared by the uses of one product in a
+  // timeline (a history repeats a few products many times).
+  std::shared_ptr<const std::vector<ResolvedIngredient>> ingredients;
 };
 
 struct Medicine {

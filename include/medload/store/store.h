@@ -20,7 +20,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 2;
+inline constexpr int kStoreSchemaVersion = 3;
 
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
@@ -151,6 +151,16 @@ class Store {
   Result<PatientCursor> Patients() const;
   // The same pass over the patients of one range only.
   Result<PatientCursor> Patients(const PatientIdRange& range) const;
+  // Brings the store's packed copy of every patient's history (one row per patient, which
+  // the pass reads in about a fifth of the time of the dispensings themselves) up to date
+  // with the dispensings, when it is not: after an import, the first pass's caller pays
+  // for packing. Outside a snapshot only (inside one it does nothing). Best effort, and
+  // never waits: when another connection holds the write lock (an import), it does
+  // nothing and the pass reads the dispensings. Logically const: what the read functions
+  // return is the same with or without the copy. Fails with Input on a storage error.
+  Status RefreshPackedHistories() const;
+  // Whether the packed copy matches the dispensings as this connection sees them.
+  Result<bool> PackedHistoriesCurrent() const;
   // Consecutive ranges that together hold every patient id once, in order, each with
   // about `patients_per_range` patients of the registry (of the dispensings when the
   // registry has fewer than two ranges' worth), so that the pass can be shared out by
@@ -222,11 +232,15 @@ class Store {
 
  private:
   Store(sqlite3* db, std::string path) : db_(db), path_(std::move(path)) {}
+  // Packs every patient's counting dispensings into packed_histories, inside `db_`'s
+  // write transaction.
+  Status PackHistories() const;
   Status Configure(const StoreOptions& options);
   Status Migrate();
 
   sqlite3* db_ = nullptr;
   std::string path_;
+  int busy_timeout_ms_ = 0;  // as opened (StoreOptions), for waits set back after a try
 };
 
 }  // namespace medload
