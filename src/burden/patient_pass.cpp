@@ -11,14 +11,8 @@
 
 namespace medload {
 
-const Timeline& PassPatient::timeline() {
-  if (!timeline_) timeline_ = analysis_.BuildTimeline(history_.dispensings, products_);
-  return *timeline_;
-}
-
-Burden PassPatient::Evaluate(Date on, std::optional<int> age) {
-  if (!matches_) matches_ = MatchRuleRequirements(timeline(), analysis_.tables());
-  return analysis_.Evaluate(timeline(), on, age, &*matches_);
+Burden PassPatient::Evaluate(Date on, std::optional<int> age) const {
+  return analysis_.Evaluate(timeline_, on, age, &matches_);
 }
 
 namespace {
@@ -35,7 +29,9 @@ constexpr size_t kMaxReaders = 2;
 
 struct Slot {
   PatientHistory history;
-  std::vector<const ResolvedProduct*> products;
+  std::vector<const ResolvedProduct*> products;  // products[i] resolves dispensing i
+  Timeline timeline;
+  std::vector<bool> matches;  // MatchRuleRequirements(timeline, the run's tables)
 };
 
 struct Batch {
@@ -106,6 +102,9 @@ class ReaderResolutions {
 // One reader: its connection, the ranges it reads (every n-th), its batches.
 struct Reader {
   const Store* source = nullptr;
+  const Analysis* analysis = nullptr;  // read only here: the options and tables
+  DosageTextCache dosages;             // this reader's own (the run's is not shared)
+  std::vector<DispensingRecord> spare;  // records kept for reuse across its ranges
   std::optional<Date> latest_dispensed;  // among the records it read
   std::vector<Batch> batches = std::vector<Batch>(kBatchesPerReader);
   Handover free;    // batches the visitor has finished with
@@ -128,7 +127,7 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
   try {
     for (size_t r = first; r < ranges.size() && !stop.load(std::memory_order_relaxed); r += step) {
       take();
-      Result<PatientCursor> cursor = reader.source->Patients(ranges[r]);
+      Result<PatientCursor> cursor = reader.source->Patients(ranges[r], &reader.spare);
       if (!cursor.ok()) {
         batch->status = cursor.status();
         hand_over();
@@ -144,10 +143,16 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
           break;
         }
         if (!*more) break;
-        slot.products.resize(slot.history.dispensings.size());
-        for (size_t i = 0; i < slot.history.dispensings.size(); ++i) {
-          slot.products[i] = resolutions.Resolve(slot.history.dispensings[i]);
-        }
+        const std::vector<DispensingRecord>& records = slot.history.dispensings;
+        slot.products.resize(records.size());
+        for (size_t i = 0; i < records.size(); ++i) slot.products[i] = resolutions.Resolve(records[i]);
+        slot.timeline = BuildTimeline(
+            records,
+            [&](const DispensingRecord& record) -> const ResolvedProduct& {
+              return *slot.products[static_cast<size_t>(&record - records.data())];
+            },
+            reader.analysis->options(), &reader.dosages);
+        slot.matches = MatchRuleRequirements(slot.timeline, reader.analysis->tables());
         if (!slot.history.dispensings.empty()) {
           // In date order: the last is the patient's latest.
           const Date last = slot.history.dispensings.back().dispensed_on;
@@ -216,6 +221,7 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
   std::vector<ReaderResolutions> resolutions;
   for (size_t i = 0; i < readers_used; ++i) {
     readers[i].source = peers.empty() ? &store : &peers[i];
+    readers[i].analysis = &analysis;
     for (Batch& batch : readers[i].batches) readers[i].free.Put(&batch);
     resolutions.emplace_back(analysis, resolution_lock);
   }
@@ -246,7 +252,8 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
       range_end = batch->range_end;
       for (size_t i = 0; i < batch->used && !stop; ++i) {
         try {
-          PassPatient patient(batch->slots[i].history, batch->slots[i].products, analysis);
+          const Slot& slot = batch->slots[i];
+          PassPatient patient(slot.history, slot.timeline, slot.matches, analysis);
           if (!visit(patient)) stop = true;
         } catch (...) {
           failure = std::current_exception();

@@ -135,7 +135,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       // The reading is moved into the last group's use (most products have one group).
       medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply,
                                             g + 1 == groups.size() ? std::move(dosage) : dosage,
-                                            product.route, record.product, ingredients});
+                                            product.route, ingredients});
     }
   }
   for (auto& [key, medicine] : medicines) {

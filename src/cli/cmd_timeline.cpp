@@ -54,6 +54,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   TimelineModel model;
   model.patient = patient;
   model.timeline = &timeline;
+  model.records = *records;
   model.from = records->front().dispensed_on;
   model.to = model.from;
   DefaultRange(timeline, model.from, model.to);

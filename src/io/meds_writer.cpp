@@ -59,6 +59,11 @@ std::string DosageText(const MedsModel& model, const DispensingUse& use) {
   return use.record < model.records.size() ? model.records[use.record].dosage : std::string();
 }
 
+// The description as dispensed.
+std::string ProductText(const MedsModel& model, const DispensingUse& use) {
+  return use.record < model.records.size() ? model.records[use.record].product : std::string();
+}
+
 // Unmatched products dispensed recently enough that they could still be in use.
 std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
   std::vector<const UnmatchedProduct*> recent;
@@ -121,7 +126,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
                          {"acb", row.active->score},
                          {"dbi", row.active->dbi},
                          {"classes", ClassesOf(model, *row.medicine)},
-                         {"product", use.product},
+                         {"product", ProductText(model, use)},
                          {"route", RouteName(use.route)},
                          {"last_dispensed", use.dispensed_on.ToIso()},
                          {"quantity", use.quantity},
@@ -228,7 +233,7 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
     const DispensingUse& use = *row.latest;
     out << CsvRow({model.patient, model.burden->on.ToIso(), DisplayName(*row.medicine),
                    Join(row.medicine->ingredients, "|"), row.active->since.ToIso(), row.active->until.ToIso(),
-                   use.dispensed_on.ToIso(), use.product, std::to_string(use.supply.days),
+                   use.dispensed_on.ToIso(), ProductText(model, use), std::to_string(use.supply.days),
                    std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(use.dosage),
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
                    Join(ClassesOf(model, *row.medicine), "|")});

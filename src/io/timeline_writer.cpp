@@ -44,7 +44,8 @@ void WriteAxis(std::ostream& out, const Scale& scale, Date to, int top, int bott
   }
 }
 
-void WriteRow(std::ostream& out, const Medicine& medicine, const Scale& scale, Date to, int y) {
+void WriteRow(std::ostream& out, const TimelineModel& model, const Medicine& medicine, const Scale& scale, int y) {
+  const Date to = model.to;
   out << "<g><title>" << EscapeHtml(Name(medicine)) << "</title>\n<text x=\"" << kLabelWidth - 6 << "\" y=\""
       << y + 15 << "\" font-size=\"12\" text-anchor=\"end\">" << EscapeHtml(Name(medicine)) << "</text>\n";
   for (const Episode& episode : medicine.episodes) {
@@ -61,7 +62,7 @@ void WriteRow(std::ostream& out, const Medicine& medicine, const Scale& scale, D
     const double x = scale.X(use.dispensed_on);
     out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << y + 1 << "\" x2=\"" << FormatNumber(x, 1)
         << "\" y2=\"" << y + 21 << "\" stroke=\"#000\" stroke-width=\"1.5\"><title>dispensed "
-        << use.dispensed_on.ToIso() << ": " << EscapeHtml(use.product) << ", " << use.supply.days
+        << use.dispensed_on.ToIso() << ": " << EscapeHtml(use.record < model.records.size() ? model.records[use.record].product : std::string()) << ", " << use.supply.days
         << " days</title></line>\n";
   }
   out << "</g>\n";
@@ -117,7 +118,7 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
       << EscapeHtml(title) << "</text>\n";
   WriteAxis(out, scale, model.to, plot_top, rows_bottom);
   for (int r = 0; r < rows; ++r) {
-    WriteRow(out, model.timeline->medicines[static_cast<size_t>(r)], scale, model.to, plot_top + r * kRowHeight);
+    WriteRow(out, model, model.timeline->medicines[static_cast<size_t>(r)], scale, plot_top + r * kRowHeight);
   }
   WriteCounts(out, model, scale, rows_bottom + 30);
   if (model.census && *model.census >= model.from && *model.census <= model.to) {

@@ -154,6 +154,7 @@ Status UnpackHistory(std::string_view packed, std::string_view patient_id,
     spare.push_back(std::move(into.back()));
     into.pop_back();
   }
+  into.reserve(count);
   while (into.size() < count) {
     if (spare.empty()) {
       into.emplace_back();

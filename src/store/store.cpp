@@ -112,11 +112,12 @@ ALTER TABLE dispensings DROP COLUMN source_file;
     // 2 -> 3: a packed copy of each patient's counting dispensings, which the ordered pass
     // reads while it is current: while the state row names the newest dispensing. An update
     // or delete of any dispensing removes the state row (an insert raises the newest id).
+    // Keyed by patient without a rowid, so that the pass reads it in key order, in place.
     R"sql(
 CREATE TABLE packed_histories (
   patient_id TEXT PRIMARY KEY,
   packed BLOB NOT NULL
-);
+) WITHOUT ROWID;
 CREATE TABLE packed_histories_state (
   id INTEGER PRIMARY KEY CHECK (id = 1),
   newest_dispensing INTEGER

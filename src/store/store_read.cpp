@@ -146,7 +146,8 @@ struct PatientCursor::State {
   Result<bool> dispensing_row = false;
   // Records beyond a patient's count wait here with their string buffers, so that reading
   // the next patient reuses memory instead of allocating per field.
-  std::vector<DispensingRecord> spare;
+  std::vector<DispensingRecord> own_spare;
+  std::vector<DispensingRecord>* spare = &own_spare;  // the caller's pool, or own_spare
 };
 
 PatientCursor::PatientCursor(std::unique_ptr<State> state) : state_(std::move(state)) {}
@@ -173,14 +174,14 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   if (s.packed) {
     if (*s.dispensing_row && s.dispensings.ColumnText(0) == into.patient_id) {
       if (Status status = UnpackHistory(s.dispensings.ColumnBlob(1), into.patient_id,
-                                        into.dispensings, s.spare);
+                                        into.dispensings, *s.spare);
           !status.ok()) {
         return status;
       }
       s.dispensing_row = s.dispensings.Step();
     } else {
       while (!into.dispensings.empty()) {
-        s.spare.push_back(std::move(into.dispensings.back()));
+        s.spare->push_back(std::move(into.dispensings.back()));
         into.dispensings.pop_back();
       }
     }
@@ -191,16 +192,16 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   while (s.dispensing_row.ok() && *s.dispensing_row && s.dispensings.ColumnText(1) == into.patient_id) {
     if (used == into.dispensings.size()) {
       into.dispensings.emplace_back();
-      if (!s.spare.empty()) {
-        into.dispensings.back() = std::move(s.spare.back());
-        s.spare.pop_back();
+      if (!s.spare->empty()) {
+        into.dispensings.back() = std::move(s.spare->back());
+        s.spare->pop_back();
       }
     }
     if (Status status = ReadDispensing(s.dispensings, into.dispensings[used++]); !status.ok()) return status;
     s.dispensing_row = s.dispensings.Step();
   }
   while (into.dispensings.size() > used) {
-    s.spare.push_back(std::move(into.dispensings.back()));
+    s.spare->push_back(std::move(into.dispensings.back()));
     into.dispensings.pop_back();
   }
   if (!s.dispensing_row.ok()) return s.dispensing_row.status();
@@ -209,9 +210,11 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
 
 Result<PatientCursor> Store::Patients() const { return Patients(PatientIdRange{}); }
 
-Result<PatientCursor> Store::Patients(const PatientIdRange& range) const {
+Result<PatientCursor> Store::Patients(const PatientIdRange& range,
+                                     std::vector<DispensingRecord>* spare) const {
   auto state = std::make_unique<PatientCursor::State>();
   state->range = range;
+  if (spare != nullptr) state->spare = spare;
   // Bounds only where the range has them, so that SQLite stops the index walk at `to`.
   std::string bounds;
   if (!range.from.empty()) bounds += " AND patient_id >= ?1";

@@ -1,7 +1,7 @@
 // The one ordered pass over every patient that review, cohort and report make. Reader
 // threads (two, each on its own connection to one snapshot, taking every other range of
-// patients) read the store and resolve products; the calling thread builds timelines and
-// runs the visitor, in patient order, so reading and computing share the machine's cores.
+// patients) read the store, resolve products and build each patient's timeline; the
+// calling thread runs the visitor, in patient order, so the work shares the machine's cores.
 #pragma once
 
 #include <functional>
@@ -15,26 +15,26 @@
 
 namespace medload {
 
-// One patient as the visitor sees it: the history, and its timeline built on first use.
+// One patient as the visitor sees it: the history, its timeline and the rule matches of
+// the timeline (MatchRuleRequirements), which the pass's readers have built.
 class PassPatient {
  public:
-  PassPatient(const PatientHistory& history, std::span<const ResolvedProduct* const> products,
-              Analysis& analysis)
-      : history_(history), products_(products), analysis_(analysis) {}
+  PassPatient(const PatientHistory& history, const Timeline& timeline,
+              const std::vector<bool>& matches, const Analysis& analysis)
+      : history_(history), timeline_(timeline), matches_(matches), analysis_(analysis) {}
 
   const PatientHistory& history() const { return history_; }
-  // The timeline of history().dispensings, built once on the first call.
-  const Timeline& timeline();
-  // The burden on `on` (age: completed years then, if known). Rule matches are worked out
-  // once per patient, so a series of dates costs little more than one.
-  Burden Evaluate(Date on, std::optional<int> age);
+  // The timeline of history().dispensings.
+  const Timeline& timeline() const { return timeline_; }
+  // The burden on `on` (age: completed years then, if known). Rule matches were worked
+  // out once per patient, so a series of dates costs little more than one.
+  Burden Evaluate(Date on, std::optional<int> age) const;
 
  private:
   const PatientHistory& history_;
-  std::span<const ResolvedProduct* const> products_;  // products_[i] resolves dispensing i
-  Analysis& analysis_;
-  std::optional<Timeline> timeline_;
-  std::optional<std::vector<bool>> matches_;  // MatchRuleRequirements of the timeline
+  const Timeline& timeline_;
+  const std::vector<bool>& matches_;
+  const Analysis& analysis_;
 };
 
 // What the pass saw besides what it showed the visitor.

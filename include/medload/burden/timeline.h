@@ -26,7 +26,6 @@ struct DispensingUse {
   Supply supply;              // days, and which rule gave them
   DosageReading dosage;       // how the instruction was read
   Route route = Route::kUnknown;
-  std::string product;        // the description as dispensed
   // This medicine's ingredients, with strengths; shared by the uses of one product in a
   // timeline (a history repeats a few products many times).
   std::shared_ptr<const std::vector<ResolvedIngredient>> ingredients;

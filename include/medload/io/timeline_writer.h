@@ -5,6 +5,7 @@
 
 #include <iosfwd>
 #include <optional>
+#include <span>
 #include <string>
 
 #include "medload/burden/timeline.h"
@@ -17,6 +18,7 @@ struct TimelineModel {
   Date to;                    // last day shown; REQUIRES: from <= to
   std::optional<Date> census; // drawn as a vertical line when inside the range
   const Timeline* timeline = nullptr;  // REQUIRES: non-null
+  std::span<const DispensingRecord> records;  // the records the timeline was built from
 };
 
 // Number of medicines with an episode containing each day from `from` to `to`.

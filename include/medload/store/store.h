@@ -149,8 +149,11 @@ class Store {
   Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
   // The same pass as a cursor (see PatientCursor). Fails with Input on a storage error.
   Result<PatientCursor> Patients() const;
-  // The same pass over the patients of one range only.
-  Result<PatientCursor> Patients(const PatientIdRange& range) const;
+  // The same pass over the patients of one range only. Records a history no longer needs
+  // wait in `spare` (the cursor's own pool if null) with their string buffers, for reuse:
+  // a pool that outlives the cursor keeps them across ranges.
+  Result<PatientCursor> Patients(const PatientIdRange& range,
+                                 std::vector<DispensingRecord>* spare = nullptr) const;
   // Brings the store's packed copy of every patient's history (one row per patient, which
   // the pass reads in about a fifth of the time of the dispensings themselves) up to date
   // with the dispensings, when it is not: after an import, the first pass's caller pays
