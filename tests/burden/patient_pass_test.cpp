@@ -66,7 +66,16 @@ struct Visited {
   std::vector<size_t> dispensings;
   std::vector<size_t> medicines;
   std::vector<size_t> unmatched;
+  // The burden on 30 September 2024 (age 84 for everyone): items, ACB, DBI, rules fired.
+  std::vector<std::string> burdens;
 };
+
+constexpr Date kOn = Date::FromDays(19996);  // 2024-09-30
+
+std::string Describe(const Burden& burden) {
+  return std::to_string(burden.items) + "/" + std::to_string(burden.acb) + "/" +
+         std::to_string(burden.dbi) + "/" + std::to_string(burden.rules.size());
+}
 
 Visited Pass(ManyPatients& population, PassFacts* facts = nullptr) {
   Visited seen;
@@ -75,6 +84,7 @@ Visited Pass(ManyPatients& population, PassFacts* facts = nullptr) {
     seen.dispensings.push_back(patient.history().dispensings.size());
     seen.medicines.push_back(patient.timeline().medicines.size());
     seen.unmatched.push_back(patient.timeline().unmatched.size());
+    seen.burdens.push_back(Describe(patient.Evaluate(kOn, 84)));
     return true;
   }, facts);
   REQUIRE(status.ok());
@@ -90,6 +100,7 @@ Visited Sequential(ManyPatients& population) {
     seen.dispensings.push_back(history.dispensings.size());
     seen.medicines.push_back(timeline.medicines.size());
     seen.unmatched.push_back(timeline.unmatched.size());
+    seen.burdens.push_back(Describe(population.analysis.Evaluate(timeline, kOn, 84)));
     return true;
   }).ok());
   return seen;
@@ -111,12 +122,40 @@ TEST_CASE("the pass visits every patient once, in store order, with the same tim
     CHECK(seen.dispensings == expected.dispensings);
     CHECK(seen.medicines == expected.medicines);
     CHECK(seen.unmatched == expected.unmatched);
+    CHECK(seen.burdens == expected.burdens);
     CHECK(seen.medicines[0] == 1);
     CHECK(seen.medicines[3] == 4);
     CHECK(seen.unmatched[7] == 1);
     // Dispensing dates run up to September (patient numbers 8, 17, ... ; fourth medicine).
     CHECK(facts.latest_dispensed == population.store.LatestDispensed().value());
     CHECK(facts.latest_dispensed == Date::FromCivil(2024, 9, 4));
+  }
+}
+
+TEST_CASE("the first pass packs each history; later passes read the copy and show the same") {
+  for (const bool in_file : {false, true}) {
+    CAPTURE(in_file);
+    ManyPatients population(in_file);
+    CHECK_FALSE(population.store.PackedHistoriesCurrent().value());
+    const Visited first = Pass(population);
+    CHECK(population.store.PackedHistoriesCurrent().value());
+    const Visited second = Pass(population);
+    const Visited expected = Sequential(population);  // the dispensings table, one thread
+    CHECK(first.ids == expected.ids);
+    CHECK(second.ids == expected.ids);
+    CHECK(second.dispensings == expected.dispensings);
+    CHECK(second.medicines == expected.medicines);
+    CHECK(second.unmatched == expected.unmatched);
+    CHECK(second.burdens == expected.burdens);
+    CHECK(first.burdens == expected.burdens);
+    // A new dispensing makes the copy stale; the next pass packs again and shows it.
+    Import(population.store, InputKind::kDispensing,
+           "patient_id,dispensed_on,product,quantity,dosage\nP0000,2024-09-01,Oxybutynin 5mg tablets,56,1 bd\n");
+    CHECK_FALSE(population.store.PackedHistoriesCurrent().value());
+    const Visited after = Pass(population);
+    CHECK(population.store.PackedHistoriesCurrent().value());
+    CHECK(after.medicines[0] == 2);
+    CHECK(after.burdens == Sequential(population).burdens);
   }
 }
 
