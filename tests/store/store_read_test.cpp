@@ -79,6 +79,20 @@ std::vector<std::string> PackedPass(const Store& store, const PatientIdRange& ra
   return Pass(store, range);
 }
 
+// SQLite's plan for `sql`, one step per line.
+std::string QueryPlan(const Store& store, const std::string& sql) {
+  sqlite3_stmt* stmt = nullptr;
+  const std::string explain = "EXPLAIN QUERY PLAN " + sql;
+  REQUIRE(sqlite3_prepare_v2(store.handle(), explain.c_str(), -1, &stmt, nullptr) == SQLITE_OK);
+  std::string plan;
+  while (sqlite3_step(stmt) == SQLITE_ROW) {
+    plan += reinterpret_cast<const char*>(sqlite3_column_text(stmt, 3));
+    plan += "\n";
+  }
+  sqlite3_finalize(stmt);
+  return plan;
+}
+
 void Exec(Store& store, const std::string& sql) {
   REQUIRE(sqlite3_exec(store.handle(), sql.c_str(), nullptr, nullptr, nullptr) == SQLITE_OK);
 }
@@ -182,16 +196,8 @@ TEST_CASE("a damaged packed history stops the pass with an error naming the pati
 
 TEST_CASE("the pass over the packed copy reads its key in order without sorting") {
   Store store = Loaded();
-  sqlite3_stmt* stmt = nullptr;
-  const char* sql = "EXPLAIN QUERY PLAN SELECT patient_id, packed FROM packed_histories WHERE 1"
-                    " AND patient_id >= ?1 AND patient_id < ?2 ORDER BY patient_id";
-  REQUIRE(sqlite3_prepare_v2(store.handle(), sql, -1, &stmt, nullptr) == SQLITE_OK);
-  std::string plan;
-  while (sqlite3_step(stmt) == SQLITE_ROW) {
-    plan += reinterpret_cast<const char*>(sqlite3_column_text(stmt, 3));
-    plan += "\n";
-  }
-  sqlite3_finalize(stmt);
+  const std::string plan = QueryPlan(store, "SELECT patient_id, packed FROM packed_histories WHERE 1"
+                                            " AND patient_id >= ?1 AND patient_id < ?2 ORDER BY patient_id");
   CAPTURE(plan);
   CHECK(plan.find("TEMP B-TREE") == std::string::npos);
 }
@@ -358,17 +364,8 @@ TEST_CASE("an empty store is one range with nothing in it") {
 
 TEST_CASE("the pass over every patient reads the index in order without sorting") {
   Store store = Loaded();
-  sqlite3_stmt* stmt = nullptr;
-  const char* sql =
-      "EXPLAIN QUERY PLAN SELECT * FROM dispensings WHERE status IN ('', 'completed')"
-      " ORDER BY patient_id, dispensed_on, id";
-  REQUIRE(sqlite3_prepare_v2(store.handle(), sql, -1, &stmt, nullptr) == SQLITE_OK);
-  std::string plan;
-  while (sqlite3_step(stmt) == SQLITE_ROW) {
-    plan += reinterpret_cast<const char*>(sqlite3_column_text(stmt, 3));
-    plan += "\n";
-  }
-  sqlite3_finalize(stmt);
+  const std::string plan = QueryPlan(store, "SELECT * FROM dispensings WHERE status IN ('', 'completed')"
+                                            " ORDER BY patient_id, dispensed_on, id");
   CAPTURE(plan);
   CHECK(plan.find("dispensings_by_patient") != std::string::npos);
   CHECK(plan.find("TEMP B-TREE") == std::string::npos);
