@@ -76,10 +76,11 @@ Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {
 }
 
 Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records,
-                                 std::span<const ResolvedProduct* const> products) {
+                                 std::span<const ResolvedProduct* const> products,
+                                 DosageTextCache& dosages) const {
   return medload::BuildTimeline(records, [&](const DispensingRecord& r) -> const ResolvedProduct& {
     return *products[static_cast<size_t>(&r - records.data())];
-  }, options_, &dosages_);
+  }, options_, &dosages);
 }
 
 Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> age,

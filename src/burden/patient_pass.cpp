@@ -146,12 +146,7 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
         const std::vector<DispensingRecord>& records = slot.history.dispensings;
         slot.products.resize(records.size());
         for (size_t i = 0; i < records.size(); ++i) slot.products[i] = resolutions.Resolve(records[i]);
-        slot.timeline = BuildTimeline(
-            records,
-            [&](const DispensingRecord& record) -> const ResolvedProduct& {
-              return *slot.products[static_cast<size_t>(&record - records.data())];
-            },
-            reader.analysis->options(), &reader.dosages);
+        slot.timeline = reader.analysis->BuildTimeline(records, slot.products, reader.dosages);
         slot.matches = MatchRuleRequirements(slot.timeline, reader.analysis->tables());
         if (!slot.history.dispensings.empty()) {
           // In date order: the last is the patient's latest.

@@ -56,12 +56,12 @@ std::string DosageRead(const DosageReading& dosage) {
 }
 
 std::string DosageText(const MedsModel& model, const DispensingUse& use) {
-  return use.record < model.records.size() ? model.records[use.record].dosage : std::string();
+  return RecordText(model.records, use, &DispensingRecord::dosage);
 }
 
 // The description as dispensed.
 std::string ProductText(const MedsModel& model, const DispensingUse& use) {
-  return use.record < model.records.size() ? model.records[use.record].product : std::string();
+  return RecordText(model.records, use, &DispensingRecord::product);
 }
 
 // Unmatched products dispensed recently enough that they could still be in use.

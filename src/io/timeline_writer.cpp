@@ -62,7 +62,7 @@ void WriteRow(std::ostream& out, const TimelineModel& model, const Medicine& med
     const double x = scale.X(use.dispensed_on);
     out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << y + 1 << "\" x2=\"" << FormatNumber(x, 1)
         << "\" y2=\"" << y + 21 << "\" stroke=\"#000\" stroke-width=\"1.5\"><title>dispensed "
-        << use.dispensed_on.ToIso() << ": " << EscapeHtml(use.record < model.records.size() ? model.records[use.record].product : std::string()) << ", " << use.supply.days
+        << use.dispensed_on.ToIso() << ": " << EscapeHtml(RecordText(model.records, use, &DispensingRecord::product)) << ", " << use.supply.days
         << " days</title></line>\n";
   }
   out << "</g>\n";

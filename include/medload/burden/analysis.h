@@ -46,10 +46,12 @@ class Analysis {
   // cache: a store that cannot be written only loses the cache.
   void SaveResolutions();
   Timeline BuildTimeline(std::span<const DispensingRecord> records);
-  // The same, with each record's product already resolved (products[i] for records[i]):
-  // touches neither the resolutions nor the store, so another thread may Resolve meanwhile.
+  // The same, with each record's product already resolved (products[i] for records[i])
+  // and the caller's dosage-text cache: reads only the options, so several threads may
+  // call it at once (each with its own cache) while another Resolves.
   Timeline BuildTimeline(std::span<const DispensingRecord> records,
-                         std::span<const ResolvedProduct* const> products);
+                         std::span<const ResolvedProduct* const> products,
+                         DosageTextCache& dosages) const;
   // `matches`: MatchRuleRequirements(timeline, tables()), or null (see EvaluateBurden).
   Burden Evaluate(const Timeline& timeline, Date on, std::optional<int> age,
                   const std::vector<bool>* matches = nullptr) const;

@@ -31,6 +31,13 @@ struct DispensingUse {
   std::shared_ptr<const std::vector<ResolvedIngredient>> ingredients;
 };
 
+// The text of field `field` of the record `use` came from ("" when `records` does not
+// reach that far: they are not the records the timeline was built from).
+inline std::string RecordText(std::span<const DispensingRecord> records, const DispensingUse& use,
+                              std::string DispensingRecord::*field) {
+  return use.record < records.size() ? records[use.record].*field : std::string();
+}
+
 struct Medicine {
   std::string key;                       // canonical ingredient names joined by "+"
   std::vector<std::string> ingredients;  // canonical names, sorted
