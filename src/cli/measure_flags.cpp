@@ -17,7 +17,7 @@ void AddMeasureFlags(po::options_description& options) {
        "medicine (a product's set of ingredients) or ingredient (each ingredient counts)")
       ("exclude-prn", po::bool_switch(), "leave out as-needed dispensings")
       ("exclude-route", po::value<std::vector<std::string>>()->composing(),
-       "leave out products given by this route (repeatable): oral, topical, ophthalmic, ...")
+       "leave out products given by this route (repeatable): oral, skin, eye, ...")
       ("scale", po::value<std::string>()->default_value("acb"),
        "anticholinergic scale: a file name in formulary/anticholinergic/ (acb, ars, ...)");
 }

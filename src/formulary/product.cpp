@@ -11,17 +11,29 @@ namespace {
 constexpr std::array<std::pair<Route, std::string_view>, 13> kRouteNames = {{
     {Route::kUnknown, "unknown"},
     {Route::kOral, "oral"},
-    {Route::kSublingual, "sublingual"},
-    {Route::kBuccal, "buccal"},
-    {Route::kTopical, "topical"},
+    {Route::kSublingualBuccal, "sublingual/buccal"},
+    {Route::kSkin, "skin"},
     {Route::kTransdermal, "transdermal"},
-    {Route::kOphthalmic, "ophthalmic"},
-    {Route::kOtic, "otic"},
+    {Route::kEye, "eye"},
+    {Route::kEar, "ear"},
     {Route::kNasal, "nasal"},
     {Route::kInhaled, "inhaled"},
     {Route::kRectal, "rectal"},
     {Route::kVaginal, "vaginal"},
-    {Route::kParenteral, "parenteral"},
+    {Route::kInjection, "injection"},
+    {Route::kOther, "other"},
+}};
+
+// Names used by earlier versions and in the trade for the same routes.
+constexpr std::array<std::pair<Route, std::string_view>, 8> kRouteAliases = {{
+    {Route::kSublingualBuccal, "sublingual"},
+    {Route::kSublingualBuccal, "buccal"},
+    {Route::kSkin, "topical"},
+    {Route::kSkin, "cutaneous"},
+    {Route::kEye, "ophthalmic"},
+    {Route::kEar, "otic"},
+    {Route::kInjection, "parenteral"},
+    {Route::kUnknown, "not stated"},
 }};
 
 }  // namespace
@@ -36,6 +48,9 @@ std::string_view RouteName(Route route) {
 std::optional<Route> RouteFromName(std::string_view name) {
   for (const auto& [value, route_name] : kRouteNames) {
     if (route_name == name) return value;
+  }
+  for (const auto& [value, alias] : kRouteAliases) {
+    if (alias == name) return value;
   }
   return std::nullopt;
 }

@@ -40,7 +40,7 @@ struct Fixture {
     products["furosemide 40mg tablets"] = Product({{"furosemide", 40.0, {}}});
     products["ibuprofen 400mg tablets"] = Product({{"ibuprofen", 400.0, {}}});
     products["naproxen 500mg tablets"] = Product({{"naproxen", 500.0, {}}});
-    products["ibuprofen 5% gel"] = Product({{"ibuprofen", std::nullopt, {}}}, Route::kTopical);
+    products["ibuprofen 5% gel"] = Product({{"ibuprofen", std::nullopt, {}}}, Route::kSkin);
     ResolvedProduct dressing;
     dressing.match = MatchKind::kNonMedicine;
     dressing.non_medicine = true;
@@ -223,7 +223,7 @@ TEST_CASE("excluded routes and as-needed dispensings leave the count when asked"
       // 28 tablets at up to 8 a day (the stated maximum) last 4 days: 1 to 4 January.
       Rx("codeine 30mg tablets", D(2024, 1, 1), 28, std::nullopt, "one or two four times a day when required")};
   CHECK(f.On(records, D(2024, 1, 3)).items == 2);
-  f.options.exclude_routes = {Route::kTopical};
+  f.options.exclude_routes = {Route::kSkin};
   CHECK(f.On(records, D(2024, 1, 3)).items == 1);
   f.options.exclude_prn = true;
   CHECK(f.On(records, D(2024, 1, 3)).items == 0);

@@ -8,14 +8,30 @@ namespace {
 TEST_SUITE("formulary.product") {
 
 TEST_CASE("route names round-trip and unknown names are refused") {
-  for (const Route route : {Route::kUnknown, Route::kOral, Route::kSublingual, Route::kBuccal, Route::kTopical,
-                            Route::kTransdermal, Route::kOphthalmic, Route::kOtic, Route::kNasal, Route::kInhaled,
-                            Route::kRectal, Route::kVaginal, Route::kParenteral}) {
+  for (const Route route : {Route::kUnknown, Route::kOral, Route::kSublingualBuccal, Route::kSkin,
+                            Route::kTransdermal, Route::kEye, Route::kEar, Route::kNasal, Route::kInhaled,
+                            Route::kRectal, Route::kVaginal, Route::kInjection, Route::kOther}) {
     const std::string name(RouteName(route));
     CAPTURE(name);
     CHECK(RouteFromName(name) == route);
   }
   CHECK(RouteName(Route::kInhaled) == "inhaled");
+  // The product specification's route names.
+  CHECK(RouteName(Route::kSublingualBuccal) == "sublingual/buccal");
+  CHECK(RouteName(Route::kSkin) == "skin");
+  CHECK(RouteName(Route::kEye) == "eye");
+  CHECK(RouteName(Route::kEar) == "ear");
+  CHECK(RouteName(Route::kInjection) == "injection");
+  CHECK(RouteName(Route::kOther) == "other");
+}
+
+TEST_CASE("earlier route names are read as aliases of the current ones") {
+  CHECK(RouteFromName("topical") == Route::kSkin);
+  CHECK(RouteFromName("parenteral") == Route::kInjection);
+  CHECK(RouteFromName("ophthalmic") == Route::kEye);
+  CHECK(RouteFromName("otic") == Route::kEar);
+  CHECK(RouteFromName("buccal") == Route::kSublingualBuccal);
+  CHECK(RouteFromName("sublingual") == Route::kSublingualBuccal);
   CHECK_FALSE(RouteFromName("Oral").has_value());
   CHECK_FALSE(RouteFromName("by mouth").has_value());
 }

@@ -35,7 +35,7 @@ TEST_CASE("every key of the schema is read") {
     "criteria": ["items>=10", "acb>=3", "dbi>=1", "rule:opioid-benzodiazepine"],
     "suppress_below": 5, "practices": ["WV001"], "measure": "lookback", "window": 60,
     "grace_days": 10, "carryover": true, "default_supply_days": 30, "max_supply_days": 90,
-    "count_by": "ingredient", "exclude_prn": true, "exclude_route": ["topical"], "scale": "acb",
+    "count_by": "ingredient", "exclude_prn": true, "exclude_route": ["skin"], "scale": "acb",
     "worklist_limit": 10, "pseudonymise_key": "key.txt",
     "digests": {"from": "a@b.invalid", "to": ["c@d.invalid"], "practice_to": {"WV001": ["e@f.invalid"]},
                 "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false}}})");

@@ -10,24 +10,29 @@
 
 namespace medload {
 
+// The route a product is given by. Names as in the product specification's list (oral,
+// transdermal, injection, rectal, sublingual/buccal, inhaled, nasal, eye, ear, skin,
+// vaginal, other); kUnknown when neither the product table nor the description says.
 enum class Route {
   kUnknown,
   kOral,
-  kSublingual,
-  kBuccal,
-  kTopical,
+  kSublingualBuccal,
+  kSkin,
   kTransdermal,
-  kOphthalmic,
-  kOtic,
+  kEye,
+  kEar,
   kNasal,
   kInhaled,
   kRectal,
   kVaginal,
-  kParenteral,
+  kInjection,
+  kOther,
 };
 
-// "oral", "topical", ... (lower case, as used by --exclude-route); and back.
+// "oral", "skin", "sublingual/buccal", ... (lower case, as used by --exclude-route).
 std::string_view RouteName(Route route);
+// The route of a name from RouteName, or of an accepted alias ("sublingual", "buccal",
+// "topical", "cutaneous", "ophthalmic", "otic", "parenteral"); nullopt otherwise.
 std::optional<Route> RouteFromName(std::string_view name);
 
 struct ResolvedIngredient {
