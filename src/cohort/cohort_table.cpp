@@ -60,7 +60,12 @@ GroupDay CoverGroup(const CohortTally& tally, const std::string& group, size_t d
     day.cell.registered -= cells->second[d].registered;
     for (size_t b = 0; b < kEspBands; ++b) day.cell.registered_by_band[b] -= cells->second[d].registered_by_band[b];
   }
-  if (day.practices_without_data == static_cast<long>(codes->second.size())) day.data = DataState::kNoData;
+  if (day.practices_without_data == static_cast<long>(codes->second.size())) {
+    // No practice has figures: the row keeps its registered count (list sizes are shown
+    // like any other row's) and has no figures.
+    day.cell = tally.groups.at(group)[d];
+    day.data = DataState::kNoData;
+  }
   else if (short_history) day.data = DataState::kShortHistory;
   else if (beyond) day.data = DataState::kBeyondData;
   // --by practice: the row is the practice's own, shown with its registered list size.

@@ -288,6 +288,13 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   WriteHtmlStart(out, "Medicines of patient " + model.patient + " on " + b.on.ToIso());
   out << "<p><strong>" << EscapeHtml(Totals(model)) << "</strong></p>\n";
   WriteHtmlTable(out, Header(ScaleLabel(model)), TableRows(model));
+  if (!b.dbi_contributions.empty()) out << "<h2>Drug Burden Index</h2>\n<ul>\n";
+  for (const auto& c : b.dbi_contributions) {
+    out << "<li>" << EscapeHtml(c.ingredient) << ": " << EscapeHtml(DbiWorking(model, c)) << ", minimum "
+        << EscapeHtml(FormatNumber(c.min_daily_dose_mg, 2)) << " mg -&gt; " << EscapeHtml(FormatNumber(c.value, 3))
+        << " (" << EscapeHtml(DoseBasisName(c.basis)) << ")" << EscapeHtml(DoseBasisMark(c)) << "</li>\n";
+  }
+  if (!b.dbi_contributions.empty()) out << "</ul>\n";
   if (!b.rules.empty()) out << "<h2>Rules fired</h2>\n<ul>\n";
   for (const FiredRule& fired : b.rules) {
     out << "<li><strong>" << EscapeHtml(fired.rule->title) << "</strong> (" << EscapeHtml(fired.rule->id)
