@@ -96,6 +96,12 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
                        ") was not recognised by the formulary and is not counted.");
   }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
+    const auto& no_minimum = model.burden->dbi_no_minimum;
+    if (std::find(no_minimum.begin(), no_minimum.end(), ingredient) != no_minimum.end()) {
+      warnings.push_back(ingredient + " is in a class the Drug Burden Index counts, but the table gives it no "
+                         "minimum daily dose, so it adds nothing: the DBI is incomplete.");
+      continue;
+    }
     warnings.push_back("The daily dose of " + ingredient +
                        " is not known (no strength), so it adds nothing to the Drug Burden Index.");
   }
@@ -183,7 +189,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"age", age}, {"items", burden.items}, {"acb", burden.acb}, {"scale", model.tables->scale},
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
-          {"dbi_incomplete", burden.dbi_incomplete}, {"unmatched", unmatched},
+          {"dbi_incomplete", burden.dbi_incomplete}, {"dbi_no_minimum", burden.dbi_no_minimum},
+          {"unmatched", unmatched},
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
