@@ -11,7 +11,7 @@
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
 #include "medload/core/census_note.h"
-#include "medload/io/json_text.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

@@ -8,7 +8,7 @@
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_writer.h"

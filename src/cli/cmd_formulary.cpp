@@ -9,8 +9,8 @@
 #include "medload/core/caution.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

@@ -4,8 +4,8 @@
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
 #include "medload/core/census_note.h"
-#include "medload/io/json_text.h"
-#include "medload/io/meds_writer.h"
+#include "medload/format/json_text.h"
+#include "medload/burden/meds_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

@@ -4,7 +4,7 @@
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"
 #include "medload/store/store.h"
@@ -20,7 +20,7 @@ void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportC
   for (const std::string& code : outcome.digests) out << "  digest for " << code << "\n";
 }
 
-// The caution as a text footer (demo cannot include io/output.h beside the importer).
+// The caution as a text footer (demo cannot include format/output.h beside the importer).
 void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
 
 // A progress line on standard error every few thousand patients (none with --quiet).

@@ -7,8 +7,8 @@
 
 #include "cli/options.h"
 #include "medload/core/caution.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/synth/synth.h"
 
 namespace medload::cli {

@@ -4,7 +4,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
-#include "medload/io/timeline_writer.h"
+#include "medload/burden/timeline_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

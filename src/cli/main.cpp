@@ -11,7 +11,7 @@
 
 #include "cli/context.h"
 #include "medload/core/caution.h"
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 
 namespace medload::cli {
 namespace {

@@ -5,7 +5,7 @@
 #include <sstream>
 
 #include "medload/cohort/cohort_writer.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

@@ -4,7 +4,7 @@
 
 #include <ostream>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

@@ -5,7 +5,7 @@
 
 #include "medload/cohort/cohort_table.h"
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_files.h"
 

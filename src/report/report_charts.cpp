@@ -3,7 +3,7 @@
 #include <cmath>
 #include <sstream>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_pages.h"
 

@@ -5,8 +5,8 @@
 
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/census_note.h"
-#include "medload/io/output.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/format/output.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/report/funnel.h"
 
 namespace medload {

@@ -8,8 +8,8 @@
 
 #include "medload/burden/patient_pass.h"
 #include "medload/cohort/registration.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload {

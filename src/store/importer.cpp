@@ -14,8 +14,8 @@
 #include <optional>
 #include <streambuf>
 
-#include "medload/io/csv_reader.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/fhir_reader.h"
 #include "store/control_characters.h"
 #include "store/record_writers.h"
 #include "store/sqlite.h"

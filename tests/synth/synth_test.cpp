@@ -10,9 +10,9 @@
 #include <set>
 #include <sstream>
 
-#include "medload/io/csv_reader.h"
-#include "medload/io/csv_records.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/csv_records.h"
+#include "medload/input/fhir_reader.h"
 
 namespace medload {
 

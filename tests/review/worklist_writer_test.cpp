@@ -1,4 +1,4 @@
-#include "medload/io/worklist_writer.h"
+#include "medload/review/worklist_writer.h"
 
 #include <doctest/doctest.h>
 

@@ -1,11 +1,11 @@
-#include "medload/io/meds_writer.h"
+#include "medload/burden/meds_writer.h"
 
 #include <algorithm>
 #include <cctype>
 #include <ostream>
 
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

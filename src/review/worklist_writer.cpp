@@ -1,11 +1,11 @@
-#include "medload/io/worklist_writer.h"
+#include "medload/review/worklist_writer.h"
 
 #include <ostream>
 
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

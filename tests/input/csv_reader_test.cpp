@@ -1,4 +1,4 @@
-#include "medload/io/csv_reader.h"
+#include "medload/input/csv_reader.h"
 
 #include <doctest/doctest.h>
 

@@ -12,7 +12,7 @@
 #include "medload/core/date.h"
 #include "medload/core/records.h"
 #include "medload/core/status.h"
-#include "medload/io/csv_reader.h"
+#include "medload/input/csv_reader.h"
 
 namespace medload {
 

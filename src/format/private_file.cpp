@@ -1,4 +1,4 @@
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 
 #include <fcntl.h>
 #include <sys/stat.h>

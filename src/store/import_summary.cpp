@@ -1,10 +1,10 @@
-#include "medload/io/import_summary.h"
+#include "medload/store/import_summary.h"
 
 #include <ostream>
 
 #include "medload/core/caution.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

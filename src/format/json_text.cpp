@@ -1,4 +1,4 @@
-#include "medload/io/json_text.h"
+#include "medload/format/json_text.h"
 
 namespace medload {
 

@@ -1,4 +1,4 @@
-#include "medload/io/import_summary.h"
+#include "medload/store/import_summary.h"
 
 #include <doctest/doctest.h>
 

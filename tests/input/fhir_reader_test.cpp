@@ -1,4 +1,4 @@
-#include "medload/io/fhir_reader.h"
+#include "medload/input/fhir_reader.h"
 
 #include <doctest/doctest.h>
 

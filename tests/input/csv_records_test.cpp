@@ -1,4 +1,4 @@
-#include "medload/io/csv_records.h"
+#include "medload/input/csv_records.h"
 
 #include <doctest/doctest.h>
 

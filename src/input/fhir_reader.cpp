@@ -1,6 +1,6 @@
 // FHIR R4 NDJSON: bounded line reading, then one resource per line. Element names and
 // value sets follow the HL7 FHIR R4 definitions of MedicationDispense and Patient.
-#include "medload/io/fhir_reader.h"
+#include "medload/input/fhir_reader.h"
 
 #include <nlohmann/json.hpp>
 

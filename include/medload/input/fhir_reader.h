@@ -11,7 +11,7 @@
 #include <vector>
 
 #include "medload/core/records.h"
-#include "medload/io/csv_records.h"
+#include "medload/input/csv_records.h"
 
 namespace medload {
 

@@ -1,4 +1,4 @@
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 #include <algorithm>
 #include <cmath>

@@ -1,10 +1,10 @@
-#include "medload/io/timeline_writer.h"
+#include "medload/burden/timeline_writer.h"
 
 #include <algorithm>
 #include <ostream>
 
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {
