@@ -5,6 +5,7 @@
 #include <ostream>
 
 #include "medload/core/caution.h"
+#include "medload/core/text.h"
 #include "medload/format/output.h"
 
 namespace medload {
@@ -23,15 +24,6 @@ std::vector<Row> Rows(const MedsModel& model) {
     rows.push_back({&active, &medicine, &medicine.uses[active.latest_use]});
   }
   return rows;
-}
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const auto& part : parts) {
-    if (!joined.empty()) joined += separator;
-    joined += part;
-  }
-  return joined;
 }
 
 std::string DisplayName(const Medicine& medicine) { return Join(medicine.ingredients, " + "); }

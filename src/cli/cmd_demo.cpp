@@ -8,6 +8,7 @@
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
+#include "medload/core/clock.h"
 #include "medload/review/worklist_writer.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_files.h"

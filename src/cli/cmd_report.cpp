@@ -4,6 +4,7 @@
 
 #include "cli/options.h"
 #include "medload/burden/analysis.h"
+#include "medload/core/clock.h"
 #include "medload/format/output.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"

@@ -4,17 +4,12 @@
 #include <cstring>
 #include <istream>
 
+#include "medload/core/text.h"
+
 namespace medload {
 namespace {
 
 constexpr size_t kChunkBytes = 256 * 1024;
-
-bool IsBlank(std::string_view text) {
-  for (char c : text) {
-    if (c != ' ' && c != '\t') return false;
-  }
-  return true;
-}
 
 // Length of the well-formed UTF-8 sequence starting at text[i], or 0 (RFC 3629, table 3-7
 // of The Unicode Standard: no overlong forms, no surrogates, nothing above U+10FFFF).

@@ -7,6 +7,8 @@
 #include <fstream>
 #include <sstream>
 
+#include "medload/core/text.h"
+
 namespace medload {
 namespace {
 
@@ -28,12 +30,6 @@ constexpr size_t kPatientId = 0, kReviewedOn = 1;
 }  // namespace review_col
 
 char AsciiLower(char c) { return c >= 'A' && c <= 'Z' ? static_cast<char>(c - 'A' + 'a') : c; }
-
-std::string_view Trim(std::string_view text) {
-  while (!text.empty() && (text.front() == ' ' || text.front() == '\t')) text.remove_prefix(1);
-  while (!text.empty() && (text.back() == ' ' || text.back() == '\t')) text.remove_suffix(1);
-  return text;
-}
 
 // A header name as compared: trimmed, lower case, ' ' and '-' as '_'.
 std::string NormaliseHeader(std::string_view name) {

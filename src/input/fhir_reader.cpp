@@ -8,6 +8,7 @@
 #include <cstring>
 #include <istream>
 
+#include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
 #include "medload/dose/fhir_dosage.h"
 
@@ -17,13 +18,6 @@ namespace {
 using nlohmann::json;
 
 constexpr size_t kChunkBytes = 256 * 1024;
-
-bool IsBlank(std::string_view text) {
-  for (char c : text) {
-    if (c != ' ' && c != '\t' && c != '\r') return false;
-  }
-  return true;
-}
 
 // Arrays and objects nested deeper than this are refused before parsing: a FHIR resource
 // needs far fewer levels, and the JSON library copies and prints values recursively.
@@ -332,7 +326,7 @@ bool FhirReader::Next(FhirItem& item) {
     const size_t line = next_line_;
     if (!ReadLine()) return false;
     ++next_line_;
-    if (!line_too_long_ && IsBlank(line_text_)) {
+    if (!line_too_long_ && IsBlank(line_text_, " \t\r")) {
       ++blank_lines_;
       continue;
     }

@@ -1,14 +1,13 @@
 #include "medload/report/report_writer.h"
 
 #include <algorithm>
-#include <chrono>
-#include <ctime>
 #include <filesystem>
 #include <sstream>
 
 #include "medload/burden/analysis.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
+#include "medload/core/clock.h"
 #include "medload/format/json_text.h"
 #include "medload/review/worklist_writer.h"
 #include "medload/report/digest.h"
@@ -163,15 +162,6 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
     return s;
   }
   return outcome;
-}
-
-std::string UtcNow() {
-  const std::time_t now = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
-  std::tm utc{};
-  gmtime_r(&now, &utc);
-  char text[32];
-  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%SZ", &utc);
-  return text;
 }
 
 }  // namespace medload

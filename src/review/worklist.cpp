@@ -8,18 +8,13 @@
 
 #include "medload/burden/patient_pass.h"
 #include "medload/cohort/registration.h"
+#include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const auto& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 // A completed review in the `days` days ending on D.
 bool RecentlyReviewed(const std::vector<Date>& reviews, Date on, int days) {

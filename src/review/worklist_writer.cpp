@@ -5,16 +5,11 @@
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
+#include "medload/core/text.h"
 #include "medload/format/output.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const auto& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 std::string Age(const WorklistEntry& e) { return e.age ? std::to_string(*e.age) : ""; }
 

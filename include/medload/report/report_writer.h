@@ -49,7 +49,4 @@ struct ReportRunOptions {
 Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportConfig& config,
                                 const ReportRunOptions& options);
 
-// The current UTC time as "YYYY-MM-DDTHH:MM:SSZ".
-std::string UtcNow();
-
 }  // namespace medload
