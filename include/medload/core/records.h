@@ -53,4 +53,13 @@ struct ReviewRecord {
   Date reviewed_on;
 };
 
+// One distinct product as dispensed, with how often and to how many patients.
+struct ProductCount {
+  std::string product;
+  std::string code;
+  std::string code_system;
+  long items = 0;     // counting dispensings
+  long patients = 0;  // distinct patients among them
+};
+
 }  // namespace medload

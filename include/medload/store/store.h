@@ -36,15 +36,6 @@ struct PatientHistory {
   std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
 };
 
-// One distinct product as dispensed, with how often and to how many patients.
-struct ProductCount {
-  std::string product;
-  std::string code;
-  std::string code_system;
-  long items = 0;     // counting dispensings
-  long patients = 0;  // distinct patients among them
-};
-
 // Provenance figures for a run: the span of the data and the size of each table.
 struct StoreSummary {
   std::optional<Date> earliest_dispensed;  // counting dispensings only; absent if none
