@@ -90,9 +90,4 @@ Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> 
 
 size_t Analysis::resolved_products() const { return resolved_.size(); }
 
-std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on) {
-  if (!registry || !registry->birth_date) return std::nullopt;
-  return CompletedYears(*registry->birth_date, on);
-}
-
 }  // namespace medload

@@ -3,9 +3,10 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
+#include "medload/burden/meds_writer.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/core/census_note.h"
 #include "medload/format/json_text.h"
-#include "medload/burden/meds_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

@@ -4,8 +4,8 @@
 #include <utility>
 
 #include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
 
 namespace medload {
 

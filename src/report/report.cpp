@@ -5,8 +5,8 @@
 #include <utility>
 
 #include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
 
 namespace medload {
 namespace {

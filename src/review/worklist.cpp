@@ -6,8 +6,8 @@
 
 #include <nlohmann/json.hpp>
 
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
 #include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"

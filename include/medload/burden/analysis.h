@@ -83,7 +83,4 @@ class Analysis {
 // system (Analysis::Resolve's cache, and the pass's per-reader maps in front of it).
 void ProductKeyOf(const DispensingRecord& record, std::string& into);
 
-// Age in completed years on `on` from a registry row, if its birth date is known.
-std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on);
-
 }  // namespace medload

@@ -71,7 +71,7 @@ class CohortCounter {
 
   // True when the patient belongs to the counter's shard.
   bool Wants(const PatientHistory& history) const;
-  // Counts the patient on every census date on which they are registered (registration.h),
+  // Counts the patient on every census date on which they are registered (burden/patient_facts.h),
   // calling `burden` once for each such date and never for others. Patients outside the
   // shard are ignored.
   void Add(const PatientHistory& history, const BurdenOnDate& burden);

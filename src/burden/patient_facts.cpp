@@ -1,8 +1,13 @@
-#include "medload/cohort/registration.h"
+#include "medload/burden/patient_facts.h"
 
 #include <algorithm>
 
 namespace medload {
+
+std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on) {
+  if (!registry || !registry->birth_date) return std::nullopt;
+  return CompletedYears(*registry->birth_date, on);
+}
 
 std::optional<std::string> RegisteredPractice(const PatientHistory& history, Date on) {
   if (history.registry) {

@@ -1,4 +1,4 @@
-#include "medload/cohort/registration.h"
+#include "medload/burden/patient_facts.h"
 
 #include <doctest/doctest.h>
 
@@ -90,6 +90,17 @@ TEST_CASE("without a registry row the practice is that of the latest dispensing 
   CHECK(RegisteredPractice(history, on) == std::optional<std::string>("B02"));
   CHECK(RegisteredPractice(history, D(2024, 3, 31)) == std::optional<std::string>("A01"));
   CHECK(RegisteredPractice(history, D(2024, 7, 31)) == std::optional<std::string>("C03"));
+}
+
+TEST_CASE("age on a date is in completed years, and unknown without a birth date") {
+  PatientRecord row;
+  row.patient_id = "P1";
+  row.birth_date = D(1950, 7, 1);
+  CHECK(AgeOn(row, D(2024, 6, 30)) == std::optional<int>(73));
+  CHECK(AgeOn(row, D(2024, 7, 1)) == std::optional<int>(74));
+  row.birth_date.reset();
+  CHECK_FALSE(AgeOn(row, D(2024, 7, 1)).has_value());
+  CHECK_FALSE(AgeOn(std::nullopt, D(2024, 7, 1)).has_value());
 }
 
 TEST_CASE("a patient with neither registry row nor dispensing is never registered") {

@@ -1,5 +1,6 @@
-// Who is on a practice's registered list on a census date (the cohort denominator rule of
-// spec section 5), from one patient's history. Pure; it does not look at medicines.
+// Facts about a patient on a census date that do not depend on medicines: their age
+// (docs/measures.md) and the practice whose registered list they are on (the cohort
+// denominator rule of docs/cohort.md), from one patient's registry row and history. Pure.
 #pragma once
 
 #include <optional>
@@ -9,6 +10,10 @@
 #include "medload/store/store.h"
 
 namespace medload {
+
+// Age in completed years on `on` from a registry row, if its birth date is known (a birth
+// year alone is read as 1 July of that year by the patient reader).
+std::optional<int> AgeOn(const std::optional<PatientRecord>& registry, Date on);
 
 // Days that a dispensing keeps a patient without a registry row on a practice's list: a
 // dispensing in the 365 days ending on the census date D counts (D-364 to D inclusive,
