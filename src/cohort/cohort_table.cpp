@@ -1,5 +1,7 @@
 #include "medload/cohort/cohort_table.h"
 
+#include "medload/format/suppression.h"
+
 namespace medload {
 namespace {
 
@@ -30,10 +32,6 @@ std::string ShardsText(const CohortTally& tally) {
 }
 
 }  // namespace
-
-bool IsSuppressed(long count, long suppress_below) {
-  return count > 0 && count < suppress_below;
-}
 
 CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below) {
   CohortTable table;

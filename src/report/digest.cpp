@@ -3,10 +3,10 @@
 #include <cmath>
 #include <sstream>
 
-#include "medload/cohort/cohort_table.h"
 #include "medload/core/caution.h"
 #include "medload/core/hash.h"
 #include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_files.h"
 

@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_pages.h"
 

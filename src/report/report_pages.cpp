@@ -6,6 +6,7 @@
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/census_note.h"
 #include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/review/worklist_writer.h"
 #include "medload/report/funnel.h"
 

@@ -2,11 +2,10 @@
 
 #include <ostream>
 
-#include "medload/cohort/cohort_table.h"
-#include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
 #include "medload/core/text.h"
 #include "medload/format/output.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {

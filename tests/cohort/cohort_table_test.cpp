@@ -53,15 +53,6 @@ TEST_CASE("a count below the suppression threshold and its rates are null") {
   CHECK(row.registered == 40);                    // list sizes are not suppressed
 }
 
-TEST_CASE("suppression withholds 1 to N-1 and shows zero and N") {
-  CHECK_FALSE(IsSuppressed(0, 5));
-  CHECK(IsSuppressed(1, 5));
-  CHECK(IsSuppressed(4, 5));
-  CHECK_FALSE(IsSuppressed(5, 5));
-  CHECK_FALSE(IsSuppressed(1, 0));
-  CHECK_FALSE(IsSuppressed(1, 1));
-}
-
 TEST_CASE("a group with nobody registered on a date has null rates") {
   CohortTally tally = OneCell();
   tally.dates.push_back(D(2024, 2, 29));

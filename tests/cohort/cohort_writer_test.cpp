@@ -65,13 +65,6 @@ TEST_CASE("the HTML page has the banner, an escaped group and a trend chart") {
   CHECK(html.find("<svg") != std::string::npos);
 }
 
-TEST_CASE("the suppression note states the rule and the secondary-disclosure limit") {
-  CHECK(SuppressionNote(0).find("No small-number suppression") == 0);
-  const std::string note = SuppressionNote(10);
-  CHECK(note.find("Counts from 1 to 9 (below 10) are withheld") == 0);
-  CHECK(note.find("does not suppress complementary cells") != std::string::npos);
-}
-
 TEST_CASE("a table's warnings appear in the text, CSV, HTML and JSON") {
   CohortTable table = SmallTable(0);
   const std::string warning = "the census date 2024-01-31 is 30 days after the latest dispensing loaded (2024-01-01)";

@@ -42,11 +42,6 @@ struct CohortTable {
   std::vector<std::string> notes;
 };
 
-// Small-number suppression: a count c with 0 < c < suppress_below is withheld (null), and
-// so are its crude and standardised rates. Zero is shown. Registered counts (list sizes)
-// are shown. suppress_below <= 1 suppresses nothing.
-bool IsSuppressed(long count, long suppress_below);
-
 // Builds the table from a tally: rows for every date and every group seen on any date.
 CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below);
 

@@ -35,7 +35,4 @@ void WriteCohortHtml(std::ostream& out, const CohortTable& table);
 // end (so it reads without colour). Suppressed points leave a gap.
 std::string CohortTrendSvg(const CohortTable& table, size_t key);
 
-// The suppression rule and the note on secondary disclosure, in words (for every format).
-std::string SuppressionNote(long suppress_below);
-
 }  // namespace medload
