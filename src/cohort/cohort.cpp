@@ -102,6 +102,8 @@ Status CheckSameRun(const CohortTally& first, const CohortTally& other, const st
   return Status::Ok();
 }
 
+}  // namespace
+
 void AddCell(CohortCell& into, const CohortCell& from) {
   into.registered += from.registered;
   for (size_t b = 0; b < kEspBands; ++b) into.registered_by_band[b] += from.registered_by_band[b];
@@ -110,8 +112,6 @@ void AddCell(CohortCell& into, const CohortCell& from) {
     for (size_t b = 0; b < kEspBands; ++b) into.counts_by_band[k][b] += from.counts_by_band[k][b];
   }
 }
-
-}  // namespace
 
 Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
                                  const std::vector<std::string>& names) {

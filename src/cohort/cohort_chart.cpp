@@ -6,6 +6,7 @@
 
 #include "medload/cohort/cohort_writer.h"
 #include "medload/format/output.h"
+#include "medload/format/svg_chart.h"
 
 namespace medload {
 namespace {
@@ -19,16 +20,6 @@ constexpr double kBottom = 56;
 constexpr double kLabelGap = 12;  // the least vertical distance between two end labels
 constexpr const char* kColours[] = {"#1b6ca8", "#c0392b", "#2e8b57", "#8e44ad", "#d35400",
                                     "#2c3e50", "#7f8c8d", "#b7950b"};
-
-// A round number at or above `value` (1, 2 or 5 times a power of ten).
-double NiceCeiling(double value) {
-  if (value <= 0) return 1;
-  const double power = std::pow(10.0, std::floor(std::log10(value)));
-  for (const double step : {1.0, 2.0, 5.0, 10.0}) {
-    if (step * power >= value) return step * power;
-  }
-  return 10 * power;
-}
 
 struct Point {
   double x = 0;
@@ -47,14 +38,6 @@ std::vector<std::optional<double>> SeriesOf(const CohortTable& table, const std:
   return values;
 }
 
-std::string Fixed(double value) {
-  std::ostringstream text;
-  text.setf(std::ios::fixed);
-  text.precision(1);
-  text << value;
-  return text.str();
-}
-
 // The x of date index `d` of `n`: spread across the plot, or its middle for one date.
 double XOf(size_t d, size_t n) {
   const double plot_w = kWidth - kLeft - kRight;
@@ -70,9 +53,9 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
       << EscapeHtml(title) << "</text>\n";
   for (int tick = 0; tick <= 4; ++tick) {
     const double y = kTop + plot_h - plot_h * tick / 4.0;
-    svg << "<line x1=\"" << kLeft << "\" y1=\"" << Fixed(y) << "\" x2=\"" << kLeft + plot_w
-        << "\" y2=\"" << Fixed(y) << "\" stroke=\"#ddd\"/>\n"
-        << "<text x=\"" << kLeft - 6 << "\" y=\"" << Fixed(y + 4)
+    svg << "<line x1=\"" << kLeft << "\" y1=\"" << SvgNumber(y) << "\" x2=\"" << kLeft + plot_w
+        << "\" y2=\"" << SvgNumber(y) << "\" stroke=\"#ddd\"/>\n"
+        << "<text x=\"" << kLeft - 6 << "\" y=\"" << SvgNumber(y + 4)
         << "\" font-size=\"11\" text-anchor=\"end\">" << FormatNumber(top_rate * tick / 4.0, 1)
         << "</text>\n";
   }
@@ -80,16 +63,16 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
   const size_t every = std::max<size_t>(1, (n + 7) / 8);  // at most about 8 date labels
   for (size_t d = 0; d < n; d += every) {
     const double x = XOf(d, n);
-    svg << "<text x=\"" << Fixed(x) << "\" y=\"" << Fixed(kTop + plot_h + 16)
+    svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(kTop + plot_h + 16)
         << "\" font-size=\"11\" text-anchor=\"middle\">" << table.dates[d].ToIso() << "</text>\n";
   }
   svg << "<line x1=\"" << kLeft << "\" y1=\"" << kTop + plot_h << "\" x2=\"" << kLeft + plot_w
       << "\" y2=\"" << kTop + plot_h << "\" stroke=\"#333\"/>\n"
       << "<line x1=\"" << kLeft << "\" y1=\"" << kTop << "\" x2=\"" << kLeft << "\" y2=\""
       << kTop + plot_h << "\" stroke=\"#333\"/>\n"
-      << "<text x=\"" << Fixed(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
+      << "<text x=\"" << SvgNumber(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
       << "\" font-size=\"12\" text-anchor=\"middle\">census date</text>\n"
-      << "<text transform=\"translate(16 " << Fixed(kTop + plot_h / 2)
+      << "<text transform=\"translate(16 " << SvgNumber(kTop + plot_h / 2)
       << ") rotate(-90)\" font-size=\"12\" text-anchor=\"middle\">rate per 1000 registered</text>\n";
 }
 
@@ -134,7 +117,7 @@ std::vector<std::optional<Point>> PointsOf(const std::vector<std::optional<doubl
 std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   double highest = 0;
   for (const CohortRow& row : table.rows) highest = std::max(highest, row.values[key].rate.value_or(0));
-  const double top_rate = NiceCeiling(highest);
+  const double top_rate = NiceAxisTop(highest);
   const std::string title = table.keys[key] + ": rate per 1000 registered, by " +
                             std::string(GroupByName(table.group_by));
   std::ostringstream svg;
@@ -155,10 +138,10 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
         drawing = false;  // a gap: the next point starts a new segment
         continue;
       }
-      path += (drawing ? " L" : " M") + Fixed(p->x) + " " + Fixed(p->y);
+      path += (drawing ? " L" : " M") + SvgNumber(p->x) + " " + SvgNumber(p->y);
       drawing = true;
       last = p;
-      svg << "<circle cx=\"" << Fixed(p->x) << "\" cy=\"" << Fixed(p->y)
+      svg << "<circle cx=\"" << SvgNumber(p->x) << "\" cy=\"" << SvgNumber(p->y)
           << "\" r=\"2.5\" fill=\"" << colour << "\"/>\n";
     }
     if (!path.empty()) {
@@ -169,7 +152,7 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   }
   SpreadLabels(labels);
   for (const Label& label : labels) {
-    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << Fixed(label.y)
+    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << SvgNumber(label.y)
         << "\" font-size=\"11\" fill=\"" << label.colour << "\">" << EscapeHtml(label.group)
         << "</text>\n";
   }

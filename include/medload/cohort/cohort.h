@@ -40,6 +40,10 @@ struct CohortCell {
   std::vector<std::array<long, kEspBands>> counts_by_band;  // per criterion, then "any"
 };
 
+// Adds `from`'s counts into `into` (the same date and criteria; counts beyond the shorter
+// of the two lists are left as they are).
+void AddCell(CohortCell& into, const CohortCell& from);
+
 // Everything a cohort run counted; exact, so tallies of disjoint shards add up.
 struct CohortTally {
   std::vector<std::string> criteria;  // criterion keys, in option order ("any" not included)
