@@ -73,12 +73,12 @@ class Handover {
   std::deque<Batch*> queue_;
 };
 
-// Products resolved for one reader: its own map in front of the run's Analysis, which
-// readers share under one lock (the Analysis and its store connection are not
+// Products resolved for one reader: its own map in front of the run's RunContext, which
+// readers share under one lock (the RunContext and its store connection are not
 // thread-safe; the map makes the lock rare, once per distinct product and reader).
 class ReaderResolutions {
  public:
-  ReaderResolutions(Analysis& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
+  ReaderResolutions(RunContext& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
 
   const ResolvedProduct* Resolve(const DispensingRecord& record) {
     ProductKeyOf(record, key_);
@@ -93,7 +93,7 @@ class ReaderResolutions {
   }
 
  private:
-  Analysis& analysis_;
+  RunContext& analysis_;
   std::mutex& lock_;
   std::unordered_map<std::string, const ResolvedProduct*> seen_;
   std::string key_;
@@ -102,7 +102,7 @@ class ReaderResolutions {
 // One reader: its connection, the ranges it reads (every n-th), its batches.
 struct Reader {
   const Store* source = nullptr;
-  const Analysis* analysis = nullptr;  // read only here: the options and tables
+  const RunContext* analysis = nullptr;  // read only here: the options and tables
   DosageTextCache dosages;             // this reader's own (the run's is not shared)
   std::vector<DispensingRecord> spare;  // records kept for reuse across its ranges
   std::optional<Date> latest_dispensed;  // among the records it read
@@ -175,7 +175,7 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
 
 }  // namespace
 
-Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit,
+Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const PassVisit& visit,
                               PassFacts* facts) {
   // Two connections need one snapshot to agree on: the caller's, or one for the pass.
   std::optional<StoreSnapshot> own_snapshot;

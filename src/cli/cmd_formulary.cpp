@@ -13,11 +13,6 @@
 namespace medload::cli {
 namespace {
 
-int Fail(Context& context, const Status& status) {
-  *context.err << "medload: " << status.message() << "\n";
-  return status.exit_code();
-}
-
 void WriteCheck(Context& context, const std::string& dir, const FormularyCheck& check) {
   std::ostream& out = *context.out;
   switch (context.format) {
@@ -41,7 +36,7 @@ int CheckCommand(Context& context, const std::vector<std::string>& args) {
     *context.err << "medload: formulary " << context.formulary_dir << " has " << check.faults.size()
                  << (check.faults.size() == 1 ? " fault\n" : " faults\n");
   }
-  return check.ok() ? 0 : 2;
+  return check.ok() ? 0 : kExitInput;
 }
 
 // ---- formulary lookup ----

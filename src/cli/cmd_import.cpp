@@ -17,8 +17,6 @@
 namespace medload::cli {
 namespace {
 
-constexpr int kExitInput = 2;
-constexpr int kExitRejected = 3;
 constexpr long kProgressEvery = 1000000;
 // How long an import waits for the store's write lock (another import, a migration): an
 // hour, so that imports started together by a scheduler run one after the other.
@@ -82,11 +80,6 @@ void WriteSummary(Format format, const std::vector<ImportSummary>& summaries, st
     case Format::kHtml: WriteImportHtml(summaries, out); break;
     default: WriteImportText(summaries, out); break;
   }
-}
-
-int Fail(Context& context, const Status& status) {
-  *context.err << "medload: " << status.message() << "\n";
-  return status.exit_code();
 }
 
 // Imports the files one by one; a file that fails does not stop the others.

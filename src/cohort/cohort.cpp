@@ -3,7 +3,7 @@
 #include <optional>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
 
@@ -65,7 +65,7 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   }
 }
 
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options) {
   auto practices = store.Practices();
   if (!practices.ok()) return practices.status();

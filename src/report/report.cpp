@@ -4,7 +4,7 @@
 #include <set>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
 
@@ -135,7 +135,7 @@ struct Pass {
   long patients = 0;
 };
 
-Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
+Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
   return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
@@ -179,7 +179,7 @@ Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& mode
 
 }  // namespace
 
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress) {
   ReportModel model;

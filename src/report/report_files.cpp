@@ -48,7 +48,7 @@ Result<std::string> SafeFileStem(std::string_view text) {
 
 Result<ReportFolder> ReportFolder::Open(const std::string& path) {
   std::error_code error;
-  if (path.empty()) return Status::Usage("--out needs a folder");
+  if (path.empty()) return Status::Usage("the report folder has no name (an empty path)");
   if (fs::exists(path, error) && !fs::is_directory(path, error)) {
     return Status::Input(path + ": exists and is not a folder");
   }

@@ -4,7 +4,7 @@
 #include <filesystem>
 #include <sstream>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
 #include "medload/core/clock.h"
@@ -132,7 +132,7 @@ Result<ReportOutcome> WriteReport(const ReportModel& model, const std::string& o
   return outcome;
 }
 
-Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportOutcome> RunReport(Store& store, RunContext& analysis, const ReportConfig& config,
                                 const ReportRunOptions& options) {
   std::function<std::string(const std::string&)> pseudonymise;
   std::optional<Pseudonymiser> keyed;

@@ -86,9 +86,9 @@ std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& b
 
 }  // namespace
 
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options) {
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
   if (options.criteria.empty()) {
-    return Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X or --rule ID)");
+    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X or rule:ID)");
   }
   if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
   std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates

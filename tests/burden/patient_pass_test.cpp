@@ -35,12 +35,12 @@ struct ManyPatients {
   static constexpr int kPatients = 700;
   std::unique_ptr<TempFolder> folder;
   Store store;
-  Analysis analysis;
+  RunContext analysis;
 
   explicit ManyPatients(bool in_file = false)
       : folder(in_file ? std::make_unique<TempFolder>() : nullptr),
         store(std::move(Store::Open(in_file ? folder->File("pass.db") : ":memory:").value())),
-        analysis(std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, in_file ? &store : nullptr).value())) {
+        analysis(std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, in_file ? &store : nullptr).value())) {
     const char* products[] = {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets", "Codeine 30mg tablets",
                               "Ramipril 5mg capsules"};
     std::string rows = "patient_id,dispensed_on,product,quantity,dosage\n";

@@ -310,10 +310,10 @@ TEST_CASE("options out of range are usage errors naming the option") {
   options.patients = 0;
   Status status = CheckSynthOptions(options);
   CHECK(status.code() == StatusCode::kUsage);
-  CHECK(status.message() == "--patients 0 is out of range: give 1 to 50000000");
+  CHECK(status.message() == "patients 0 is out of range: give 1 to 50000000");
   options = SmallOptions(1);
   options.months = 0;
-  CHECK(CheckSynthOptions(options).message() == "--months 0 is out of range: give 1 to 240");
+  CHECK(CheckSynthOptions(options).message() == "months 0 is out of range: give 1 to 240");
   options.months = 241;
   CHECK(CheckSynthOptions(options).code() == StatusCode::kUsage);
   CHECK(CheckSynthOptions(SmallOptions(1)).ok());

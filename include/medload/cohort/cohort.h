@@ -22,7 +22,7 @@
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 struct CohortOptions {
   std::vector<Date> dates;               // census dates, oldest first (series.h)
@@ -94,7 +94,7 @@ class CohortCounter {
 // One pass over the store (Store::ForEachPatient): each patient of the shard has their
 // timeline built once and evaluated on every census date on which they are registered.
 // Fails with the store's Status.
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options);
 
 // Adds tallies of disjoint shards of the same run. Fails with Input (naming `names[i]`)

@@ -18,7 +18,7 @@
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 // One practice (or the network total) over the census dates.
 struct ReportSeries {
@@ -64,7 +64,7 @@ Result<Date> LatestCensusDate(const StoreSummary& summary);
 // practice in config.practices that the store does not know, or an unknown rule id.
 // `pseudonymise` (may be empty) replaces patient identifiers in the worklists after
 // ranking (review/pseudonym.h).
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis,
                                      const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress);

@@ -7,7 +7,7 @@
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/criteria.h"
 #include "medload/core/status.h"
 
@@ -78,7 +78,7 @@ std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& b
 
 // Streams the store once and builds the ranked list. Status::Usage when no criterion is
 // given; Status::Input for a rule id the tables do not have or a storage error.
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options);
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options);
 
 // Marks `is_new` against the previous saved run (dated before this one) with the same
 // criteria and filters, and saves this one (the store keeps runs; a re-run on the same

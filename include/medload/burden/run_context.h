@@ -1,7 +1,7 @@
-// What a run needs to turn patients' records into burden: the formulary, its tables
-// flattened for the chosen scale, and product resolutions cached per run and in the
-// store (keyed by the formulary checksum and the medload version, so a changed table or
-// an upgrade re-resolves).
+// The run context: what one command's run needs to turn patients' records into burden:
+// the formulary, its tables flattened for the chosen scale, the measure options, and
+// product resolutions cached per run and in the store (keyed by the formulary checksum
+// and the medload version, so a changed table or an upgrade re-resolves).
 #pragma once
 
 #include <memory>
@@ -21,22 +21,24 @@ namespace medload {
 
 class Store;
 
-class Analysis {
+class RunContext {
  public:
   // Loads the formulary in `formulary_dir` and checks that `options.scale` is one of its
-  // scales. `store` (may be null) remembers resolutions; it must outlive the Analysis.
-  // Status::Input for a bad formulary, Status::Usage for an unknown scale.
-  static Result<Analysis> Open(const std::string& formulary_dir, const MeasureOptions& options,
-                               Store* store);
+  // scales. `store` (may be null) remembers resolutions; it must outlive the RunContext.
+  // Status::Input for a bad formulary; Status::Usage for an unknown scale, whose message
+  // starts with the setting's name: `scale "NAME" is not a scale in DIR/anticholinergic/
+  // (known: ...)` (a caller may say where the setting came from).
+  static Result<RunContext> Open(const std::string& formulary_dir, const MeasureOptions& options,
+                                 Store* store);
 
-  Analysis(Analysis&&) noexcept;
-  Analysis& operator=(Analysis&&) noexcept;
-  ~Analysis();
+  RunContext(RunContext&&) noexcept;
+  RunContext& operator=(RunContext&&) noexcept;
+  ~RunContext();
 
   // The resolution of a record's product, resolved once per run: from this run's cache,
   // else from the store's saved resolutions under ResolutionKey(), else by the
   // resolver (then saved in the store, best effort: a read-only store still resolves).
-  // The reference stays valid for the Analysis's lifetime.
+  // The reference stays valid for the RunContext's lifetime.
   const ResolvedProduct& Resolve(const DispensingRecord& record);
   // The key saved resolutions are kept under: the formulary checksum and this medload's
   // version, so that a changed table or an upgraded resolver resolves again.
@@ -63,7 +65,7 @@ class Analysis {
   size_t resolved_products() const;
 
  private:
-  Analysis() = default;
+  RunContext() = default;
   std::unique_ptr<Formulary> formulary_;
   // Keyed by product, code and code system; node-based, so references stay valid.
   std::unordered_map<std::string, ResolvedProduct> resolved_;
@@ -80,7 +82,7 @@ class Analysis {
 };
 
 // The key a record's product is resolved under within a run: product, code and code
-// system (Analysis::Resolve's cache, and the pass's per-reader maps in front of it).
+// system (RunContext::Resolve's cache, and the pass's per-reader maps in front of it).
 void ProductKeyOf(const DispensingRecord& record, std::string& into);
 
 }  // namespace medload

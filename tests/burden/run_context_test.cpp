@@ -1,4 +1,4 @@
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 
 #include <doctest/doctest.h>
 
@@ -12,7 +12,7 @@ TEST_SUITE("analysis") {
 TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum and version") {
   auto store = Store::Open(":memory:");
   REQUIRE(store.ok());
-  auto analysis = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
+  auto analysis = RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
   REQUIRE(analysis.ok());
   DispensingRecord record;
   record.product = "Amitriptyline 10mg tablets";
@@ -40,7 +40,7 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
   ResolvedProduct marked = first;
   marked.match_detail = "saved earlier";
   REQUIRE(store->SaveResolution(record.product, "", "", checksum, SerialiseResolution(marked)).ok());
-  auto again = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
+  auto again = RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
   REQUIRE(again.ok());
   CHECK(again->Resolve(record).match_detail == "saved earlier");
 }
@@ -48,10 +48,11 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
 TEST_CASE("an unknown scale is a usage error naming the known scales") {
   MeasureOptions options;
   options.scale = "nosuch";
-  auto analysis = Analysis::Open(MEDLOAD_SOURCE_FORMULARY, options, nullptr);
+  auto analysis = RunContext::Open(MEDLOAD_SOURCE_FORMULARY, options, nullptr);
   REQUIRE_FALSE(analysis.ok());
   CHECK(analysis.status().code() == StatusCode::kUsage);
-  CHECK(analysis.status().message().find("(known: acb, ars)") != std::string::npos);
+  CHECK(analysis.status().message() == "scale \"nosuch\" is not a scale in " MEDLOAD_SOURCE_FORMULARY
+                                       "/anticholinergic/ (known: acb, ars)");
 }
 
 }  // TEST_SUITE

@@ -1,25 +1,24 @@
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 
+#include "medload/core/text.h"
 #include "medload/formulary/resolver.h"
 #include "medload/store/store.h"
 
 namespace medload {
 
-Analysis::Analysis(Analysis&&) noexcept = default;
-Analysis& Analysis::operator=(Analysis&&) noexcept = default;
-Analysis::~Analysis() = default;
+RunContext::RunContext(RunContext&&) noexcept = default;
+RunContext& RunContext::operator=(RunContext&&) noexcept = default;
+RunContext::~RunContext() = default;
 
-Result<Analysis> Analysis::Open(const std::string& formulary_dir, const MeasureOptions& options,
-                                Store* store) {
+Result<RunContext> RunContext::Open(const std::string& formulary_dir, const MeasureOptions& options,
+                                    Store* store) {
   auto formulary = LoadFormulary(formulary_dir);
   if (!formulary.ok()) return formulary.status();
   if (!formulary->HasScale(options.scale)) {
-    std::string known;
-    for (const auto& name : formulary->ScaleNames()) known += (known.empty() ? "" : ", ") + name;
-    return Status::Usage("--scale \"" + options.scale + "\" is not a scale in " + formulary_dir +
-                         "/anticholinergic/ (known: " + known + ")");
+    return Status::Usage("scale \"" + options.scale + "\" is not a scale in " + formulary_dir +
+                         "/anticholinergic/ (known: " + Join(formulary->ScaleNames(), ", ") + ")");
   }
-  Analysis analysis;
+  RunContext analysis;
   analysis.formulary_ = std::make_unique<Formulary>(std::move(formulary).value());
   analysis.tables_ = TablesFromFormulary(*analysis.formulary_, options.scale);
   analysis.options_ = options;
@@ -31,7 +30,7 @@ void ProductKeyOf(const DispensingRecord& record, std::string& into) {
   into.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
 }
 
-const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
+const ResolvedProduct& RunContext::Resolve(const DispensingRecord& record) {
   std::string& key = key_scratch_;
   ProductKeyOf(record, key);
   if (auto it = resolved_.find(key); it != resolved_.end()) return it->second;
@@ -53,7 +52,7 @@ const ResolvedProduct& Analysis::Resolve(const DispensingRecord& record) {
   return resolved;
 }
 
-void Analysis::SaveResolutions() {
+void RunContext::SaveResolutions() {
   if (store_ == nullptr || store_->InSnapshot()) return;
   const std::string checksum = ResolutionKey();
   for (const Unsaved& entry : unsaved_) {
@@ -65,17 +64,17 @@ void Analysis::SaveResolutions() {
   unsaved_.clear();
 }
 
-std::string Analysis::ResolutionKey() const {
+std::string RunContext::ResolutionKey() const {
   return formulary_->checksum() + " medload " MEDLOAD_VERSION;
 }
 
-Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {
+Timeline RunContext::BuildTimeline(std::span<const DispensingRecord> records) {
   return medload::BuildTimeline(records, [this](const DispensingRecord& r) -> const ResolvedProduct& {
     return Resolve(r);
   }, options_, &dosages_);
 }
 
-Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records,
+Timeline RunContext::BuildTimeline(std::span<const DispensingRecord> records,
                                  std::span<const ResolvedProduct* const> products,
                                  DosageTextCache& dosages) const {
   return medload::BuildTimeline(records, [&](const DispensingRecord& r) -> const ResolvedProduct& {
@@ -83,11 +82,11 @@ Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records,
   }, options_, &dosages);
 }
 
-Burden Analysis::Evaluate(const Timeline& timeline, Date on, std::optional<int> age,
+Burden RunContext::Evaluate(const Timeline& timeline, Date on, std::optional<int> age,
                           const std::vector<bool>* matches) const {
   return EvaluateBurden(timeline, on, tables_, options_, age, matches);
 }
 
-size_t Analysis::resolved_products() const { return resolved_.size(); }
+size_t RunContext::resolved_products() const { return resolved_.size(); }
 
 }  // namespace medload
