@@ -124,7 +124,7 @@ class Assembler {
       case ItemKind::kFrequency:
         if (!part_.count && !part_.period) {
           part_.count = item.value;
-          part_.period = item.value2;
+          part_.period = item.period_days;
         }
         break;
       default:
@@ -158,7 +158,7 @@ class Assembler {
         break;
       case ItemKind::kUnknown:
         unknown_.push_back(item.text);
-        if (item.value2 == 1) {
+        if (item.unusable_amount) {
           if (part_.amount) StartPart();
           part_.amount = std::numeric_limits<double>::quiet_NaN();  // an unusable dose
         }
@@ -185,7 +185,7 @@ class Assembler {
       case ItemKind::kPeriod: max.period = item.value; return true;
       case ItemKind::kFrequency:
         max.count = item.value;
-        max.period = item.value2;
+        max.period = item.period_days;
         return true;
       case ItemKind::kEvent: AddDistinct(max.events, static_cast<int>(item.value)); return true;
       case ItemKind::kMaximum:
