@@ -337,17 +337,6 @@ Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_ran
   return ranges;
 }
 
-Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
-  Result<PatientCursor> cursor = Patients();
-  if (!cursor.ok()) return cursor.status();
-  PatientHistory history;
-  for (;;) {
-    Result<bool> more = cursor->Next(history);
-    if (!more.ok()) return more.status();
-    if (!*more || !visit(history)) return Status::Ok();
-  }
-}
-
 Result<std::vector<PracticeRecord>> Store::Practices() const {
   Result<Statement> stmt = Statement::Prepare(
       db_, "SELECT practice, name, network, list_size FROM practices ORDER BY practice");

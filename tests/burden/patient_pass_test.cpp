@@ -9,6 +9,7 @@
 #include <thread>
 
 #include "medload/store/importer.h"
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -94,15 +95,14 @@ Visited Pass(ManyPatients& population, PassFacts* facts = nullptr) {
 // The same, one patient at a time on this thread, as the store's own pass gives them.
 Visited Sequential(ManyPatients& population) {
   Visited seen;
-  REQUIRE(population.store.ForEachPatient([&](const PatientHistory& history) {
+  for (const PatientHistory& history : testing::ReadPatients(population.store)) {
     const Timeline timeline = population.analysis.BuildTimeline(history.dispensings);
     seen.ids.push_back(history.patient_id);
     seen.dispensings.push_back(history.dispensings.size());
     seen.medicines.push_back(timeline.medicines.size());
     seen.unmatched.push_back(timeline.unmatched.size());
     seen.burdens.push_back(Describe(population.analysis.Evaluate(timeline, kOn, 84)));
-    return true;
-  }).ok());
+  }
   return seen;
 }
 

@@ -5,6 +5,7 @@
 
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -254,7 +255,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
   std::vector<std::string> ids;
   std::vector<size_t> counts;
   std::vector<bool> registered;
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
     ids.push_back(history.patient_id);
     counts.push_back(history.dispensings.size());
     registered.push_back(history.registry.has_value());
@@ -262,9 +263,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
       CHECK(history.dispensings[i - 1].dispensed_on <= history.dispensings[i].dispensed_on);
     }
     for (const DispensingRecord& record : history.dispensings) CHECK(record.patient_id == history.patient_id);
-    return true;
-  });
-  REQUIRE(status.ok());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3", "P4"});
   CHECK(counts == std::vector<size_t>{3, 1, 0, 1});
   CHECK(registered == std::vector<bool>{true, true, true, false});
@@ -275,19 +274,11 @@ TEST_CASE("a patient whose only dispensings do not count is visited only through
   SetStatus(store, "d5", "cancelled");  // P4 has no registry row and nothing counting
   SetStatus(store, "d1", "cancelled");  // P2 keeps the registry row
   std::vector<std::string> ids;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory& history) {
-                 ids.push_back(history.patient_id);
-                 if (history.patient_id == "P2") CHECK(history.dispensings.empty());
-                 return true;
-               }).ok());
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
+    ids.push_back(history.patient_id);
+    if (history.patient_id == "P2") CHECK(history.dispensings.empty());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3"});
-}
-
-TEST_CASE("the visit stops when the callback returns false") {
-  Store store = Loaded();
-  int visits = 0;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory&) { return ++visits < 2; }).ok());
-  CHECK(visits == 2);
 }
 
 TEST_CASE("a cursor reusing one history gives each patient exactly their own records") {

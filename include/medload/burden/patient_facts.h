@@ -27,7 +27,7 @@ inline constexpr int kUnregisteredActivityDays = 365;
 // - Without one: the practice of their latest counting dispensing on or before `on`, when
 //   that dispensing is in the kUnregisteredActivityDays days ending on `on`. That practice may
 //   be the empty string when the record did not name one.
-// REQUIRES: history.dispensings in date order (as Store::ForEachPatient gives them).
+// REQUIRES: history.dispensings in date order (as Store::Patients gives them).
 std::optional<std::string> RegisteredPractice(const PatientHistory& history, Date on);
 
 }  // namespace medload

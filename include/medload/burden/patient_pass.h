@@ -47,7 +47,7 @@ struct PassFacts {
 // Returns false to stop the pass early.
 using PassVisit = std::function<bool(PassPatient&)>;
 
-// Calls `visit` for every patient of Store::ForEachPatient, in the same order, all on the
+// Calls `visit` for every patient of Store::Patients, in the same order, all on the
 // calling thread, so `visit` may update state of its own without locks. `analysis` must
 // not be used by anyone else during the pass. The pass reads one snapshot: the caller's
 // if one is open on `store`, else its own; resolutions made inside it are saved in the

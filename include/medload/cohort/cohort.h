@@ -91,7 +91,7 @@ class CohortCounter {
   CohortTally tally_;
 };
 
-// One pass over the store (Store::ForEachPatient): each patient of the shard has their
+// One pass over the store (ForEachPatientTimeline): each patient of the shard has their
 // timeline built once and evaluated on every census date on which they are registered.
 // Fails with the store's Status.
 Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
