@@ -32,7 +32,7 @@ PatientHistory Unregistered(std::vector<std::pair<Date, std::string>> dispensed)
   return history;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("burden/patient_facts") {
 
 TEST_CASE("a patient counts on the day registration starts and on the day it ends") {
   const Date from = D(2024, 3, 1);

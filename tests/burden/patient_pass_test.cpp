@@ -108,7 +108,7 @@ Visited Sequential(ManyPatients& population) {
 
 }  // namespace
 
-TEST_SUITE("burden") {
+TEST_SUITE("burden/patient_pass") {
 
 TEST_CASE("the pass visits every patient once, in store order, with the same timelines as one thread") {
   for (const bool in_file : {false, true}) {

@@ -7,7 +7,7 @@
 
 namespace medload {
 
-TEST_SUITE("analysis") {
+TEST_SUITE("burden/run_context") {
 
 TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum and version") {
   auto store = Store::Open(":memory:");

@@ -27,7 +27,7 @@ CohortTally OneCell() {
   return tally;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_table") {
 
 TEST_CASE("rates are per 1000 registered") {
   const CohortTable table = BuildCohortTable(OneCell(), 0);

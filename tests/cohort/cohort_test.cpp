@@ -41,7 +41,7 @@ std::vector<FakePatient> HandPopulation() {
 
 const std::vector<Date> kMonths = {D(2024, 1, 31), D(2024, 2, 29), D(2024, 3, 31)};
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort") {
 
 TEST_CASE("a hand-worked population gives the expected registered and counts per practice") {
   int evaluations = 0;

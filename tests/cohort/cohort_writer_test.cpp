@@ -28,7 +28,7 @@ CohortTable SmallTable(long suppress_below) {
   return BuildCohortTable(tally, suppress_below);
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_writer") {
 
 TEST_CASE("the CSV starts with the caution and has one line per date, group and criterion") {
   std::ostringstream out;

@@ -7,7 +7,7 @@ namespace {
 
 Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/series") {
 
 TEST_CASE("a monthly series gives every month end from the month of --from to that of --to") {
   auto dates = SeriesDates(D(2024, 1, 15), D(2024, 3, 1), SeriesStep::kMonth);

@@ -7,7 +7,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/shard") {
 
 TEST_CASE("FNV-1a 64-bit hashes match the published test vectors") {
   // Source: Fowler, Noll and Vo, FNV hash reference test vectors (fnv-1a 64: "" and "a").

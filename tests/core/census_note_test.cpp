@@ -7,7 +7,7 @@ namespace {
 
 Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
 
-TEST_SUITE("census_note") {
+TEST_SUITE("core/census_note") {
 
 TEST_CASE("a census date after the latest dispensing gives a warning with the gap in days") {
   const auto note = CensusBeyondDataNote(D(2026, 12, 31), D(2026, 10, 31));

@@ -56,7 +56,7 @@ double ValueOf(std::string_view text, size_t index) {
 
 }  // namespace
 
-TEST_SUITE("dosage_items") {
+TEST_SUITE("dose/dosage_items") {
 
 TEST_CASE("amounts read digits, words, fractions and ranges at their upper value") {
   CHECK(ValueOf("2", 0) == 2);

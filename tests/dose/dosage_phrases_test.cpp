@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("dosage_phrases") {
+TEST_SUITE("dose/dosage_phrases") {
 
 TEST_CASE("the longest listed phrase wins and numbers never start one") {
   const auto tokens = LexDosageText("as and when required").tokens;

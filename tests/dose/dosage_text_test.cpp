@@ -205,7 +205,7 @@ const Case kCases[] = {
 
 }  // namespace
 
-TEST_SUITE("dosage_text") {
+TEST_SUITE("dose/dosage_text") {
 
 TEST_CASE("instructions as prescribers write them read into units per day") {
   for (const Case& c : kCases) {

@@ -18,7 +18,7 @@ const SupplyOptions kDefaults{};
 
 }  // namespace
 
-TEST_SUITE("supply") {
+TEST_SUITE("dose/supply") {
 
 TEST_CASE("supply rule names are the spelled names used in outputs") {
   CHECK(SupplyRuleName(SupplyRule::kRecordDaysSupply) == "days_supply");

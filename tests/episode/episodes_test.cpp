@@ -13,7 +13,7 @@ std::vector<Episode> Build(std::vector<Coverage> coverages, int grace, bool carr
 
 }  // namespace
 
-TEST_SUITE("episodes") {
+TEST_SUITE("episode/episodes") {
 
 TEST_CASE("a supply of s days dispensed on day d covers d to d+s-1 inclusive") {
   const Coverage c{D(2024, 1, 1), 28, 0};

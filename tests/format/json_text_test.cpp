@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("io") {
+TEST_SUITE("format/json_text") {
 
 TEST_CASE("JSON text replaces bytes that are not UTF-8 instead of failing") {
   const nlohmann::json value = {{"file", std::string("ward\xff.csv")}};

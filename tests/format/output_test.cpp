@@ -8,7 +8,7 @@
 
 namespace medload {
 
-TEST_SUITE("output") {
+TEST_SUITE("format/output") {
 
 TEST_CASE("CSV cells are quoted when they hold separators, quotes or line breaks") {
   // Source: RFC 4180, section 2 (fields with commas, quotes or line breaks are quoted,

@@ -31,7 +31,7 @@ class UmaskScope {
 
 }  // namespace
 
-TEST_SUITE("private_file") {
+TEST_SUITE("format/private_file") {
 
 TEST_CASE("a new private file is created owner-only whatever the umask") {
   TempFolder folder;

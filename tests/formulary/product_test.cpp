@@ -5,7 +5,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("formulary.product") {
+TEST_SUITE("formulary/product") {
 
 TEST_CASE("route names round-trip and unknown names are refused") {
   for (const Route route : {Route::kUnknown, Route::kOral, Route::kSublingualBuccal, Route::kSkin,

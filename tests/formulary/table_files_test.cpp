@@ -10,7 +10,7 @@
 namespace medload::formulary_internal {
 namespace {
 
-TEST_SUITE("formulary.table_files") {
+TEST_SUITE("formulary/table_files") {
 
 TEST_CASE("every file of the folder is read, optional ones may be absent") {
   testing::TempFolder folder;

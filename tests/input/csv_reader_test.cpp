@@ -32,7 +32,7 @@ std::vector<ReadRow> ReadAll(const std::string& input, CsvLimits limits = {},
 
 }  // namespace
 
-TEST_SUITE("csv_reader") {
+TEST_SUITE("input/csv_reader") {
 
 TEST_CASE("records split into fields by RFC 4180 rules") {
   // Source: RFC 4180, "Common Format and MIME Type for CSV Files", section 2.

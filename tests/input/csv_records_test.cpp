@@ -53,7 +53,7 @@ Status HeaderStatus(InputKind kind, const std::string& header, const ColumnMap& 
 
 }  // namespace
 
-TEST_SUITE("csv_records") {
+TEST_SUITE("input/csv_records") {
 
 TEST_CASE("a valid dispensing row fills every field, trimmed") {
   const Parsed parsed = ParseOne(InputKind::kDispensing, kDispensingHeader,

@@ -40,7 +40,7 @@ const char* const kDispense =
 
 }  // namespace
 
-TEST_SUITE("fhir_reader") {
+TEST_SUITE("input/fhir_reader") {
 
 TEST_CASE("a MedicationDispense is read element by element") {
   // Source: HL7 FHIR R4 MedicationDispense: subject, medication[x], quantity, daysSupply,

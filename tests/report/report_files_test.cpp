@@ -9,7 +9,7 @@
 
 namespace medload {
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_files") {
 
 TEST_CASE("a practice code of safe characters is its own file name") {
   auto stem = SafeFileStem("WV001_a-b");

@@ -6,7 +6,7 @@
 
 namespace medload {
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report") {
 
 TEST_CASE("the latest census date is the last month end covered by the data") {
   StoreSummary summary;

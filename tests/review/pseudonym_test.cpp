@@ -9,7 +9,7 @@
 
 namespace medload {
 
-TEST_SUITE("pseudonym") {
+TEST_SUITE("review/pseudonym") {
 
 TEST_CASE("the same key gives the same pseudonym and another key another one") {
   const Pseudonymiser a("a-long-secret-key-for-tests");

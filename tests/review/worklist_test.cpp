@@ -68,7 +68,7 @@ Criterion AtLeast(const char* text) { return ParseCriterion(text).value(); }
 
 }  // namespace
 
-TEST_SUITE("worklist") {
+TEST_SUITE("review/worklist") {
 
 TEST_CASE("the review order is rules, then acb, items, dbi, older age, then identifier") {
   auto entry = [](std::string id, int rules, int acb, int items, double dbi, std::optional<int> age) {

@@ -49,7 +49,7 @@ std::string Html(const Worklist& w) {
 
 }  // namespace
 
-TEST_SUITE("worklist_writer") {
+TEST_SUITE("review/worklist_writer") {
 
 TEST_CASE("every format says the rank is a sorting order and how many meeting patients are not shown") {
   const Worklist w = Sample();

@@ -25,7 +25,7 @@ ImportSummary Example(const std::string& file) {
 
 }  // namespace
 
-TEST_SUITE("import_summary") {
+TEST_SUITE("store/import_summary") {
 
 TEST_CASE("the JSON has the fixed import shape with totals at the top") {
   // Spec section 6: {"read","imported","duplicates","rejected","reasons":{REASON:N},"caution"}.

@@ -68,7 +68,7 @@ const char* const kMixed =
 
 }  // namespace
 
-TEST_SUITE("importer") {
+TEST_SUITE("store/importer") {
 
 TEST_CASE("every row read is imported, a duplicate or rejected, and the counts add up") {
   Store store = Memory();

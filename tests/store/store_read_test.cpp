@@ -100,7 +100,7 @@ void Exec(Store& store, const std::string& sql) {
 
 }  // namespace
 
-TEST_SUITE("store_read") {
+TEST_SUITE("store/store_read") {
 
 TEST_CASE("the packed copy gives the same pass as the dispensings, whole and by range") {
   Store store = Loaded();

@@ -27,7 +27,7 @@ bool HasDigit(std::string_view text) {
 
 }  // namespace
 
-TEST_SUITE("synth_catalogue") {
+TEST_SUITE("synth/catalogue") {
 
 TEST_CASE("every catalogue product has a unique key, a quantity, a unit and a dosage") {
   std::set<std::string_view> keys;

@@ -112,7 +112,7 @@ SynthOptions SmallOptions(uint64_t seed) {
 
 }  // namespace
 
-TEST_SUITE("synth") {
+TEST_SUITE("synth/synth") {
 
 TEST_CASE("the same options give identical bytes and another seed different ones") {
   TempFolder first("same_a");
