@@ -56,7 +56,7 @@ Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
   auto criteria = ReadCriteriaFlags(vm);
   if (!criteria.ok()) return criteria.status();
   options.criteria = std::move(*criteria);
-  // Without criteria the cohort counts the spec's first example, ten or more medicines.
+  // Without criteria the cohort counts ten or more medicines (docs/cohort.md).
   if (options.criteria.empty()) options.criteria.push_back(*ParseCriterion("items=10"));
   if (vm.count("shard") != 0U) {
     auto shard = ParseShard(vm["shard"].as<std::string>());

@@ -1,6 +1,6 @@
 // `medload import dispensing|patients|practices|reviews FILE...`: loads files into the
 // store, one transaction per file, and prints how many rows were read, imported,
-// duplicates and rejected (spec sections 4 and 6).
+// duplicates and rejected (docs/input-formats.md).
 #include <charconv>
 #include <cmath>
 #include <fstream>

@@ -1,5 +1,5 @@
 // The measure options and the selection criteria as command-line flags, shared by meds,
-// review, cohort (spec section 4). The help texts repeat the MeasureOptions comments.
+// review, cohort (docs/measures.md). The help texts repeat the MeasureOptions comments.
 #pragma once
 
 #include <vector>

@@ -293,7 +293,7 @@ std::optional<RowFault> ParseBirthDate(std::string_view text, DateOrder order,
   const char* end = text.data() + text.size();
   if (text.size() == 4 && std::from_chars(text.data(), end, year).ptr == end &&
       IsValidCivil(year, 7, 1)) {
-    birth = Date::FromCivil(year, 7, 1);  // spec 5: a year alone counts as 1 July
+    birth = Date::FromCivil(year, 7, 1);  // docs/input-formats.md: a year alone counts as 1 July
     year_only = true;
     return std::nullopt;
   }

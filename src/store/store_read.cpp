@@ -15,7 +15,7 @@ constexpr const char* kDispensingColumns =
     "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
     " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status";
 
-// The statuses that count in measures (spec: only "completed" or none).
+// The statuses that count in measures (docs/input-formats.md: only "completed" or none).
 constexpr const char* kCounting = "status IN ('', 'completed')";
 
 constexpr const char* kPatientColumns =

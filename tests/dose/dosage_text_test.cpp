@@ -28,7 +28,7 @@ struct Case {
 // Expected readings are common practice: how a British primary-care pharmacist counts
 // these instructions (od = once daily, bd = twice, tds = three times, qds = four times,
 // mane = morning, nocte = at night, prn = when required; ranges and as-needed
-// instructions at their maximum, spec section 5).
+// instructions at their maximum, docs/dosage-text.md).
 const Case kCases[] = {
     // Once a day.
     {"1 tablet once daily", 1, kRegular, kFull, "tablet"},

@@ -268,7 +268,7 @@ TEST_CASE("patient rows take a birth year alone as 1 July and normalise sex") {
   const char* header = "patient_id,birth_date,sex,practice,registered_from,registered_to";
   Parsed year = ParseOne(InputKind::kPatients, header, "P1,1948,F,A1,,");
   REQUIRE_FALSE(year.fault.has_value());
-  CHECK(year.patient.birth_date->ToIso() == "1948-07-01");  // spec section 5
+  CHECK(year.patient.birth_date->ToIso() == "1948-07-01");  // docs/input-formats.md
   CHECK(year.patient.birth_year_only);
   CHECK(year.patient.sex == "female");
   Parsed month = ParseOne(InputKind::kPatients, header, "P1,1948-03,male,A1,2001-02-03,2020-01-01");

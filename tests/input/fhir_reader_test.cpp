@@ -197,7 +197,7 @@ TEST_CASE("a Patient gives id, birth date (year, year-month or date), gender and
       R"("generalPractitioner":[{"identifier":{"value":"A81001"}}]})");
   REQUIRE(year.kind == FhirItemKind::kPatient);
   CHECK(year.patient.patient_id == "P1");
-  CHECK(year.patient.birth_date->ToIso() == "1941-07-01");  // spec section 5
+  CHECK(year.patient.birth_date->ToIso() == "1941-07-01");  // docs/input-formats.md
   CHECK(year.patient.birth_year_only);
   CHECK(year.patient.sex == "female");
   CHECK(year.patient.practice == "A81001");

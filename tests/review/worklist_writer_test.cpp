@@ -92,7 +92,7 @@ TEST_CASE("the caller's warnings go into every format and the JSON warnings arra
   REQUIRE(json["warnings"].size() == 1);
   CHECK(json["warnings"][0] == w.notes[0]);
   CHECK(json["notes"][0] == w.notes[0]);
-  // The spec's keys stay.
+  // The fixed keys stay.
   for (const char* key : {"on", "criteria", "patients", "caution"}) CHECK(json.contains(key));
 }
 

@@ -28,7 +28,7 @@ ImportSummary Example(const std::string& file) {
 TEST_SUITE("store/import_summary") {
 
 TEST_CASE("the JSON has the fixed import shape with totals at the top") {
-  // Spec section 6: {"read","imported","duplicates","rejected","reasons":{REASON:N},"caution"}.
+  // docs/input-formats.md, "The summary": {"read","imported","duplicates","rejected","reasons":{REASON:N},"caution"}.
   const nlohmann::ordered_json json = ImportJson({Example("a.csv"), Example("b.csv")});
   CHECK(json.at("read") == 20);
   CHECK(json.at("imported") == 12);

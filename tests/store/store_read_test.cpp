@@ -242,7 +242,7 @@ TEST_CASE("a patient's registry row reads back with a birth year as 1 July") {
   Result<std::optional<PatientRecord>> patient = store.PatientOf("P1");
   REQUIRE(patient.ok());
   REQUIRE(patient->has_value());
-  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // spec section 5
+  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // docs/input-formats.md
   CHECK((*patient)->birth_year_only);
   CHECK((*patient)->sex == "female");
   CHECK((*patient)->registered_from->ToIso() == "2010-01-01");

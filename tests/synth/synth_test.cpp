@@ -174,7 +174,7 @@ TEST_CASE("every dispensing row passes the import checks of the spec") {
     CHECK(record_ids.insert(f[0]).second);
     CHECK_FALSE(f[1].empty());
     practices.insert(f[2]);
-    // Spec section 4: a real calendar date; quantity > 0; days supply whole days > 0.
+    // docs/input-formats.md: a real calendar date; quantity > 0; days supply whole days > 0.
     const std::optional<Date> on = ParseDate(f[3]);
     REQUIRE(on.has_value());
     CHECK(*on >= from);

@@ -33,7 +33,7 @@ struct DispensingRecord {
 // One row of the patient registry.
 struct PatientRecord {
   std::string patient_id;
-  std::optional<Date> birth_date;  // from a year alone: 1 July of that year (spec 5)
+  std::optional<Date> birth_date;  // from a year alone: 1 July of that year (docs/input-formats.md)
   bool birth_year_only = false;
   std::string sex;                 // "female", "male", "other", "unknown" or empty
   std::string practice;

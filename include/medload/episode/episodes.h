@@ -1,6 +1,6 @@
 // Episodes: a patient's supplies of one medicine merged into continuous windows of use,
 // with a grace period between supplies and optional carry-over of early refills
-// (product spec, section 5). Pure functions over coverage intervals; no clinical tables.
+// (docs/measures.md). Pure functions over coverage intervals; no clinical tables.
 #pragma once
 
 #include <cstddef>

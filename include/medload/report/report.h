@@ -1,4 +1,4 @@
-// The batch report of a care network (spec section 8): one pass over the store builds a
+// The batch report of a care network (docs/report.md): one pass over the store builds a
 // finished model (monthly counts per practice and for the network, every practice's
 // worklist on the census date, the previous report's counts), and writers turn it into the
 // report folder. It does not parse the config (report_config.h) or format pages itself

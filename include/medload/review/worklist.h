@@ -67,7 +67,7 @@ struct Worklist {
   long suppress_below = 0;
 };
 
-// The fixed review order (spec section 6): more rules fired first, then higher acb, more
+// The fixed review order (docs/measures.md, "Review worklist"): more rules fired first, then higher acb, more
 // items, higher dbi, older age (unknown last), then patient id ascending.
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 

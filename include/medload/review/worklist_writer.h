@@ -1,5 +1,5 @@
 // The review worklist in text (a table that fits a terminal, reasons below each row),
-// CSV (caution first), JSON (the spec's shape) and HTML. Identifiers are written as
+// CSV (caution first), JSON (the fixed shape of README and docs/measures.md) and HTML. Identifiers are written as
 // given: pseudonymise the Worklist before writing when asked. No queries.
 #pragma once
 
@@ -25,7 +25,7 @@ std::vector<std::string> WorklistNotes(const Worklist& worklist);
 // how many are listed, and who was left out (recent review, unknown age under --age-min).
 std::string WorklistSummary(const Worklist& worklist);
 
-// JSON: the spec's shape plus "notes" (WorklistNotes), "warnings" (Worklist::notes),
+// JSON: the fixed shape plus "notes" (WorklistNotes), "warnings" (Worklist::notes),
 // "summary", "patients_not_shown" and the exclusion counts.
 nlohmann::json WorklistJson(const Worklist& worklist);
 void WriteWorklistText(std::ostream& out, const Worklist& worklist);
