@@ -4,6 +4,7 @@
 #include <cstring>
 #include <istream>
 
+#include "input/read_chunk.h"
 #include "medload/core/text.h"
 
 namespace medload {
@@ -77,13 +78,9 @@ CsvReader::CsvReader(std::istream& in, CsvLimits limits, size_t first_line)
 
 bool CsvReader::Fill() {
   if (eof_) return false;
-  in_.read(chunk_.data(), static_cast<std::streamsize>(chunk_.size()));
-  const auto got = static_cast<size_t>(in_.gcount());
-  if (in_.bad()) read_failed_ = true;
   pos_ = 0;
-  end_ = got;
-  if (got == 0) eof_ = true;
-  return got > 0;
+  end_ = ReadChunk(in_, chunk_, eof_, read_failed_);
+  return end_ > 0;
 }
 
 bool CsvReader::AtEnd() { return pos_ >= end_ && !Fill(); }

@@ -8,6 +8,7 @@
 #include <cstring>
 #include <istream>
 
+#include "input/read_chunk.h"
 #include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
 #include "medload/dose/fhir_dosage.h"
@@ -284,13 +285,9 @@ FhirReader::FhirReader(std::istream& in, std::string file, size_t max_line_bytes
 
 bool FhirReader::Fill() {
   if (eof_) return false;
-  in_.read(chunk_.data(), static_cast<std::streamsize>(chunk_.size()));
-  const auto got = static_cast<size_t>(in_.gcount());
-  if (in_.bad()) read_failed_ = true;
   pos_ = 0;
-  end_ = got;
-  if (got == 0) eof_ = true;
-  return got > 0;
+  end_ = ReadChunk(in_, chunk_, eof_, read_failed_);
+  return end_ > 0;
 }
 
 // Reads one physical line into line_text_ (without its line end), keeping at most
