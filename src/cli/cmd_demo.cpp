@@ -6,14 +6,15 @@
 #include <ostream>
 #include <sstream>
 
+#include "cli/measure_flags.h"
 #include "cli/options.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/clock.h"
-#include "medload/review/worklist_writer.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_writer.h"
 #include "medload/review/worklist.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
 

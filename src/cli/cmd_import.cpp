@@ -9,8 +9,8 @@
 #include <sys/stat.h>
 
 #include "cli/options.h"
-#include "medload/store/import_summary.h"
 #include "medload/format/private_file.h"
+#include "medload/store/import_summary.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
 

@@ -2,9 +2,9 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/run_context.h"
 #include "medload/burden/meds_writer.h"
 #include "medload/burden/patient_facts.h"
+#include "medload/burden/run_context.h"
 #include "medload/core/census_note.h"
 #include "medload/format/json_text.h"
 #include "medload/store/store.h"

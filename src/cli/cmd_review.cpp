@@ -4,9 +4,9 @@
 #include "cli/measure_flags.h"
 #include "medload/core/census_note.h"
 #include "medload/format/json_text.h"
-#include "medload/review/worklist_writer.h"
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {

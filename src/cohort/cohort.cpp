@@ -3,9 +3,9 @@
 #include <optional>
 #include <utility>
 
-#include "medload/burden/run_context.h"
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/run_context.h"
 
 namespace medload {
 

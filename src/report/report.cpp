@@ -4,9 +4,9 @@
 #include <set>
 #include <utility>
 
-#include "medload/burden/run_context.h"
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/run_context.h"
 
 namespace medload {
 namespace {

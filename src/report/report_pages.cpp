@@ -7,8 +7,8 @@
 #include "medload/core/census_note.h"
 #include "medload/format/output.h"
 #include "medload/format/suppression.h"
-#include "medload/review/worklist_writer.h"
 #include "medload/report/funnel.h"
+#include "medload/review/worklist_writer.h"
 
 namespace medload {
 namespace {

@@ -9,11 +9,11 @@
 #include "medload/core/caution.h"
 #include "medload/core/clock.h"
 #include "medload/format/json_text.h"
-#include "medload/review/worklist_writer.h"
 #include "medload/report/digest.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_pages.h"
 #include "medload/review/pseudonym.h"
+#include "medload/review/worklist_writer.h"
 
 namespace medload {
 namespace {
