@@ -136,7 +136,7 @@ TEST_CASE("an include of a folder above the includer is found") {
 
 TEST_CASE("every test file's suite is named after its path under tests/") {
   const fs::path tests = RepositoryRoot() / "tests";
-  static const std::regex kSuite(R"(TEST_SUITE\("([^"]*)"\))");
+  static const std::regex kSuite(R"re(TEST_SUITE\("([^"]*)"\))re");
   for (const fs::directory_entry& entry : fs::recursive_directory_iterator(tests)) {
     const std::string file = entry.path().filename().string();
     if (!entry.is_regular_file() || file.size() < 9 || file.substr(file.size() - 9) != "_test.cpp") continue;

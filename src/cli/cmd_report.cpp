@@ -2,6 +2,7 @@
 #include <filesystem>
 #include <ostream>
 
+#include "cli/measure_flags.h"
 #include "cli/options.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/clock.h"
