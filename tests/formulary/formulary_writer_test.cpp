@@ -1,3 +1,4 @@
+#include "medload/format/output.h"
 #include "medload/formulary/formulary_writer.h"
 
 #include <doctest/doctest.h>
@@ -45,7 +46,10 @@ TEST_CASE("the unmatched text names the totals and carries the caution footer") 
   WriteUnmatchedText(out, {Counted("Zzqx blue liquid", 3, 2), Counted("Qqvz green cream", 4, 1)});
   const std::string text = out.str();
   CHECK(text.rfind("2 unmatched products, 7 items\n", 0) == 0);
-  CHECK(text.find(std::string(kCaution)) != std::string::npos);
+  std::ostringstream footer;
+  WriteTextCaution(footer);
+  CHECK(text.size() > footer.str().size());
+  CHECK(text.substr(text.size() - footer.str().size()) == footer.str());
 }
 
 TEST_CASE("the check CSV starts with the caution and lists each fault before the counts") {
@@ -55,7 +59,7 @@ TEST_CASE("the check CSV starts with the caution and lists each fault before the
   std::ostringstream out;
   WriteFormularyCheckCsv(out, check);
   const std::string csv = out.str();
-  CHECK(csv.rfind("\"#", 0) == 0);
+  CHECK(csv.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
   const size_t fault = csv.find("fault,");
   const size_t ingredients = csv.find("ingredients,4");
   REQUIRE(fault != std::string::npos);
