@@ -2,10 +2,10 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/core/census_note.h"
 #include "medload/format/json_text.h"
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/review/worklist_writer.h"
 #include "medload/store/store.h"
 
@@ -73,10 +73,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
     }
     return fail(worklist.status());
   }
-  if (auto note = CensusBeyondDataNote(worklist->on, worklist->latest_dispensed)) {
-    Warn(context, *note);
-    worklist->notes.push_back(std::move(*note));
-  }
+  for (const std::string& note : worklist->notes) Warn(context, note);
   if (pseudonymiser) {
     for (WorklistEntry& entry : worklist->patients) entry.patient = pseudonymiser->Pseudonym(entry.patient);
   }
