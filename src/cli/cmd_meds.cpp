@@ -3,6 +3,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/meds_writer.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/data_coverage.h"
 #include "medload/format/json_text.h"
