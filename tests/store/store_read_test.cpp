@@ -63,7 +63,7 @@ std::vector<std::string> Pass(const Store& store, const PatientIdRange& range = 
               "|" + std::to_string(r.quantity) + "|" + r.unit + "|" +
               (r.days_supply ? std::to_string(*r.days_supply) : "-") + "|" + r.dosage + "|" +
               (r.structured_units_per_day ? std::to_string(*r.structured_units_per_day) : "-") +
-              "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
+              "|" + r.structured_unit + "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
     }
     seen.push_back(line);
   }

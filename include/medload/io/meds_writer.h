@@ -4,6 +4,7 @@
 #pragma once
 
 #include <iosfwd>
+#include <map>
 #include <optional>
 #include <span>
 #include <string>
@@ -28,7 +29,14 @@ struct MedsModel {
   // Set when the census date is after the latest dispensing loaded (CensusBeyondDataNote):
   // the first warning, and a `# note:` line after the caution in CSV.
   std::optional<std::string> census_note;
+  // The patient's dispensings up to the census date whose status does not count (FHIR
+  // statuses other than "completed"), by status (Store::NotCountingOf): a warning, a
+  // `# note:` line in CSV, and "not_counted" in JSON.
+  std::map<std::string, long> not_counted;
 };
+
+// The sentence saying how many dispensings do not count and why, or "" when none.
+std::string NotCountedNote(const MedsModel& model);
 
 // Warnings a clinician must see with this patient's figures (unmatched products, doses
 // not known, supplies assumed, age unknown...), in plain sentences.
