@@ -436,6 +436,18 @@ TEST_CASE("an empty store has no date span") {
   CHECK(visits == 0);
 }
 
+TEST_CASE("a patient's dispensings that do not count are counted by status up to a date") {
+  Store store = Loaded();
+  SetStatus(store, "d2", "stopped");        // 2024-02-01
+  SetStatus(store, "d3", "entered-in-error");  // 2024-01-01
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-03-01")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}, {"stopped", 1}});
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-01-15")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}});
+  CHECK(store.NotCountingOf("P2", *ParseDate("2024-03-01")).value().empty());
+  CHECK(store.NotCountingOf("nobody", *ParseDate("2024-03-01")).value().empty());
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload
