@@ -220,6 +220,35 @@ bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes,
   return reading.units_per_day.has_value();
 }
 
+// When the structure gave no amount a day: the text's reading, else (a frequency without
+// a dose) so many administrations a day, for the supply calculation to count one unit
+// each only for single-unit forms.
+DosageReading ReadWithoutStructure(const json& dosage, DosageReading reading, std::optional<double> times,
+                                   Notes& notes) {
+  const std::string text = String(dosage, "text");
+  DosageReading from_text = text.empty() ? DosageReading() : ReadDosageText(text);
+  if (from_text.units_per_day || (!text.empty() && !times)) {
+    from_text.as_needed = from_text.as_needed || reading.as_needed;
+    if (from_text.unit.empty()) from_text.unit = reading.unit;
+    notes.Add("no structured dose and frequency: read from the text");
+    if (!from_text.note.empty()) notes.Add(from_text.note);
+    from_text.note = notes.text();
+    return from_text;
+  }
+  if (times && reading.unit.empty() && std::isfinite(*times)) {
+    reading.units_per_day = *times;
+    reading.unit = std::string(kAdministrationUnit);
+    reading.understanding = Understanding::kPartial;
+    notes.Add("a frequency without a dose: administrations a day");
+  } else {
+    notes.Add(text.empty() ? "no structured dose and frequency and no text"
+                           : "no structured dose and frequency, and the text gave none");
+    reading.understanding = Understanding::kUnknown;
+  }
+  reading.note = notes.text();
+  return reading;
+}
+
 }  // namespace
 
 DosageReading ReadFhirDosage(const json& dosage) {
@@ -238,29 +267,7 @@ DosageReading ReadFhirDosage(const json& dosage) {
       reading.note = notes.text();
       return reading;
     }
-    const std::string text = String(dosage, "text");
-    DosageReading from_text = text.empty() ? DosageReading() : ReadDosageText(text);
-    if (from_text.units_per_day || (!text.empty() && !times)) {
-      from_text.as_needed = from_text.as_needed || reading.as_needed;
-      if (from_text.unit.empty()) from_text.unit = reading.unit;
-      notes.Add("no structured dose and frequency: read from the text");
-      if (!from_text.note.empty()) notes.Add(from_text.note);
-      from_text.note = notes.text();
-      return from_text;
-    }
-    if (times && reading.unit.empty() && std::isfinite(*times)) {
-      // A frequency without a dose: so many administrations a day, for the supply
-      // calculation to count as one unit each only for single-unit forms.
-      reading.units_per_day = *times;
-      reading.unit = std::string(kAdministrationUnit);
-      reading.understanding = Understanding::kPartial;
-      notes.Add("a frequency without a dose: administrations a day");
-      reading.note = notes.text();
-      return reading;
-    }
-    notes.Add(text.empty() ? "no structured dose and frequency and no text"
-                           : "no structured dose and frequency, and the text gave none");
-    reading.understanding = Understanding::kUnknown;
+    return ReadWithoutStructure(dosage, reading, times, notes);
   } catch (const json::exception& error) {
     reading.units_per_day.reset();
     reading.understanding = Understanding::kUnknown;

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cctype>
+#include <cmath>
 #include <ostream>
 
 #include "medload/core/caution.h"
@@ -61,8 +62,9 @@ std::string DosageRead(const MedsModel& model, const DispensingUse& use) {
             (administrations ? " times a day, no dose stated"
                              : (dosage.unit.empty() ? "" : " " + dosage.unit) + " per day");
     const std::string unit = RecordText(model.records, use, &DispensingRecord::unit);
-    const auto canonical = ReadDoseUnit(unit);
-    const bool converted = administrations || (!dosage.unit.empty() && !(canonical && canonical->name == dosage.unit));
+    const bool converted = administrations || (use.supply.units_per_day &&
+                                               std::abs(*use.supply.units_per_day - *dosage.units_per_day) >
+                                                   1e-9 * std::abs(*dosage.units_per_day));
     if (use.supply.units_per_day && converted) {
       text += " = " + FormatNumber(*use.supply.units_per_day, 3) + " " +
               (unit.empty() ? std::string("dose units") : unit) + " per day";
