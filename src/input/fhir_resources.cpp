@@ -295,7 +295,9 @@ std::optional<RowFault> ReadPatientResource(const json& resource, const FhirFaul
     const json* identifier = Member(first, "identifier");
     out.practice = identifier != nullptr ? StringAt(*identifier, "value") : "";
     const std::optional<FhirReference> organisation = ParseFhirReference(StringAt(first, "reference"), nullptr);
-    if (out.practice.empty() && organisation) out.practice = organisation->id;
+    if (out.practice.empty() && organisation && organisation->type == "Organization") {
+      out.practice = organisation->id;
+    }
   }
   item.identifiers.clear();
   if (const json* identifiers = Member(resource, "identifier"); identifiers != nullptr && identifiers->is_array()) {

@@ -22,6 +22,13 @@ std::string JoinCounts(const std::map<std::string, long>& counts, std::string_vi
   return text;
 }
 
+// "a; b" for one CSV cell.
+std::string JoinLines(const std::vector<std::string>& lines) {
+  std::string text;
+  for (const std::string& line : lines) text += (text.empty() ? "" : "; ") + line;
+  return text;
+}
+
 nlohmann::ordered_json FileJson(const ImportSummary& summary) {
   nlohmann::ordered_json json = {
       {"file", summary.file},
@@ -185,7 +192,7 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
 void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) {
   WriteCsvCaution(out);
   out << CsvRow({"file", "kind", "format", "read", "imported", "duplicates", "rejected", "updated",
-                 "rolled_back", "reasons", "not_counted", "not_in_registry"});
+                 "rolled_back", "reasons", "not_counted", "not_in_registry", "not_in_registry_examples"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
@@ -193,7 +200,8 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
                    std::to_string(file.imported), std::to_string(file.duplicates),
                    std::to_string(file.rejected), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
-                   JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry)});
+                   JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
+                   JoinLines(file.not_in_registry_examples)});
   }
 }
 

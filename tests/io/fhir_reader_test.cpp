@@ -225,6 +225,11 @@ TEST_CASE("a Patient gives id, birth date (year, year-month or date), gender and
   REQUIRE(month.kind == FhirItemKind::kPatient);
   CHECK(month.patient.birth_date->ToIso() == "1941-11-15");
   CHECK(month.patient.practice == "B82002");
+  // A Practitioner is not a practice.
+  const FhirItem practitioner = ReadOne(
+      R"({"resourceType":"Patient","id":"P4","generalPractitioner":[{"reference":"Practitioner/GP7"}]})");
+  REQUIRE(practitioner.kind == FhirItemKind::kPatient);
+  CHECK(practitioner.patient.practice.empty());
   const FhirItem bad = ReadOne(R"({"resourceType":"Patient","id":"P3","gender":"f2"})");
   REQUIRE(bad.kind == FhirItemKind::kRejected);
   CHECK(bad.fault.message ==

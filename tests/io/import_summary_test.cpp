@@ -61,8 +61,8 @@ TEST_CASE("the CSV summary starts with the caution line") {
   const std::string text = out.str();
   CHECK(text.rfind("# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,kind,format,read,imported,duplicates,rejected,updated,rolled_back,reasons,"
-                  "not_counted,not_in_registry\n") != std::string::npos);
-  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,0\n") !=
+                  "not_counted,not_in_registry,not_in_registry_examples\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,0,\n") !=
         std::string::npos);
 }
 
@@ -132,7 +132,8 @@ TEST_CASE("dispensings with no registry row are a warning in every format") {
   WriteImportHtml({summary}, html);
   CHECK(text.str().find(warning + "\n  d.ndjson:4: patient \"pt-x\"\n  d.ndjson:9: patient \"pt-z\"\n") !=
         std::string::npos);
-  CHECK(csv.str().find("d.ndjson,dispensing,fhir,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,3\n") != std::string::npos);
+  CHECK(csv.str().find("d.ndjson,dispensing,fhir,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,3,"
+                       "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\"\n") != std::string::npos);
   CHECK(html.str().find("<li>" + warning + "</li>") != std::string::npos);
 }
 
