@@ -13,6 +13,7 @@
 #include <nlohmann/json.hpp>
 
 #include "medload/burden/burden.h"
+#include "medload/core/data_coverage.h"
 
 namespace medload {
 
@@ -26,9 +27,10 @@ struct MedsModel {
   const BurdenTables* tables = nullptr;
   std::span<const DispensingRecord> records;  // the records the timeline was built from
   MeasureOptions options;
-  // Set when the census date is after the latest dispensing loaded (CensusBeyondDataNote):
-  // the first warning, and a `# note:` line after the caution in CSV.
-  std::optional<std::string> census_note;
+  // The data coverage of the patient's practice on the date, and its note when it is not
+  // full (DataStateNote): the first warning, and a `# note:` line after the caution in CSV.
+  DataState data = DataState::kFull;
+  std::optional<std::string> data_note;
   // The patient's dispensings up to the census date whose status does not count (FHIR
   // statuses other than "completed"), by status (Store::NotCountingOf): a warning, a
   // `# note:` line in CSV, and "not_counted" in JSON.
