@@ -22,10 +22,16 @@ enum class ItemKind {
   kWeekday,     // value: days of the week as bits, 1 Monday .. 64 Sunday ("weekends" 96)
   kExceptDays,  // "except", "not on": the days of the week named next are left out
   kAsNeeded,    // "prn", "when required", ...
-  kMaximum,     // "max", "up to", "no more than"; value 1 when it says "daily" itself
+  kMaximum,     // "max", "up to", "no more than"; value 1 when it says "daily" itself,
+                // value2 1 when it also makes the dose as needed ("up to")
   kAsDirected,  // "as directed", "as per instructions", ...
   kSeparator,   // "and", ",", ";", "."
   kThen,        // "then", "followed by": the next doses replace these (a changing dose)
+  kDuration,    // value: how long these doses are taken, in days ("for 7 days", "5/7")
+  kOneDay,      // "stat", "immediately", "on the first day", "day 1": a dose on one day
+  kStop,        // "then stop", "and stop": nothing is taken after the doses before it
+  kVariable,    // "reduce by", "taper", "wean": the dose changes by a rule not written out
+  kNegation,    // "not", "do not", "remove": the rest of the clause adds no dose
   kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
   kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
   kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")

@@ -1,0 +1,91 @@
+#include "dose/dosage_typos.h"
+
+#include <array>
+#include <cstdlib>
+#include <string_view>
+
+#include "dose/dosage_phrases.h"
+#include "medload/dose/dose_unit.h"
+
+namespace medload {
+namespace {
+
+// Words a misspelling is read as: those that carry a dose, a unit or a timing. Common
+// practice: the misspellings seen on prescriptions are of these everyday words.
+constexpr std::array<std::string_view, 41> kTargets = {
+    "twice",     "thrice",      "daily",     "tablets",     "tablet",   "capsules",
+    "capsule",   "morning",     "mornings",  "night",       "nightly",  "evening",
+    "bedtime",   "times",       "three",     "every",       "hours",    "hourly",
+    "weekly",    "required",    "needed",    "spoonful",    "spoonfuls", "sachets",
+    "sachet",    "drops",       "puffs",     "sprays",      "inhalations", "application",
+    "lunchtime", "breakfast",   "alternate", "nostril",     "nostrils", "suppository",
+    "pessary",   "patches",     "maximum",   "units",       "nocte",
+};
+
+// Words the recogniser understands outside the phrase table (numbers, time units, and
+// words its matchers read): never corrected.
+constexpr std::array<std::string_view, 44> kOtherWords = {
+    "one",   "two",    "three",  "four",   "five",    "six",     "seven",  "eight",  "nine",
+    "ten",   "eleven", "twelve", "twenty", "thirty",  "forty",   "fifty",  "sixty",  "half",
+    "quarter", "hour", "hours",  "hr",     "hrs",     "minute",  "minutes", "min",   "mins",
+    "day",   "days",   "week",   "weeks",  "wk",      "wks",     "fortnight", "month", "months",
+    "year",  "years",  "every",  "times",  "hourly",  "hrly",
+};
+
+bool Known(std::string_view word) {
+  if (IsDosagePhraseWord(word) || ReadDoseUnit(word)) return true;
+  for (std::string_view other : kOtherWords) {
+    if (other == word) return true;
+  }
+  return false;
+}
+
+// One edit between `typo` and `word`: a swap of neighbouring letters, a letter missing
+// or extra, or (when `substitute`) one letter changed.
+bool OneEdit(std::string_view typo, std::string_view word, bool substitute) {
+  const size_t a = typo.size();
+  const size_t b = word.size();
+  if (typo == word || (a > b ? a - b : b - a) > 1) return false;
+  size_t i = 0;
+  while (i < a && i < b && typo[i] == word[i]) ++i;
+  if (a == b) {
+    if (i + 1 < a && typo[i] == word[i + 1] && typo[i + 1] == word[i] &&
+        typo.substr(i + 2) == word.substr(i + 2)) {
+      return true;  // neighbours swapped
+    }
+    return substitute && typo.substr(i + 1) == word.substr(i + 1);
+  }
+  if (a > b) return typo.substr(i + 1) == word.substr(i);  // one extra letter
+  return typo.substr(i) == word.substr(i + 1);             // one letter missing
+}
+
+bool AsciiLetters(std::string_view word) {
+  for (char c : word) {
+    if (c < 'a' || c > 'z') return false;
+  }
+  return true;
+}
+
+std::string_view Correction(std::string_view typo) {
+  if (typo.size() < 4 || !AsciiLetters(typo)) return {};
+  for (std::string_view target : kTargets) {
+    if (OneEdit(typo, target, target.size() >= 7)) return target;
+  }
+  return {};
+}
+
+}  // namespace
+
+std::vector<std::string> CorrectDosageTypos(std::vector<Token>& tokens) {
+  std::vector<std::string> notes;
+  for (Token& token : tokens) {
+    if (token.kind != TokenKind::kWord || Known(token.text)) continue;
+    const std::string_view target = Correction(token.text);
+    if (target.empty()) continue;
+    notes.push_back("read \"" + token.text + "\" as \"" + std::string(target) + "\"");
+    token.text = std::string(target);
+  }
+  return notes;
+}
+
+}  // namespace medload
