@@ -129,6 +129,13 @@ std::optional<std::vector<DoseStage>> Stages(const std::vector<GroupReading>& ke
 void ReadGroups(AssembledDosage& assembled, DosageReading& reading) {
   const std::vector<GroupReading> kept = DoseGroups(assembled.groups);
   const GroupReading& first = kept.empty() ? assembled.groups.front() : kept.front();
+  const GroupReading& last = assembled.groups.back();
+  if (!kept.empty() && assembled.groups.size() > 1 && !last.has_dose && !last.stop &&
+      !assembled.variable) {
+    // "2 daily for 5 days then see your doctor": nothing says what follows.
+    AddNote(assembled.notes, "a later stage gives no dose: the dose before it is taken to continue");
+    assembled.doubtful = true;
+  }
   reading.unit = std::string(first.unit);
   if (kept.size() >= 2) {
     std::string_view unit;
