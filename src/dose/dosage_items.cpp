@@ -186,10 +186,25 @@ class Recogniser {
 
   // A mass unit at k followed by a dose-form unit: "500mg tablets" names a strength.
   bool FormAfterMass(size_t k) const {
-    if (!UnitAt(k) || ReadDoseUnit(t_[k].text)->name != "mg") return false;
-    if (!UnitAt(k + 1)) return false;
-    const std::string_view form = ReadDoseUnit(t_[k + 1].text)->name;
-    return form != "mg" && form != "ml" && form != "unit";
+    if (!IsMass(k)) return false;
+    const auto form = UnitOf(k + 1);
+    return form && form->name != "mg" && form->name != "ml" && form->name != "unit";
+  }
+
+  std::optional<DoseUnit> UnitOf(size_t k) const {
+    if (k >= t_.size() || t_[k].kind != TokenKind::kWord) return std::nullopt;
+    return ReadDoseUnit(t_[k].text);
+  }
+
+  // A mass unit word at k ("mg", "g", "micrograms"): only these can name a strength.
+  bool IsMass(size_t k) const {
+    // Every mass unit word starts with m, g or u (mg, mcg, microgram, g, gram, ug): a
+    // cheap test first, since this runs after every amount.
+    if (k >= t_.size() || t_[k].text.empty()) return false;
+    const char first = t_[k].text.front();
+    if (first != 'm' && first != 'g' && first != 'u') return false;
+    const auto unit = UnitOf(k);
+    return unit && unit->name == "mg";
   }
 
   bool IsLink(size_t k) const { return Word(k, "-") || Word(k, "to") || Word(k, "or"); }
@@ -401,7 +416,7 @@ class Recogniser {
   // ("10mg/5ml"), or before the dose itself ("Paracetamol 500mg - 2 tabs", "amlodipine
   // 5mg one daily"). Returns where the strength ends; nullopt when it is a dose.
   std::optional<size_t> StrengthEnd(size_t unit) const {
-    if (!UnitAt(unit) || ReadDoseUnit(t_[unit].text)->name != "mg") return std::nullopt;
+    if (!IsMass(unit)) return std::nullopt;
     if (depth_ > 0 || FormAfterMass(unit)) return unit + 1;
     if (Word(unit + 1, "/")) {
       size_t end = unit + 2;
@@ -416,7 +431,7 @@ class Recogniser {
         "times", "time", "x", "hourly", "hrly", "-", "/", "to"};
     const std::string_view after = Text(dose->next);
     if (std::find(kCountWords.begin(), kCountWords.end(), after) != kCountWords.end() ||
-        TimeUnitDays(after) || (UnitAt(dose->next) && ReadDoseUnit(after)->name == "mg")) {
+        TimeUnitDays(after) || IsMass(dose->next)) {
       return std::nullopt;
     }
     return unit + 1;

@@ -213,8 +213,15 @@ DosageReading ReadDosageText(std::string_view text) {
   if (IsBlank(text)) return DosageReading{};
   LexedText lexed = LexDosageText(text);
   if (lexed.tokens.empty()) return DosageReading{};
-  std::vector<std::string> corrections = CorrectDosageTypos(lexed.tokens);
-  AssembledDosage assembled = AssembleDosageItems(RecogniseDosageItems(lexed.tokens));
+  std::vector<Item> items = RecogniseDosageItems(lexed.tokens);
+  std::vector<std::string> corrections;
+  // Misspellings are looked for only when some word was not understood (rarely).
+  if (std::any_of(items.begin(), items.end(),
+                  [](const Item& item) { return item.kind == ItemKind::kUnknown; })) {
+    corrections = CorrectDosageTypos(lexed.tokens);
+    if (!corrections.empty()) items = RecogniseDosageItems(lexed.tokens);
+  }
+  AssembledDosage assembled = AssembleDosageItems(items);
   if (!corrections.empty()) {
     assembled.doubtful = true;
     assembled.notes.insert(assembled.notes.begin(), corrections.begin(), corrections.end());

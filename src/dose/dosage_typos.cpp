@@ -45,7 +45,7 @@ bool Known(std::string_view word) {
 bool OneEdit(std::string_view typo, std::string_view word, bool substitute) {
   const size_t a = typo.size();
   const size_t b = word.size();
-  if (typo == word || (a > b ? a - b : b - a) > 1) return false;
+  if ((a > b ? a - b : b - a) > 1 || typo == word) return false;
   size_t i = 0;
   while (i < a && i < b && typo[i] == word[i]) ++i;
   if (a == b) {
@@ -66,8 +66,24 @@ bool AsciiLetters(std::string_view word) {
   return true;
 }
 
+// A listed word itself, or its singular or plural ("tablet", "drop", "puffs").
+bool FormOfTarget(std::string_view word) {
+  for (std::string_view target : kTargets) {
+    if (word == target) return true;
+    if (word.size() + 1 == target.size() && target.back() == 's' &&
+        target.compare(0, word.size(), word) == 0) {
+      return true;
+    }
+    if (word.size() == target.size() + 1 && word.back() == 's' &&
+        word.compare(0, target.size(), target) == 0) {
+      return true;
+    }
+  }
+  return false;
+}
+
 std::string_view Correction(std::string_view typo) {
-  if (typo.size() < 4 || !AsciiLetters(typo)) return {};
+  if (typo.size() < 4 || !AsciiLetters(typo) || FormOfTarget(typo)) return {};
   for (std::string_view target : kTargets) {
     if (OneEdit(typo, target, target.size() >= 7)) return target;
   }
@@ -79,9 +95,10 @@ std::string_view Correction(std::string_view typo) {
 std::vector<std::string> CorrectDosageTypos(std::vector<Token>& tokens) {
   std::vector<std::string> notes;
   for (Token& token : tokens) {
-    if (token.kind != TokenKind::kWord || Known(token.text)) continue;
+    if (token.kind != TokenKind::kWord) continue;
+    // The near-miss test is cheap and rarely passes; the vocabulary test runs only then.
     const std::string_view target = Correction(token.text);
-    if (target.empty()) continue;
+    if (target.empty() || Known(token.text)) continue;
     notes.push_back("read \"" + token.text + "\" as \"" + std::string(target) + "\"");
     token.text = std::string(target);
   }
