@@ -43,6 +43,7 @@ struct Group {
   std::vector<Maximum> maxima;  // each limits the group on its own: the lowest wins
   std::optional<double> days;
   bool one_day = false;
+  bool daily = false;  // "days 2-5: 1 tablet": a dose without a timing is once a day
   bool stop = false;
 };
 
@@ -74,6 +75,12 @@ class Assembler {
     StartPart();
     groups_.emplace_back();
   }
+  bool CurrentHasDose() {
+    const auto dose = [](const Part& part) { return part.amount || HasTiming(part); };
+    return dose(part_) || std::any_of(group().parts.begin(), group().parts.end(), dose);
+  }
+  void MarkStage(const Item& item);
+  void StartAfter(double days);
   void Note(std::string note) {
     auto& notes = out_.notes;
     if (std::find(notes.begin(), notes.end(), note) == notes.end()) notes.push_back(note);
@@ -167,6 +174,8 @@ void Assembler::AddOther(const Item& item) {
       if (unit_hint_.empty()) unit_hint_ = item.unit;
       break;
     case ItemKind::kThen: StartGroup(); break;
+    case ItemKind::kStageMark: MarkStage(item); break;
+    case ItemKind::kStartAfter: StartAfter(item.value); break;
     case ItemKind::kStop:
       StartGroup();
       group().stop = true;
@@ -186,6 +195,21 @@ void Assembler::AddOther(const Item& item) {
       break;
     default: break;  // separators and fillers
   }
+}
+
+// "Week 2: two daily", "days 2-5: 1 tablet": a label starts a new stage when the current
+// one already has a dose and a length of its own.
+void Assembler::MarkStage(const Item& item) {
+  if (CurrentHasDose() && (group().days || group().one_day)) StartGroup();
+  if (!group().days) group().days = item.value;
+  if (item.value2 == 1) group().daily = true;
+}
+
+// "increase to two daily after one week": the stage before lasts that long; written in
+// the first stage ("one daily, after 2 weeks increase to two"), that stage does.
+void Assembler::StartAfter(double days) {
+  Group* target = groups_.size() >= 2 ? &groups_[groups_.size() - 2] : &group();
+  if (!target->days) target->days = days;
 }
 
 // Items after a maximum marker describe the maximum until a separator or a marker.
@@ -299,7 +323,7 @@ Assembler::PartsSum Assembler::SumParts(const Group& group, std::string_view uni
     if (part.amount && !sum.first_dose) sum.first_dose = dose;
     auto rate = Rate(part);
     if (!rate) rate = max_rate;
-    if (!rate && group.one_day && part.amount) rate = 1;
+    if (!rate && (group.one_day || group.daily) && part.amount) rate = 1;
     if (!rate) {
       sum.left_out = sum.left_out || part.amount.has_value();
       continue;

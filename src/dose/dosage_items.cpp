@@ -6,35 +6,11 @@
 #include <optional>
 
 #include "dose/dosage_phrases.h"
+#include "dose/dosage_words.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
 namespace {
-
-struct NumberWord {
-  std::string_view word;
-  double value;
-};
-
-constexpr std::array kNumberWords = {
-    NumberWord{"one", 1},       NumberWord{"two", 2},        NumberWord{"three", 3},
-    NumberWord{"four", 4},      NumberWord{"five", 5},       NumberWord{"six", 6},
-    NumberWord{"seven", 7},     NumberWord{"eight", 8},      NumberWord{"nine", 9},
-    NumberWord{"ten", 10},      NumberWord{"eleven", 11},    NumberWord{"twelve", 12},
-    NumberWord{"thirteen", 13}, NumberWord{"fourteen", 14},  NumberWord{"fifteen", 15},
-    NumberWord{"sixteen", 16},  NumberWord{"seventeen", 17}, NumberWord{"eighteen", 18},
-    NumberWord{"nineteen", 19}, NumberWord{"twenty", 20},    NumberWord{"thirty", 30},
-    NumberWord{"forty", 40},    NumberWord{"fifty", 50},     NumberWord{"sixty", 60},
-    NumberWord{"seventy", 70},  NumberWord{"eighty", 80},    NumberWord{"ninety", 90},
-    NumberWord{"half", 0.5},    NumberWord{"quarter", 0.25},
-};
-
-std::optional<double> NumberWordValue(std::string_view word) {
-  for (const NumberWord& entry : kNumberWords) {
-    if (entry.word == word) return entry.value;
-  }
-  return std::nullopt;
-}
 
 bool IsWhole(double value) { return value == std::floor(value); }
 
@@ -48,22 +24,6 @@ struct Range {
   double high = 0;
   size_t next = 0;
 };
-
-// Units of time after "every", "in", "q" and before "hourly"; in days.
-std::optional<double> TimeUnitDays(std::string_view word) {
-  if (word == "hour" || word == "hours" || word == "hr" || word == "hrs" || word == "h") {
-    return 1.0 / 24;
-  }
-  if (word == "minute" || word == "minutes" || word == "min" || word == "mins") {
-    return 1.0 / 1440;
-  }
-  if (word == "day" || word == "days") return 1.0;
-  if (word == "week" || word == "weeks" || word == "wk" || word == "wks") return 7.0;
-  if (word == "fortnight" || word == "fortnights") return 14.0;
-  if (word == "month" || word == "months") return 30.0;
-  if (word == "year" || word == "years") return 365.0;
-  return std::nullopt;
-}
 
 class Recogniser {
  public:
@@ -217,7 +177,8 @@ class Recogniser {
     if (Word(i_, "(")) ++depth_;
     if (Word(i_, ")") && depth_ > 0) --depth_;
     if (MatchClockTime() || MatchSpoon() || MatchEvery() || MatchQHours() || MatchHourly() ||
-        MatchCount() || MatchPerTime() || MatchDuration() || MatchDayNumber() || MatchAmount() ||
+        MatchCount() || MatchPerTime() || MatchDuration() || MatchDayNumber() ||
+        MatchWeekLabel() || MatchAmount() ||
         MatchArticle() ||
         MatchOnAtNight() || MatchPhrase() || MatchUnit()) {
       return;
@@ -297,7 +258,10 @@ class Recogniser {
   bool MatchCount() {
     if (Word(i_, "x")) {
       const auto range = RangeAt(i_ + 1);
-      if (!range || UnitAt(range->next) || TimeUnitDays(Text(range->next))) return false;
+      if (!range || UnitAt(range->next) || TimeUnitDays(Text(range->next)) ||
+          Word(range->next, "/")) {  // "x 28/7" is a duration
+        return false;
+      }
       Emit(ItemKind::kCount, range->next, range->high);
       return true;
     }
@@ -338,7 +302,8 @@ class Recogniser {
   // "every", "q", "hourly", count and "in 24 hours" matchers.
   bool MatchDuration() {
     size_t k = i_;
-    if (Word(k, "for") || Word(k, "x")) ++k;
+    const bool after = Word(k, "after");
+    if (Word(k, "for") || Word(k, "x") || after) ++k;
     if (IsNumber(k) && Word(k + 1, "/") && IsNumber(k + 2)) {
       const double unit = t_[k + 2].number;
       const double days = unit == 7 ? 1 : unit == 52 ? 7 : unit == 12 ? 30 : 0;
@@ -364,6 +329,8 @@ class Recogniser {
                         Word(next + 1, "apart");
     if (*days < 1 || (k == i_ && offset)) {
       Emit(ItemKind::kFiller, next + 1);
+    } else if (after) {
+      Emit(ItemKind::kStartAfter, next + 1, amount * *days);  // "increase after one week"
     } else {
       EmitDuration(amount * *days, next + 1);
     }
@@ -386,11 +353,24 @@ class Recogniser {
     if (!range) return false;
     if (range->low == 1 && range->high == 1) {
       Emit(ItemKind::kOneDay, range->next);
-    } else if (range->high > range->low && IsWhole(range->low) && IsWhole(range->high)) {
-      EmitDuration(range->high - range->low + 1, range->next);
+    } else if (range->high >= range->low && IsWhole(range->low) && IsWhole(range->high) &&
+               range->high - range->low < kMaxDosageAmount) {
+      Emit(ItemKind::kStageMark, range->next, range->high - range->low + 1, 1);
     } else {
       Emit(ItemKind::kFiller, range->next);
     }
+    return true;
+  }
+
+  // "week 1", "week 2:", "weeks 3-4": a stage of a titration written week by week.
+  bool MatchWeekLabel() {
+    if (!Word(i_, "week") && !Word(i_, "weeks")) return false;
+    const auto range = RangeAt(i_ + 1);
+    if (!range || !IsWhole(range->low) || !IsWhole(range->high) || range->low < 1 ||
+        range->high - range->low >= 520) {
+      return false;
+    }
+    Emit(ItemKind::kStageMark, range->next, (range->high - range->low + 1) * 7, 1);
     return true;
   }
 
@@ -399,6 +379,11 @@ class Recogniser {
     if (!range) return false;
     if (const auto end = StrengthEnd(range->next)) {
       Emit(ItemKind::kFiller, *end);  // a strength: read and left out of the dose
+      return true;
+    }
+    if (depth_ > 0 && i_ >= 2 && Word(i_ - 1, "(") && UnitAt(i_ - 2)) {
+      // "10mg (1 tablet) daily": the same dose said again in brackets.
+      Emit(ItemKind::kFiller, UnitAt(range->next) ? range->next + 1 : range->next);
       return true;
     }
     if (range->high > kMaxDosageAmount) {

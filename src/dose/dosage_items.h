@@ -32,6 +32,8 @@ enum class ItemKind {
   kStop,        // "then stop", "and stop": nothing is taken after the doses before it
   kVariable,    // "reduce by", "taper", "wean": the dose changes by a rule not written out
   kNegation,    // "not", "do not", "remove": the rest of the clause adds no dose
+  kStageMark,   // "week 2", "days 2-5": a stage of value days; value2 1: its doses are daily
+  kStartAfter,  // "after one week": the stage before lasts value days
   kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
   kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
   kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")

@@ -131,6 +131,7 @@ constexpr Phrase kPhrases[] = {
     {"same day", K::kFiller}, {"second day", K::kFiller},
     // A dose given on one day only: a loading dose, a single dose.
     {"stat", K::kOneDay}, {"immediately", K::kOneDay}, {"at once", K::kOneDay},
+    {"now", K::kOneDay},
     {"first day", K::kOneDay}, {"once only", K::kOneDay}, {"single dose", K::kOneDay},
     // Both sides.
     {"each eye", K::kEachSide, 2}, {"both eyes", K::kEachSide, 2},

@@ -5,6 +5,7 @@
 #include <string_view>
 
 #include "dose/dosage_phrases.h"
+#include "dose/dosage_words.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
@@ -12,32 +13,23 @@ namespace {
 
 // Words a misspelling is read as: those that carry a dose, a unit or a timing. Common
 // practice: the misspellings seen on prescriptions are of these everyday words.
-constexpr std::array<std::string_view, 41> kTargets = {
+// "three" and "nocte" are left out: "there" and "note" are words of their own.
+constexpr std::array<std::string_view, 39> kTargets = {
     "twice",     "thrice",      "daily",     "tablets",     "tablet",   "capsules",
     "capsule",   "morning",     "mornings",  "night",       "nightly",  "evening",
-    "bedtime",   "times",       "three",     "every",       "hours",    "hourly",
-    "weekly",    "required",    "needed",    "spoonful",    "spoonfuls", "sachets",
-    "sachet",    "drops",       "puffs",     "sprays",      "inhalations", "application",
-    "lunchtime", "breakfast",   "alternate", "nostril",     "nostrils", "suppository",
-    "pessary",   "patches",     "maximum",   "units",       "nocte",
+    "bedtime",   "times",       "every",     "hours",       "hourly",   "weekly",
+    "required",  "needed",      "spoonful",  "spoonfuls",   "sachets",  "sachet",
+    "drops",     "puffs",       "sprays",    "inhalations", "application", "lunchtime",
+    "breakfast", "alternate",   "nostril",   "nostrils",    "suppository", "pessary",
+    "patches",   "maximum",     "units",
 };
 
-// Words the recogniser understands outside the phrase table (numbers, time units, and
-// words its matchers read): never corrected.
-constexpr std::array<std::string_view, 44> kOtherWords = {
-    "one",   "two",    "three",  "four",   "five",    "six",     "seven",  "eight",  "nine",
-    "ten",   "eleven", "twelve", "twenty", "thirty",  "forty",   "fifty",  "sixty",  "half",
-    "quarter", "hour", "hours",  "hr",     "hrs",     "minute",  "minutes", "min",   "mins",
-    "day",   "days",   "week",   "weeks",  "wk",      "wks",     "fortnight", "month", "months",
-    "year",  "years",  "every",  "times",  "hourly",  "hrly",
-};
-
+// Words the recogniser understands outside the phrase and unit tables (numbers, units
+// of time, and words its matchers read): never corrected.
 bool Known(std::string_view word) {
-  if (IsDosagePhraseWord(word) || ReadDoseUnit(word)) return true;
-  for (std::string_view other : kOtherWords) {
-    if (other == word) return true;
-  }
-  return false;
+  if (IsDosagePhraseWord(word) || NumberWordValue(word) || TimeUnitDays(word)) return true;
+  if (word == "every" || word == "times" || word == "hourly" || word == "hrly") return true;
+  return ReadDoseUnit(word).has_value();
 }
 
 // One edit between `typo` and `word`: a swap of neighbouring letters, a letter missing

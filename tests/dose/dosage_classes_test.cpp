@@ -62,6 +62,7 @@ TEST_CASE("interval phrases count administrations from the shortest interval") {
       {"1 tab qod", 0.5, kRegular},
       {"one eod", 0.5, kRegular},
       {"apply one patch every 72 hours", 1.0 / 3, kRegular},
+      {"1 od x 28/7", 1, kRegular},  // x 28/7: for 28 days, not 28 times
   };
   CheckAll(cases);
 }
@@ -93,6 +94,9 @@ TEST_CASE("a strength written in the text is read and left out of the dose") {
       {"metformin 500mg tablets: 1 tds with meals", 3, kRegular},
       {"amlodipine 5mg one daily", 1, kRegular},
       {"Oramorph 10mg/5ml: 5ml four hourly when required", 30, kPrn},
+      {"take one 500mg tablet twice daily", 2, kRegular},
+      // The dose said again in brackets counts once.
+      {"10mg (1 tablet) daily", 10, kRegular},
       // A mass alone is the dose.
       {"take 500mg three times a day", 1500, kRegular},
       {"Methotrexate 10mg once a week on Monday", 10.0 / 7, kRegular},

@@ -30,6 +30,8 @@ std::string KindName(ItemKind kind) {
     case ItemKind::kStop: return "stop";
     case ItemKind::kVariable: return "variable";
     case ItemKind::kNegation: return "not";
+    case ItemKind::kStageMark: return "stage";
+    case ItemKind::kStartAfter: return "after";
     case ItemKind::kEachSide: return "each-side";
     case ItemKind::kUnitHint: return "hint";
     case ItemKind::kFiller: return "-";
@@ -119,8 +121,14 @@ TEST_CASE("durations of a day or more are kept in days and offsets carry nothing
   CHECK(Show("2 hours before bed") == "- - event");
   CHECK(Show("30 minutes before food") == "- - -");
   CHECK(Show("14 days before food") == "- - -");
-  CHECK(Show("days 2-5") == "days");
+  CHECK(Show("days 2-5") == "stage");
   CHECK(ValueOf("days 2-5", 0) == 4);
+  CHECK(Show("weeks 3-4") == "stage");
+  CHECK(ValueOf("weeks 3-4", 0) == 14);
+  CHECK(Show("after one week") == "after");
+  CHECK(ValueOf("after one week", 0) == 7);
+  CHECK(Show("after food") == "- -");
+  CHECK(Show("x 28/7") == "days");
 }
 
 TEST_CASE("a dose on one day only is marked as such") {
