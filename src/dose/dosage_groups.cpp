@@ -147,7 +147,7 @@ void Assembler::Add(const Item& item) {
     case ItemKind::kFrequency:
       if (!part_.count && !part_.period) {
         part_.count = item.value;
-        part_.period = item.value2;
+        part_.period = item.period_days;
       }
       break;
     default:
@@ -184,11 +184,11 @@ void Assembler::AddOther(const Item& item) {
       in_max_ = true;
       group().maxima.emplace_back();
       if (item.value == 1) group().maxima.back().period = 1;
-      if (item.value2 == 1) out_.as_needed = true;
+      if (item.as_needed) out_.as_needed = true;
       break;
     case ItemKind::kUnknown:
       out_.unknown.push_back(item.text);
-      if (item.value2 == 1) {
+      if (item.unusable_amount) {
         if (part_.amount) StartPart();
         part_.amount = std::numeric_limits<double>::quiet_NaN();  // an unusable dose
       }
@@ -202,7 +202,7 @@ void Assembler::AddOther(const Item& item) {
 void Assembler::MarkStage(const Item& item) {
   if (CurrentHasDose() && (group().days || group().one_day)) StartGroup();
   if (!group().days) group().days = item.value;
-  if (item.value2 == 1) group().daily = true;
+  if (item.daily) group().daily = true;
 }
 
 // "increase to two daily after one week": the stage before lasts that long; written in
@@ -230,13 +230,13 @@ bool Assembler::AddToMaximum(const Item& item) {
     case ItemKind::kPeriod: max.period = item.value; return true;
     case ItemKind::kFrequency:
       max.count = item.value;
-      max.period = item.value2;
+      max.period = item.period_days;
       return true;
     case ItemKind::kEvent: AddDistinct(max.events, static_cast<int>(item.value)); return true;
     case ItemKind::kMaximum:
       // "up to a maximum of" is one maximum; "up to four times a day, max 8" is two.
       if (!max.empty()) return false;
-      if (item.value2 == 1) out_.as_needed = true;
+      if (item.as_needed) out_.as_needed = true;
       return true;
     case ItemKind::kFiller: return true;
     default: return false;

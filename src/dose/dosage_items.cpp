@@ -48,9 +48,9 @@ class Recogniser {
     return k < t_.size() && t_[k].kind != TokenKind::kNumber && t_[k].text == word;
   }
 
-  void Emit(ItemKind kind, size_t next, double value = 0, double value2 = 0,
+  void Emit(ItemKind kind, size_t next, double value = 0, double period_days = 0,
             std::string_view unit = {}) {
-    items_.push_back(Item{kind, value, value2, unit, {}});
+    items_.push_back(Item{kind, value, period_days, unit, {}, false});
     i_ = next;
   }
 
@@ -337,6 +337,14 @@ class Recogniser {
     return true;
   }
 
+  // A labelled stage of `days`: a dose under the label without a timing is daily.
+  void EmitStage(double days, size_t next) {
+    Item item{ItemKind::kStageMark, days, 0, {}, {}, false};
+    item.daily = true;
+    items_.push_back(std::move(item));
+    i_ = next;
+  }
+
   void EmitDuration(double days, size_t next) {
     if (days >= 1 && days <= kMaxDosageAmount) {
       Emit(ItemKind::kDuration, next, days);
@@ -355,7 +363,7 @@ class Recogniser {
       Emit(ItemKind::kOneDay, range->next);
     } else if (range->high >= range->low && IsWhole(range->low) && IsWhole(range->high) &&
                range->high - range->low < kMaxDosageAmount) {
-      Emit(ItemKind::kStageMark, range->next, range->high - range->low + 1, 1);
+      EmitStage(range->high - range->low + 1, range->next);
     } else {
       Emit(ItemKind::kFiller, range->next);
     }
@@ -370,7 +378,7 @@ class Recogniser {
         range->high - range->low >= 520) {
       return false;
     }
-    Emit(ItemKind::kStageMark, range->next, (range->high - range->low + 1) * 7, 1);
+    EmitStage((range->high - range->low + 1) * 7, range->next);
     return true;
   }
 
@@ -387,8 +395,8 @@ class Recogniser {
       return true;
     }
     if (range->high > kMaxDosageAmount) {
-      // value2 1: an amount that cannot be a dose, so the dose it belongs to is unusable.
-      items_.push_back(Item{ItemKind::kUnknown, 0, 1, {}, std::string(Text(i_))});
+      // An amount that cannot be a dose, so the dose it belongs to is unusable.
+      items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, std::string(Text(i_)), true});
       i_ = range->next;
       return true;
     }

@@ -11,8 +11,9 @@ struct Phrase {
   std::string_view words;  // space-separated tokens (punctuation is a token too)
   ItemKind kind;
   double value = 0;
-  double value2 = 0;
+  double period_days = 0;  // kFrequency: the days its administrations are spread over
   std::string_view unit = {};
+  bool as_needed = false;  // kMaximum: also makes the dose as needed
 };
 
 using K = ItemKind;
@@ -40,7 +41,7 @@ constexpr Phrase kPhrases[] = {
     {"max daily", K::kMaximum, 1}, {"maximum daily", K::kMaximum, 1},
     {"mdd", K::kMaximum, 1}, {"no more than", K::kMaximum},
     // "up to" leaves the number of doses to the patient: as needed (common practice).
-    {"up to", K::kMaximum, 0, 1},
+    {"up to", K::kMaximum, 0, 0, {}, true},
     {"not more than", K::kMaximum}, {"not to exceed", K::kMaximum},
     {"do not exceed", K::kMaximum}, {"not exceeding", K::kMaximum},
     {"at most", K::kMaximum}, {"do not take more than", K::kMaximum},
@@ -53,7 +54,7 @@ constexpr Phrase kPhrases[] = {
     {"ut dictum", K::kAsDirected},
     {"according to instructions", K::kAsDirected},
     {"according to the instructions", K::kAsDirected},
-    // Abbreviated frequencies: administrations per value2 days.
+    // Abbreviated frequencies: administrations per period_days days.
     {"od", K::kFrequency, 1, 1}, {"qd", K::kFrequency, 1, 1},
     {"bd", K::kFrequency, 2, 1}, {"bid", K::kFrequency, 2, 1},
     {"tds", K::kFrequency, 3, 1}, {"tid", K::kFrequency, 3, 1},
@@ -218,7 +219,8 @@ std::vector<std::string_view> SplitWords(std::string_view words) {
 PhraseIndex BuildIndex() {
   PhraseIndex index;
   for (const Phrase& phrase : kPhrases) {
-    Item item{phrase.kind, phrase.value, phrase.value2, phrase.unit, {}};
+    Item item{phrase.kind, phrase.value, phrase.period_days, phrase.unit, {}, false};
+    item.as_needed = phrase.as_needed;
     auto words = SplitWords(phrase.words);
     index[words.front()].push_back(SplitPhrase{std::move(words), item});
   }

@@ -8,6 +8,7 @@
 #include "dose/dosage_items.h"
 #include "dose/dosage_lexer.h"
 #include "dose/dosage_typos.h"
+#include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
@@ -191,12 +192,6 @@ DosageReading Finish(AssembledDosage assembled, bool truncated) {
   return reading;
 }
 
-bool IsBlank(std::string_view text) {
-  return std::all_of(text.begin(), text.end(), [](char c) {
-    return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v';
-  });
-}
-
 }  // namespace
 
 std::string_view UnderstandingName(Understanding understanding) {
@@ -210,7 +205,7 @@ std::string_view UnderstandingName(Understanding understanding) {
 }
 
 DosageReading ReadDosageText(std::string_view text) {
-  if (IsBlank(text)) return DosageReading{};
+  if (IsBlank(text, " \t\n\r\f\v")) return DosageReading{};
   LexedText lexed = LexDosageText(text);
   if (lexed.tokens.empty()) return DosageReading{};
   std::vector<Item> items = RecogniseDosageItems(lexed.tokens);

@@ -41,7 +41,7 @@ void CheckAll(const Case (&cases)[N]) {
 
 }  // namespace
 
-TEST_SUITE("dosage_classes") {
+TEST_SUITE("dose/dosage_classes") {
 
 TEST_CASE("interval phrases count administrations from the shortest interval") {
   // Common practice: "N-hourly" and "qNh" mean every N hours (24/N a day); a range of
@@ -68,7 +68,7 @@ TEST_CASE("interval phrases count administrations from the shortest interval") {
 }
 
 TEST_CASE("a stated maximum caps the count and each of several maxima limits it") {
-  // Product specification section 5: as needed with a maximum uses the maximum; a range
+  // docs/dosage-text.md (As needed): as needed with a maximum uses the maximum; a range
   // uses its upper value. The lowest of several limits wins.
   const Case cases[] = {
       {"two tablets up to four times a day, max 8 in 24 hours", 8, kPrn},
@@ -185,7 +185,7 @@ TEST_CASE("common misspellings read as the word meant and the reading says so") 
 }
 
 TEST_CASE("the as-needed flag follows the words that say so") {
-  // Product specification section 5; common practice: "up to" leaves the number of doses
+  // docs/dosage-text.md (As needed); common practice: "up to" leaves the number of doses
   // to the patient; a maximum alone ("max 8") limits a regular dose.
   const Case cases[] = {
       {"one or two tablets up to four times a day when required", 8, kPrn},

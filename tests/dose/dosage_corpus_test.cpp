@@ -127,7 +127,7 @@ const std::set<std::string> kKnownMisses = {
 
 }  // namespace
 
-TEST_SUITE("dosage_corpus") {
+TEST_SUITE("dose/dosage_corpus") {
 
 TEST_CASE("every corpus instruction reads as a pharmacist would count it, bar the listed misses") {
   const std::vector<CorpusRow> rows = LoadCorpus();

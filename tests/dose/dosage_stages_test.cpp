@@ -72,7 +72,7 @@ const StageCase kStageCases[] = {
 
 }  // namespace
 
-TEST_SUITE("dosage_stages") {
+TEST_SUITE("dose/dosage_stages") {
 
 TEST_CASE("staged instructions read into stages in order, the last one open-ended") {
   for (const StageCase& c : kStageCases) {

@@ -41,7 +41,7 @@ const ContentCase kContentCases[] = {
 
 }  // namespace
 
-TEST_SUITE("pack_content") {
+TEST_SUITE("dose/pack_content") {
 
 TEST_CASE("a description's pack size is read and its strengths are not") {
   for (const ContentCase& c : kContentCases) {

@@ -26,8 +26,8 @@ struct PackCase {
 constexpr auto kDosage = SupplyRule::kDosageText;
 constexpr auto kDefault = SupplyRule::kDefaultDays;
 
-// Each days figure is quantity x what one pack holds / units a day, rounded up (spec
-// section 5). 20 drops make 1 ml (common practice); doses per device as in
+// Each days figure is quantity x what one pack holds / units a day, rounded up
+// (docs/dosage-text.md). 20 drops make 1 ml (common practice); doses per device as in
 // pack_content.h (from memory).
 const PackCase kPackCases[] = {
     // A reliever inhaler dispensed as 1: 200 doses at 2 puffs four times a day = 25 days.
@@ -95,7 +95,7 @@ QuantityUnit UnitOf(const PackCase& c) {
 
 }  // namespace
 
-TEST_SUITE("supply_packs") {
+TEST_SUITE("dose/supply_packs") {
 
 TEST_CASE("quantities in packs, ml or doses divide puffs, sprays, drops and insulin units") {
   for (const PackCase& c : kPackCases) {
