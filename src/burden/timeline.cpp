@@ -135,7 +135,9 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       ++timeline.excluded_items;
       continue;
     }
-    QuantityUnit quantity_unit{record.unit.empty() ? product.dose_unit : record.unit, std::nullopt};
+    QuantityUnit quantity_unit{record.unit.empty() ? product.dose_unit : record.unit, std::nullopt,
+                               record.unit.empty(), record.product, product.form,
+                               product.ingredients.size()};
     if (product.ingredients.size() == 1) quantity_unit.mg_per_unit = product.ingredients[0].mg_per_unit;
     const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,
                                         ProductDefaultSupplyDays(product, record.quantity), options.supply,
