@@ -66,7 +66,7 @@ void Analysis::SaveResolutions() {
 }
 
 std::string Analysis::ResolutionKey() const {
-  return formulary_->checksum() + " medload " MEDLOAD_VERSION;
+  return formulary_->checksum() + " medload " MEDLOAD_VERSION " resolver " + std::to_string(kResolverVersion);
 }
 
 Timeline Analysis::BuildTimeline(std::span<const DispensingRecord> records) {

@@ -24,11 +24,14 @@ bool RouteExcluded(Route route, const MeasureOptions& options) {
          options.exclude_routes.end();
 }
 
-void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r) {
+void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r,
+                   const ResolvedProduct& product) {
   UnmatchedProduct& entry = unmatched[r.product + '\x1f' + r.code];
   if (entry.items == 0 || r.dispensed_on > entry.last_dispensed) entry.last_dispensed = r.dispensed_on;
   entry.product = r.product;
   entry.code = r.code;
+  entry.match = product.match;
+  entry.detail = product.match_detail;
   ++entry.items;
 }
 
@@ -97,7 +100,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
                        const MeasureOptions& options, DosageTextCache* dosages) {
   Timeline timeline;
   std::map<std::string, Medicine> medicines;
-  std::map<std::string, UnmatchedProduct> unmatched;
+  std::map<std::string, UnmatchedProduct> unmatched, flagged;
   std::vector<ProductGroups> product_groups;
   for (size_t i = 0; i < records.size(); ++i) {
     const DispensingRecord& record = records[i];
@@ -107,9 +110,10 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     }
     const ResolvedProduct& product = resolve(record);
     if (!product.matched()) {
-      NoteUnmatched(unmatched, record);
+      NoteUnmatched(unmatched, record, product);
       continue;
     }
+    if (product.flagged()) NoteUnmatched(flagged, record, product);  // counts, and is said
     if (!product.is_medicine()) {
       ++timeline.non_medicine_items;
       continue;
@@ -143,6 +147,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     timeline.medicines.push_back(std::move(medicine));
   }
   for (auto& [key, entry] : unmatched) timeline.unmatched.push_back(std::move(entry));
+  for (auto& [key, entry] : flagged) timeline.flagged.push_back(std::move(entry));
   return timeline;
 }
 

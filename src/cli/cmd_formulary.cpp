@@ -1,6 +1,7 @@
 // `medload formulary check|lookup|unmatched`: validate the tables, show how one product
 // resolves, and list the stored products that nothing in the tables recognises.
 #include <algorithm>
+#include <map>
 #include <ostream>
 
 #include <nlohmann/json.hpp>
@@ -33,6 +34,21 @@ std::string Join(const std::vector<std::string>& parts, std::string_view separat
   return out;
 }
 
+// The spellings read as ingredients ("oxybutinin read as oxybutynin").
+std::string SpellingText(const ResolvedProduct& product) {
+  std::vector<std::string> parts;
+  for (const SpellingReading& reading : product.spellings) parts.push_back(reading.written + " read as " + reading.read_as);
+  return Join(parts, "; ");
+}
+
+// What a partial or approximate resolution did not know, and how it read spellings.
+std::string FlagDetail(const ResolvedProduct& product) {
+  std::vector<std::string> parts;
+  for (const std::string& name : product.unknown) parts.push_back("not known: " + name);
+  if (!product.spellings.empty()) parts.push_back(SpellingText(product));
+  return Join(parts, "; ");
+}
+
 // ---- formulary check ----
 
 std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyCheck& check) {
@@ -42,6 +58,8 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"scale rows", std::to_string(check.scale_rows)},
           {"dbi rows", std::to_string(check.dbi_rows)},
           {"products", std::to_string(check.products)},
+          {"brands", std::to_string(check.brands)},
+          {"dictionary rows", std::to_string(check.dictionary_rows)},
           {"codes", std::to_string(check.codes)},
           {"non-medicine terms", std::to_string(check.non_medicine_terms)},
           {"rules", std::to_string(check.rules)},
@@ -150,7 +168,9 @@ std::vector<std::pair<std::string, std::string>> ProductFacts(const LookupModel&
                              {"route", std::string(RouteName(product.route))},
                              {"dose_unit", product.dose_unit},
                              {"supply_days_per_unit",
-                              product.default_supply_days ? std::to_string(*product.default_supply_days) : ""}});
+                              product.default_supply_days ? std::to_string(*product.default_supply_days) : ""},
+                             {"not_in_formulary", Join(product.unknown, "|")},
+                             {"close_spelling", SpellingText(product)}});
   return facts;
 }
 
@@ -247,26 +267,47 @@ int LookupCommand(Context& context, const std::vector<std::string>& args) {
 
 // ---- formulary unmatched ----
 
-void WriteUnmatched(Context& context, const std::vector<ProductCount>& products, const std::string& checksum) {
+// A stored product nothing resolves, or one resolved only in part or from a close spelling.
+struct UnresolvedProduct {
+  ProductCount count;
+  MatchKind match = MatchKind::kUnmatched;
+  std::string detail;                    // what is unknown, or how a spelling was read
+  std::vector<std::string> suggestions;  // nearest names, for an unmatched product
+};
+
+void WriteUnmatched(Context& context, const std::vector<UnresolvedProduct>& products, const std::string& checksum) {
   std::ostream& out = *context.out;
-  const std::vector<std::string> header = {"product", "code", "code_system", "items", "patients"};
+  const std::vector<std::string> header = {"product", "code", "code_system", "match", "detail", "suggestions", "items", "patients"};
   std::vector<std::vector<std::string>> rows;
-  long items = 0;
-  for (const ProductCount& product : products) {
-    rows.push_back({product.product, product.code, product.code_system, std::to_string(product.items),
-                    std::to_string(product.patients)});
-    items += product.items;
+  std::map<MatchKind, std::pair<long, long>> totals;  // match -> (products, items)
+  for (const UnresolvedProduct& p : products) {
+    rows.push_back({p.count.product, p.count.code, p.count.code_system, std::string(MatchKindName(p.match)), p.detail,
+                    Join(p.suggestions, "|"), std::to_string(p.count.items), std::to_string(p.count.patients)});
+    totals[p.match].first += 1;
+    totals[p.match].second += p.count.items;
   }
+  const auto summary = [&](MatchKind kind) { return totals[kind]; };
+  const std::string sentence =
+      std::to_string(summary(MatchKind::kUnmatched).first) + " unmatched products, " + std::to_string(summary(MatchKind::kUnmatched).second) +
+      " items; " + std::to_string(summary(MatchKind::kPartial).first) + " recognised only in part, " +
+      std::to_string(summary(MatchKind::kPartial).second) + " items; " + std::to_string(summary(MatchKind::kApproximate).first) +
+      " read from a close spelling, " + std::to_string(summary(MatchKind::kApproximate).second) + " items";
   switch (context.format) {
     case Format::kJson: {
       json list = json::array();
-      for (const ProductCount& p : products) {
-        list.push_back({{"product", p.product}, {"code", p.code}, {"code_system", p.code_system},
-                        {"items", p.items}, {"patients", p.patients}});
+      for (const UnresolvedProduct& p : products) {
+        list.push_back({{"product", p.count.product}, {"code", p.count.code}, {"code_system", p.count.code_system},
+                        {"match", std::string(MatchKindName(p.match))}, {"detail", p.detail},
+                        {"suggestions", p.suggestions}, {"items", p.count.items}, {"patients", p.count.patients}});
       }
-      out << JsonText(json{{"products", list}, {"unmatched_products", products.size()},
-                           {"unmatched_items", items}, {"formulary_checksum", checksum},
-                           {"caution", std::string(kCaution)}})
+      out << JsonText(json{{"products", list},
+                           {"unmatched_products", summary(MatchKind::kUnmatched).first},
+                           {"unmatched_items", summary(MatchKind::kUnmatched).second},
+                           {"partial_products", summary(MatchKind::kPartial).first},
+                           {"partial_items", summary(MatchKind::kPartial).second},
+                           {"approximate_products", summary(MatchKind::kApproximate).first},
+                           {"approximate_items", summary(MatchKind::kApproximate).second},
+                           {"formulary_checksum", checksum}, {"caution", std::string(kCaution)}})
           << "\n";
       return;
     }
@@ -277,14 +318,13 @@ void WriteUnmatched(Context& context, const std::vector<ProductCount>& products,
       return;
     case Format::kHtml:
       WriteHtmlStart(out, "Unmatched products");
-      out << "<h1>Products the formulary does not recognise</h1>\n<p>" << products.size() << " products, " << items
-          << " items</p>\n";
+      out << "<h1>Products the formulary does not fully recognise</h1>\n<p>" << EscapeHtml(sentence) << "</p>\n";
       WriteHtmlTable(out, header, rows);
       WriteHtmlEnd(out);
       return;
     default: break;
   }
-  out << products.size() << " unmatched products, " << items << " items\n";
+  out << sentence << "\n";
   if (!rows.empty()) WriteTextTable(out, header, rows);
   WriteTextCaution(out);
 }
@@ -304,15 +344,19 @@ int UnmatchedCommand(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return Fail(context, store.status());
   auto counts = store->ProductCounts();
   if (!counts.ok()) return Fail(context, counts.status());
-  std::vector<ProductCount> unmatched;
+  std::vector<UnresolvedProduct> unresolved;
   for (const ProductCount& product : *counts) {
-    if (!Resolve(*formulary, product.product, product.code, product.code_system).matched()) unmatched.push_back(product);
+    const ResolvedProduct resolved = Resolve(*formulary, product.product, product.code, product.code_system);
+    if (resolved.matched() && !resolved.flagged()) continue;
+    UnresolvedProduct entry{product, resolved.match, FlagDetail(resolved), {}};
+    if (!resolved.matched()) entry.suggestions = SuggestNames(*formulary, product.product);
+    unresolved.push_back(std::move(entry));
   }
-  std::stable_sort(unmatched.begin(), unmatched.end(), [](const ProductCount& a, const ProductCount& b) {
-    return a.items != b.items ? a.items > b.items : a.patients > b.patients;
+  std::stable_sort(unresolved.begin(), unresolved.end(), [](const UnresolvedProduct& a, const UnresolvedProduct& b) {
+    return a.count.items != b.count.items ? a.count.items > b.count.items : a.count.patients > b.count.patients;
   });
-  if (limit > 0 && unmatched.size() > static_cast<size_t>(limit)) unmatched.resize(static_cast<size_t>(limit));
-  WriteUnmatched(context, unmatched, formulary->checksum());
+  if (limit > 0 && unresolved.size() > static_cast<size_t>(limit)) unresolved.resize(static_cast<size_t>(limit));
+  WriteUnmatched(context, unresolved, formulary->checksum());
   return 0;
 }
 

@@ -2,7 +2,9 @@
 
 #include <algorithm>
 
+#include "formulary/description_words.h"
 #include "medload/formulary/formulary.h"
+#include "medload/formulary/resolver.h"
 
 namespace medload::formulary_internal {
 namespace {
@@ -69,7 +71,8 @@ bool WordTable::Contains(const std::vector<Word>& words, const std::vector<std::
 }
 
 void WordTable::Add(std::string_view name, size_t target, size_t rank) {
-  const std::string key = NameKey(name);
+  // Written out as descriptions are ("Seroquel XL" matches "seroquel modified release").
+  const std::string key = NameKey(ExpandAbbreviations(NormaliseText(name)));
   if (key.empty()) return;
   Entry entry;
   for (const Word& word : SplitWords(key)) entry.words.emplace_back(word.text);

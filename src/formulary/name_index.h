@@ -7,6 +7,7 @@
 #include <string>
 #include <string_view>
 #include <unordered_map>
+#include <utility>
 #include <vector>
 
 namespace medload {
@@ -76,8 +77,11 @@ const WordTable::Entry* WordTable::LongestAt(const std::vector<Word>& words, siz
 class NameIndex {
  public:
   formulary_internal::WordTable ingredients;    // target: index in FormularyTables::ingredients
-  formulary_internal::WordTable products;       // target: index in FormularyTables::products
+  formulary_internal::WordTable products;       // target: see Formulary::NamedProductAt
   formulary_internal::WordTable non_medicines;  // target: index in FormularyTables::non_medicines
+  // Single-word ingredient names and synonyms (NameKey) with their ingredient index: the
+  // candidates a close spelling may be read as.
+  std::vector<std::pair<std::string, size_t>> spelling_names;
 };
 
 }  // namespace medload

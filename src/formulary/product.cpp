@@ -62,6 +62,8 @@ std::string_view MatchKindName(MatchKind kind) {
     case MatchKind::kProduct: return "product";
     case MatchKind::kIngredient: return "ingredient";
     case MatchKind::kNonMedicine: return "non-medicine";
+    case MatchKind::kApproximate: return "approximate";
+    case MatchKind::kPartial: return "partial";
   }
   return "unmatched";
 }

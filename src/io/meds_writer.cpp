@@ -64,16 +64,39 @@ std::string ProductText(const MedsModel& model, const DispensingUse& use) {
   return RecordText(model.records, use, &DispensingRecord::product);
 }
 
-// Unmatched products dispensed recently enough that they could still be in use.
-std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+// Products of `list` dispensed recently enough that they could still be in use.
+std::vector<const UnmatchedProduct*> Recent(const MedsModel& model, const std::vector<UnmatchedProduct>& list) {
   std::vector<const UnmatchedProduct*> recent;
   const Date first = model.burden->on - (model.options.supply.max_supply_days - 1);
-  for (const UnmatchedProduct& product : model.timeline->unmatched) {
+  for (const UnmatchedProduct& product : list) {
     if (product.last_dispensed >= first && product.last_dispensed <= model.burden->on) {
       recent.push_back(&product);
     }
   }
   return recent;
+}
+
+std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+  return Recent(model, model.timeline->unmatched);
+}
+
+// The recent products of the timeline's partial (or approximate) matches, as text.
+nlohmann::json RecentFlagged(const MedsModel& model, MatchKind match) {
+  nlohmann::json list = nlohmann::json::array();
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    if (product->match == match) list.push_back(product->product);
+  }
+  return list;
+}
+
+std::string FlaggedWarning(const UnmatchedProduct& product) {
+  const std::string said = "\"" + product.product + "\" (" + std::to_string(product.items) + " item(s), last " +
+                           product.last_dispensed.ToIso() + ")";
+  if (product.match == MatchKind::kPartial) {
+    return said + " was recognised only in part (" + product.detail +
+           "): what the formulary does not know is not counted.";
+  }
+  return said + " was read from a close spelling (" + product.detail + "): confirm it is the medicine dispensed.";
 }
 
 std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& fired) {
@@ -95,6 +118,9 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
     warnings.push_back("\"" + product->product + "\" (" + std::to_string(product->items) +
                        " item(s), last " + product->last_dispensed.ToIso() +
                        ") was not recognised by the formulary and is not counted.");
+  }
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    warnings.push_back(FlaggedWarning(*product));
   }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
     warnings.push_back("The daily dose of " + ingredient +
@@ -160,6 +186,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
           {"dbi_incomplete", burden.dbi_incomplete}, {"unmatched", unmatched},
+          {"unmatched_in_part", RecentFlagged(model, MatchKind::kPartial)},
+          {"approximate", RecentFlagged(model, MatchKind::kApproximate)},
           {"measure", MeasureName(model.options.measure)}, {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
 }

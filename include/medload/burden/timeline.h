@@ -45,18 +45,22 @@ struct Medicine {
   std::vector<Episode> episodes;         // Coverage::source indexes `uses`
 };
 
-// A product that nothing in the formulary recognised: it may be a medicine the measures
-// cannot see, so outputs list it.
+// A product that nothing in the formulary recognised (it may be a medicine the measures
+// cannot see), or one recognised only in part or from a close spelling (it counts with
+// the ingredients read): outputs list it.
 struct UnmatchedProduct {
   std::string product;
   std::string code;
   int items = 0;
   Date last_dispensed;
+  MatchKind match = MatchKind::kUnmatched;  // kUnmatched, kPartial or kApproximate
+  std::string detail;                       // what was not known, or how it was read
 };
 
 struct Timeline {
   std::vector<Medicine> medicines;         // sorted by key
   std::vector<UnmatchedProduct> unmatched; // by product text
+  std::vector<UnmatchedProduct> flagged;   // partial or approximate matches, by product text
   int non_medicine_items = 0;              // dressings, appliances...: stored, never counted
   int excluded_items = 0;                  // left out by --exclude-prn or --exclude-route
   int not_dispensed_items = 0;             // records whose status does not count
