@@ -31,7 +31,7 @@ void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const Dis
   entry.product = r.product;
   entry.code = r.code;
   entry.match = product.match;
-  entry.detail = product.match_detail;
+  entry.detail = product.flagged() ? FlagDescription(product) : product.match_detail;
   ++entry.items;
 }
 

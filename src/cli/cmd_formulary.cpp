@@ -41,14 +41,6 @@ std::string SpellingText(const ResolvedProduct& product) {
   return Join(parts, "; ");
 }
 
-// What a partial or approximate resolution did not know, and how it read spellings.
-std::string FlagDetail(const ResolvedProduct& product) {
-  std::vector<std::string> parts;
-  for (const std::string& name : product.unknown) parts.push_back("not known: " + name);
-  if (!product.spellings.empty()) parts.push_back(SpellingText(product));
-  return Join(parts, "; ");
-}
-
 // ---- formulary check ----
 
 std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyCheck& check) {
@@ -348,7 +340,7 @@ int UnmatchedCommand(Context& context, const std::vector<std::string>& args) {
   for (const ProductCount& product : *counts) {
     const ResolvedProduct resolved = Resolve(*formulary, product.product, product.code, product.code_system);
     if (resolved.matched() && !resolved.flagged()) continue;
-    UnresolvedProduct entry{product, resolved.match, FlagDetail(resolved), {}};
+    UnresolvedProduct entry{product, resolved.match, FlagDescription(resolved), {}};
     if (!resolved.matched()) entry.suggestions = SuggestNames(*formulary, product.product);
     unresolved.push_back(std::move(entry));
   }

@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <optional>
 
 #include "formulary/description_words.h"
 #include "formulary/spelling.h"
@@ -105,45 +106,68 @@ bool LooksLikeIngredient(std::string_view word) {
   return std::all_of(word.begin(), word.end(), IsLetterByte);
 }
 
+namespace {
+
+// A description split for reading: its words' parts and which words and parts name a
+// known ingredient.
+struct Reading {
+  Parts parts;
+  std::vector<bool> in_mention, part_known;
+  std::vector<Strength> strengths;
+};
+
+// The unknown ingredient of `part` (its ingredient-like words `candidates`), if the part
+// stands as an ingredient of the combination.
+std::optional<Component> UnknownPart(std::string_view text, const std::vector<Word>& words, const Reading& reading,
+                                     size_t part, const std::vector<size_t>& candidates, size_t ingredients_read) {
+  std::string name;
+  for (const size_t k : candidates) name += (name.empty() ? "" : " ") + std::string(words[k].text);
+  size_t end = text.size();
+  for (size_t k = candidates.back(); k < words.size(); ++k) {
+    if (reading.parts.of_word[k] != part) {
+      end = words[k].offset;
+      break;
+    }
+  }
+  // A word set off by a comma or a hyphen counts only with a strength of its own or more
+  // strengths than the ingredients read (a pack size or a maker is not an ingredient).
+  const auto& joins = reading.parts.join_before;
+  const bool strong = joins[part] == Join::kStrong || joins[part + 1] == Join::kStrong;
+  const size_t start = words[candidates.front()].offset;
+  const bool evidence = HasStrength(reading.strengths, start, end) || reading.strengths.size() > ingredients_read;
+  if (!strong && !evidence) return std::nullopt;
+  return Component{Component::Kind::kUnknown, name, "", start};
+}
+
+}  // namespace
+
 std::vector<Component> FindComponents(const Formulary& formulary, std::string_view text,
                                       const std::vector<Word>& words) {
-  const std::vector<Mention> mentions = FindMentions(formulary, words);
-  const Parts parts = SplitParts(text, words);
-  const size_t part_count = parts.join_before.size() - 1;
-  std::vector<bool> in_mention(words.size(), false), part_known(part_count, false);
+  Reading reading{SplitParts(text, words), std::vector<bool>(words.size(), false), {}, ParseStrengths(text)};
+  const size_t part_count = reading.parts.join_before.size() - 1;
+  reading.part_known.assign(part_count, false);
   std::vector<Component> components;
-  for (const Mention& mention : mentions) {
+  for (const Mention& mention : FindMentions(formulary, words)) {
     for (size_t k = mention.first_word; k < mention.first_word + mention.word_count; ++k) {
-      in_mention[k] = true;
-      part_known[parts.of_word[k]] = true;
+      reading.in_mention[k] = true;
+      reading.part_known[reading.parts.of_word[k]] = true;
     }
     AddComponent(components, Component{Component::Kind::kKnown, formulary.ingredients()[mention.ingredient].name,
                                        "", words[mention.first_word].offset});
   }
-  const std::vector<Strength> strengths = ParseStrengths(text);
   std::vector<Component> unknown;
   for (size_t part = 0; part < part_count; ++part) {
-    if (part_known[part]) continue;
+    if (reading.part_known[part]) continue;
     std::vector<size_t> candidates;
     for (size_t k = 0; k < words.size(); ++k) {
-      if (parts.of_word[k] == part && !in_mention[k] && LooksLikeIngredient(words[k].text)) candidates.push_back(k);
-    }
-    if (candidates.empty() || AddSpellings(formulary, words, candidates, components)) continue;
-    std::string name;
-    for (const size_t k : candidates) name += (name.empty() ? "" : " ") + std::string(words[k].text);
-    size_t end = text.size();
-    for (size_t k = candidates.back(); k < words.size(); ++k) {
-      if (parts.of_word[k] != part) {
-        end = words[k].offset;
-        break;
+      if (reading.parts.of_word[k] == part && !reading.in_mention[k] && LooksLikeIngredient(words[k].text)) {
+        candidates.push_back(k);
       }
     }
-    // A word set off by a comma or a hyphen counts only with a strength of its own or
-    // more strengths than the ingredients read (a pack size or maker is not an ingredient).
-    const bool strong = parts.join_before[part] == Join::kStrong || parts.join_before[part + 1] == Join::kStrong;
-    const bool strength_evidence =
-        HasStrength(strengths, words[candidates.front()].offset, end) || strengths.size() > components.size();
-    if (strong || strength_evidence) unknown.push_back(Component{Component::Kind::kUnknown, name, "", words[candidates.front()].offset});
+    if (candidates.empty() || AddSpellings(formulary, words, candidates, components)) continue;
+    if (auto part_unknown = UnknownPart(text, words, reading, part, candidates, components.size())) {
+      unknown.push_back(std::move(*part_unknown));
+    }
   }
   if (components.empty()) return {};  // nothing known: unmatched, whatever looks like a name
   components.insert(components.end(), unknown.begin(), unknown.end());

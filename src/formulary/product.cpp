@@ -68,6 +68,18 @@ std::string_view MatchKindName(MatchKind kind) {
   return "unmatched";
 }
 
+std::string FlagDescription(const ResolvedProduct& product) {
+  std::string text;
+  if (!product.unknown.empty()) {
+    text = "not in the formulary: ";
+    for (size_t i = 0; i < product.unknown.size(); ++i) text += (i == 0 ? "" : ", ") + product.unknown[i];
+  }
+  for (const SpellingReading& reading : product.spellings) {
+    text += (text.empty() ? "" : "; ") + ("\"" + reading.written + "\" read as " + reading.read_as);
+  }
+  return text;
+}
+
 std::optional<int> ProductDefaultSupplyDays(const ResolvedProduct& product, double quantity) {
   if (!product.default_supply_days || !(quantity > 0)) return std::nullopt;
   constexpr double kMaxDays = 3650;

@@ -86,6 +86,11 @@ struct ResolvedProduct {
   bool is_medicine() const { return matched() && !non_medicine && !ingredients.empty(); }
 };
 
+// What a partial or approximate resolution did not know and how it read close spellings,
+// for warnings: "not in the formulary: frobazine; \"oxybutinin\" read as oxybutynin".
+// Empty for other resolutions.
+std::string FlagDescription(const ResolvedProduct& product);
+
 // The default days of supply of a dispensing of `quantity` units of `product`:
 // ceil(quantity x default_supply_days) when the product implies a supply per unit and
 // quantity > 0, else empty. Never more than 3650.
