@@ -174,6 +174,12 @@ std::string ExpandAbbreviations(std::string_view text) {
 
 bool IsDescriptiveWord(std::string_view word) { return DescriptiveWords().count(word) != 0; }
 
+bool IsMineralWord(std::string_view word) {
+  constexpr std::string_view kMinerals[] = {"calcium", "magnesium", "potassium", "sodium", "iron", "zinc",
+                                            "fluoride", "iodine", "selenium", "phosphate", "bicarbonate"};
+  return std::find(std::begin(kMinerals), std::end(kMinerals), word) != std::end(kMinerals);
+}
+
 bool IsConnectorWord(std::string_view word) { return word == "and" || word == "with" || word == "plus"; }
 
 }  // namespace medload::formulary_internal

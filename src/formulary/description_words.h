@@ -19,6 +19,10 @@ std::string ExpandAbbreviations(std::string_view normalised);
 // "sugar", "with") and company words ("ltd", "pharma"). Such words are never read as unknown ingredients or close spellings.
 bool IsDescriptiveWord(std::string_view word);
 
+// True for a mineral or ion that is a salt word beside a name ("levothyroxine sodium")
+// but an ingredient standing alone in a part of a combination ("calcium and vitamin D").
+bool IsMineralWord(std::string_view word);
+
 // True for a word that joins the parts of a combination: "and", "with", "plus".
 bool IsConnectorWord(std::string_view word);
 

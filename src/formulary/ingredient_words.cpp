@@ -160,7 +160,8 @@ std::vector<Component> FindComponents(const Formulary& formulary, std::string_vi
     if (reading.part_known[part]) continue;
     std::vector<size_t> candidates;
     for (size_t k = 0; k < words.size(); ++k) {
-      if (reading.parts.of_word[k] == part && !reading.in_mention[k] && LooksLikeIngredient(words[k].text)) {
+      const bool named = LooksLikeIngredient(words[k].text) || IsMineralWord(words[k].text);
+      if (reading.parts.of_word[k] == part && !reading.in_mention[k] && named) {
         candidates.push_back(k);
       }
     }
@@ -180,12 +181,17 @@ std::vector<const Strength*> PairStrengths(size_t count, const std::vector<size_
                                            const std::vector<Strength>& strengths) {
   std::vector<const Strength*> paired(count, nullptr);
   if (count == 0 || strengths.empty()) return paired;
-  if (strengths.size() == count) {
+  if (count > 1 && strengths.size() == count) {
     for (size_t i = 0; i < count; ++i) paired[i] = &strengths[i];
     return paired;
   }
   if (count == 1) {
-    paired[0] = &strengths.front();
+    // Where its place is known, the first strength written after the name ("Xyz 10mg and
+    // paracetamol 500mg": 500); one written before it may be another's.
+    const auto after = offsets.empty() ? strengths.begin()
+                                       : std::find_if(strengths.begin(), strengths.end(),
+                                                      [&](const Strength& s) { return s.position > offsets[0]; });
+    if (after != strengths.end()) paired[0] = &*after;
     return paired;
   }
   if (offsets.size() != count) return paired;  // places unknown: no strength rather than a wrong one

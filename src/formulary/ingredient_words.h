@@ -25,15 +25,17 @@ struct Component {
 
 // The components of `text` (ExpandAbbreviations output) split into `words`, in text order,
 // each ingredient once. A part of a combination with no known name but a word that looks
-// like one (letters only, five or more, not a descriptive word) is a close spelling when
+// like one (letters only, five or more, not a descriptive word; or a mineral standing
+// alone: "calcium and vitamin D") is a close spelling when
 // CloseIngredient reads it, else unknown. When no part names a known ingredient, the
 // close spellings anywhere in the words are read. Empty when nothing looks like one.
 std::vector<Component> FindComponents(const Formulary& formulary, std::string_view text,
                                       const std::vector<Word>& words);
 
 // The strength of each of `count` ingredients starting at `offsets` (text order; empty
-// offsets when their places are not known): in order when the counts agree; the first
-// strength when there is one ingredient; else, when places are known and the first
+// offsets when their places are not known): for one ingredient the first strength (the
+// first written after its name when its place is known); for several, in order when the
+// counts agree; else, when places are known and the first
 // ingredient has exactly one strength written before the next name, the one strength
 // written between each ingredient and the next; otherwise none. Never a strength that
 // may be another ingredient's.

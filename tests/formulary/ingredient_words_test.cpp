@@ -39,6 +39,9 @@ TEST_CASE("a combination part that names no known ingredient makes the match par
       // Strengths written after both names with one missing: none rather than a guess.
       {"Frobazine and paracetamol 500mg tablets", "paracetamol", std::nullopt, "frobazine"},
       {"Frobazine and paracetamol tablets", "paracetamol", std::nullopt, "frobazine"},
+      // A mineral alone in a part is an ingredient, not a salt word.
+      {"Calcium and vitamin D3 tablets", "colecalciferol", std::nullopt, "calcium"},
+      {"Iron and folic acid tablets", "folic acid", std::nullopt, "iron"},
   };
   for (const PartialCase& c : cases) {
     CAPTURE(c.description);
@@ -96,6 +99,14 @@ TEST_CASE("the bundled tables know the US combinations dispensing data commonly 
       CHECK(product.ingredients[i].ingredient == c.ingredients[i].first);
       CHECK(product.ingredients[i].mg_per_unit == c.ingredients[i].second);
     }
+  }
+}
+
+TEST_CASE("a mineral beside a name is a salt, not an ingredient") {
+  for (const char* description : {"Levothyroxine sodium 50microgram tablets", "Atorvastatin calcium 40mg tablets",
+                                  "Losartan potassium-hydrochlorothiazide 50-12.5 mg tablet"}) {
+    CAPTURE(description);
+    CHECK(Resolve(BundledFormulary(), description).match == MatchKind::kIngredient);
   }
 }
 
@@ -174,6 +185,14 @@ TEST_CASE("strengths pair in order when the counts agree and never across ingred
   const std::vector<Strength> three = ParseStrengths("a 10mg b 5mg 2mg");
   REQUIRE(three.size() == 3);
   CHECK(PairStrengths(2, {0, 7}, three) == std::vector<const Strength*>{&three[0], nullptr});
+  // One ingredient named after a strength that is not its own ("xyz 10mg and b 500mg").
+  const std::vector<Strength> before = ParseStrengths("xyz 10mg and b 500mg");
+  REQUIRE(before.size() == 2);
+  CHECK(PairStrengths(1, {13}, before) == std::vector<const Strength*>{&before[1]});
+  const std::vector<Strength> only_before = ParseStrengths("xyz 10mg and b");
+  CHECK(PairStrengths(1, {13}, only_before) == std::vector<const Strength*>{nullptr});
+  const std::vector<Strength> two_before = ParseStrengths("x 1mg y 10mg and b");
+  CHECK(PairStrengths(1, {17}, two_before) == std::vector<const Strength*>{nullptr});
 }
 
 TEST_CASE("suggestions for an unmatched product name the nearest ingredients and brands") {
