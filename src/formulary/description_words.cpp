@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <string_view>
+#include <unordered_map>
 #include <unordered_set>
 #include <utility>
 
@@ -129,9 +130,17 @@ std::string_view SlashAbbreviationAt(std::string_view text, size_t i) {
   return Lookup(kSlashAbbreviations, std::string_view(key, 2));
 }
 
+// The whole-word abbreviations by word (every description word is looked up).
+std::string_view WordAbbreviation(std::string_view word) {
+  static const std::unordered_map<std::string_view, std::string_view> abbreviations(std::begin(kWordAbbreviations),
+                                                                                     std::end(kWordAbbreviations));
+  const auto it = abbreviations.find(word);
+  return it == abbreviations.end() ? std::string_view() : it->second;
+}
+
 // Appends one word, expanded or split where it is an abbreviation or a glued strength.
 void AppendWord(std::string_view word, std::string& out) {
-  if (const std::string_view expansion = Lookup(kWordAbbreviations, word); !expansion.empty()) {
+  if (const std::string_view expansion = WordAbbreviation(word); !expansion.empty()) {
     out += expansion;
     return;
   }

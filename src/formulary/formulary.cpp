@@ -132,6 +132,7 @@ void IndexSpellings(const FormularyTables& tables, NameIndex& index) {
     add(ingredient.name);
     for (const std::string& synonym : ingredient.synonyms) add(synonym);
   }
+  std::sort(index.spelling_names.begin(), index.spelling_names.end());  // by first letter for lookups
 }
 
 }  // namespace

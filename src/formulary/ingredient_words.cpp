@@ -113,7 +113,7 @@ namespace {
 struct Reading {
   Parts parts;
   std::vector<bool> in_mention, part_known;
-  std::vector<Strength> strengths;
+  const std::vector<Strength>& strengths;
 };
 
 // The unknown ingredient of `part` (its ingredient-like words `candidates`), if the part
@@ -142,8 +142,8 @@ std::optional<Component> UnknownPart(std::string_view text, const std::vector<Wo
 }  // namespace
 
 std::vector<Component> FindComponents(const Formulary& formulary, std::string_view text,
-                                      const std::vector<Word>& words) {
-  Reading reading{SplitParts(text, words), std::vector<bool>(words.size(), false), {}, ParseStrengths(text)};
+                                      const std::vector<Word>& words, const std::vector<Strength>& strengths) {
+  Reading reading{SplitParts(text, words), std::vector<bool>(words.size(), false), {}, strengths};
   const size_t part_count = reading.parts.join_before.size() - 1;
   reading.part_known.assign(part_count, false);
   std::vector<Component> components;

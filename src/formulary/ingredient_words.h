@@ -23,14 +23,15 @@ struct Component {
   size_t offset = 0;    // where it starts in the text
 };
 
-// The components of `text` (ExpandAbbreviations output) split into `words`, in text order,
+// The components of `text` (ExpandAbbreviations output) split into `words`, with its
+// `strengths` (ParseStrengths of `text`), in text order,
 // each ingredient once. A part of a combination with no known name but a word that looks
 // like one (letters only, five or more, not a descriptive word; or a mineral standing
 // alone: "calcium and vitamin D") is a close spelling when
 // CloseIngredient reads it, else unknown. When no part names a known ingredient, the
 // close spellings anywhere in the words are read. Empty when nothing looks like one.
 std::vector<Component> FindComponents(const Formulary& formulary, std::string_view text,
-                                      const std::vector<Word>& words);
+                                      const std::vector<Word>& words, const std::vector<Strength>& strengths);
 
 // The strength of each of `count` ingredients starting at `offsets` (text order; empty
 // offsets when their places are not known): for one ingredient the first strength (the

@@ -264,7 +264,7 @@ std::string JoinWords(const std::vector<std::string>& words) {
 
 // Resolution by the ingredient names, close spellings and unknown parts in the words.
 void ResolveByIngredients(const Formulary& formulary, const Text& text, ResolvedProduct& product) {
-  const std::vector<Component> components = FindComponents(formulary, text.text, text.words);
+  const std::vector<Component> components = FindComponents(formulary, text.text, text.words, text.strengths);
   if (components.empty()) {
     product.match_detail = "no code, product or ingredient name recognised";
     return;

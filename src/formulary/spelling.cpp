@@ -4,7 +4,6 @@
 #include "formulary/spelling.h"
 
 #include <algorithm>
-#include <map>
 #include <vector>
 
 #include "formulary/name_index.h"
@@ -15,8 +14,19 @@ namespace medload::formulary_internal {
 size_t EditDistance(std::string_view a, std::string_view b, size_t limit) {
   const size_t gap = a.size() > b.size() ? a.size() - b.size() : b.size() - a.size();
   if (gap > limit) return limit + 1;
-  // Three rows of the dynamic programme: two back (for swaps), one back, current.
-  std::vector<size_t> before(b.size() + 1), previous(b.size() + 1), current(b.size() + 1);
+  // Three rows of the dynamic programme: two back (for swaps), one back, current. On the
+  // stack for names of ordinary length (this runs for every candidate name).
+  constexpr size_t kStackRow = 64;
+  size_t stack[3][kStackRow];
+  std::vector<size_t> heap;
+  size_t* rows[3] = {stack[0], stack[1], stack[2]};
+  if (b.size() + 1 > kStackRow) {
+    heap.resize(3 * (b.size() + 1));
+    for (size_t r = 0; r < 3; ++r) rows[r] = heap.data() + r * (b.size() + 1);
+  }
+  size_t* before = rows[0];
+  size_t* previous = rows[1];
+  size_t* current = rows[2];
   for (size_t j = 0; j <= b.size(); ++j) previous[j] = j;
   for (size_t i = 1; i <= a.size(); ++i) {
     current[0] = i;
@@ -29,8 +39,10 @@ size_t EditDistance(std::string_view a, std::string_view b, size_t limit) {
       row_best = std::min(row_best, value);
     }
     if (row_best > limit) return limit + 1;
-    std::swap(before, previous);
-    std::swap(previous, current);
+    size_t* oldest = before;
+    before = previous;
+    previous = current;
+    current = oldest;
   }
   return std::min(previous[b.size()], limit + 1);
 }
@@ -45,13 +57,20 @@ std::optional<size_t> CloseIngredient(const Formulary& formulary, std::string_vi
   const size_t allowed = AllowedEdits(word.size());
   if (allowed == 0) return std::nullopt;
   // The best distance of each ingredient within allowed + 1 (to see near rivals).
-  std::map<size_t, size_t> best;
-  for (const auto& [name, ingredient] : formulary.name_index().spelling_names) {
-    if (name.front() != word.front()) continue;
+  std::vector<std::pair<size_t, size_t>> best;  // (ingredient, distance); a handful at most
+  const auto& names = formulary.name_index().spelling_names;  // sorted: one range per first letter
+  const auto first = std::lower_bound(names.begin(), names.end(), std::string(1, word.front()),
+                                      [](const auto& entry, const std::string& key) { return entry.first < key; });
+  for (auto entry = first; entry != names.end() && entry->first.front() == word.front(); ++entry) {
+    const auto& [name, ingredient] = *entry;
+    const size_t gap = name.size() > word.size() ? name.size() - word.size() : word.size() - name.size();
+    if (gap > allowed + 1) continue;
     const size_t distance = EditDistance(word, name, allowed + 1);
     if (distance > allowed + 1) continue;
-    auto [it, inserted] = best.emplace(ingredient, distance);
-    if (!inserted) it->second = std::min(it->second, distance);
+    const size_t id = ingredient;
+    const auto seen = std::find_if(best.begin(), best.end(), [&](const auto& b) { return b.first == id; });
+    if (seen == best.end()) best.emplace_back(ingredient, distance);
+    else seen->second = std::min(seen->second, distance);
   }
   std::optional<size_t> chosen;
   size_t chosen_distance = allowed + 2;
