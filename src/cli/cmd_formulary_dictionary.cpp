@@ -3,48 +3,13 @@
 // the formulary the user keeps, so that its codes, product names and brands resolve.
 #include <ostream>
 
-#include <nlohmann/json.hpp>
-
 #include "cli/options.h"
-#include "medload/core/caution.h"
+#include "medload/format/json_text.h"
 #include "medload/formulary/dictionary.h"
 #include "medload/formulary/formulary.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/formulary/formulary_writer.h"
 
 namespace medload::cli {
-namespace {
-
-int Fail(Context& context, const Status& status) {
-  *context.err << "medload: " << status.message() << "\n";
-  return status.exit_code();
-}
-
-void WriteLoad(Context& context, const std::string& dir, const DictionaryLoad& load, size_t rows_in_file) {
-  std::ostream& out = *context.out;
-  if (context.format == Format::kJson) {
-    out << JsonText(nlohmann::json{{"dictionary", dir + "/dictionary.csv"},
-                                   {"code_system", load.code_system},
-                                   {"rows_loaded", load.entries.size()},
-                                   {"rows_in_file", rows_in_file},
-                                   {"products_skipped", load.skipped},
-                                   {"unknown_substances", load.unknown_substances},
-                                   {"caution", std::string(kCaution)}})
-        << "\n";
-    return;
-  }
-  out << dir << "/dictionary.csv: " << load.entries.size() << " " << load.code_system << " rows loaded, "
-      << rows_in_file << " rows in the file\n";
-  if (load.skipped > 0) out << load.skipped << " products left out: no ingredient\n";
-  if (!load.unknown_substances.empty()) {
-    out << load.unknown_substances.size()
-        << " substances are not in ingredients.csv; products naming them resolve as partial until they are added:\n";
-    for (const std::string& name : load.unknown_substances) out << "  " << name << "\n";
-  }
-  WriteTextCaution(out);
-}
-
-}  // namespace
 
 int RunFormularyLoadDictionary(Context& context, const std::vector<std::string>& args) {
   po::options_description options("formulary load-dictionary options");
@@ -71,7 +36,12 @@ int RunFormularyLoadDictionary(Context& context, const std::vector<std::string>&
   const FormularyCheck check = CheckFormulary(dir);
   for (const std::string& fault : check.faults) *context.err << "medload: " << fault << "\n";
   if (!check.ok()) return Fail(context, Status::Input("formulary " + dir + ": faults after loading the dictionary"));
-  WriteLoad(context, dir, *load, check.dictionary_rows);
+  const std::string dictionary = dir + "/dictionary.csv";
+  if (context.format == Format::kJson) {
+    *context.out << JsonText(DictionaryLoadJson(dictionary, *load, check.dictionary_rows)) << "\n";
+  } else {
+    WriteDictionaryLoadText(*context.out, dictionary, *load, check.dictionary_rows);
+  }
   return 0;
 }
 

@@ -15,7 +15,7 @@ constexpr const char* kDispensingColumns =
     "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
     " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status";
 
-// The statuses that count in measures (spec: only "completed" or none).
+// The statuses that count in measures (docs/input-formats.md: only "completed" or none).
 constexpr const char* kCounting = "status IN ('', 'completed')";
 
 constexpr const char* kPatientColumns =
@@ -337,17 +337,6 @@ Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_ran
   return ranges;
 }
 
-Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
-  Result<PatientCursor> cursor = Patients();
-  if (!cursor.ok()) return cursor.status();
-  PatientHistory history;
-  for (;;) {
-    Result<bool> more = cursor->Next(history);
-    if (!more.ok()) return more.status();
-    if (!*more || !visit(history)) return Status::Ok();
-  }
-}
-
 Result<std::vector<PracticeRecord>> Store::Practices() const {
   Result<Statement> stmt = Statement::Prepare(
       db_, "SELECT practice, name, network, list_size FROM practices ORDER BY practice");
@@ -392,13 +381,24 @@ Result<std::vector<ProductCount>> Store::ProductCounts() const {
   return counts;
 }
 
-Result<std::optional<Date>> Store::LatestDispensed() const {
+Result<PracticeSpans> Store::PracticeDataSpans() const {
   Result<Statement> stmt = Statement::Prepare(
-      db_, std::string("SELECT MAX(dispensed_on) FROM dispensings WHERE ") + kCounting);
+      db_, "SELECT CASE WHEN d.practice <> '' THEN d.practice ELSE COALESCE(p.practice, '') END AS owner,"
+           " MIN(d.dispensed_on), MAX(d.dispensed_on) FROM dispensings d"
+           " LEFT JOIN patients p ON p.patient_id = d.patient_id"
+           " WHERE d.status IN ('', 'completed') GROUP BY owner");
   if (!stmt.ok()) return stmt.status();
-  Result<bool> row = stmt->Step();
-  if (!row.ok()) return row.status();
-  return ColumnDate(*stmt, 0);
+  PracticeSpans spans;
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    const std::optional<Date> first = ColumnDate(*stmt, 1);
+    const std::optional<Date> latest = ColumnDate(*stmt, 2);
+    if (!first || !latest) return Status::Input(path_ + ": a stored dispensing date is malformed");
+    spans[std::string(stmt->ColumnText(0))] = DataSpan{*first, *latest};
+  }
+  return spans;
 }
 
 Result<StoreSummary> Store::Summary() const {

@@ -10,7 +10,7 @@
 
 namespace medload {
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_formulary_dictionary") {
 
 TEST_CASE("a dictionary loaded into a copy of the formulary makes its codes and brands resolve") {
   TempFolder folder;

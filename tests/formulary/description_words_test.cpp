@@ -8,7 +8,7 @@
 namespace medload::formulary_internal {
 namespace {
 
-TEST_SUITE("formulary.description_words") {
+TEST_SUITE("formulary/description_words") {
 
 // Abbreviations as pharmacy systems print them (common practice).
 TEST_CASE("abbreviations in descriptions are written out") {

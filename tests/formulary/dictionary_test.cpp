@@ -40,7 +40,7 @@ std::vector<std::string> Names(const ResolvedProduct& product) {
 const std::vector<std::string> kDmdFiles = {Data("dmd/f_vmp_invented.xml"), Data("dmd/f_amp_invented.xml"),
                                             Data("dmd/f_ingredient_invented.xml"), Data("dmd/f_lookup_invented.xml")};
 
-TEST_SUITE("formulary.dictionary") {
+TEST_SUITE("formulary/dictionary") {
 
 TEST_CASE("a dm+d release gives one row per valid VMP and AMP with canonical ingredients") {
   auto load = ReadDictionaryRelease(BundledFormulary(), DictionarySystem::kDmd, kDmdFiles);

@@ -26,7 +26,7 @@ struct PartialCase {
   const char* unknown;              // the part kept as unknown
 };
 
-TEST_SUITE("formulary.ingredient_words") {
+TEST_SUITE("formulary/ingredient_words") {
 
 // Invented ingredient names; strengths as written (common practice).
 TEST_CASE("a combination part that names no known ingredient makes the match partial, never dropped") {

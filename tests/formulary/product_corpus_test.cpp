@@ -82,7 +82,7 @@ struct Tally {
   int rows = 0, right = 0, confidently_wrong = 0;
 };
 
-TEST_SUITE("formulary.product_corpus") {
+TEST_SUITE("formulary/product_corpus") {
 
 // Expected ingredients are the author's reading of each description (common practice).
 TEST_CASE("the product corpus resolves at least 97% right, 90% of brand lines, none confidently wrong") {
