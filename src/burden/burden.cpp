@@ -260,7 +260,13 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const Me
       burden.active[owner].score += score;
     }
     const DbiEntry* entry = tables.Dbi(ingredient);
-    if (entry == nullptr) continue;
+    if (entry == nullptr) {
+      if (tables.InDbiClass(ingredient)) {
+        burden.dbi_incomplete.push_back(ingredient);
+        burden.dbi_no_minimum.push_back(ingredient);
+      }
+      continue;
+    }
     const auto products = ProductsTakenTogether(timeline, burden, ingredient, burden.on, options);
     auto dose = IngredientDose(timeline, burden, ingredient, products);
     if (!dose) {

@@ -2,10 +2,12 @@
 
 #include <algorithm>
 #include <cctype>
+#include <cmath>
 #include <ostream>
 
 #include "medload/core/caution.h"
 #include "medload/core/text.h"
+#include "medload/dose/dose_unit.h"
 #include "medload/format/output.h"
 
 namespace medload {
@@ -40,9 +42,28 @@ std::vector<std::string> ClassesOf(const MedsModel& model, const Medicine& medic
   return classes;
 }
 
-std::string DosageRead(const DosageReading& dosage) {
+// How the dosage was read: the amount a day in its own unit and, when that is another
+// unit (a dose in mg, administrations without a dose), in the unit of the quantity, or
+// why that is not known.
+std::string DosageRead(const MedsModel& model, const DispensingUse& use) {
+  const DosageReading& dosage = use.dosage;
   std::string text(UnderstandingName(dosage.understanding));
-  if (dosage.units_per_day) text += ", " + FormatNumber(*dosage.units_per_day, 3) + " per day";
+  if (dosage.units_per_day) {
+    const bool administrations = dosage.unit == kAdministrationUnit;
+    text += ", " + FormatNumber(*dosage.units_per_day, 3) +
+            (administrations ? " times a day, no dose stated"
+                             : (dosage.unit.empty() ? "" : " " + dosage.unit) + " per day");
+    const std::string unit = RecordText(model.records, use, &DispensingRecord::unit);
+    const bool converted = administrations || (use.supply.units_per_day &&
+                                               std::abs(*use.supply.units_per_day - *dosage.units_per_day) >
+                                                   1e-9 * std::abs(*dosage.units_per_day));
+    if (use.supply.units_per_day && converted) {
+      text += " = " + FormatNumber(*use.supply.units_per_day, 3) + " " +
+              (unit.empty() ? std::string("dose units") : unit) + " per day";
+    } else if (!use.supply.units_per_day && !use.supply.note.empty()) {
+      text += " (not used: " + use.supply.note + ")";
+    }
+  }
   if (dosage.as_needed) text += ", as needed";
   return text;
 }
@@ -101,6 +122,20 @@ std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& 
 
 }  // namespace
 
+std::string NotCountedNote(const MedsModel& model) {
+  long total = 0;
+  std::string statuses;
+  for (const auto& [status, count] : model.not_counted) {
+    total += count;
+    if (!statuses.empty()) statuses += ", ";
+    statuses += status + " " + std::to_string(count);
+  }
+  if (total == 0) return "";
+  return std::to_string(total) + " dispensing(s) up to " + model.burden->on.ToIso() +
+         " are stored but not counted here because of their status (" + statuses +
+         "); only completed dispensings count: check them with the dispensing record";
+}
+
 std::vector<std::string> MedsWarnings(const MedsModel& model) {
   std::vector<std::string> warnings;
   if (model.data_note && !model.data_note->empty()) {
@@ -116,6 +151,12 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
     warnings.push_back(FlaggedWarning(*product, model.burden->on));
   }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
+    const auto& no_minimum = model.burden->dbi_no_minimum;
+    if (std::find(no_minimum.begin(), no_minimum.end(), ingredient) != no_minimum.end()) {
+      warnings.push_back(ingredient + " is in a class the Drug Burden Index counts, but the table gives it no "
+                         "minimum daily dose, so it adds nothing: the DBI is incomplete.");
+      continue;
+    }
     warnings.push_back("The daily dose of " + ingredient +
                        " is not known (no strength), so it adds nothing to the Drug Burden Index.");
   }
@@ -134,15 +175,22 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
   }
   for (const Row& row : Rows(model)) {
     if (row.latest->supply.rule == SupplyRule::kDefaultDays) {
+      const std::string& why = row.latest->supply.note;
       warnings.push_back("The days of supply of " + DisplayName(*row.medicine) + " were assumed (" +
-                         std::to_string(row.latest->supply.days) +
-                         " days): the record gave no days supply and the dosage was not understood.");
+                         std::to_string(row.latest->supply.days) + " days): the record gave no days supply and " +
+                         (why.empty() ? std::string("the dosage was not understood.")
+                                      : "the dosage gave no amount a day in the quantity's unit (" + why + ")."));
     }
   }
   if (model.burden->age_unknown_for_rules) {
     warnings.push_back("The patient's age is not known, so rules with an age limit were not checked.");
   }
   if (!model.registered) warnings.push_back("The patient has no row in the registry.");
+  if (const std::string note = NotCountedNote(model); !note.empty()) {
+    std::string sentence = note + ".";
+    sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+    warnings.push_back(std::move(sentence));
+  }
   return warnings;
 }
 
@@ -169,7 +217,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
                                                                     : nlohmann::json(nullptr)},
                          {"supply_rule", SupplyRuleName(use.supply.rule)},
                          {"dosage", DosageText(model, use)},
-                         {"dosage_read", DosageRead(use.dosage)},
+                         {"dosage_read", DosageRead(model, use)},
                          {"as_needed", use.dosage.as_needed}});
   }
   nlohmann::json rules = nlohmann::json::array();
@@ -203,9 +251,9 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"age", age}, {"items", burden.items}, {"acb", burden.acb}, {"scale", model.tables->scale},
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
-          {"dbi_incomplete", burden.dbi_incomplete}, {"unmatched", unmatched},
-          {"unmatched_in_part", RecentFlagged(model, MatchKind::kPartial)},
-          {"approximate", RecentFlagged(model, MatchKind::kApproximate)},
+          {"dbi_incomplete", burden.dbi_incomplete}, {"dbi_no_minimum", burden.dbi_no_minimum},
+          {"unmatched", unmatched}, {"unmatched_in_part", RecentFlagged(model, MatchKind::kPartial)},
+          {"approximate", RecentFlagged(model, MatchKind::kApproximate)}, {"not_counted", model.not_counted},
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
@@ -242,7 +290,7 @@ std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
     rows.push_back({DisplayName(*row.medicine), row.active->since.ToIso(), UntilText(*row.active),
                     use.dispensed_on.ToIso(),
                     std::to_string(use.supply.days) + " d (" + std::string(SupplyRuleName(use.supply.rule)) + ")",
-                    DosageRead(use.dosage), std::to_string(row.active->score), FormatNumber(row.active->dbi, 2)});
+                    DosageRead(model, use), std::to_string(row.active->score), FormatNumber(row.active->dbi, 2)});
   }
   return rows;
 }
@@ -292,6 +340,7 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
   if (model.data_note) out << "# note: " << *model.data_note << "\n";
+  if (const std::string note = NotCountedNote(model); !note.empty()) out << "# note: " << note << "\n";
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
                  "product", "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes"});
   for (const Row& row : Rows(model)) {
@@ -299,7 +348,7 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
     out << CsvRow({model.patient, model.burden->on.ToIso(), DisplayName(*row.medicine),
                    Join(row.medicine->ingredients, "|"), row.active->since.ToIso(), row.active->until.ToIso(),
                    row.active->in_tail ? "yes" : "no", use.dispensed_on.ToIso(), ProductText(model, use), std::to_string(use.supply.days),
-                   std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(use.dosage),
+                   std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(model, use),
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
                    Join(ClassesOf(model, *row.medicine), "|")});
   }

@@ -107,6 +107,14 @@ std::optional<DoseUnit> ReadDoseUnit(std::string_view text) {
   return LookUpWord(word);
 }
 
+bool IsSingleUnitForm(std::string_view canonical) {
+  for (std::string_view form : {"tablet", "capsule", "patch", "suppository", "pessary", "sachet",
+                                "lozenge", "pastille", "enema"}) {
+    if (canonical == form) return true;
+  }
+  return false;
+}
+
 bool SameDoseUnit(std::string_view canonical_a, std::string_view canonical_b) {
   if (canonical_a == canonical_b) return true;
   auto either = [&](std::string_view x, std::string_view y) {

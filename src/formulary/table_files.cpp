@@ -173,6 +173,19 @@ void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::strin
   }
 }
 
+void ReadDbiClasses(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "class", faults)) continue;
+    const auto effect = EffectFromName(row.fields[1]);
+    if (!effect) {
+      faults.push_back(Fault(table.name, row.line,
+                             "effect: \"" + row.fields[1] + "\" is not anticholinergic, sedative or both"));
+      continue;
+    }
+    tables.dbi_classes.push_back(DbiClass{row.fields[0], *effect, row.fields[2], row.line});
+  }
+}
+
 void ReadProducts(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "product", faults)) continue;
@@ -330,6 +343,8 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
   }
   ReadTableFile(dir, "dbi.csv", false, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
                 [&](const Table& t) { ReadDbi(t, tables, faults); });
+  ReadTableFile(dir, "dbi_classes.csv", false, {"class", "effect", "source"}, files, faults,
+                [&](const Table& t) { ReadDbiClasses(t, tables, faults); });
   ReadTableFile(dir, "products.csv", false,
                 {"product", "requires", "ingredients", "form", "route", "dose_unit", "supply_days_per_unit",
                  "source"},

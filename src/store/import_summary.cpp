@@ -22,6 +22,13 @@ std::string JoinCounts(const std::map<std::string, long>& counts, std::string_vi
   return text;
 }
 
+// "a; b" for one CSV cell.
+std::string JoinLines(const std::vector<std::string>& lines) {
+  std::string text;
+  for (const std::string& line : lines) text += (text.empty() ? "" : "; ") + line;
+  return text;
+}
+
 nlohmann::ordered_json FileJson(const ImportSummary& summary) {
   nlohmann::ordered_json json = {
       {"file", summary.file},
@@ -39,7 +46,15 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
       {"rolled_back", summary.rolled_back},
       {"examples", summary.examples},
   };
-  if (summary.kind == "dispensing" && summary.format == "fhir") json["patients"] = summary.patients;
+  if (summary.kind == "dispensing") {
+    json["not_in_registry"] = summary.not_in_registry;
+    json["not_in_registry_patients"] = summary.not_in_registry_patients;
+    json["not_in_registry_examples"] = summary.not_in_registry_examples;
+  }
+  if (summary.kind == "dispensing" && summary.format == "fhir") {
+    json["patients"] = summary.patients;
+    json["medications"] = summary.medications;
+  }
   return json;
 }
 
@@ -71,6 +86,18 @@ std::vector<std::string> DetailLines(const ImportSummary& summary) {
     lines.push_back(summary.file + ": " + std::to_string(summary.patients) +
                     " of the rows read were Patient resources (registry rows)");
   }
+  if (summary.medications > 0) {
+    lines.push_back(summary.file + ": " + std::to_string(summary.medications) +
+                    " of the rows read were Medication resources (products that dispenses name)");
+  }
+  if (summary.not_in_registry > 0) {
+    std::string line = summary.file + ": warning: " + std::to_string(summary.not_in_registry) +
+                       " imported dispensing(s) of " + std::to_string(summary.not_in_registry_patients) +
+                       " patient(s) have no row in the patient registry (no age, practice or"
+                       " registration for them until it is imported; check the patient ids)";
+    lines.push_back(line + (summary.not_in_registry_examples.empty() ? "" : ", for example:"));
+    for (const std::string& example : summary.not_in_registry_examples) lines.push_back("  " + example);
+  }
   for (const std::string& example : summary.examples) lines.push_back(example);
   if (summary.rejected > static_cast<long>(summary.examples.size())) {
     lines.push_back(summary.file + ": ... and " +
@@ -93,7 +120,10 @@ void ImportSummary::Add(const ImportSummary& other) {
   rejected += other.rejected;
   updated += other.updated;
   patients += other.patients;
+  medications += other.medications;
   blank_lines += other.blank_lines;
+  not_in_registry += other.not_in_registry;
+  not_in_registry_patients += other.not_in_registry_patients;
   for (const auto& [key, count] : other.reasons) reasons[key] += count;
   for (const auto& [key, count] : other.not_counted) not_counted[key] += count;
   rolled_back = rolled_back || other.rolled_back;
@@ -129,6 +159,7 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"reasons", total.reasons},
       {"updated", total.updated},
       {"not_counted", total.not_counted},
+      {"not_in_registry", total.not_in_registry},
       {"rolled_back", total.rolled_back},
   };
   if (files.size() == 1) json["file"] = files.front().file;
@@ -161,7 +192,7 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
 void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) {
   WriteCsvCaution(out);
   out << CsvRow({"file", "kind", "format", "read", "imported", "duplicates", "rejected", "updated",
-                 "rolled_back", "reasons", "not_counted"});
+                 "rolled_back", "reasons", "not_counted", "not_in_registry", "not_in_registry_examples"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
@@ -169,7 +200,8 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
                    std::to_string(file.imported), std::to_string(file.duplicates),
                    std::to_string(file.rejected), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
-                   JoinCounts(file.not_counted, "=", ";")});
+                   JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
+                   JoinLines(file.not_in_registry_examples)});
   }
 }
 

@@ -262,6 +262,19 @@ TEST_CASE("a dose from an as-needed maximum is marked as such") {
   CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (as-needed maximum)");
 }
 
+TEST_CASE("a sedative class member without a minimum dose is listed as incomplete, never a silent 0") {
+  // Hilmer et al. 2007: the DBI counts drugs with sedative effects, opioids among them.
+  Fixture f;
+  f.tables.dbi.erase("diazepam");
+  f.tables.dbi_classes = {"benzodiazepine"};
+  const Burden b = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
+  CHECK(b.dbi == 0);
+  CHECK(b.dbi_incomplete == std::vector<std::string>{"diazepam"});
+  CHECK(b.dbi_no_minimum == std::vector<std::string>{"diazepam"});
+  // Outside the listed classes nothing is expected: oxybutynin is not a benzodiazepine.
+  CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10)).dbi_incomplete.empty());
+}
+
 TEST_CASE("an ingredient with a minimum dose but no known strength is listed as incomplete") {
   Fixture f;
   auto b = f.On({Rx("diazepam tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));

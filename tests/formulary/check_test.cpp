@@ -54,6 +54,15 @@ TEST_CASE("a minimal formulary is clean and counted") {
   CHECK(check.checksum.size() == 64);
 }
 
+TEST_CASE("a DBI class that no ingredient has, or named twice, is a fault") {
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nsleepers,sedative,test\n",
+              "dbi_classes.csv:3: no ingredient has the class \"sleepers\"");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nnsaid,both,test\n",
+              "dbi_classes.csv:3: duplicate class \"nsaid\" (first on line 2)");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,drowsy,test\n",
+              "dbi_classes.csv:2: effect: \"drowsy\" is not anticholinergic, sedative or both");
+}
+
 TEST_CASE("a row with the wrong number of fields is a fault") {
   ExpectFault("ingredients.csv", "ingredient,synonyms,atc,classes,source\nibuprofen,,M01AE01,nsaid\n",
               "ingredients.csv:2: 4 fields, expected 5");

@@ -61,8 +61,8 @@ TEST_CASE("the CSV summary starts with the caution line") {
   const std::string text = out.str();
   CHECK(text.rfind("# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,kind,format,read,imported,duplicates,rejected,updated,rolled_back,reasons,"
-                  "not_counted\n") != std::string::npos);
-  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,\n") !=
+                  "not_counted,not_in_registry,not_in_registry_examples\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,0,\n") !=
         std::string::npos);
 }
 
@@ -111,6 +111,30 @@ TEST_CASE("totals add every count and merge the reasons") {
   CHECK(total.read == 20);
   CHECK(total.reasons.at("bad_quantity") == 2);
   CHECK(total.not_counted.at("cancelled") == 3);
+}
+
+TEST_CASE("dispensings with no registry row are a warning in every format") {
+  ImportSummary summary = Example("d.ndjson");
+  summary.format = "fhir";
+  summary.not_in_registry = 3;
+  summary.not_in_registry_patients = 2;
+  summary.not_in_registry_examples = {"d.ndjson:4: patient \"pt-x\"", "d.ndjson:9: patient \"pt-z\""};
+  const std::string warning =
+      "d.ndjson: warning: 3 imported dispensing(s) of 2 patient(s) have no row in the patient registry (no age, "
+      "practice or registration for them until it is imported; check the patient ids), for example:";
+  const nlohmann::ordered_json json = ImportJson({summary});
+  CHECK(json.at("not_in_registry") == 3);
+  CHECK(json.at("files").at(0).at("not_in_registry_patients") == 2);
+  CHECK(json.at("files").at(0).at("not_in_registry_examples").at(1) == "d.ndjson:9: patient \"pt-z\"");
+  std::ostringstream text, csv, html;
+  WriteImportText({summary}, text);
+  WriteImportCsv({summary}, csv);
+  WriteImportHtml({summary}, html);
+  CHECK(text.str().find(warning + "\n  d.ndjson:4: patient \"pt-x\"\n  d.ndjson:9: patient \"pt-z\"\n") !=
+        std::string::npos);
+  CHECK(csv.str().find("d.ndjson,dispensing,fhir,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,3,"
+                       "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\"\n") != std::string::npos);
+  CHECK(html.str().find("<li>" + warning + "</li>") != std::string::npos);
 }
 
 }  // TEST_SUITE

@@ -76,7 +76,10 @@ struct Burden {
   std::vector<ActiveMedicine> active;  // sorted by medicine key
   std::vector<ScoreContribution> score_contributions;  // ingredients scoring > 0, highest first
   std::vector<DbiContribution> dbi_contributions;      // by ingredient
-  std::vector<std::string> dbi_incomplete;  // DBI ingredients with no known dose
+  // DBI ingredients whose contribution is unknown: no known dose, or (also listed in
+  // dbi_no_minimum) in a class the DBI counts but without a minimum dose in the table.
+  std::vector<std::string> dbi_incomplete;
+  std::vector<std::string> dbi_no_minimum;
   std::vector<FiredRule> rules;             // in table order
   bool age_unknown_for_rules = false;       // a rule with an age limit could not be judged
 };

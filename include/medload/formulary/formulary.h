@@ -53,6 +53,16 @@ struct DbiDose {
   int line = 0;
 };
 
+// One row of dbi_classes.csv: a class whose members have the sedative or anticholinergic
+// effects the Drug Burden Index counts, so that a member without a dbi.csv row is listed
+// as incomplete rather than adding a silent 0.
+struct DbiClass {
+  std::string class_name;
+  DbiEffect effect = DbiEffect::kBoth;
+  std::string source;
+  int line = 0;
+};
+
 // One row of products.csv or brands.csv: a named product the ingredient words cannot
 // resolve alone (British compound names, brands, packs that imply a supply).
 struct NamedProduct {
@@ -109,6 +119,7 @@ struct FormularyTables {
   std::vector<Ingredient> ingredients;
   std::vector<Scale> scales;               // sorted by name
   std::vector<DbiDose> dbi;
+  std::vector<DbiClass> dbi_classes;
   std::vector<NamedProduct> products;
   std::vector<ProductCode> codes;
   std::vector<NonMedicineTerm> non_medicines;
