@@ -132,7 +132,7 @@ void CheckDictionary(const Formulary& formulary, std::vector<std::string>& fault
                              UnknownIngredient(name) + "; write \"?" + name + "\" for a substance it does not know"));
     }
     if (entry.code.empty()) continue;
-    const auto [it, inserted] = seen.emplace(NameKey(entry.code_system) + "\x1f" + entry.code, entry.line);
+    const auto [it, inserted] = seen.emplace(CodeSystemKey(entry.code_system) + "\x1f" + entry.code, entry.line);
     if (!inserted) {
       faults.push_back(Fault("dictionary.csv", entry.line, "duplicate code " + entry.code_system + " " + entry.code +
                                                                " (first on line " + std::to_string(it->second) + ")"));
@@ -155,7 +155,7 @@ void CheckCodes(const Formulary& formulary, std::vector<std::string>& faults) {
       faults.push_back(Fault("codes.csv", code.line,
                              "\"" + code.target + "\" is not a product, ingredient or non-medicine term"));
     }
-    const auto [it, inserted] = seen.emplace(NameKey(code.code_system) + "\x1f" + code.code, code.line);
+    const auto [it, inserted] = seen.emplace(CodeSystemKey(code.code_system) + "\x1f" + code.code, code.line);
     if (!inserted) {
       faults.push_back(Fault("codes.csv", code.line, "duplicate code " + code.code_system + " " + code.code +
                                                          " (first on line " + std::to_string(it->second) + ")"));

@@ -174,10 +174,10 @@ Status WriteDictionary(const std::string& dir, const DictionaryLoad& load) {
   auto existing = ExistingRows(path);
   if (!existing.ok()) return existing.status();
   std::set<std::string> loaded_systems;
-  for (const DictionaryEntry& entry : load.entries) loaded_systems.insert(NameKey(entry.code_system));
+  for (const DictionaryEntry& entry : load.entries) loaded_systems.insert(CodeSystemKey(entry.code_system));
   std::vector<DictionaryEntry> rows;
   for (DictionaryEntry& entry : *existing) {
-    if (loaded_systems.count(NameKey(entry.code_system)) == 0) rows.push_back(std::move(entry));
+    if (loaded_systems.count(CodeSystemKey(entry.code_system)) == 0) rows.push_back(std::move(entry));
   }
   rows.insert(rows.end(), load.entries.begin(), load.entries.end());
   const std::filesystem::path temporary = path.string() + ".writing";

@@ -30,15 +30,6 @@ namespace {
 
 const std::vector<std::string> kNoClasses;
 
-// The code system as compared: lower case, no trailing slash; the WHO ATC URIs are "atc".
-std::string CodeSystemKey(std::string_view system) {
-  std::string key = NameKey(system);
-  if (key == "atc" || key == "http www whocc no atc" || key == "https www whocc no atc" || key == "who atc") {
-    return "atc";
-  }
-  return key;
-}
-
 std::string CodeKey(std::string_view system, std::string_view code) {
   std::string key = CodeSystemKey(system);
   key += '\x1f';
@@ -300,6 +291,16 @@ const ProductCode* Formulary::FindCode(std::string_view code_system, std::string
 const Rule* Formulary::FindRule(std::string_view id) const {
   const auto it = lookups_->rules.find(std::string(id));
   return it == lookups_->rules.end() ? nullptr : &tables_->rules[it->second];
+}
+
+std::string CodeSystemKey(std::string_view system) {
+  std::string key = NameKey(system);
+  std::erase(key, ' ');
+  // FHIR system URIs (FHIR R4 terminologies page; the dm+d URI from memory).
+  if (key == "httpwwwwhoccnoatc" || key == "httpswwwwhoccnoatc" || key == "whoatc") return "atc";
+  if (key == "httpsdmdnhsuk" || key == "httpdmdnhsuk") return "dmd";
+  if (key == "httpwwwnlmnihgovresearchumlsrxnorm") return "rxnorm";
+  return key;
 }
 
 }  // namespace medload

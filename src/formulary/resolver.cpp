@@ -207,7 +207,7 @@ std::string CodeTarget(const Formulary& formulary, std::string_view code, std::s
   if (system.empty() && IsAtcLike(code)) {
     if (const ProductCode* atc = formulary.FindCode("ATC", code)) return atc->target;
   }
-  const std::string system_key = NameKey(system);
+  const std::string system_key = CodeSystemKey(system);
   const bool atc_system = system_key.empty() || system_key == "atc" || system_key.find("whocc") != std::string::npos;
   const Ingredient* ingredient = atc_system ? formulary.FindByAtc(code) : nullptr;
   return ingredient == nullptr ? std::string() : ingredient->name;

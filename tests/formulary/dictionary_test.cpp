@@ -66,6 +66,32 @@ TEST_CASE("without the lookup file a combination's strengths are placed by the v
   CHECK(DictionaryCsv(load->entries).find("codeine=30mg|paracetamol=500mg") != std::string::npos);
 }
 
+// FHIR input stores dm+d codes under "dm+d" and RxNorm codes under "RxNorm"
+// (docs/input-formats.md); CSV records may carry the FHIR system URI.
+TEST_CASE("dictionary codes resolve under every spelling of their code system the records use") {
+  TempFolder folder;
+  auto dmd = ReadDictionaryRelease(BundledFormulary(), DictionarySystem::kDmd, kDmdFiles);
+  REQUIRE(dmd.ok());
+  const Formulary formulary = WithDictionary(folder, *dmd);
+  for (const char* system : {"dmd", "dm+d", "DM+D", "https://dmd.nhs.uk", "http://dmd.nhs.uk/"}) {
+    CAPTURE(system);
+    const ResolvedProduct product = Resolve(formulary, "", "800001", system);
+    CHECK(product.match == MatchKind::kCode);
+    CHECK(Names(product) == std::vector<std::string>{"tolterodine"});
+  }
+  // Another system with the same code names nothing.
+  CHECK(Resolve(formulary, "", "800001", "SNOMED CT").match == MatchKind::kUnmatched);
+  TempFolder rx_folder;
+  auto rxnorm = ReadDictionaryRelease(BundledFormulary(), DictionarySystem::kRxnorm,
+                                      {Data("rxnorm/RXNCONSO.RRF"), Data("rxnorm/RXNREL.RRF")});
+  REQUIRE(rxnorm.ok());
+  const Formulary rx = WithDictionary(rx_folder, *rxnorm);
+  for (const char* system : {"rxnorm", "RxNorm", "http://www.nlm.nih.gov/research/umls/rxnorm"}) {
+    CAPTURE(system);
+    CHECK(Resolve(rx, "", "9000008", system).match == MatchKind::kCode);
+  }
+}
+
 TEST_CASE("dm+d codes, exact names and brands resolve through the dictionary") {
   TempFolder folder;
   auto load = ReadDictionaryRelease(BundledFormulary(), DictionarySystem::kDmd, kDmdFiles);

@@ -225,4 +225,10 @@ Result<Formulary> LoadFormulary(const std::string& dir);
 // characters other than letters and digits turned into one space, trimmed.
 std::string NameKey(std::string_view name);
 
+// A code system as compared everywhere (codes.csv, dictionary.csv, the records): the
+// NameKey with no spaces, so case and punctuation do not count ("dm+d" = "DMD"), and the
+// FHIR URIs of the systems the formulary names read as those names ("atc" for
+// http://www.whocc.no/atc, "dmd" for https://dmd.nhs.uk, "rxnorm" for the NLM RxNorm URI).
+std::string CodeSystemKey(std::string_view system);
+
 }  // namespace medload

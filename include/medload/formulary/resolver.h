@@ -19,7 +19,7 @@ namespace medload {
 
 // Raised whenever the same text, with the same tables, may resolve differently: saved
 // resolutions are keyed by it together with the formulary checksum and the version.
-inline constexpr int kResolverVersion = 2;
+inline constexpr int kResolverVersion = 3;
 
 // Resolves one product. Order: by code (codes.csv, dictionary.csv, then the ATC codes of
 // ingredients.csv), then non-medicine terms, then a dictionary product's exact name, then
