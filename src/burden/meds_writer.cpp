@@ -77,16 +77,41 @@ std::string ProductText(const MedsModel& model, const DispensingUse& use) {
   return RecordText(model.records, use, &DispensingRecord::product);
 }
 
-// Unmatched products dispensed, on or before the date, recently enough that they could
+// Products of `list` dispensed, on or before the date, recently enough that they could
 // still be in use.
-std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+std::vector<const UnmatchedProduct*> Recent(const MedsModel& model, const std::vector<UnmatchedProduct>& list) {
   std::vector<const UnmatchedProduct*> recent;
   const Date first = model.burden->on - (model.options.supply.max_supply_days - 1);
-  for (const UnmatchedProduct& product : model.timeline->unmatched) {
+  for (const UnmatchedProduct& product : list) {
     const std::optional<Date> last = product.LastBy(model.burden->on);
     if (last && *last >= first) recent.push_back(&product);
   }
   return recent;
+}
+
+std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+  return Recent(model, model.timeline->unmatched);
+}
+
+// The recent products of the timeline's partial (or approximate) matches, as text.
+nlohmann::json RecentFlagged(const MedsModel& model, MatchKind match) {
+  nlohmann::json list = nlohmann::json::array();
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    if (product->match == match) list.push_back(product->product);
+  }
+  return list;
+}
+
+// The warning for a product recognised only in part or from a close spelling, with what
+// was known of it on `on`.
+std::string FlaggedWarning(const UnmatchedProduct& product, Date on) {
+  const std::string said = "\"" + product.product + "\" (" + std::to_string(product.ItemsBy(on)) + " item(s), last " +
+                           product.LastBy(on)->ToIso() + ")";
+  if (product.match == MatchKind::kPartial) {
+    return said + " was recognised only in part (" + product.detail +
+           "): what the formulary does not know is not counted.";
+  }
+  return said + " was read from a close spelling (" + product.detail + "): confirm it is the medicine dispensed.";
 }
 
 std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& fired) {
@@ -121,6 +146,9 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
     warnings.push_back("\"" + product->product + "\" (" + std::to_string(product->ItemsBy(model.burden->on)) +
                        " item(s), last " + product->LastBy(model.burden->on)->ToIso() +
                        ") was not recognised by the formulary and is not counted.");
+  }
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    warnings.push_back(FlaggedWarning(*product, model.burden->on));
   }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
     const auto& no_minimum = model.burden->dbi_no_minimum;
@@ -224,7 +252,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
           {"dbi_incomplete", burden.dbi_incomplete}, {"dbi_no_minimum", burden.dbi_no_minimum},
-          {"unmatched", unmatched}, {"not_counted", model.not_counted},
+          {"unmatched", unmatched}, {"unmatched_in_part", RecentFlagged(model, MatchKind::kPartial)},
+          {"approximate", RecentFlagged(model, MatchKind::kApproximate)}, {"not_counted", model.not_counted},
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};

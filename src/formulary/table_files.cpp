@@ -9,6 +9,7 @@
 
 #include "formulary/table_reader.h"
 #include "medload/core/hash.h"
+#include "medload/formulary/resolver.h"
 #include "medload/formulary/rules.h"
 
 namespace medload::formulary_internal {
@@ -231,6 +232,53 @@ void ReadCodes(const Table& table, FormularyTables& tables, std::vector<std::str
   }
 }
 
+void ReadBrands(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "brand", faults)) continue;
+    NamedProduct brand;
+    brand.name = row.fields[0];
+    brand.ingredients = SplitList(row.fields[1]);
+    brand.source = row.fields[2];
+    brand.line = row.line;
+    brand.table = table.name;
+    if (brand.ingredients.empty()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: empty (ingredients or a products.csv name)"));
+      continue;
+    }
+    tables.brands.push_back(std::move(brand));
+  }
+}
+
+// "name=strength": the strength must read as exactly one strength ("30mg", "5mg/5ml").
+bool StrengthReads(std::string_view element) {
+  const size_t equals = element.find('=');
+  if (equals == std::string_view::npos || equals + 1 == element.size()) return true;
+  return ParseStrengths(NormaliseText(element.substr(equals + 1))).size() == 1;
+}
+
+void ReadDictionary(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "code_system", faults)) continue;
+    DictionaryEntry entry{row.fields[0], row.fields[1], row.fields[2], row.fields[3],
+                          SplitList(row.fields[4]), row.fields[5], row.line};
+    if (entry.code.empty() && entry.name.empty()) {
+      faults.push_back(Fault(table.name, row.line, "code and name: both empty (a row needs one)"));
+      continue;
+    }
+    if (entry.ingredients.empty()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: empty"));
+      continue;
+    }
+    const auto bad = std::find_if(entry.ingredients.begin(), entry.ingredients.end(),
+                                  [](const std::string& element) { return !StrengthReads(element); });
+    if (bad != entry.ingredients.end()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: \"" + *bad + "\" has a strength that does not read"));
+      continue;
+    }
+    tables.dictionary.push_back(std::move(entry));
+  }
+}
+
 void ReadNonMedicines(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "term", faults)) continue;
@@ -305,6 +353,10 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
                 faults, [&](const Table& t) { ReadCodes(t, tables, faults); });
   ReadTableFile(dir, "non_medicines.csv", false, {"term", "category", "source"}, files, faults,
                 [&](const Table& t) { ReadNonMedicines(t, tables, faults); });
+  ReadTableFile(dir, "brands.csv", false, {"brand", "ingredients", "source"}, files, faults,
+                [&](const Table& t) { ReadBrands(t, tables, faults); });
+  ReadTableFile(dir, "dictionary.csv", false, {"code_system", "code", "name", "brand", "ingredients", "source"},
+                files, faults, [&](const Table& t) { ReadDictionary(t, tables, faults); });
   if (const auto rules = ReadFile(dir, "rules.json", false, files, faults)) {
     tables.rules = ParseRules(*rules, "rules.json", faults);
   }

@@ -168,6 +168,7 @@ class Session : public RowSink {
   Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome) override {
     Count(outcome);
     if (outcome == WriteOutcome::kDuplicate) return Status::Ok();
+    if (options_.stored_dispensing) options_.stored_dispensing(record);
     return registry_.Note(record.patient_id, line);
   }
 

@@ -234,6 +234,53 @@ TEST_CASE("LoadFormulary fails with an input status listing every fault") {
         "anticholinergic/acb.csv:2: unknown ingredient \"unobtainium\" (not in ingredients.csv)");
 }
 
+TEST_CASE("faults in brands.csv and dictionary.csv name the file, line and fault") {
+  struct Case {
+    const char* file;
+    const char* content;
+    const char* fault;
+  };
+  const std::vector<Case> cases = {
+      {"brands.csv", "brand,ingredients,source\nBrufex,,test\n",
+       "brands.csv:2: ingredients: empty (ingredients or a products.csv name)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,\n", "brands.csv:2: source: empty (every row cites its source)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,frobazine,test\n",
+       "brands.csv:2: unknown ingredient or product \"frobazine\" (not in ingredients.csv or products.csv)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,test\nbrufex,ibuprofen,test\n",
+       "brands.csv:3: duplicate brand \"brufex\" (first on line 2)"},
+      {"brands.csv", "brand,ingredients,source\nRamipril,ibuprofen,test\n",
+       "brands.csv:2: brand \"Ramipril\" is also a name of the ingredient \"ramipril\""},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,,,Brufex,ibuprofen,test\n",
+       "dictionary.csv:2: code and name: both empty (a row needs one)"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,,test\n",
+       "dictionary.csv:2: ingredients: empty"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,ibuprofen=lots,test\n",
+       "dictionary.csv:2: ingredients: \"ibuprofen=lots\" has a strength that does not read"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,frobazine,test\n",
+       "dictionary.csv:2: unknown ingredient \"frobazine\" (not in ingredients.csv); write \"?frobazine\" for a "
+       "substance it does not know"},
+      {"dictionary.csv",
+       "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,ibuprofen,test\nLOCAL,1,Other,,ibuprofen,test\n",
+       "dictionary.csv:3: duplicate code LOCAL 1 (first on line 2)"},
+  };
+  for (const Case& c : cases) ExpectFault(c.file, c.content, c.fault);
+}
+
+TEST_CASE("brands and dictionary rows that name what the tables know, or mark what they do not, are clean") {
+  TempFolder folder;
+  WriteMinimalFormulary(folder);
+  folder.Write("brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,test\n");
+  folder.Write("dictionary.csv",
+               "code_system,code,name,brand,ingredients,source\n"
+               "local,1,Brufex 200mg tablets,,ibuprofen=200mg,test\n"
+               "local,2,Frobazine and ibuprofen tablets,,?frobazine|ibuprofen=,test\n");
+  const FormularyCheck check = CheckFormulary(folder.path());
+  for (const std::string& fault : check.faults) CAPTURE(fault);
+  CHECK(check.ok());
+  CHECK(check.brands == 1);
+  CHECK(check.dictionary_rows == 2);
+}
+
 }  // TEST_SUITE
 
 }  // namespace

@@ -160,6 +160,34 @@ TEST_CASE("ingredients are found by any name, without case, accents or punctuati
   CHECK(f.FindByAtc("n06aa09")->name == "amitriptyline");
 }
 
+// System URIs as FHIR R4 names them (terminologies page); the dm+d URI from memory.
+TEST_CASE("code systems compare without case, spaces or punctuation, and their FHIR URIs read as their names") {
+  struct Case {
+    const char* system;
+    const char* key;
+  };
+  const Case cases[] = {
+      {"ATC", "atc"},
+      {"http://www.whocc.no/atc", "atc"},
+      {"https://www.whocc.no/atc/", "atc"},
+      {"WHO ATC", "atc"},
+      {"dm+d", "dmd"},
+      {"DMD", "dmd"},
+      {"https://dmd.nhs.uk", "dmd"},
+      {"http://dmd.nhs.uk/", "dmd"},
+      {"RxNorm", "rxnorm"},
+      {"http://www.nlm.nih.gov/research/umls/rxnorm", "rxnorm"},
+      {"SNOMED CT", "snomedct"},
+      {"http://snomed.info/sct", "httpsnomedinfosct"},
+      {"Local-List 2", "locallist2"},
+      {"", ""},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.system);
+    CHECK(CodeSystemKey(c.system) == c.key);
+  }
+}
+
 TEST_CASE("classes answer by any name and list their members") {
   const Formulary& f = BundledFormulary();
   CHECK(f.HasClass("frusemide", "loop-diuretic"));

@@ -214,6 +214,23 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   CHECK(later.practice_data.at("PA") == DataState::kBeyondData);
 }
 
+TEST_CASE("a row warns of recent products recognised only in part or read from a close spelling") {
+  Population p;
+  Import(p.store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\n"
+         "G,2024-01-02,Frobazine 10mg and paracetamol 500mg tablets,28,28\n"
+         "G,2024-01-03,Oxybutinin 5mg tabs,28,28\n"
+         "G,2024-01-03,Mirtazepine 15mg tabs,28,28\n");
+  const Worklist list = p.Build(On(D(2024, 1, 10), {AtLeast("items=3")}));
+  const auto g = std::find_if(list.patients.begin(), list.patients.end(), [](const auto& e) { return e.patient == "G"; });
+  REQUIRE(g != list.patients.end());
+  CHECK(g->items == 3);
+  // 2024-01-10 is within the first days of the practice's data: the row says that too.
+  CHECK(g->warnings == std::vector<std::string>{"1 recent product(s) recognised only in part",
+                                                "2 recent product(s) read from a close spelling",
+                                                "practice data short-history"});
+}
+
 TEST_CASE("patients of unknown age left out by the minimum age are counted") {
   Population p;
   Import(p.store, InputKind::kPatients,

@@ -63,8 +63,8 @@ struct DbiClass {
   int line = 0;
 };
 
-// One row of products.csv: a named product the ingredient words cannot resolve alone
-// (British compound names, brands, packs that imply a supply).
+// One row of products.csv or brands.csv: a named product the ingredient words cannot
+// resolve alone (British compound names, brands, packs that imply a supply).
 struct NamedProduct {
   std::string name;                         // the words that name it ("co-codamol")
   std::vector<std::string> requires_words;  // further words that must all appear ("patch")
@@ -73,6 +73,25 @@ struct NamedProduct {
   std::optional<Route> route;               // overrides the route from the form words
   std::string dose_unit;                    // overrides the dose unit when set
   std::optional<int> supply_days_per_unit;  // days one unit lasts (patch, depot)
+  std::string source;
+  int line = 0;
+  std::string table = "products.csv";       // the file the row came from
+  // False for a combination brand read from a dictionary, whose ingredient order need not
+  // be the order its strengths are written in: it then takes no strengths from the text.
+  bool strengths_in_order = true;
+};
+
+// One row of dictionary.csv: a product of a national dictionary (dm+d, RxNorm) or of a
+// user's own list, written by `medload formulary load-dictionary` or by hand.
+struct DictionaryEntry {
+  std::string code_system;  // "dmd", "rxnorm", or as the records carry it
+  std::string code;         // may be empty for a row that only names a product
+  std::string name;         // the dictionary's description; an exact match resolves
+  std::string brand;        // brand words that name it in other descriptions; may be empty
+  // Canonical names in the order strengths are written, each optionally "=STRENGTH"
+  // ("codeine=30mg"; "codeine=" when its strength is not known). "?name" is a substance
+  // ingredients.csv does not know: a product naming one resolves as partial.
+  std::vector<std::string> ingredients;
   std::string source;
   int line = 0;
 };
@@ -104,6 +123,8 @@ struct FormularyTables {
   std::vector<NamedProduct> products;
   std::vector<ProductCode> codes;
   std::vector<NonMedicineTerm> non_medicines;
+  std::vector<NamedProduct> brands;        // brands.csv (table "brands.csv")
+  std::vector<DictionaryEntry> dictionary; // dictionary.csv
   std::vector<Rule> rules;
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
@@ -141,8 +162,17 @@ class Formulary {
   // The Drug Burden Index row of the ingredient, or nullptr.
   const DbiDose* DbiOf(std::string_view ingredient) const;
 
-  // The named product (products.csv) with this name, or nullptr (first row if several).
+  // The named product (products.csv, then brands.csv) with this name, or nullptr (first
+  // row if several).
   const NamedProduct* FindProduct(std::string_view name) const;
+  // The named product behind a target of name_index().products: products.csv rows, then
+  // brands.csv rows, then the brands of dictionary.csv.
+  const NamedProduct& NamedProductAt(size_t target) const;
+  // The dictionary row for (code_system, code), or nullptr.
+  const DictionaryEntry* FindDictionaryCode(std::string_view code_system, std::string_view code) const;
+  // The dictionary row whose name is `description` (compared as NameKey after abbreviations
+  // are written out), or nullptr.
+  const DictionaryEntry* FindDictionaryName(std::string_view description) const;
   // The target of a code, or nullptr. `code_system` "ATC" also matches the WHO ATC URI.
   const ProductCode* FindCode(std::string_view code_system, std::string_view code) const;
   // The rule with this id, or nullptr.
@@ -170,7 +200,8 @@ class Formulary {
 struct FormularyCheck {
   std::vector<std::string> faults;  // each "file:line: fault", in file order
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
-         products = 0, codes = 0, non_medicine_terms = 0, rules = 0;
+         products = 0, brands = 0, dictionary_rows = 0, codes = 0, non_medicine_terms = 0,
+         rules = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };
@@ -193,5 +224,11 @@ Result<Formulary> LoadFormulary(const std::string& dir);
 // The same name key the lookups use: case-folded, accents removed, every run of
 // characters other than letters and digits turned into one space, trimmed.
 std::string NameKey(std::string_view name);
+
+// A code system as compared everywhere (codes.csv, dictionary.csv, the records): the
+// NameKey with no spaces, so case and punctuation do not count ("dm+d" = "DMD"), and the
+// FHIR URIs of the systems the formulary names read as those names ("atc" for
+// http://www.whocc.no/atc, "dmd" for https://dmd.nhs.uk, "rxnorm" for the NLM RxNorm URI).
+std::string CodeSystemKey(std::string_view system);
 
 }  // namespace medload
