@@ -101,6 +101,9 @@ Formulary Formulary::FromTables(FormularyTables tables) {
     for (RuleRequirement& requirement : tables.rules[i].require) {
       for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
     }
+    for (RuleRequirement& requirement : tables.rules[i].forbid) {
+      for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
+    }
     lookups->rules.emplace(tables.rules[i].id, i);
   }
   Formulary formulary(Private{});
@@ -188,6 +191,16 @@ const ProductCode* Formulary::FindCode(std::string_view code_system, std::string
 const Rule* Formulary::FindRule(std::string_view id) const {
   const auto it = lookups_->rules.find(std::string(id));
   return it == lookups_->rules.end() ? nullptr : &tables_->rules[it->second];
+}
+
+std::vector<Route> Formulary::SystemicRoutes() const {
+  std::vector<Route> routes = DefaultSystemicRoutes();
+  for (const RouteRow& row : tables_->routes) {
+    std::erase(routes, row.route);
+    if (row.systemic) routes.push_back(row.route);
+  }
+  SortRoutes(routes);
+  return routes;
 }
 
 }  // namespace medload
