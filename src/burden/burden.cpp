@@ -2,7 +2,8 @@
 
 #include <algorithm>
 #include <map>
-#include <set>
+
+#include "burden/rule_firing.h"
 
 namespace medload {
 
@@ -63,9 +64,15 @@ std::vector<ActiveMedicine> FindActive(const Timeline& timeline, Date on, const 
   return active;
 }
 
+// Whether a medicine in use by `routes` counts for the ingredient's score or DBI at all.
+bool RoutesCount(const BurdenTables& tables, const std::vector<Route>& routes, const std::string& ingredient) {
+  return tables.CountsForScale(routes, ingredient) || tables.CountsForDbi(routes, ingredient);
+}
+
 // For each distinct active ingredient, the active medicine whose latest dispensing of it
-// is the most recent: that medicine carries the ingredient's score and dose.
-std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
+// is the most recent, preferring one whose route counts (tablets over a cream of the same
+// ingredient): that medicine carries the ingredient's score and dose.
+std::map<std::string, size_t> IngredientOwners(const Timeline& timeline, const BurdenTables& tables,
                                                const std::vector<ActiveMedicine>& active) {
   std::map<std::string, size_t> owners;  // ingredient -> index into `active`
   for (size_t a = 0; a < active.size(); ++a) {
@@ -75,6 +82,11 @@ std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
       auto [it, inserted] = owners.emplace(ingredient, a);
       if (inserted) continue;
       const ActiveMedicine& other = active[it->second];
+      const bool counts = RoutesCount(tables, active[a].routes, ingredient);
+      if (counts != RoutesCount(tables, other.routes, ingredient)) {
+        if (counts) it->second = a;
+        continue;
+      }
       if (timeline.medicines[other.medicine].uses[other.latest_use].dispensed_on < latest) it->second = a;
     }
   }
@@ -106,16 +118,17 @@ std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::st
 }
 
 void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, Burden& burden) {
-  for (const auto& [ingredient, owner] : IngredientOwners(timeline, burden.active)) {
+  for (const auto& [ingredient, owner] : IngredientOwners(timeline, tables, burden.active)) {
     ActiveMedicine& active = burden.active[owner];
     const Medicine& medicine = timeline.medicines[active.medicine];
-    if (const int score = tables.Score(ingredient); score > 0) {
+    // Spec section 5, "Routes": the scale and the DBI count systemic routes only.
+    if (const int score = tables.Score(ingredient); score > 0 && tables.CountsForScale(active.routes, ingredient)) {
       burden.score_contributions.push_back({ingredient, score});
       burden.acb += score;
       active.score += score;
     }
     const DbiEntry* entry = tables.Dbi(ingredient);
-    if (entry == nullptr) continue;
+    if (entry == nullptr || !tables.CountsForDbi(active.routes, ingredient)) continue;
     auto dose = DailyDose(medicine.uses[active.latest_use], ingredient);
     if (!dose) {
       burden.dbi_incomplete.push_back(ingredient);
@@ -132,77 +145,7 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, Burden& 
                    [](const auto& a, const auto& b) { return a.score > b.score; });
 }
 
-bool MedicineMatches(const Medicine& medicine, const RuleRequirement& requirement,
-                     const BurdenTables& tables) {
-  for (const std::string& ingredient : medicine.ingredients) {
-    for (const std::string& class_name : requirement.classes) {
-      if (tables.HasClass(ingredient, class_name)) return true;
-    }
-    for (const std::string& name : requirement.ingredients) {
-      if (name == ingredient) return true;
-    }
-    if (requirement.scale_score_at_least &&
-        tables.Score(ingredient, requirement.scale) >= *requirement.scale_score_at_least) {
-      return true;
-    }
-  }
-  return false;
-}
-
-bool MeasuresHold(const RuleMeasures& measures, const Burden& burden) {
-  return (!measures.items || burden.items >= *measures.items) &&
-         (!measures.acb || burden.acb >= *measures.acb) &&
-         (!measures.dbi || burden.dbi >= *measures.dbi - 1e-9);
-}
-
-size_t RequirementCount(const BurdenTables& tables) {
-  size_t count = 0;
-  for (const Rule& rule : tables.rules) count += rule.require.size();
-  return count;
-}
-
-// Flags of MatchRuleRequirements, with where this rule's requirements start in them.
-struct PreparedMatches {
-  const std::vector<bool>* flags = nullptr;  // null: work each match out
-  size_t per_medicine = 0;                   // requirements of all rules
-  size_t first = 0;                          // flat index of the rule's first requirement
-};
-
-std::optional<FiredRule> Fire(const Rule& rule, const Timeline& timeline, const BurdenTables& tables,
-                              const Burden& burden, const PreparedMatches& prepared) {
-  if (!MeasuresHold(rule.measures, burden)) return std::nullopt;
-  std::set<size_t> involved;
-  for (size_t k = 0; k < rule.require.size(); ++k) {
-    const RuleRequirement& requirement = rule.require[k];
-    int matched = 0;
-    for (const ActiveMedicine& active : burden.active) {
-      const bool meets =
-          prepared.flags != nullptr
-              ? (*prepared.flags)[active.medicine * prepared.per_medicine + prepared.first + k]
-              : MedicineMatches(timeline.medicines[active.medicine], requirement, tables);
-      if (!meets) continue;
-      ++matched;
-      involved.insert(active.medicine);
-    }
-    if (matched < requirement.at_least) return std::nullopt;
-  }
-  return FiredRule{&rule, std::vector<size_t>(involved.begin(), involved.end())};
-}
-
 }  // namespace
-
-std::vector<bool> MatchRuleRequirements(const Timeline& timeline, const BurdenTables& tables) {
-  std::vector<bool> matches;
-  matches.reserve(timeline.medicines.size() * RequirementCount(tables));
-  for (const Medicine& medicine : timeline.medicines) {
-    for (const Rule& rule : tables.rules) {
-      for (const RuleRequirement& requirement : rule.require) {
-        matches.push_back(MedicineMatches(medicine, requirement, tables));
-      }
-    }
-  }
-  return matches;
-}
 
 Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tables,
                       const MeasureOptions& options, std::optional<int> age,
@@ -211,22 +154,11 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
   burden.on = on;
   burden.active = FindActive(timeline, on, options);
   burden.items = static_cast<int>(burden.active.size());
-  ScoreAndDose(timeline, tables, burden);
-  PreparedMatches prepared{matches, matches != nullptr ? RequirementCount(tables) : 0, 0};
-  for (size_t first = 0; const Rule& rule : tables.rules) {
-    prepared.first = first;
-    first += rule.require.size();
-    if (rule.age_min) {
-      if (!age) {
-        burden.age_unknown_for_rules = true;
-        continue;
-      }
-      if (*age < *rule.age_min) continue;
-    }
-    if (auto fired = Fire(rule, timeline, tables, burden, prepared)) {
-      burden.rules.push_back(std::move(*fired));
-    }
+  for (ActiveMedicine& active : burden.active) {
+    active.routes = burden_internal::RoutesInForce(timeline.medicines[active.medicine], active, on, options);
   }
+  ScoreAndDose(timeline, tables, burden);
+  burden_internal::FireRules(timeline, tables, age, matches, burden);
   return burden;
 }
 

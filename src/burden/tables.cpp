@@ -31,6 +31,35 @@ const Rule* BurdenTables::FindRule(const std::string& id) const {
   return nullptr;
 }
 
+std::span<const Route> BurdenTables::ScaleRoutes(const std::string& ingredient,
+                                                const std::string& scale_name) const {
+  const auto scale_it = scale_routes.find(scale_name);
+  if (scale_it == scale_routes.end()) return systemic_routes;
+  const auto it = scale_it->second.find(ingredient);
+  return it == scale_it->second.end() ? std::span<const Route>(systemic_routes) : std::span<const Route>(it->second);
+}
+
+std::span<const Route> BurdenTables::DbiRoutes(const std::string& ingredient) const {
+  const auto it = dbi_routes.find(ingredient);
+  return it == dbi_routes.end() ? std::span<const Route>(systemic_routes) : std::span<const Route>(it->second);
+}
+
+std::span<const Route> BurdenTables::RuleRoutes(const Rule& rule) const {
+  return rule.routes.empty() ? std::span<const Route>(systemic_routes) : std::span<const Route>(rule.routes);
+}
+
+bool BurdenTables::CountsForScale(std::span<const Route> routes, const std::string& ingredient) const {
+  return AnyRouteCounts(routes, ScaleRoutes(ingredient, scale));
+}
+
+bool BurdenTables::CountsForDbi(std::span<const Route> routes, const std::string& ingredient) const {
+  return AnyRouteCounts(routes, DbiRoutes(ingredient));
+}
+
+bool BurdenTables::CountsForRule(std::span<const Route> routes, const Rule& rule) const {
+  return AnyRouteCounts(routes, RuleRoutes(rule));
+}
+
 BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& scale) {
   BurdenTables tables;
   tables.scale = scale;
@@ -39,12 +68,17 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
   }
   for (const Scale& table : formulary.tables().scales) {
     auto& scores = tables.scales[table.name];
-    for (const ScaleRow& row : table.rows) scores[row.ingredient] = row.score;
+    for (const ScaleRow& row : table.rows) {
+      scores[row.ingredient] = row.score;
+      if (!row.routes.empty()) tables.scale_routes[table.name][row.ingredient] = row.routes;
+    }
   }
   for (const DbiDose& row : formulary.tables().dbi) {
     tables.dbi[row.ingredient] = DbiEntry{row.min_daily_dose_mg, std::string(DbiEffectName(row.effect))};
+    if (!row.routes.empty()) tables.dbi_routes[row.ingredient] = row.routes;
   }
   tables.rules = formulary.rules();
+  tables.systemic_routes = formulary.SystemicRoutes();
   return tables;
 }
 

@@ -1,14 +1,17 @@
 // The facts about ingredients that the measures need, flattened from the formulary for
-// one run: classes, scores on every scale, Drug Burden Index minimum doses, and the
-// combination rules. A plain value so that tests can build one by hand.
+// one run: classes, scores on every scale, Drug Burden Index minimum doses, the
+// combination rules, and which routes count for each (spec section 5, "Routes"). A plain
+// value so that tests can build one by hand.
 #pragma once
 
 #include <map>
 #include <optional>
+#include <span>
 #include <string>
 #include <unordered_map>
 #include <vector>
 
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload {
@@ -26,6 +29,12 @@ struct BurdenTables {
   std::map<std::string, std::unordered_map<std::string, int>> scales;
   std::unordered_map<std::string, DbiEntry> dbi;
   std::vector<Rule> rules;
+  // The routes that count unless an entry or a rule says otherwise (routes.csv).
+  std::vector<Route> systemic_routes = DefaultSystemicRoutes();
+  // Per-entry overrides (the `routes` column): scale name -> ingredient -> routes, and
+  // ingredient -> routes for the DBI. Absent: systemic_routes.
+  std::map<std::string, std::unordered_map<std::string, std::vector<Route>>> scale_routes;
+  std::unordered_map<std::string, std::vector<Route>> dbi_routes;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;
@@ -33,6 +42,17 @@ struct BurdenTables {
   bool HasClass(const std::string& ingredient, const std::string& class_name) const;
   const DbiEntry* Dbi(const std::string& ingredient) const;
   const Rule* FindRule(const std::string& id) const;
+
+  // The routes on which `ingredient`'s score on `scale_name` counts, its DBI counts, or
+  // `rule` counts medicines.
+  std::span<const Route> ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const;
+  std::span<const Route> DbiRoutes(const std::string& ingredient) const;
+  std::span<const Route> RuleRoutes(const Rule& rule) const;
+  // Whether a medicine in use by any of `routes` on the date counts for `ingredient`'s
+  // score on the run's scale, for its DBI, or for `rule`. An unknown route counts.
+  bool CountsForScale(std::span<const Route> routes, const std::string& ingredient) const;
+  bool CountsForDbi(std::span<const Route> routes, const std::string& ingredient) const;
+  bool CountsForRule(std::span<const Route> routes, const Rule& rule) const;
 };
 
 class Formulary;
