@@ -88,11 +88,21 @@ TEST_CASE("the ARS table holds every published entry with its score") {
              "oxybutynin, perphenazine, promethazine, thioridazine, thiothixene, tizanidine, trifluoperazine");
   CheckScale("ars", 2,
              "amantadine, baclofen, cetirizine, cimetidine, clozapine, cyclobenzaprine, desipramine, loperamide, "
-             "loratadine, nortriptyline, olanzapine, prochlorperazine, pseudoephedrine, tolterodine");
+             "loratadine, nortriptyline, olanzapine, prochlorperazine, triprolidine, tolterodine");
   // carbidopa-levodopa is scored on levodopa.
   CheckScale("ars", 1,
              "levodopa, entacapone, haloperidol, methocarbamol, metoclopramide, mirtazapine, paroxetine, "
              "pramipexole, quetiapine, ranitidine, risperidone, selegiline, trazodone, ziprasidone");
+}
+
+TEST_CASE("the ARS scores the pseudoephedrine-triprolidine combination on triprolidine, not plain pseudoephedrine") {
+  // Source: Rudolph et al. 2008 Arch Intern Med 168(5):508-513, Table 1: the 2-point entry
+  // is the pseudoephedrine-triprolidine combination (from memory; references.md lists it
+  // under its first name). Triprolidine is the antihistamine that carries the effect.
+  const Formulary& f = BundledFormulary();
+  CHECK(f.ScoreOn("ars", "triprolidine") == 2);
+  CHECK_FALSE(f.ScoreOn("ars", "pseudoephedrine").has_value());
+  CHECK_FALSE(f.ScoreOn("acb", "pseudoephedrine").has_value());
 }
 
 TEST_CASE("the two scales disagree where the publications disagree") {
@@ -174,16 +184,33 @@ TEST_CASE("classes answer by any name and list their members") {
 TEST_CASE("CNS-active follows the 2023 AGS Beers Criteria groups") {
   // Source: 2023 AGS Beers Criteria Update Expert Panel, J Am Geriatr Soc 2023;71:2052
   // (antiepileptics incl. gabapentinoids, TCAs, SSRIs, SNRIs, antipsychotics,
-  // benzodiazepines, Z-drugs, opioids, skeletal muscle relaxants).
+  // benzodiazepines, Z-drugs, opioids, skeletal muscle relaxants); the skeletal muscle
+  // relaxants it names: carisoprodol, chlorzoxazone, cyclobenzaprine, metaxalone,
+  // methocarbamol, orphenadrine (from memory; chlorzoxazone and metaxalone are not in
+  // the table).
   const Formulary& f = BundledFormulary();
   for (const char* name : {"gabapentin", "pregabalin", "levetiracetam", "amitriptyline", "sertraline",
-                           "duloxetine", "quetiapine", "diazepam", "zopiclone", "codeine", "tramadol", "baclofen"}) {
+                           "duloxetine", "quetiapine", "diazepam", "zopiclone", "codeine", "tramadol",
+                           "carisoprodol", "cyclobenzaprine", "methocarbamol", "orphenadrine"}) {
     const std::string text = name;
     CAPTURE(text);
     CHECK(f.HasClass(text, "cns-active"));
   }
   CHECK_FALSE(f.HasClass("paracetamol", "cns-active"));
   CHECK_FALSE(f.HasClass("amlodipine", "cns-active"));
+}
+
+TEST_CASE("muscle relaxants the Beers list does not name are a class of their own, not CNS-active") {
+  // Source: 2023 AGS Beers Criteria (skeletal muscle relaxants named: see above; from
+  // memory): baclofen, tizanidine and dantrolene are not among them.
+  const Formulary& f = BundledFormulary();
+  for (const char* name : {"baclofen", "tizanidine", "dantrolene"}) {
+    const std::string text = name;
+    CAPTURE(text);
+    CHECK_FALSE(f.HasClass(text, "cns-active"));
+    CHECK(f.HasClass(text, "cns-active-extension"));
+  }
+  CHECK(f.IngredientsInClass("cns-active-extension").size() == 3);
 }
 
 TEST_CASE("the checksum changes when any table changes") {

@@ -170,8 +170,9 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
          "F,2024-01-02,Mystery tonic 200ml,1,28\n"
          "F,2024-01-03,Diazepam tablets,28,28\n"
          "F,2024-01-03,Codeine 30mg tablets,28,28\n");
-  // The bundled rules have no age limit: a copy of the formulary adds one, so that a
-  // patient of unknown age has a rule that cannot be judged.
+  // F's two medicines fire no bundled rule with an age limit: a copy of the formulary
+  // adds one that they would fire, so that a patient of unknown age has a rule that
+  // cannot be judged.
   TempFolder temp;
   const std::filesystem::path formulary = temp.File("formulary");
   std::filesystem::copy(MEDLOAD_SOURCE_FORMULARY, formulary, std::filesystem::copy_options::recursive);
@@ -195,7 +196,7 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   // A has only recognised products with strengths, and a known age: no warnings.
   REQUIRE(list->patients.front().patient == "A");
   CHECK(list->patients.front().warnings.empty());
-  // With the bundled rules (no age limit) F's age leaves no rule unjudged.
+  // With the bundled rules F's age leaves no rule unjudged that could have fired.
   auto bundled = p.Build(On(D(2024, 1, 10), {AtLeast("items=2")}));
   for (const auto& e : bundled.patients) {
     if (e.patient == "F") CHECK(e.warnings.size() == 2);
@@ -236,7 +237,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==
-        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary check' lists them");
+        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary rules' lists them");
 }
 
 }  // TEST_SUITE
