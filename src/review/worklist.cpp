@@ -7,6 +7,7 @@
 #include <nlohmann/json.hpp>
 
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/route_notes.h"
 #include "medload/cohort/registration.h"
 #include "medload/io/json_text.h"
 #include "medload/io/output.h"
@@ -86,6 +87,11 @@ std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& b
   if (unmatched > 0) warnings.push_back(std::to_string(unmatched) + " recent product(s) not recognised");
   if (!burden.dbi_incomplete.empty()) warnings.push_back("dose unknown: " + Join(burden.dbi_incomplete, ", "));
   if (burden.age_unknown_for_rules) warnings.push_back("age unknown: age-limited rules not checked");
+  std::vector<std::string> not_stated;
+  for (const ActiveMedicine& active : burden.active) {
+    if (RouteNotStated(active)) not_stated.push_back(Join(timeline.medicines[active.medicine].ingredients, "+"));
+  }
+  if (!not_stated.empty()) warnings.push_back("route not stated, counted as systemic: " + Join(not_stated, ", "));
   return warnings;
 }
 
