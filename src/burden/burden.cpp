@@ -65,7 +65,7 @@ std::vector<ActiveMedicine> FindActive(const Timeline& timeline, Date on, const 
 }
 
 // Whether a medicine in use by `routes` counts for the ingredient's score or DBI at all.
-bool RoutesCount(const BurdenTables& tables, const std::vector<Route>& routes, const std::string& ingredient) {
+bool RoutesCount(const BurdenTables& tables, RouteSet routes, const std::string& ingredient) {
   return tables.CountsForScale(routes, ingredient) || tables.CountsForDbi(routes, ingredient);
 }
 

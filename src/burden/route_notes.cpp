@@ -8,11 +8,9 @@ namespace {
 std::string RoutesText(const ActiveMedicine& active) { return RouteListText(active.routes, ", "); }
 
 // "not a systemic route" when the list is the default systemic one, else the list.
-std::string Why(const ActiveMedicine& active, std::span<const Route> counting, const BurdenTables& tables,
+std::string Why(const ActiveMedicine& active, RouteSet counting, const BurdenTables& tables,
                 const std::string& what) {
-  const bool systemic = std::equal(counting.begin(), counting.end(), tables.systemic_routes.begin(),
-                                   tables.systemic_routes.end());
-  if (systemic) return RoutesText(active) + ": not a systemic route for " + what;
+  if (counting == tables.systemic_routes) return RoutesText(active) + ": not a systemic route for " + what;
   return RoutesText(active) + ": not a route counted for " + what + " (" + RouteListText(counting, ", ") + ")";
 }
 
@@ -53,7 +51,7 @@ std::vector<RouteNote> RouteNotes(const Timeline& timeline, const Burden& burden
 }
 
 bool RouteNotStated(const ActiveMedicine& active) {
-  return std::find(active.routes.begin(), active.routes.end(), Route::kUnknown) != active.routes.end();
+  return active.routes.Contains(Route::kUnknown);
 }
 
 }  // namespace medload

@@ -62,12 +62,11 @@ struct Met {
 Met Meeting(const Rule& rule, const RuleRequirement& requirement, size_t k, const RuleContext& context) {
   Met met;
   for (const ActiveMedicine& active : context.burden.active) {
-    if (!context.every_route && !context.tables.CountsForRule(active.routes, rule)) continue;
     const Medicine& medicine = context.timeline.medicines[active.medicine];
     const bool may = context.flags != nullptr
                          ? (*context.flags)[active.medicine * context.per_medicine + context.first + k]
                          : MedicineMatches(medicine, requirement, context.tables);
-    if (!may) continue;
+    if (!may || (!context.every_route && !context.tables.CountsForRule(active.routes, rule))) continue;
     for (const std::string& ingredient : medicine.ingredients) {
       if (!IngredientMatches(ingredient, requirement, context.tables)) continue;
       met.ingredients.insert(ingredient);
@@ -104,23 +103,24 @@ bool AgeAllows(const Rule& rule, std::optional<int> age) { return !rule.age_min 
 
 namespace burden_internal {
 
-std::vector<Route> RoutesInForce(const Medicine& medicine, const ActiveMedicine& active, Date on,
-                                 const MeasureOptions& options) {
-  std::vector<Route> routes = {medicine.uses[active.latest_use].route};
+RouteSet RoutesInForce(const Medicine& medicine, const ActiveMedicine& active, Date on,
+                       const MeasureOptions& options) {
+  RouteSet routes;
+  routes.Add(medicine.uses[active.latest_use].route);
   if (options.measure == Measure::kLookback) {
     const Date first_day = on - (options.window_days - 1);
     for (const DispensingUse& use : medicine.uses) {
-      if (use.dispensed_on >= first_day && use.dispensed_on <= on) routes.push_back(use.route);
+      if (use.dispensed_on >= first_day && use.dispensed_on <= on) routes.Add(use.route);
     }
   } else if (const Episode* episode = EpisodeOn(medicine.episodes, on)) {
     for (const Coverage& coverage : episode->coverages) {
       const DispensingUse& use = medicine.uses[coverage.source];
+      if (routes.Contains(use.route)) continue;
       // Spec section 5: the tail of a supply is min(grace, days supplied).
       const int tail = std::min(options.episodes.grace_days, coverage.days);
-      if (use.dispensed_on <= on && coverage.start <= on && on <= coverage.end() + tail) routes.push_back(use.route);
+      if (use.dispensed_on <= on && coverage.start <= on && on <= coverage.end() + tail) routes.Add(use.route);
     }
   }
-  SortRoutes(routes);
   return routes;
 }
 

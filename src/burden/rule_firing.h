@@ -10,11 +10,10 @@
 
 namespace medload::burden_internal {
 
-// The routes of `medicine`'s dispensings in force on `on`, sorted and without repeats:
-// the latest dispensing's route, and that of every dispensing whose supply plus tail
-// (min(grace, days)) covers `on` (with --measure lookback: every dispensing in the
-// window).
-std::vector<Route> RoutesInForce(const Medicine& medicine, const ActiveMedicine& active, Date on,
+// The routes of `medicine`'s dispensings in force on `on`: the latest dispensing's
+// route, and that of every dispensing whose supply plus tail (min(grace, days)) covers
+// `on` (with --measure lookback: every dispensing in the window).
+RouteSet RoutesInForce(const Medicine& medicine, const ActiveMedicine& active, Date on,
                                  const MeasureOptions& options);
 
 // Appends to burden.rules the rules of `tables` that fire on burden.active, in table

@@ -31,33 +31,32 @@ const Rule* BurdenTables::FindRule(const std::string& id) const {
   return nullptr;
 }
 
-std::span<const Route> BurdenTables::ScaleRoutes(const std::string& ingredient,
-                                                const std::string& scale_name) const {
+RouteSet BurdenTables::ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const {
   const auto scale_it = scale_routes.find(scale_name);
   if (scale_it == scale_routes.end()) return systemic_routes;
   const auto it = scale_it->second.find(ingredient);
-  return it == scale_it->second.end() ? std::span<const Route>(systemic_routes) : std::span<const Route>(it->second);
+  return it == scale_it->second.end() ? systemic_routes : it->second;
 }
 
-std::span<const Route> BurdenTables::DbiRoutes(const std::string& ingredient) const {
+RouteSet BurdenTables::DbiRoutes(const std::string& ingredient) const {
   const auto it = dbi_routes.find(ingredient);
-  return it == dbi_routes.end() ? std::span<const Route>(systemic_routes) : std::span<const Route>(it->second);
+  return it == dbi_routes.end() ? systemic_routes : it->second;
 }
 
-std::span<const Route> BurdenTables::RuleRoutes(const Rule& rule) const {
-  return rule.routes.empty() ? std::span<const Route>(systemic_routes) : std::span<const Route>(rule.routes);
+RouteSet BurdenTables::RuleRoutes(const Rule& rule) const {
+  return rule.routes.empty() ? systemic_routes : RouteSet(rule.routes);
 }
 
-bool BurdenTables::CountsForScale(std::span<const Route> routes, const std::string& ingredient) const {
-  return AnyRouteCounts(routes, ScaleRoutes(ingredient, scale));
+bool BurdenTables::CountsForScale(RouteSet routes, const std::string& ingredient) const {
+  return RoutesCount(routes, ScaleRoutes(ingredient, scale));
 }
 
-bool BurdenTables::CountsForDbi(std::span<const Route> routes, const std::string& ingredient) const {
-  return AnyRouteCounts(routes, DbiRoutes(ingredient));
+bool BurdenTables::CountsForDbi(RouteSet routes, const std::string& ingredient) const {
+  return RoutesCount(routes, DbiRoutes(ingredient));
 }
 
-bool BurdenTables::CountsForRule(std::span<const Route> routes, const Rule& rule) const {
-  return AnyRouteCounts(routes, RuleRoutes(rule));
+bool BurdenTables::CountsForRule(RouteSet routes, const Rule& rule) const {
+  return RoutesCount(routes, RuleRoutes(rule));
 }
 
 BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& scale) {
@@ -70,15 +69,15 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
     auto& scores = tables.scales[table.name];
     for (const ScaleRow& row : table.rows) {
       scores[row.ingredient] = row.score;
-      if (!row.routes.empty()) tables.scale_routes[table.name][row.ingredient] = row.routes;
+      if (!row.routes.empty()) tables.scale_routes[table.name][row.ingredient] = RouteSet(row.routes);
     }
   }
   for (const DbiDose& row : formulary.tables().dbi) {
     tables.dbi[row.ingredient] = DbiEntry{row.min_daily_dose_mg, std::string(DbiEffectName(row.effect))};
-    if (!row.routes.empty()) tables.dbi_routes[row.ingredient] = row.routes;
+    if (!row.routes.empty()) tables.dbi_routes[row.ingredient] = RouteSet(row.routes);
   }
   tables.rules = formulary.rules();
-  tables.systemic_routes = formulary.SystemicRoutes();
+  tables.systemic_routes = RouteSet(formulary.SystemicRoutes());
   return tables;
 }
 

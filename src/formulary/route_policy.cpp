@@ -36,8 +36,21 @@ bool RouteCounts(Route route, std::span<const Route> counting) {
   return route == Route::kUnknown || std::find(counting.begin(), counting.end(), route) != counting.end();
 }
 
-bool AnyRouteCounts(std::span<const Route> routes, std::span<const Route> counting) {
-  return std::any_of(routes.begin(), routes.end(), [&](Route route) { return RouteCounts(route, counting); });
+RouteSet::RouteSet(std::span<const Route> routes) {
+  for (const Route route : routes) Add(route);
+}
+
+std::vector<Route> RouteSet::Routes() const {
+  std::vector<Route> routes;
+  for (const Route route : kNamedRoutes) {
+    if (Contains(route)) routes.push_back(route);
+  }
+  if (Contains(Route::kUnknown)) routes.push_back(Route::kUnknown);
+  return routes;
+}
+
+bool RoutesCount(RouteSet in_use, RouteSet counting) {
+  return in_use.Contains(Route::kUnknown) || in_use.Intersects(counting);
 }
 
 Result<std::vector<Route>> ParseRouteList(std::string_view text) {
@@ -73,6 +86,10 @@ std::string RouteListText(std::span<const Route> routes, std::string_view separa
     text += RouteName(route);
   }
   return text;
+}
+
+std::string RouteListText(RouteSet routes, std::string_view separator) {
+  return RouteListText(routes.Routes(), separator);
 }
 
 }  // namespace medload

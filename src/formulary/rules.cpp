@@ -149,12 +149,23 @@ class RuleReader {
     return routes;
   }
 
-  // The citation, without "from memory": an unchecked source says "source_checked": false.
-  std::string Source(const json& rule, const std::string& pointer) {
+  // The citation. Tables written before source_checked marked an unchecked citation
+  // "(from memory)": that mark is taken off the citation and the rule read as unchecked;
+  // "from memory" anywhere else is a fault, so that no screen shows it.
+  std::string Source(const json& rule, const std::string& pointer, bool& unchecked_mark) {
     std::string source = Text(rule, pointer, "source");
-    std::string lower = source;
-    for (char& c : lower) c = (c >= 'A' && c <= 'Z') ? static_cast<char>(c + 32) : c;
-    if (lower.find("from memory") != std::string::npos) {
+    unchecked_mark = false;
+    const auto lower = [](std::string text) {
+      for (char& c : text) c = (c >= 'A' && c <= 'Z') ? static_cast<char>(c + 32) : c;
+      return text;
+    };
+    static constexpr std::string_view kMark = "(from memory)";
+    if (const size_t at = lower(source).find(kMark); at != std::string::npos) {
+      const size_t start = at > 0 && source[at - 1] == ' ' ? at - 1 : at;
+      source.erase(start, kMark.size() + (at - start));
+      unchecked_mark = true;
+    }
+    if (lower(source).find("from memory") != std::string::npos) {
       Fault(pointer + "/source", "cites \"from memory\": give the citation and \"source_checked\": false");
     }
     if (rule.contains("source_checked") && !rule.at("source_checked").is_boolean()) {
@@ -174,9 +185,13 @@ class RuleReader {
     rule.id = Text(value, pointer, "id");
     rule.title = Text(value, pointer, "title");
     rule.explanation = Text(value, pointer, "explanation");
-    rule.source = Source(value, pointer);
+    bool unchecked_mark = false;
+    rule.source = Source(value, pointer, unchecked_mark);
     rule.source_checked = value.contains("source_checked") && value.at("source_checked").is_boolean() &&
                           value.at("source_checked").get<bool>();
+    if (unchecked_mark && rule.source_checked) {
+      Fault(pointer + "/source_checked", "true, but the source says \"(from memory)\"");
+    }
     rule.age_min = Whole(value, pointer, "age_min", 0, 150);
     if (value.contains("measures")) Measures(value.at("measures"), pointer + "/measures", rule.measures);
     rule.routes = Routes(value, pointer);

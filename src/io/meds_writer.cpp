@@ -91,7 +91,7 @@ std::vector<std::string> NotesOf(const std::vector<RouteNote>& notes, const Acti
 // The routes in use, "not stated" for a product whose route the description did not give.
 std::string RoutesShown(const ActiveMedicine& active) {
   std::string text;
-  for (const Route route : active.routes) {
+  for (const Route route : active.routes.Routes()) {
     if (!text.empty()) text += ", ";
     text += route == Route::kUnknown ? std::string("not stated") : std::string(RouteName(route));
   }
@@ -159,7 +159,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
     std::vector<std::string> routes;
-    for (const Route route : row.active->routes) routes.emplace_back(RouteName(route));
+    for (const Route route : row.active->routes.Routes()) routes.emplace_back(RouteName(route));
     medicines.push_back({{"name", DisplayName(*row.medicine)},
                          {"ingredients", row.medicine->ingredients},
                          {"since", row.active->since.ToIso()},

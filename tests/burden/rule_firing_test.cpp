@@ -75,7 +75,7 @@ struct Fixture {
     tables.scales["acb"] = {{"atropine", 3}, {"hydrocortisone", 1}};
     // Source: product specification section 5 ("Routes"): scales, DBI and rules count
     // systemic routes only by default.
-    tables.systemic_routes = DefaultSystemicRoutes();
+    tables.systemic_routes = RouteSet(DefaultSystemicRoutes());
   }
 
   Timeline Build(const std::vector<std::string>& dispensed) const {
@@ -136,7 +136,7 @@ TEST_CASE("tablets and a gel of one ingredient in force together count through t
   const Burden burden = EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80);
   // One medicine (same ingredient), used by mouth and on the skin.
   REQUIRE(burden.items == 2);
-  CHECK(burden.active[0].routes == std::vector<Route>{Route::kOral, Route::kSkin});
+  CHECK(burden.active[0].routes.Routes() == std::vector<Route>{Route::kOral, Route::kSkin});
   CHECK(burden.rules.size() == 1);
 }
 
@@ -243,7 +243,7 @@ TEST_CASE("eye drops and creams add nothing to the anticholinergic score and not
 
 TEST_CASE("a scale entry with its own routes counts them") {
   Fixture f;
-  f.tables.scale_routes["acb"]["atropine"] = {Route::kOral, Route::kEye};
+  f.tables.scale_routes["acb"]["atropine"] = RouteSet(std::vector<Route>{Route::kOral, Route::kEye});
   const Timeline timeline = f.Build({"atropine eye drops"});
   CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80).acb == 3);
 }

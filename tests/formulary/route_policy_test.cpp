@@ -24,8 +24,19 @@ TEST_CASE("a route counts when listed, an unknown route always counts") {
   CHECK_FALSE(RouteCounts(Route::kEye, systemic));
   CHECK_FALSE(RouteCounts(Route::kSkin, systemic));
   CHECK(RouteCounts(Route::kUnknown, systemic));
-  CHECK(AnyRouteCounts(std::vector<Route>{Route::kSkin, Route::kOral}, systemic));
-  CHECK_FALSE(AnyRouteCounts(std::vector<Route>{Route::kSkin, Route::kEye}, systemic));
+  const RouteSet counting(systemic);
+  CHECK(RoutesCount(RouteSet(std::vector<Route>{Route::kSkin, Route::kOral}), counting));
+  CHECK_FALSE(RoutesCount(RouteSet(std::vector<Route>{Route::kSkin, Route::kEye}), counting));
+  CHECK(RoutesCount(RouteSet(std::vector<Route>{Route::kSkin, Route::kUnknown}), counting));
+  CHECK_FALSE(RoutesCount(RouteSet(), counting));
+}
+
+TEST_CASE("a route set lists its routes in the specification's order, unknown last") {
+  RouteSet set;
+  for (const Route route : {Route::kUnknown, Route::kSkin, Route::kOral, Route::kSkin}) set.Add(route);
+  CHECK(set.Routes() == std::vector<Route>{Route::kOral, Route::kSkin, Route::kUnknown});
+  CHECK(RouteListText(set, ", ") == "oral, skin, unknown");
+  CHECK(set == RouteSet(std::vector<Route>{Route::kSkin, Route::kOral, Route::kUnknown}));
 }
 
 TEST_CASE("route lists read names and aliases, in the specification's order, once each") {

@@ -101,9 +101,12 @@ TEST_CASE("each malformed element is reported with its JSON pointer") {
       {R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s", "source_checked": "yes",
            "require": [{"classes": ["x"]}]}]})",
        "rules.json: /rules/0/source_checked: not true or false"},
-      {R"json({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "STOPP version 3 (from memory)",
+      {R"json({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "STOPP version 3, from memory",
            "require": [{"classes": ["x"]}]}]})json",
        "rules.json: /rules/0/source: cites \"from memory\": give the citation and \"source_checked\": false"},
+      {R"json({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "STOPP version 3 (from memory)",
+           "source_checked": true, "require": [{"classes": ["x"]}]}]})json",
+       "rules.json: /rules/0/source_checked: true, but the source says \"(from memory)\""},
   };
   for (const Case& c : cases) {
     const std::string expected = c.fault;
@@ -135,6 +138,16 @@ TEST_CASE("forbidden classes, routes, a count of medicines and a checked source 
   REQUIRE(rule.forbid.size() == 1);
   CHECK(rule.forbid[0].classes == std::vector<std::string>{"ppi"});
   CHECK(RuleSourceText(rule) == "STOPP version 3");
+}
+
+TEST_CASE("an older table's '(from memory)' mark leaves the citation and reads as not yet checked") {
+  std::vector<std::string> faults;
+  const std::vector<Rule> rules = Parse(R"json({"rules": [{"id": "r", "title": "t", "explanation": "e",
+      "source": "STOPP/START criteria version 3 (From Memory)", "require": [{"classes": ["x"]}]}]})json", faults);
+  CHECK(faults.empty());
+  REQUIRE(rules.size() == 1);
+  CHECK(rules[0].source == "STOPP/START criteria version 3");
+  CHECK_FALSE(rules[0].source_checked);
 }
 
 TEST_CASE("a source not yet checked is shown with a reminder to check the current edition") {

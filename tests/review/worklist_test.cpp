@@ -210,6 +210,32 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   CHECK(later.patients[0].warnings.empty());
 }
 
+TEST_CASE("a rule for older people applies from 65 in completed years, a birth year alone read as 1 July") {
+  // Source: product specification section 5 ("Age on D"; Beers and STOPP apply from 65).
+  // Y was born in 1959 (year only: 1 July 1959), Z on 2 July 1959.
+  Population p;
+  Import(p.store, InputKind::kPatients,
+         "patient_id,birth_date,sex,practice,registered_from,registered_to\nY,1959,female,PA,,\n"
+         "Z,1959-07-02,male,PA,,\n");
+  std::string rows = "patient_id,dispensed_on,product,quantity,days_supply\n";
+  for (const char* patient : {"Y", "Z"}) {
+    for (const char* product : {"Codeine phosphate 30mg tablets", "Sertraline 50mg tablets", "Pregabalin 75mg capsules"}) {
+      rows += std::string(patient) + ",2024-06-20," + product + ",28,28\n";
+    }
+  }
+  Import(p.store, InputKind::kDispensing, rows);
+  auto met = [&](Date on) {
+    std::vector<std::string> patients;
+    for (const WorklistEntry& e : p.Build(On(on, {AtLeast("rule:cns-active-3")})).patients) {
+      if (e.patient == "Y" || e.patient == "Z") patients.push_back(e.patient + " " + std::to_string(*e.age));
+    }
+    return patients;
+  };
+  CHECK(met(D(2024, 6, 30)).empty());
+  CHECK(met(D(2024, 7, 1)) == std::vector<std::string>{"Y 65"});
+  CHECK(met(D(2024, 7, 2)) == std::vector<std::string>{"Y 65", "Z 65"});
+}
+
 TEST_CASE("patients of unknown age left out by the minimum age are counted") {
   Population p;
   Import(p.store, InputKind::kPatients,

@@ -22,9 +22,9 @@ struct ActiveMedicine {
   size_t latest_use = 0;   // index into Medicine::uses: the latest dispensing on or before D
   int score = 0;           // scale points attributed to this medicine (each ingredient once)
   double dbi = 0;          // DBI attributed to this medicine
-  // The routes of its dispensings in force on D (the latest one's always), sorted: what
-  // the scales, the DBI and the rules judge it by (spec section 5, "Routes").
-  std::vector<Route> routes = {};
+  // The routes of its dispensings in force on D (the latest one's always): what the
+  // scales, the DBI and the rules judge it by (spec section 5, "Routes").
+  RouteSet routes = {};
 };
 
 struct ScoreContribution {

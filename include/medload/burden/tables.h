@@ -6,7 +6,6 @@
 
 #include <map>
 #include <optional>
-#include <span>
 #include <string>
 #include <unordered_map>
 #include <vector>
@@ -30,11 +29,11 @@ struct BurdenTables {
   std::unordered_map<std::string, DbiEntry> dbi;
   std::vector<Rule> rules;
   // The routes that count unless an entry or a rule says otherwise (routes.csv).
-  std::vector<Route> systemic_routes = DefaultSystemicRoutes();
+  RouteSet systemic_routes = RouteSet(DefaultSystemicRoutes());
   // Per-entry overrides (the `routes` column): scale name -> ingredient -> routes, and
   // ingredient -> routes for the DBI. Absent: systemic_routes.
-  std::map<std::string, std::unordered_map<std::string, std::vector<Route>>> scale_routes;
-  std::unordered_map<std::string, std::vector<Route>> dbi_routes;
+  std::map<std::string, std::unordered_map<std::string, RouteSet>> scale_routes;
+  std::unordered_map<std::string, RouteSet> dbi_routes;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;
@@ -45,14 +44,14 @@ struct BurdenTables {
 
   // The routes on which `ingredient`'s score on `scale_name` counts, its DBI counts, or
   // `rule` counts medicines.
-  std::span<const Route> ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const;
-  std::span<const Route> DbiRoutes(const std::string& ingredient) const;
-  std::span<const Route> RuleRoutes(const Rule& rule) const;
-  // Whether a medicine in use by any of `routes` on the date counts for `ingredient`'s
-  // score on the run's scale, for its DBI, or for `rule`. An unknown route counts.
-  bool CountsForScale(std::span<const Route> routes, const std::string& ingredient) const;
-  bool CountsForDbi(std::span<const Route> routes, const std::string& ingredient) const;
-  bool CountsForRule(std::span<const Route> routes, const Rule& rule) const;
+  RouteSet ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const;
+  RouteSet DbiRoutes(const std::string& ingredient) const;
+  RouteSet RuleRoutes(const Rule& rule) const;
+  // Whether a medicine in use by `routes` on the date counts for `ingredient`'s score on
+  // the run's scale, for its DBI, or for `rule`. An unknown route counts.
+  bool CountsForScale(RouteSet routes, const std::string& ingredient) const;
+  bool CountsForDbi(RouteSet routes, const std::string& ingredient) const;
+  bool CountsForRule(RouteSet routes, const Rule& rule) const;
 };
 
 class Formulary;
