@@ -1,4 +1,5 @@
 #include "medload/formulary/formulary.h"
+#include "medload/formulary/resolver.h"
 
 #include <doctest/doctest.h>
 
@@ -103,6 +104,39 @@ TEST_CASE("the ARS scores the pseudoephedrine-triprolidine combination on tripro
   CHECK(f.ScoreOn("ars", "triprolidine") == 2);
   CHECK_FALSE(f.ScoreOn("ars", "pseudoephedrine").has_value());
   CHECK_FALSE(f.ScoreOn("acb", "pseudoephedrine").has_value());
+}
+
+TEST_CASE("a levonorgestrel intrauterine system is a medicine and a copper intrauterine device is not") {
+  // A levonorgestrel intrauterine system is a licensed medicine (its dm+d name reads
+  // "... intrauterine device", from memory); copper devices are appliances (common
+  // practice). Route: other (intrauterine).
+  struct Case {
+    const char* description;
+    bool medicine;
+  };
+  const std::vector<Case> cases = {
+      {"Levonorgestrel 20micrograms/24hours intrauterine device", true},
+      {"Levonorgestrel 52mg intrauterine system", true},
+      {"Mirena 20micrograms/24hours intrauterine system", true},
+      {"Jaydess 13.5mg intrauterine delivery system", true},
+      {"T-Safe 380A QL intrauterine device", false},
+      {"Nova-T 380 intrauterine device", false},
+      {"Copper intrauterine device", false},
+  };
+  for (const Case& c : cases) {
+    const std::string description = c.description;
+    CAPTURE(description);
+    const ResolvedProduct product = Resolve(BundledFormulary(), description, "", "");
+    CHECK(product.is_medicine() == c.medicine);
+    CHECK(product.non_medicine == !c.medicine);
+    if (c.medicine) {
+      REQUIRE(product.ingredients.size() == 1);
+      CHECK(product.ingredients[0].ingredient == "levonorgestrel");
+      CHECK(product.route == Route::kOther);
+    }
+  }
+  // Levonorgestrel tablets stay oral.
+  CHECK(Resolve(BundledFormulary(), "Levonorgestrel 1.5mg tablets", "", "").route == Route::kOral);
 }
 
 TEST_CASE("the two scales disagree where the publications disagree") {
