@@ -11,6 +11,28 @@
 
 namespace medload {
 
+const std::string& PracticeOfDispensing(const DispensingRecord& record,
+                                        const std::optional<PatientRecord>& registry) {
+  static const std::string kNone;
+  if (!record.practice.empty()) return record.practice;
+  return registry ? registry->practice : kNone;
+}
+
+void AddHistoryToSpans(const PatientHistory& history, PracticeSpans& spans) {
+  const std::string* last_practice = nullptr;
+  DataSpan* span = nullptr;
+  for (const DispensingRecord& record : history.dispensings) {
+    const std::string& practice = PracticeOfDispensing(record, history.registry);
+    // A history names one practice almost always: look it up once per change.
+    if (last_practice == nullptr || *last_practice != practice) {
+      auto [it, added] = spans.try_emplace(practice, DataSpan{record.dispensed_on, record.dispensed_on});
+      span = &it->second;
+      last_practice = &practice;
+    }
+    span->Add(record.dispensed_on);
+  }
+}
+
 Burden PassPatient::Evaluate(Date on, std::optional<int> age) const {
   return analysis_.Evaluate(timeline_, on, age, &matches_);
 }
@@ -106,6 +128,7 @@ struct Reader {
   DosageTextCache dosages;             // this reader's own (the run's is not shared)
   std::vector<DispensingRecord> spare;  // records kept for reuse across its ranges
   std::optional<Date> latest_dispensed;  // among the records it read
+  PracticeSpans practice_spans;          // likewise, per practice
   std::vector<Batch> batches = std::vector<Batch>(kBatchesPerReader);
   Handover free;    // batches the visitor has finished with
   Handover filled;  // batches ready to visit, in range order
@@ -152,6 +175,7 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
           // In date order: the last is the patient's latest.
           const Date last = slot.history.dispensings.back().dispensed_on;
           if (!reader.latest_dispensed || *reader.latest_dispensed < last) reader.latest_dispensed = last;
+          AddHistoryToSpans(slot.history, reader.practice_spans);
         }
         if (++batch->used == kPatientsPerBatch) {
           hand_over();
@@ -270,7 +294,9 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
   if (failure) std::rethrow_exception(failure);
   if (status.ok() && facts != nullptr) {
     facts->latest_dispensed.reset();
+    facts->practice_spans.clear();
     for (const Reader& reader : readers) {
+      MergeSpans(facts->practice_spans, reader.practice_spans);
       if (reader.latest_dispensed && (!facts->latest_dispensed || *facts->latest_dispensed < *reader.latest_dispensed)) {
         facts->latest_dispensed = reader.latest_dispensed;
       }

@@ -116,9 +116,8 @@ RouteSet RoutesInForce(const Medicine& medicine, const ActiveMedicine& active, D
     for (const Coverage& coverage : episode->coverages) {
       const DispensingUse& use = medicine.uses[coverage.source];
       if (routes.Contains(use.route)) continue;
-      // Spec section 5: the tail of a supply is min(grace, days supplied).
-      const int tail = std::min(options.episodes.grace_days, coverage.days);
-      if (use.dispensed_on <= on && coverage.start <= on && on <= coverage.end() + tail) routes.Add(use.route);
+      // Spec section 5: a supply counts through its tail, min(grace, days supplied).
+      if (coverage.dispensed <= on && coverage.start <= on && on <= coverage.tail_end()) routes.Add(use.route);
     }
   }
   return routes;

@@ -1,6 +1,5 @@
 // `medload cohort`: counts and rates per group per census date, one pass over the store;
 // `--shard K/N` counts one shard of the patients and `--merge FILES...` adds shard outputs.
-#include <algorithm>
 #include <fstream>
 #include <ostream>
 
@@ -10,7 +9,6 @@
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
-#include "medload/core/census_note.h"
 #include "medload/io/json_text.h"
 #include "medload/store/store.h"
 
@@ -79,21 +77,8 @@ Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
   return MergeTallies(tallies, files);
 }
 
-// The warning for census dates after the latest dispensing loaded, naming the last date
-// of the series and how many of the dates are beyond the data; nullopt when none is.
-std::optional<std::string> BeyondDataNote(const std::vector<Date>& dates, std::optional<Date> latest) {
-  if (dates.empty() || !latest) return std::nullopt;
-  const Date last = *std::max_element(dates.begin(), dates.end());
-  auto note = CensusBeyondDataNote(last, latest);
-  if (!note) return std::nullopt;
-  const auto beyond = std::count_if(dates.begin(), dates.end(), [&](Date d) { return d > *latest; });
-  return *note + " (" + std::to_string(beyond) + " of " + std::to_string(dates.size()) +
-         " census date(s) are after it)";
-}
-
-// Counts from the store; `note` receives the beyond-the-data warning, if any.
-Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm,
-                                   std::optional<std::string>& note) {
+// Counts from the store.
+Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm) {
   auto options = ReadCohortOptions(vm);
   if (!options.ok()) return options.status();
   auto measure = ReadMeasureFlags(vm);
@@ -105,9 +90,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;
   }
-  auto tally = medload::RunCohort(*store, *analysis, *options);
-  if (tally.ok()) note = BeyondDataNote(options->dates, tally->latest_dispensed);
-  return tally;
+  return medload::RunCohort(*store, *analysis, *options);
 }
 
 void Write(const Context& context, const CohortTable& table, const CohortTally& tally) {
@@ -157,15 +140,13 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   if (context.format == Format::kSvg) return fail(Status::Usage("cohort writes text, csv, json or html"));
   if (!merge && has_files) return fail(Status::Usage("file arguments are only taken with --merge"));
   if (merge && !has_files) return fail(Status::Usage("--merge needs one or more cohort JSON files"));
-  std::optional<std::string> beyond_data;
+  auto measure = ReadMeasureFlags(*vm);
+  if (!measure.ok()) return fail(measure.status());
   auto tally = merge ? MergeFiles((*vm)["file"].as<std::vector<std::string>>())
-                     : CountFromStore(context, *vm, beyond_data);
+                     : CountFromStore(context, *vm);
   if (!tally.ok()) return fail(tally.status());
-  CohortTable table = BuildCohortTable(*tally, suppress_below);
-  if (beyond_data) {
-    Warn(context, *beyond_data);
-    table.notes.push_back(std::move(*beyond_data));
-  }
+  const CohortTable table = BuildCohortTable(*tally, suppress_below, HistoryDays(*measure));
+  for (const std::string& note : table.notes) Warn(context, note);
   if (!table.complete && !context.quiet) {
     *context.err << "medload: note: only " << table.shards << " are in this result\n";
   }

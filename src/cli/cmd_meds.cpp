@@ -3,7 +3,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
-#include "medload/core/census_note.h"
+#include "medload/core/data_coverage.h"
 #include "medload/io/json_text.h"
 #include "medload/io/meds_writer.h"
 #include "medload/store/store.h"
@@ -41,18 +41,31 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
     return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
   }
 
-  auto latest = store->LatestDispensed();
-  if (!latest.ok()) return fail(latest.status());
-  std::optional<std::string> census_note = CensusBeyondDataNote(*on, *latest);
-  if (census_note) Warn(context, *census_note);
+  // The practice whose data coverage applies: the registry's, else the one named by the
+  // latest dispensing on or before the date (nothing later: the point-in-time rule).
+  std::string practice = registry->has_value() ? (*registry)->practice : "";
+  if (!registry->has_value()) {
+    for (const DispensingRecord& record : *records) {
+      if (record.dispensed_on <= *on) practice = record.practice;
+    }
+  }
+  auto spans = store->PracticeDataSpans();
+  if (!spans.ok()) return fail(spans.status());
+  const auto span_it = spans->find(practice);
+  const std::optional<DataSpan> span =
+      span_it == spans->end() ? std::nullopt : std::optional<DataSpan>(span_it->second);
+  const int history_days = HistoryDays(*measure);
+  const DataState data = DataStateOn(span, *on, history_days);
+  std::optional<std::string> data_note = DataStateNote(practice, data, span, *on, history_days);
+  if (data_note) Warn(context, *data_note);
 
   const Timeline timeline = analysis->BuildTimeline(*records);
   const std::optional<int> age = AgeOn(*registry, *on);
   const Burden burden = analysis->Evaluate(timeline, *on, age);
   MedsModel model;
   model.patient = patient;
-  model.practice = registry->has_value() ? (*registry)->practice
-                                         : (records->empty() ? "" : records->back().practice);
+  model.practice = practice;
+  model.data = data;
   model.age = age;
   model.registered = registry->has_value();
   model.timeline = &timeline;
@@ -60,7 +73,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.tables = &analysis->tables();
   model.records = *records;
   model.options = *measure;
-  model.census_note = census_note;
+  model.data_note = data_note;
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

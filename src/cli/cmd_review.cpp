@@ -2,7 +2,6 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/core/census_note.h"
 #include "medload/io/json_text.h"
 #include "medload/io/worklist_writer.h"
 #include "medload/review/pseudonym.h"
@@ -70,10 +69,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) return fail(worklist.status());
-  if (auto note = CensusBeyondDataNote(worklist->on, worklist->latest_dispensed)) {
-    Warn(context, *note);
-    worklist->notes.push_back(std::move(*note));
-  }
+  for (const std::string& note : worklist->notes) Warn(context, note);
   if (pseudonymiser) {
     for (WorklistEntry& entry : worklist->patients) entry.patient = pseudonymiser->Pseudonym(entry.patient);
   }

@@ -10,7 +10,8 @@
 namespace medload::cli {
 namespace {
 
-// The default range: the first dispensing to the end of the last supply.
+// The default range: the first dispensing to the last day of the last episode (tail
+// included).
 void DefaultRange(const Timeline& timeline, Date& from, Date& to) {
   bool first = true;
   for (const Medicine& medicine : timeline.medicines) {
@@ -27,7 +28,7 @@ void DefaultRange(const Timeline& timeline, Date& from, Date& to) {
 int RunTimeline(Context& context, const std::vector<std::string>& args) {
   po::options_description options("timeline options");
   options.add_options()("from", po::value<std::string>(), "first day shown (default: first dispensing)")(
-      "to", po::value<std::string>(), "last day shown (default: end of the last supply)")(
+      "to", po::value<std::string>(), "last day shown; dispensings after it are left out (default: end of the last episode)")(
       "on", po::value<std::string>(), "a census date to mark on the chart");
   AddMeasureFlags(options);
   int exit_code = 0;
@@ -49,6 +50,17 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   auto records = store->DispensingsOf(patient);
   if (!records.ok()) return fail(records.status());
   if (records->empty()) return fail(Status::Input("patient \"" + patient + "\" has no dispensings in " + context.db_path));
+  std::optional<Date> from, to, census;
+  for (const char* name : {"from", "to", "on"}) {
+    if (vm->count(name) == 0U) continue;
+    auto date = ReadDateFlag(*vm, name);
+    if (!date.ok()) return fail(date.status());
+    (std::string_view(name) == "from" ? from : std::string_view(name) == "to" ? to : census) = *date;
+  }
+  // With --to, the timeline as known on that day: later dispensings are left out, so that
+  // nothing shown depends on records dispensed after it (the point-in-time rule).
+  if (to) std::erase_if(*records, [&](const DispensingRecord& r) { return r.dispensed_on > *to; });
+  if (records->empty()) return fail(Status::Input("patient \"" + patient + "\" has no dispensings on or before --to"));
   const Timeline timeline = analysis->BuildTimeline(*records);
 
   TimelineModel model;
@@ -58,14 +70,9 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   model.from = records->front().dispensed_on;
   model.to = model.from;
   DefaultRange(timeline, model.from, model.to);
-  for (const char* name : {"from", "to", "on"}) {
-    if (vm->count(name) == 0U) continue;
-    auto date = ReadDateFlag(*vm, name);
-    if (!date.ok()) return fail(date.status());
-    if (std::string_view(name) == "from") model.from = *date;
-    else if (std::string_view(name) == "to") model.to = *date;
-    else model.census = *date;
-  }
+  if (from) model.from = *from;
+  if (to) model.to = *to;
+  model.census = census;
   if (model.to < model.from) return fail(Status::Usage("--to is before --from"));
   if (model.to - model.from > 366 * 20) return fail(Status::Usage("the range is longer than 20 years"));
   switch (context.format) {

@@ -1,5 +1,6 @@
 #include "medload/cohort/cohort.h"
 
+#include <algorithm>
 #include <optional>
 #include <utility>
 
@@ -18,6 +19,13 @@ CohortCounter::CohortCounter(const CohortOptions& options,
   tally_.measure = std::move(measure);
   tally_.shard_count = options_.shard.count;
   tally_.shards.insert(options_.shard.index);
+}
+
+void CohortCounter::See(const PatientHistory& history) { AddHistoryToSpans(history, tally_.spans); }
+
+bool CohortCounter::Settled(const std::string& practice) const {
+  const auto it = tally_.spans.find(practice);
+  return !options_.dates.empty() && it != tally_.spans.end() && it->second.first <= options_.dates.front();
 }
 
 bool CohortCounter::Wants(const PatientHistory& history) const {
@@ -52,6 +60,14 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
         age && *age >= 0 ? std::optional<size_t>(EspBandOf(*age)) : std::nullopt;
     ++cell.registered;
     if (band) ++cell.registered_by_band[*band];
+    tally_.practices[group].insert(*practice);
+    const bool unseen = history.dispensings.empty() || history.dispensings.front().dispensed_on > on;
+    if (unseen && !Settled(*practice)) {
+      auto& per_date = tally_.unseen[group][*practice];
+      per_date.resize(options_.dates.size());
+      ++per_date[d].registered;
+      if (band) ++per_date[d].registered_by_band[*band];
+    }
     if (options_.criteria.empty()) continue;
     const Burden value = burden(on, age);
     bool any = false;
@@ -65,6 +81,14 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   }
 }
 
+CohortTally CohortCounter::Take() {
+  for (auto& [group, by_practice] : tally_.unseen) {
+    std::erase_if(by_practice, [&](const auto& entry) { return Settled(entry.first); });
+  }
+  std::erase_if(tally_.unseen, [](const auto& entry) { return entry.second.empty(); });
+  return std::move(tally_);
+}
+
 Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
                               const CohortOptions& options) {
   auto practices = store.Practices();
@@ -72,19 +96,17 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
-  PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    counter.See(patient.history());
     if (!counter.Wants(patient.history())) return true;
     // The timeline is built on the first date that needs it, then reused.
     counter.Add(patient.history(), [&](Date on, std::optional<int> age) {
       return patient.Evaluate(on, age);
     });
     return true;
-  }, &facts);
+  });
   if (!status.ok()) return status;
-  CohortTally tally = counter.Take();
-  tally.latest_dispensed = facts.latest_dispensed;
-  return tally;
+  return counter.Take();
 }
 
 namespace {
@@ -128,6 +150,18 @@ Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
       }
     }
     merged.patients += other.patients;
+    MergeSpans(merged.spans, other.spans);
+    for (const auto& [group, codes] : other.practices) merged.practices[group].insert(codes.begin(), codes.end());
+    for (const auto& [group, by_practice] : other.unseen) {
+      for (const auto& [practice, cells] : by_practice) {
+        auto& into = merged.unseen[group][practice];
+        into.resize(std::max(into.size(), cells.size()));
+        for (size_t d = 0; d < cells.size(); ++d) {
+          into[d].registered += cells[d].registered;
+          for (size_t b = 0; b < kEspBands; ++b) into[d].registered_by_band[b] += cells[d].registered_by_band[b];
+        }
+      }
+    }
     for (const auto& [group, cells] : other.groups) {
       auto [it, added] = merged.groups.try_emplace(group, cells);
       if (added) continue;

@@ -35,16 +35,24 @@ struct Point {
   double y = 0;
 };
 
-// One group's rates, by date index (absent = suppressed or none registered).
-std::vector<std::optional<double>> SeriesOf(const CohortTable& table, const std::string& group,
-                                            size_t key) {
-  std::vector<std::optional<double>> values(table.dates.size());
+// One group's rates, by date index (absent = no data, suppressed or none registered),
+// and the data coverage of each date.
+struct Series {
+  std::vector<std::optional<double>> rates;
+  std::vector<DataState> data;
+};
+
+Series SeriesOf(const CohortTable& table, const std::string& group, size_t key) {
+  Series series{std::vector<std::optional<double>>(table.dates.size()),
+                std::vector<DataState>(table.dates.size(), DataState::kNoData)};
   for (const CohortRow& row : table.rows) {
     if (row.group != group) continue;
-    const auto at = std::find(table.dates.begin(), table.dates.end(), row.date);
-    values[static_cast<size_t>(at - table.dates.begin())] = row.values[key].rate;
+    const auto at = static_cast<size_t>(std::find(table.dates.begin(), table.dates.end(), row.date) -
+                                        table.dates.begin());
+    series.rates[at] = row.values[key].rate;
+    series.data[at] = row.data;
   }
-  return values;
+  return series;
 }
 
 std::string Fixed(double value) {
@@ -53,6 +61,20 @@ std::string Fixed(double value) {
   text.precision(1);
   text << value;
   return text.str();
+}
+
+// A point's marker: filled circle (full), hollow circle (short history), hollow square
+// (beyond the data), so that the states read without colour.
+void WriteMarker(std::ostringstream& svg, const Point& p, DataState data, const char* colour) {
+  if (data == DataState::kBeyondData) {
+    svg << "<rect x=\"" << Fixed(p.x - 3) << "\" y=\"" << Fixed(p.y - 3) << "\" width=\"6\" height=\"6\" "
+        << "fill=\"#fff\" stroke=\"" << colour << "\" stroke-width=\"1.5\"><title>beyond the data</title></rect>\n";
+    return;
+  }
+  svg << "<circle cx=\"" << Fixed(p.x) << "\" cy=\"" << Fixed(p.y) << "\" r=\"" << (data == DataState::kFull ? "2.5" : "3")
+      << "\" fill=\"" << (data == DataState::kFull ? colour : "#fff") << "\""
+      << (data == DataState::kFull ? "" : std::string(" stroke=\"") + colour + "\" stroke-width=\"1.5\"")
+      << (data == DataState::kShortHistory ? "><title>short history</title></circle>\n" : "/>\n");
 }
 
 // The x of date index `d` of `n`: spread across the plot, or its middle for one date.
@@ -145,25 +167,36 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   std::vector<Label> labels;
   for (size_t g = 0; g < table.groups.size(); ++g) {
     const char* colour = kColours[g % (sizeof(kColours) / sizeof(kColours[0]))];
-    const std::vector<std::optional<Point>> points =
-        PointsOf(SeriesOf(table, table.groups[g], key), top_rate);
-    std::string path;
-    bool drawing = false;
+    const Series series = SeriesOf(table, table.groups[g], key);
+    const std::vector<std::optional<Point>> points = PointsOf(series.rates, top_rate);
+    // Solid between two full points, dashed where either end is short-history or beyond
+    // the data; a date without a value is a gap.
+    std::string solid, dashed;
     std::optional<Point> last;
-    for (const std::optional<Point>& p : points) {
-      if (!p) {
-        drawing = false;  // a gap: the next point starts a new segment
+    std::optional<bool> previous_full;  // the style of the segment ending at d - 1, if any
+    for (size_t d = 0; d < points.size(); ++d) {
+      if (!points[d]) {
+        previous_full.reset();
         continue;
       }
-      path += (drawing ? " L" : " M") + Fixed(p->x) + " " + Fixed(p->y);
-      drawing = true;
+      const Point& p = *points[d];
+      if (d > 0 && points[d - 1]) {
+        const bool full = series.data[d] == DataState::kFull && series.data[d - 1] == DataState::kFull;
+        std::string& path = full ? solid : dashed;
+        if (previous_full != full) path += " M" + Fixed(points[d - 1]->x) + " " + Fixed(points[d - 1]->y);
+        path += " L" + Fixed(p.x) + " " + Fixed(p.y);
+        previous_full = full;
+      }
       last = p;
-      svg << "<circle cx=\"" << Fixed(p->x) << "\" cy=\"" << Fixed(p->y)
-          << "\" r=\"2.5\" fill=\"" << colour << "\"/>\n";
+      WriteMarker(svg, p, series.data[d], colour);
     }
-    if (!path.empty()) {
-      svg << "<path d=\"" << path.substr(1) << "\" fill=\"none\" stroke=\"" << colour
+    if (!solid.empty()) {
+      svg << "<path d=\"" << solid.substr(1) << "\" fill=\"none\" stroke=\"" << colour
           << "\" stroke-width=\"2\"/>\n";
+    }
+    if (!dashed.empty()) {
+      svg << "<path d=\"" << dashed.substr(1) << "\" fill=\"none\" stroke=\"" << colour
+          << "\" stroke-width=\"2\" stroke-dasharray=\"5 4\"/>\n";
     }
     if (last) labels.push_back(Label{last->y + 4, table.groups[g], colour});
   }

@@ -65,14 +65,14 @@ std::string ProductText(const MedsModel& model, const DispensingUse& use) {
   return RecordText(model.records, use, &DispensingRecord::product);
 }
 
-// Unmatched products dispensed recently enough that they could still be in use.
+// Unmatched products dispensed, on or before the date, recently enough that they could
+// still be in use.
 std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
   std::vector<const UnmatchedProduct*> recent;
   const Date first = model.burden->on - (model.options.supply.max_supply_days - 1);
   for (const UnmatchedProduct& product : model.timeline->unmatched) {
-    if (product.last_dispensed >= first && product.last_dispensed <= model.burden->on) {
-      recent.push_back(&product);
-    }
+    const std::optional<Date> last = product.LastBy(model.burden->on);
+    if (last && *last >= first) recent.push_back(&product);
   }
   return recent;
 }
@@ -118,19 +118,31 @@ std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& 
 
 std::vector<std::string> MedsWarnings(const MedsModel& model) {
   std::vector<std::string> warnings;
-  if (model.census_note && !model.census_note->empty()) {
-    std::string sentence = *model.census_note + ".";
-    sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+  if (model.data_note && !model.data_note->empty()) {
+    std::string sentence = "Data coverage: " + *model.data_note + ".";
     warnings.push_back(std::move(sentence));
   }
   for (const UnmatchedProduct* product : RecentUnmatched(model)) {
-    warnings.push_back("\"" + product->product + "\" (" + std::to_string(product->items) +
-                       " item(s), last " + product->last_dispensed.ToIso() +
+    warnings.push_back("\"" + product->product + "\" (" + std::to_string(product->ItemsBy(model.burden->on)) +
+                       " item(s), last " + product->LastBy(model.burden->on)->ToIso() +
                        ") was not recognised by the formulary and is not counted.");
   }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
     warnings.push_back("The daily dose of " + ingredient +
                        " is not known (no strength), so it adds nothing to the Drug Burden Index.");
+  }
+  for (const Row& row : Rows(model)) {
+    if (row.active->in_tail) {
+      warnings.push_back("The supply of " + DisplayName(*row.medicine) + " ran out on " +
+                         row.active->supply_end.ToIso() + "; it still counts until " + row.active->until.ToIso() +
+                         " (its tail): a refill may be late, or the medicine may have stopped.");
+    }
+  }
+  for (const auto& c : model.burden->dbi_contributions) {
+    if (c.as_needed_max) {
+      warnings.push_back("The Drug Burden Index dose of " + c.ingredient +
+                         " is the as-needed maximum of its instruction, not a dose known to be taken.");
+    }
   }
   for (const Row& row : Rows(model)) {
     if (row.latest->supply.rule == SupplyRule::kDefaultDays) {
@@ -164,6 +176,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
                          {"ingredients", row.medicine->ingredients},
                          {"since", row.active->since.ToIso()},
                          {"until", row.active->until.ToIso()},
+                         {"supply_until", row.active->supply_end.ToIso()},
+                         {"in_tail", row.active->in_tail},
                          {"acb", row.active->score},
                          {"dbi", row.active->dbi},
                          {"classes", ClassesOf(model, *row.medicine)},
@@ -174,6 +188,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
                          {"last_dispensed", use.dispensed_on.ToIso()},
                          {"quantity", use.quantity},
                          {"supply_days", use.supply.days},
+                         {"units_per_day", use.supply.units_per_day ? nlohmann::json(*use.supply.units_per_day)
+                                                                    : nlohmann::json(nullptr)},
                          {"supply_rule", SupplyRuleName(use.supply.rule)},
                          {"dosage", DosageText(model, use)},
                          {"dosage_read", DosageRead(use.dosage)},
@@ -191,9 +207,17 @@ nlohmann::json MedsJson(const MedsModel& model) {
   for (const auto& c : burden.score_contributions) contributions.push_back({{"ingredient", c.ingredient}, {"score", c.score}});
   nlohmann::json dbi = nlohmann::json::array();
   for (const auto& c : burden.dbi_contributions) {
+    nlohmann::json sources = nlohmann::json::array();
+    for (const DoseSource& source : c.sources) {
+      const DispensingUse& use = model.timeline->medicines[source.medicine].uses[source.use];
+      sources.push_back({{"product", ProductText(model, use)}, {"dispensed", use.dispensed_on.ToIso()},
+                         {"dose_mg_per_day", source.dose_mg_per_day}, {"basis", DoseBasisName(source.basis)},
+                         {"as_needed_max", source.as_needed_max}});
+    }
     dbi.push_back({{"ingredient", c.ingredient}, {"dose_mg_per_day", c.dose_mg_per_day},
                    {"min_daily_dose_mg", c.min_daily_dose_mg}, {"value", c.value},
-                   {"basis", DoseBasisName(c.basis)}, {"supply_assumed", c.supply_assumed}});
+                   {"basis", DoseBasisName(c.basis)}, {"supply_assumed", c.supply_assumed},
+                   {"as_needed_max", c.as_needed_max}, {"sources", sources}});
   }
   nlohmann::json unmatched = nlohmann::json::array();
   for (const UnmatchedProduct* product : RecentUnmatched(model)) unmatched.push_back(product->product);
@@ -203,7 +227,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
           {"dbi_incomplete", burden.dbi_incomplete}, {"unmatched", unmatched},
-          {"measure", MeasureName(model.options.measure)},
+          {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"systemic_routes", RouteListText(model.tables->systemic_routes, ",")}, {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
 }
@@ -214,12 +238,30 @@ std::vector<std::string> Header(const std::string& scale_label) {
   return {"medicine", "route", "since", "until", "last dispensed", "supply", "dosage read", scale_label, "DBI"};
 }
 
+// The episode's last counted day, marked when the date falls in the tail.
+std::string UntilText(const ActiveMedicine& active) {
+  return active.until.ToIso() + (active.in_tail ? " (tail: supply ran out " + active.supply_end.ToIso() + ")" : "");
+}
+
+// How one ingredient's DBI dose was reached, products summed where more than one.
+std::string DbiWorking(const MedsModel& model, const DbiContribution& c) {
+  std::string working;
+  for (const DoseSource& source : c.sources) {
+    const DispensingUse& use = model.timeline->medicines[source.medicine].uses[source.use];
+    if (!working.empty()) working += " + ";
+    working += FormatNumber(source.dose_mg_per_day, 2) + " mg/day";
+    if (c.sources.size() > 1) working += " (" + ProductText(model, use) + ")";
+  }
+  if (c.sources.size() > 1) working += " = " + FormatNumber(c.dose_mg_per_day, 2) + " mg/day";
+  return working;
+}
+
 std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
   std::vector<std::vector<std::string>> rows;
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
     rows.push_back({DisplayName(*row.medicine), RoutesShown(*row.active), row.active->since.ToIso(),
-                    row.active->until.ToIso(),
+                    UntilText(*row.active),
                     use.dispensed_on.ToIso(),
                     std::to_string(use.supply.days) + " d (" + std::string(SupplyRuleName(use.supply.rule)) + ")",
                     DosageRead(use.dosage), std::to_string(row.active->score), FormatNumber(row.active->dbi, 2)});
@@ -254,9 +296,9 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
     out << "\n";
   }
   for (const auto& c : b.dbi_contributions) {
-    out << "DBI " << c.ingredient << ": " << FormatNumber(c.dose_mg_per_day, 2) << " mg/day, minimum "
+    out << "DBI " << c.ingredient << ": " << DbiWorking(model, c) << ", minimum "
         << FormatNumber(c.min_daily_dose_mg, 2) << " mg -> " << FormatNumber(c.value, 3) << " ("
-        << DoseBasisName(c.basis) << ")\n";
+        << DoseBasisName(c.basis) << ")" << DoseBasisMark(c) << "\n";
   }
   const std::vector<RouteNote> notes = Notes(model);
   if (!notes.empty()) out << "\nNot counted because of the route:\n";
@@ -278,19 +320,20 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
-  if (model.census_note) out << "# note: " << *model.census_note << "\n";
+  if (model.data_note) out << "# note: " << *model.data_note << "\n";
   out << CsvRow({"# " + SystemicRoutesSentence(model)});
-  out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "last_dispensed", "product",
-                 "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi", "classes",
-                 "not_counted"});
+  out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
+                 "product", "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi",
+                 "classes", "not_counted"});
   const std::vector<RouteNote> notes = Notes(model);
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
     out << CsvRow({model.patient, model.burden->on.ToIso(), DisplayName(*row.medicine),
                    Join(row.medicine->ingredients, "|"), row.active->since.ToIso(), row.active->until.ToIso(),
-                   use.dispensed_on.ToIso(), ProductText(model, use), RoutesShown(*row.active),
-                   std::to_string(use.supply.days), std::string(SupplyRuleName(use.supply.rule)),
-                   DosageText(model, use), DosageRead(use.dosage), model.tables->scale,
+                   row.active->in_tail ? "yes" : "no", use.dispensed_on.ToIso(), ProductText(model, use),
+                   RoutesShown(*row.active), std::to_string(use.supply.days),
+                   std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(use.dosage),
+                   model.tables->scale,
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
                    Join(ClassesOf(model, *row.medicine), "|"), Join(NotesOf(notes, *row.active, model), "; ")});
   }
@@ -309,6 +352,13 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   }
   if (!notes.empty()) out << "</ul>\n";
   out << "<p class=\"note\">" << EscapeHtml(SystemicRoutesSentence(model)) << "</p>\n";
+  if (!b.dbi_contributions.empty()) out << "<h2>Drug Burden Index</h2>\n<ul>\n";
+  for (const auto& c : b.dbi_contributions) {
+    out << "<li>" << EscapeHtml(c.ingredient) << ": " << EscapeHtml(DbiWorking(model, c)) << ", minimum "
+        << EscapeHtml(FormatNumber(c.min_daily_dose_mg, 2)) << " mg -&gt; " << EscapeHtml(FormatNumber(c.value, 3))
+        << " (" << EscapeHtml(DoseBasisName(c.basis)) << ")" << EscapeHtml(DoseBasisMark(c)) << "</li>\n";
+  }
+  if (!b.dbi_contributions.empty()) out << "</ul>\n";
   if (!b.rules.empty()) out << "<h2>Rules fired</h2>\n<ul>\n";
   for (const FiredRule& fired : b.rules) {
     out << "<li><strong>" << EscapeHtml(fired.rule->title) << "</strong> (" << EscapeHtml(fired.rule->id)

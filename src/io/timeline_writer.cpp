@@ -50,12 +50,24 @@ void WriteRow(std::ostream& out, const TimelineModel& model, const Medicine& med
       << y + 15 << "\" font-size=\"12\" text-anchor=\"end\">" << EscapeHtml(Name(medicine)) << "</text>\n";
   for (const Episode& episode : medicine.episodes) {
     if (episode.end < scale.from || episode.start > to) continue;
+    // The whole episode as a pale, dashed bar (tail days: the supply has run out and a
+    // refill may be late), then the supplied days over it, solid.
     const double x1 = scale.X(std::max(episode.start, scale.from));
     const double x2 = scale.X(std::min(episode.end, to) + 1);
-    out << "<rect x=\"" << FormatNumber(x1, 1) << "\" y=\"" << y + 4 << "\" width=\""
-        << FormatNumber(std::max(1.0, x2 - x1), 1) << "\" height=\"14\" fill=\"#6b8fb8\" stroke=\"#1f3b5c\">"
+    out << "<rect x=\"" << FormatNumber(x1, 1) << "\" y=\"" << y + 6 << "\" width=\""
+        << FormatNumber(std::max(1.0, x2 - x1), 1)
+        << "\" height=\"10\" fill=\"#e3ebf4\" stroke=\"#6b8fb8\" stroke-dasharray=\"3 2\">"
         << "<title>" << EscapeHtml(Name(medicine)) << ": episode " << episode.start.ToIso() << " to "
-        << episode.end.ToIso() << "</title></rect>\n";
+        << episode.end.ToIso() << "; pale days are tail days (supply run out, a refill may be late)</title></rect>\n";
+    for (const auto& [start, end] : SuppliedSpans(episode)) {
+      if (end < scale.from || start > to) continue;
+      const double s1 = scale.X(std::max(start, scale.from));
+      const double s2 = scale.X(std::min(end, to) + 1);
+      out << "<rect x=\"" << FormatNumber(s1, 1) << "\" y=\"" << y + 4 << "\" width=\""
+          << FormatNumber(std::max(1.0, s2 - s1), 1) << "\" height=\"14\" fill=\"#6b8fb8\" stroke=\"#1f3b5c\">"
+          << "<title>" << EscapeHtml(Name(medicine)) << ": supplied " << start.ToIso() << " to " << end.ToIso()
+          << "</title></rect>\n";
+    }
   }
   for (const DispensingUse& use : medicine.uses) {
     if (use.dispensed_on < scale.from || use.dispensed_on > to) continue;
@@ -85,6 +97,18 @@ void WriteCounts(std::ostream& out, const TimelineModel& model, const Scale& sca
 }
 
 }  // namespace
+
+std::vector<std::pair<Date, Date>> SuppliedSpans(const Episode& episode) {
+  std::vector<std::pair<Date, Date>> spans;
+  for (const Coverage& coverage : episode.coverages) {  // by start
+    if (!spans.empty() && coverage.start <= spans.back().second + 1) {
+      spans.back().second = std::max(spans.back().second, coverage.end());
+    } else {
+      spans.emplace_back(coverage.start, coverage.end());
+    }
+  }
+  return spans;
+}
 
 std::vector<int> ConcurrentCounts(const Timeline& timeline, Date from, Date to) {
   std::vector<int> delta(static_cast<size_t>(to - from) + 2, 0);
@@ -129,8 +153,9 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
         << "\" font-size=\"11\">census " << model.census->ToIso() << "</text>\n";
   }
   out << "<text x=\"10\" y=\"" << height - 10
-      << "\" font-size=\"10\">Bars: episodes (merged supplies). Ticks: dispensings. Dashed line: census "
-         "date. Supports, does not replace, clinical review.</text>\n</svg>\n";
+      << "\" font-size=\"10\">Solid bars: days supplied. Pale dashed bars: tail days (supply run out; a "
+         "refill may be late). Ticks: dispensings. Dashed line: census date. Supports, does not replace, "
+         "clinical review.</text>\n</svg>\n";
 }
 
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model) {
@@ -146,8 +171,12 @@ std::vector<std::vector<std::string>> EpisodeRows(const TimelineModel& model) {
   for (const Medicine& medicine : model.timeline->medicines) {
     for (const Episode& episode : medicine.episodes) {
       if (episode.end < model.from || episode.start > model.to) continue;
-      rows.push_back({Name(medicine), episode.start.ToIso(), episode.end.ToIso(),
-                      std::to_string(episode.end - episode.start + 1), std::to_string(episode.coverages.size())});
+      int supplied = 0;
+      for (const auto& [start, end] : SuppliedSpans(episode)) supplied += end - start + 1;
+      const int days = episode.end - episode.start + 1;
+      rows.push_back({Name(medicine), episode.start.ToIso(), episode.end.ToIso(), std::to_string(days),
+                      std::to_string(supplied), std::to_string(days - supplied),
+                      std::to_string(episode.coverages.size())});
     }
   }
   return rows;
@@ -158,13 +187,14 @@ std::vector<std::vector<std::string>> EpisodeRows(const TimelineModel& model) {
 void WriteTimelineText(std::ostream& out, const TimelineModel& model) {
   out << "Medication episodes of patient " << model.patient << ", " << model.from.ToIso() << " to "
       << model.to.ToIso() << "\n\n";
-  WriteTextTable(out, {"medicine", "start", "end", "days", "dispensings"}, EpisodeRows(model));
+  WriteTextTable(out, {"medicine", "start", "end", "days", "supplied", "tail or gap", "dispensings"},
+                 EpisodeRows(model));
   WriteTextCaution(out);
 }
 
 void WriteTimelineCsv(std::ostream& out, const TimelineModel& model) {
   WriteCsvCaution(out);
-  out << CsvRow({"patient", "medicine", "start", "end", "days", "dispensings"});
+  out << CsvRow({"patient", "medicine", "start", "end", "days", "supplied_days", "tail_days", "dispensings"});
   for (auto& row : EpisodeRows(model)) {
     row.insert(row.begin(), model.patient);
     out << CsvRow(row);

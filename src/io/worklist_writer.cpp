@@ -39,6 +39,13 @@ size_t NotShown(const Worklist& w) {
   return meeting > w.patients.size() ? meeting - w.patients.size() : 0;
 }
 
+// Each practice's data coverage on the census date, by name.
+nlohmann::json PracticeData(const Worklist& worklist) {
+  nlohmann::json data = nlohmann::json::object();
+  for (const auto& [practice, state] : worklist.practice_data) data[practice] = std::string(DataStateName(state));
+  return data;
+}
+
 }  // namespace
 
 const char* const kRankIsSortingOrder =
@@ -93,7 +100,7 @@ nlohmann::json WorklistJson(const Worklist& worklist) {
           {"excluded_age_unknown", worklist.excluded_age_unknown},
           {"excluded_age_unknown_meeting", worklist.excluded_age_unknown_meeting},
           {"patients_not_shown", NotShown(worklist)}, {"summary", WorklistSummary(worklist)},
-          {"notes", WorklistNotes(worklist)}, {"warnings", worklist.notes},
+          {"notes", WorklistNotes(worklist)}, {"warnings", worklist.notes}, {"practice_data", PracticeData(worklist)},
           {"compared_with_previous_run", worklist.has_previous_run}, {"caution", std::string(kCaution)}};
 }
 

@@ -97,6 +97,9 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
   const DigestConfig& config = model.config.digests;
   if (!config.enabled || model.dates.empty()) return std::nullopt;
   const ReportSeries& series = model.practices[index];
+  // No figures on the census date: nothing to say. Short history: no change is computed.
+  if (!HasFigures(series.data.back())) return std::nullopt;
+  const bool comparable = Comparable(series.data.back());
   Digest digest;
   digest.practice = series.code;
   digest.practice_name = series.name;
@@ -108,22 +111,30 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
   digest.registered = series.registered.back();
   std::vector<std::optional<long>> before(model.keys.size());
   std::string since;
-  if (model.previous && model.previous->counts.count(series.code) != 0U) {
+  const auto previous_state = model.previous ? model.previous->data.find(series.code)
+                                             : std::map<std::string, DataState>::const_iterator();
+  const bool previous_comparable =
+      model.previous && (previous_state == model.previous->data.end() || Comparable(previous_state->second));
+  if (!comparable) {
+    digest.baseline = "none: the census date is in the short-history window of the practice's data";
+  } else if (previous_comparable && model.previous->counts.count(series.code) != 0U) {
     const std::vector<long>& counts = model.previous->counts.at(series.code);
     for (size_t k = 0; k < before.size() && k < counts.size(); ++k) before[k] = counts[k];
     since = model.previous->on.ToIso();
     digest.baseline = "the report of " + since;
-  } else if (model.dates.size() >= 2) {
+  } else if (model.dates.size() >= 2 && Comparable(series.data[model.dates.size() - 2])) {
     const size_t prior = model.dates.size() - 2;
     for (size_t k = 0; k < before.size(); ++k) before[k] = series.counts[k][prior];
     since = model.dates[prior].ToIso();
     digest.baseline = "the previous month, " + since + " (no earlier report)";
+  } else {
+    digest.baseline = "none: no earlier date with full figures";
   }
   AddMeasures(model, series, before, digest);
   for (const DigestMeasure& measure : digest.measures) {
     if (auto finding = RiseFinding(measure, config.triggers, since)) digest.findings.push_back(*finding);
   }
-  if (config.triggers.above_upper_limit) AddLimitFindings(model, series, digest);
+  if (config.triggers.above_upper_limit && comparable) AddLimitFindings(model, series, digest);
   if (digest.findings.empty()) return std::nullopt;
   digest.from = config.from;
   const auto it = config.practice_to.find(series.code);

@@ -1,6 +1,7 @@
 // The report's funnel plots, and the cohort table behind its trend charts.
 #include <algorithm>
 #include <cmath>
+#include <set>
 #include <sstream>
 
 #include "medload/io/output.h"
@@ -152,16 +153,22 @@ std::string FunnelSvg(const ReportModel& model, size_t key) {
 CohortTable ReportCohortTable(const ReportModel& model, const std::string* only) {
   CohortTally tally = model.tally;
   tally.groups.clear();
+  tally.unseen.clear();
+  std::set<std::string>& network_practices = tally.practices[std::string(kNetworkGroup)];
   std::vector<CohortCell> total;
   for (const ReportSeries& series : model.practices) {
     const auto it = model.tally.groups.find(series.code);
     if (it == model.tally.groups.end()) continue;
     if (only == nullptr || *only == series.code) tally.groups[series.code] = it->second;
+    network_practices.insert(series.code);
     if (total.empty()) {
-      total = it->second;
-      continue;
+      CohortCell empty;
+      empty.counts.assign(model.keys.size(), 0);
+      empty.counts_by_band.assign(model.keys.size(), std::array<long, kEspBands>{});
+      total.assign(it->second.size(), empty);
     }
     for (size_t d = 0; d < total.size() && d < it->second.size(); ++d) {
+      if (!HasFigures(series.data[d])) continue;  // a practice without data adds nothing that day
       CohortCell& into = total[d];
       const CohortCell& from = it->second[d];
       into.registered += from.registered;
@@ -173,7 +180,7 @@ CohortTable ReportCohortTable(const ReportModel& model, const std::string* only)
     }
   }
   if (!total.empty()) tally.groups[std::string(kNetworkGroup)] = std::move(total);
-  return BuildCohortTable(tally, model.config.suppress_below);
+  return BuildCohortTable(tally, model.config.suppress_below, model.history_days);
 }
 
 }  // namespace medload

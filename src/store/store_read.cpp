@@ -392,13 +392,24 @@ Result<std::vector<ProductCount>> Store::ProductCounts() const {
   return counts;
 }
 
-Result<std::optional<Date>> Store::LatestDispensed() const {
+Result<PracticeSpans> Store::PracticeDataSpans() const {
   Result<Statement> stmt = Statement::Prepare(
-      db_, std::string("SELECT MAX(dispensed_on) FROM dispensings WHERE ") + kCounting);
+      db_, "SELECT CASE WHEN d.practice <> '' THEN d.practice ELSE COALESCE(p.practice, '') END AS owner,"
+           " MIN(d.dispensed_on), MAX(d.dispensed_on) FROM dispensings d"
+           " LEFT JOIN patients p ON p.patient_id = d.patient_id"
+           " WHERE d.status IN ('', 'completed') GROUP BY owner");
   if (!stmt.ok()) return stmt.status();
-  Result<bool> row = stmt->Step();
-  if (!row.ok()) return row.status();
-  return ColumnDate(*stmt, 0);
+  PracticeSpans spans;
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    const std::optional<Date> first = ColumnDate(*stmt, 1);
+    const std::optional<Date> latest = ColumnDate(*stmt, 2);
+    if (!first || !latest) return Status::Input(path_ + ": a stored dispensing date is malformed");
+    spans[std::string(stmt->ColumnText(0))] = DataSpan{*first, *latest};
+  }
+  return spans;
 }
 
 Result<StoreSummary> Store::Summary() const {

@@ -127,7 +127,7 @@ TEST_CASE("the pass visits every patient once, in store order, with the same tim
     CHECK(seen.medicines[3] == 4);
     CHECK(seen.unmatched[7] == 1);
     // Dispensing dates run up to September (patient numbers 8, 17, ... ; fourth medicine).
-    CHECK(facts.latest_dispensed == population.store.LatestDispensed().value());
+    CHECK(facts.practice_spans == population.store.PracticeDataSpans().value());
     CHECK(facts.latest_dispensed == Date::FromCivil(2024, 9, 4));
   }
 }

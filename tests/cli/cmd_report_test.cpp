@@ -33,6 +33,9 @@ void BuildNetwork(const TempFolder& folder, const ProcessOptions& run) {
     const std::string id = "\"" + kPatients[i] + "\"";
     const std::string practice = i % 2 == 0 ? "../up" : "+X2";
     patients += id + ",1940," + (i % 2 == 0 ? "F" : "M") + "," + practice + "\n";
+    // An earlier course, so that the practices' data begin months before the census dates
+    // (a date in the first days of the data has no change computed against it).
+    dispensing += id + "," + practice + ",2023-09-01,Ramipril 5mg capsules,28,28\n";
     for (const char* product : {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets",
                                 "<img src=x onerror=alert(1)> 5mg tablets", "-2+3 tablets"}) {
       dispensing += id + "," + practice + ",2024-03-01,\"" + std::string(product) + "\",28,28\n";

@@ -191,15 +191,18 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   REQUIRE(list.ok());
   const auto f = std::find_if(list->patients.begin(), list->patients.end(), [](const auto& e) { return e.patient == "F"; });
   REQUIRE(f != list->patients.end());
+  // 2024-01-10 is within the first days of the practices' data (from 2024-01-01): every
+  // row says so.
   CHECK(f->warnings == std::vector<std::string>{"1 recent product(s) not recognised", "dose unknown: diazepam",
-                                                "age unknown: age-limited rules not checked"});
-  // A has only recognised products with strengths, and a known age: no warnings.
+                                                "age unknown: age-limited rules not checked",
+                                                "practice data short-history"});
+  // A has only recognised products with strengths, and a known age: only the data note.
   REQUIRE(list->patients.front().patient == "A");
-  CHECK(list->patients.front().warnings.empty());
+  CHECK(list->patients.front().warnings == std::vector<std::string>{"practice data short-history"});
   // With the bundled rules F's age leaves no rule unjudged that could have fired.
   auto bundled = p.Build(On(D(2024, 1, 10), {AtLeast("items=2")}));
   for (const auto& e : bundled.patients) {
-    if (e.patient == "F") CHECK(e.warnings.size() == 2);
+    if (e.patient == "F") CHECK(e.warnings.size() == 3);
   }
   // An unmatched product dispensed longer ago than the longest supply is not recent.
   Import(p.store, InputKind::kDispensing,
@@ -207,7 +210,9 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   auto later = p.Build(On(D(2024, 9, 10), {AtLeast("items=1")}));
   REQUIRE(later.patients.size() == 1);
   CHECK(later.patients[0].patient == "F");
-  CHECK(later.patients[0].warnings.empty());
+  // Nothing unrecognised is recent; the census date is after the latest dispensing.
+  CHECK(later.patients[0].warnings == std::vector<std::string>{"practice data beyond-data"});
+  CHECK(later.practice_data.at("PA") == DataState::kBeyondData);
 }
 
 TEST_CASE("a rule for older people applies from 65 in completed years, a birth year alone read as 1 July") {

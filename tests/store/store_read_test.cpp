@@ -1,6 +1,7 @@
 #include <doctest/doctest.h>
 #include <sqlite3.h>
 
+#include <algorithm>
 #include <sstream>
 
 #include "medload/store/importer.h"
@@ -410,7 +411,12 @@ TEST_CASE("the summary gives the date span of counting dispensings and every tab
   REQUIRE(summary.ok());
   CHECK(summary->earliest_dispensed->ToIso() == "2024-01-01");
   CHECK(summary->latest_dispensed->ToIso() == "2024-02-01");  // d1 (March) no longer counts
-  CHECK(store.LatestDispensed().value() == summary->latest_dispensed);
+  // Data coverage per practice: the same span, under the practice the records name.
+  const PracticeSpans spans = store.PracticeDataSpans().value();
+  REQUIRE_FALSE(spans.empty());
+  Date latest = spans.begin()->second.latest;
+  for (const auto& [practice, span] : spans) latest = std::max(latest, span.latest);
+  CHECK(latest == summary->latest_dispensed);
   CHECK(summary->dispensings == 5);
   CHECK(summary->counting_dispensings == 4);
   CHECK(summary->patients == 3);
@@ -430,7 +436,7 @@ TEST_CASE("an empty store has no date span") {
   REQUIRE(summary.ok());
   CHECK_FALSE(summary->earliest_dispensed.has_value());
   CHECK(summary->dispensings == 0);
-  CHECK_FALSE(store->LatestDispensed().value().has_value());
+  CHECK(store->PracticeDataSpans().value().empty());
   int visits = 0;
   REQUIRE(store->ForEachPatient([&](const PatientHistory&) { return ++visits > 0; }).ok());
   CHECK(visits == 0);

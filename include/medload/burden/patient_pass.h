@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "medload/burden/analysis.h"
+#include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
 #include "medload/store/store.h"
 
@@ -40,9 +41,21 @@ class PassPatient {
 // What the pass saw besides what it showed the visitor.
 struct PassFacts {
   // The latest counting dispensing among the patients read (every patient, unless the
-  // visitor stopped the pass early): Store::LatestDispensed without a walk of the table.
+  // visitor stopped the pass early), without a walk of the table.
   std::optional<Date> latest_dispensed;
+  // Each practice's first and latest counting dispensing among them (data coverage). A
+  // dispensing belongs to the practice it names, else to the patient's registry practice,
+  // else to "" (PracticeOfDispensing).
+  PracticeSpans practice_spans;
 };
+
+// The practice whose data a dispensing is part of: the one it names, else the patient's
+// registry practice, else "".
+const std::string& PracticeOfDispensing(const DispensingRecord& record,
+                                        const std::optional<PatientRecord>& registry);
+
+// Adds every dispensing of `history` to `spans` (PracticeOfDispensing).
+void AddHistoryToSpans(const PatientHistory& history, PracticeSpans& spans);
 
 // Returns false to stop the pass early.
 using PassVisit = std::function<bool(PassPatient&)>;

@@ -12,6 +12,7 @@
 #include <nlohmann/json.hpp>
 
 #include "medload/burden/burden.h"
+#include "medload/core/data_coverage.h"
 
 namespace medload {
 
@@ -25,9 +26,10 @@ struct MedsModel {
   const BurdenTables* tables = nullptr;
   std::span<const DispensingRecord> records;  // the records the timeline was built from
   MeasureOptions options;
-  // Set when the census date is after the latest dispensing loaded (CensusBeyondDataNote):
-  // the first warning, and a `# note:` line after the caution in CSV.
-  std::optional<std::string> census_note;
+  // The data coverage of the patient's practice on the date, and its note when it is not
+  // full (DataStateNote): the first warning, and a `# note:` line after the caution in CSV.
+  DataState data = DataState::kFull;
+  std::optional<std::string> data_note;
 };
 
 // Warnings a clinician must see with this patient's figures (unmatched products, doses

@@ -1,12 +1,15 @@
 // `medload timeline`: a patient's medication episodes as an SVG chart (one row per
-// medicine, episodes as bars, dispensings as ticks, the census date, the concurrent count
-// over time), an HTML page around it, or a text table. Writers run no queries.
+// medicine, supplied days as solid bars and tail days as pale ones, dispensings as ticks,
+// the census date, the concurrent count over time), an HTML page around it, or a text
+// table. Writers run no queries.
 #pragma once
 
 #include <iosfwd>
 #include <optional>
 #include <span>
 #include <string>
+#include <utility>
+#include <vector>
 
 #include "medload/burden/timeline.h"
 
@@ -20,6 +23,10 @@ struct TimelineModel {
   const Timeline* timeline = nullptr;  // REQUIRES: non-null
   std::span<const DispensingRecord> records;  // the records the timeline was built from
 };
+
+// The days an episode's supplies cover (merged where they meet), by start; the episode's
+// other days are tail days (a supply ran out and the next had not begun).
+std::vector<std::pair<Date, Date>> SuppliedSpans(const Episode& episode);
 
 // Number of medicines with an episode containing each day from `from` to `to`.
 std::vector<int> ConcurrentCounts(const Timeline& timeline, Date from, Date to);

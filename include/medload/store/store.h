@@ -12,6 +12,7 @@
 #include <utility>
 #include <vector>
 
+#include "medload/core/data_coverage.h"
 #include "medload/core/records.h"
 #include "medload/core/status.h"
 
@@ -181,9 +182,10 @@ class Store {
   Result<std::vector<ProductCount>> ProductCounts() const;
   // Date span and row counts, for run provenance.
   Result<StoreSummary> Summary() const;
-  // The date of the latest counting dispensing (Summary().latest_dispensed alone, without
-  // counting every table), or nullopt when there is none.
-  Result<std::optional<Date>> LatestDispensed() const;
+  // Each practice's first and latest counting dispensing (data coverage): a dispensing
+  // belongs to the practice it names, else to its patient's registry practice, else to ""
+  // (as the patient pass gathers them, PassFacts::practice_spans). One walk of the table.
+  Result<PracticeSpans> PracticeDataSpans() const;
   // Every import run, oldest first.
   Result<std::vector<ImportRunRecord>> ImportRuns() const;
 
