@@ -268,6 +268,39 @@ TEST_CASE("tablets carry an ingredient's score when a cream holding it was dispe
   CHECK(burden.score_contributions[0].ingredient == "hydrocortisone");
 }
 
+TEST_CASE("a cream adds nothing to the DBI while tablets of its ingredient dispensed before it still count") {
+  // Hilmer et al. 2007 (DBI = D / (D + delta)); product specification section 5 (the DBI
+  // counts systemic routes only). delta 10 mg is a test value.
+  Fixture f;
+  f.products["doxepin capsules"] = Product({"doxepin"});
+  f.products["doxepin cream"] = Product({"doxepin"}, Route::kSkin);
+  f.tables.dbi["doxepin"] = {10.0, "both"};
+  std::vector<DispensingRecord> records(2);
+  records[0].product = "doxepin capsules";
+  records[0].dispensed_on = D(2024, 1, 1);
+  records[1].product = "doxepin cream";
+  records[1].dispensed_on = D(2024, 1, 5);
+  for (DispensingRecord& record : records) {
+    record.quantity = 28;
+    record.days_supply = 28;
+  }
+  const auto resolve = [&f](const DispensingRecord& r) -> const ResolvedProduct& { return f.products.at(r.product); };
+  const Timeline both = BuildTimeline(records, resolve, f.options);
+  const Burden with_tablets = EvaluateBurden(both, D(2024, 1, 10), f.tables, f.options, 80);
+  REQUIRE(with_tablets.dbi_contributions.size() == 1);
+  // 10 mg x 28 / 28 days = 10 mg/day from the capsules alone: 10 / (10 + 10).
+  CHECK(with_tablets.dbi == doctest::Approx(0.5));
+  CHECK(with_tablets.dbi_incomplete.empty());
+  const Timeline cream_only = BuildTimeline(std::vector<DispensingRecord>{records[1]}, resolve, f.options);
+  const Burden cream = EvaluateBurden(cream_only, D(2024, 1, 10), f.tables, f.options, 80);
+  CHECK(cream.dbi == 0);
+  CHECK(cream.dbi_contributions.empty());
+  CHECK(cream.dbi_incomplete.empty());
+  const std::vector<RouteNote> notes = RouteNotes(cream_only, cream, f.tables, 80);
+  REQUIRE(notes.size() == 1);
+  CHECK(notes[0].text == "skin: not a systemic route for the Drug Burden Index");
+}
+
 TEST_CASE("a rule that only a route kept from firing is reported with the medicine's note") {
   Fixture f;
   f.tables.rules = {MakeRule("aki-triple", {Needs({"ace-inhibitor"}), Needs({"loop-diuretic"}), Needs({"nsaid"})})};
