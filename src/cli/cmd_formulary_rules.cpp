@@ -4,7 +4,7 @@
 
 #include "cli/options.h"
 #include "medload/formulary/rules_listing.h"
-#include "medload/io/json_text.h"
+#include "medload/format/json_text.h"
 
 namespace medload::cli {
 
@@ -14,13 +14,11 @@ int RunFormularyRules(Context& context, const std::vector<std::string>& args) {
   if (!ParseOptions(context, "medload formulary rules [--formulary DIR]", options, {}, args, exit_code)) {
     return exit_code;
   }
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
-  if (context.format == Format::kSvg) return fail(Status::Usage("formulary rules writes text, csv, json or html"));
+  if (context.format == Format::kSvg) {
+    return Fail(context, Status::Usage("formulary rules writes text, csv, json or html"));
+  }
   auto formulary = LoadFormulary(context.formulary_dir);
-  if (!formulary.ok()) return fail(formulary.status());
+  if (!formulary.ok()) return Fail(context, formulary.status());
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(RulesListingJson(*formulary)) << "\n"; break;
     case Format::kCsv: WriteRulesListingCsv(*context.out, *formulary); break;

@@ -3,16 +3,11 @@
 #include <ostream>
 
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const std::string& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 std::string Requirements(const std::vector<RuleRequirement>& requirements, std::string_view prefix) {
   std::vector<std::string> parts;

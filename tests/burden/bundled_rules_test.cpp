@@ -5,7 +5,6 @@
 #include <algorithm>
 #include <map>
 
-#include "medload/burden/analysis.h"
 #include "medload/burden/burden.h"
 #include "medload/formulary/resolver.h"
 
@@ -66,7 +65,7 @@ struct Combination {
 
 }  // namespace
 
-TEST_SUITE("bundled_rules") {
+TEST_SUITE("burden/bundled_rules") {
 
 TEST_CASE("each classic combination fires its bundled rule at 70") {
   // Sources beside each case; all recalled from memory and marked in rules.json as not

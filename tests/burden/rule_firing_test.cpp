@@ -115,7 +115,7 @@ using Ids = std::vector<std::string>;
 
 }  // namespace
 
-TEST_SUITE("rule_firing") {
+TEST_SUITE("burden/rule_firing") {
 
 TEST_CASE("an NSAID gel on the skin fires neither the kidney-injury rule nor the NSAID bleeding rules") {
   // Source: Lapi et al. BMJ 2013;346:e8525 (ACE inhibitor or ARB, diuretic and NSAID);

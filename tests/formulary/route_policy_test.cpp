@@ -7,7 +7,7 @@
 
 namespace medload {
 
-TEST_SUITE("formulary.route_policy") {
+TEST_SUITE("formulary/route_policy") {
 
 TEST_CASE("the default systemic routes are the specification's five") {
   // Source: product specification section 5 ("Routes").

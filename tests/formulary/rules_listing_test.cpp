@@ -35,7 +35,7 @@ Formulary ListedFormulary(const testing::TempFolder& folder) {
 
 }  // namespace
 
-TEST_SUITE("formulary.rules_listing") {
+TEST_SUITE("formulary/rules_listing") {
 
 TEST_CASE("requirements read as words") {
   RuleRequirement requirement;

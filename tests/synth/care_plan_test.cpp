@@ -55,7 +55,7 @@ const std::set<std::string_view> kAntiplatelets = {"aspirin", "clopidogrel"};
 
 }  // namespace
 
-TEST_SUITE("synth_care_plan") {
+TEST_SUITE("synth/care_plan") {
 
 TEST_CASE("combinations the rules look for are planned for a few older patients, none for many") {
   // Plausible shares for patients aged 75, rounded and from memory: dual RAS blockade is
