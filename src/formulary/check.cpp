@@ -179,27 +179,34 @@ void CheckNonMedicines(const Formulary& formulary, std::vector<std::string>& fau
   }
 }
 
+// One requirement's classes, ingredients and scale; `pointer` is its JSON pointer.
+void CheckRequirement(const Formulary& formulary, const RuleRequirement& requirement, const std::string& pointer,
+                      std::vector<std::string>& faults) {
+  for (size_t i = 0; i < requirement.classes.size(); ++i) {
+    if (!formulary.IsKnownClass(requirement.classes[i])) {
+      faults.push_back(pointer + "/classes/" + std::to_string(i) + ": unknown class \"" + requirement.classes[i] +
+                       "\" (no ingredient carries it)");
+    }
+  }
+  for (size_t i = 0; i < requirement.ingredients.size(); ++i) {
+    if (formulary.FindIngredient(requirement.ingredients[i]) == nullptr) {
+      faults.push_back(pointer + "/ingredients/" + std::to_string(i) + ": " +
+                       UnknownIngredient(requirement.ingredients[i]));
+    }
+  }
+  if (requirement.scale_score_at_least && !formulary.HasScale(requirement.scale)) {
+    faults.push_back(pointer + "/scale: unknown scale \"" + requirement.scale + "\"");
+  }
+}
+
 void CheckRules(const Formulary& formulary, std::vector<std::string>& faults) {
   for (const Rule& rule : formulary.rules()) {
     const std::string rule_pointer = "rules.json: /rules/" + std::to_string(rule.position);
     for (size_t r = 0; r < rule.require.size(); ++r) {
-      const RuleRequirement& requirement = rule.require[r];
-      const std::string pointer = rule_pointer + "/require/" + std::to_string(r);
-      for (size_t i = 0; i < requirement.classes.size(); ++i) {
-        if (!formulary.IsKnownClass(requirement.classes[i])) {
-          faults.push_back(pointer + "/classes/" + std::to_string(i) + ": unknown class \"" +
-                           requirement.classes[i] + "\" (no ingredient carries it)");
-        }
-      }
-      for (size_t i = 0; i < requirement.ingredients.size(); ++i) {
-        if (formulary.FindIngredient(requirement.ingredients[i]) == nullptr) {
-          faults.push_back(pointer + "/ingredients/" + std::to_string(i) + ": " +
-                           UnknownIngredient(requirement.ingredients[i]));
-        }
-      }
-      if (requirement.scale_score_at_least && !formulary.HasScale(requirement.scale)) {
-        faults.push_back(pointer + "/scale: unknown scale \"" + requirement.scale + "\"");
-      }
+      CheckRequirement(formulary, rule.require[r], rule_pointer + "/require/" + std::to_string(r), faults);
+    }
+    for (size_t r = 0; r < rule.forbid.size(); ++r) {
+      CheckRequirement(formulary, rule.forbid[r], rule_pointer + "/forbid/" + std::to_string(r), faults);
     }
   }
 }
@@ -238,6 +245,7 @@ FormularyCheck CheckFormulary(const std::string& dir) {
   check.codes = tables.codes.size();
   check.non_medicine_terms = tables.non_medicines.size();
   check.rules = tables.rules.size();
+  check.routes = tables.routes.size();
   return check;
 }
 

@@ -192,6 +192,9 @@ Formulary Formulary::FromTables(FormularyTables tables) {
     for (RuleRequirement& requirement : tables.rules[i].require) {
       for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
     }
+    for (RuleRequirement& requirement : tables.rules[i].forbid) {
+      for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
+    }
     lookups->rules.emplace(tables.rules[i].id, i);
   }
   Formulary formulary(Private{});
@@ -301,6 +304,16 @@ std::string CodeSystemKey(std::string_view system) {
   if (key == "httpsdmdnhsuk" || key == "httpdmdnhsuk") return "dmd";
   if (key == "httpwwwnlmnihgovresearchumlsrxnorm") return "rxnorm";
   return key;
+}
+
+std::vector<Route> Formulary::SystemicRoutes() const {
+  std::vector<Route> routes = DefaultSystemicRoutes();
+  for (const RouteRow& row : tables_->routes) {
+    std::erase(routes, row.route);
+    if (row.systemic) routes.push_back(row.route);
+  }
+  SortRoutes(routes);
+  return routes;
 }
 
 }  // namespace medload

@@ -32,6 +32,7 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"codes", std::to_string(check.codes)},
           {"non-medicine terms", std::to_string(check.non_medicine_terms)},
           {"rules", std::to_string(check.rules)},
+          {"routes", std::to_string(check.routes)},
           {"checksum", check.checksum}};
 }
 

@@ -8,6 +8,7 @@
 
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/route_notes.h"
 #include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"
@@ -91,6 +92,11 @@ std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& b
   if (approximate > 0) warnings.push_back(std::to_string(approximate) + " recent product(s) read from a close spelling");
   if (!burden.dbi_incomplete.empty()) warnings.push_back("dose unknown: " + Join(burden.dbi_incomplete, ", "));
   if (burden.age_unknown_for_rules) warnings.push_back("age unknown: age-limited rules not checked");
+  std::vector<std::string> not_stated;
+  for (const ActiveMedicine& active : burden.active) {
+    if (RouteNotStated(active)) not_stated.push_back(Join(timeline.medicines[active.medicine].ingredients, "+"));
+  }
+  if (!not_stated.empty()) warnings.push_back("route not stated, counted as systemic: " + Join(not_stated, ", "));
   return warnings;
 }
 

@@ -192,6 +192,62 @@ TEST_CASE("a rule naming an unknown class, ingredient or scale is a fault with i
               "rules.json: /rules/0/require/0/scale: unknown scale \"xyz\"");
 }
 
+TEST_CASE("a forbidden class or ingredient nobody carries is a fault with its JSON pointer") {
+  ExpectFault("rules.json",
+              R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s",
+                  "require": [{"classes": ["nsaid"]}], "forbid": [{"classes": ["ppis"]}]}]})",
+              "rules.json: /rules/0/forbid/0/classes/0: unknown class \"ppis\" (no ingredient carries it)");
+  ExpectFault("rules.json",
+              R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s",
+                  "require": [{"classes": ["nsaid"]}], "forbid": [{"ingredients": ["omeprazol"]}]}]})",
+              "rules.json: /rules/0/forbid/0/ingredients/0: unknown ingredient \"omeprazol\" (not in ingredients.csv)");
+}
+
+TEST_CASE("routes.csv names each route once, as a route, systemic yes or no") {
+  struct Case {
+    const char* content;
+    const char* fault;
+  };
+  const std::vector<Case> cases = {
+      {"route,systemic,source\nby mouth,yes,test\n", "routes.csv:2: route: \"by mouth\" is not a route name"},
+      {"route,systemic,source\nnot stated,yes,test\n", "routes.csv:2: route: \"not stated\" is not a route name"},
+      {"route,systemic,source\nnasal,maybe,test\n", "routes.csv:2: systemic: \"maybe\" is not yes or no"},
+      {"route,systemic,source\neye,no,test\nophthalmic,yes,test\n",
+       "routes.csv:3: duplicate route \"eye\" (first on line 2)"},
+      {"route,systemic,source\nnasal,yes,\n", "routes.csv:2: source: empty (every row cites its source)"},
+      {"route,source\nnasal,test\n", "routes.csv:1: missing column \"systemic\""},
+  };
+  for (const Case& c : cases) ExpectFault("routes.csv", c.content, c.fault);
+}
+
+TEST_CASE("a scale or DBI row naming a route that does not exist is a fault") {
+  ExpectFault("anticholinergic/acb.csv", "ingredient,score,source,routes\nchlorpheniramine,3,test,oral|by mouth\n",
+              "anticholinergic/acb.csv:2: routes: \"by mouth\" is not a route name");
+  ExpectFault("dbi.csv", "ingredient,min_daily_dose_mg,effect,source,routes\nchlorphenamine,4,both,test,eyes\n",
+              "dbi.csv:2: routes: \"eyes\" is not a route name");
+}
+
+TEST_CASE("routes.csv changes the systemic routes and entries keep their own routes") {
+  TempFolder folder;
+  WriteMinimalFormulary(folder);
+  // Source: product specification section 5: oral, transdermal, injection, rectal and
+  // sublingual/buccal are systemic by default.
+  auto plain = LoadFormulary(folder.path());
+  REQUIRE(plain.ok());
+  CHECK(plain->SystemicRoutes() == DefaultSystemicRoutes());
+  folder.Write("routes.csv", "route,systemic,source\nrectal,no,test\nnasal,yes,test\n");
+  folder.Write("anticholinergic/acb.csv", "ingredient,score,source,routes\nchlorpheniramine,3,test,oral|eye\n");
+  const FormularyCheck check = CheckFormulary(folder.path());
+  CHECK(check.ok());
+  CHECK(check.routes == 2);
+  auto loaded = LoadFormulary(folder.path());
+  REQUIRE(loaded.ok());
+  CHECK(loaded->SystemicRoutes() == std::vector<Route>{Route::kOral, Route::kTransdermal, Route::kInjection,
+                                                       Route::kSublingualBuccal, Route::kNasal});
+  REQUIRE(loaded->tables().scales.size() == 1);
+  CHECK(loaded->tables().scales[0].rows[0].routes == std::vector<Route>{Route::kOral, Route::kEye});
+}
+
 TEST_CASE("bad JSON in rules.json is a fault with its line") {
   ExpectFault("rules.json", "{\"rules\": [\n  {\"id\": \"r\",,}\n]}", "rules.json:2: not valid JSON (byte 26)");
 }

@@ -14,6 +14,7 @@
 
 #include "medload/core/status.h"
 #include "medload/formulary/product.h"
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload {
@@ -34,6 +35,9 @@ struct ScaleRow {
   int score = 0;           // 0..3
   std::string source;
   int line = 0;
+  // The routes on which the score counts (the optional `routes` column); empty: the
+  // formulary's systemic routes (Formulary::SystemicRoutes).
+  std::vector<Route> routes = {};
 };
 
 struct Scale {
@@ -51,6 +55,9 @@ struct DbiDose {
   DbiEffect effect = DbiEffect::kBoth;
   std::string source;
   int line = 0;
+  // The routes on which the ingredient counts (the optional `routes` column); empty: the
+  // formulary's systemic routes.
+  std::vector<Route> routes = {};
 };
 
 // One row of dbi_classes.csv: a class whose members have the sedative or anticholinergic
@@ -113,6 +120,14 @@ struct NonMedicineTerm {
   int line = 0;
 };
 
+// One row of routes.csv: whether a route counts as systemic for the measures by default.
+struct RouteRow {
+  Route route = Route::kOther;
+  bool systemic = false;
+  std::string source;
+  int line = 0;
+};
+
 // Everything read from the folder, before cross-checking. Plain data so that tests can
 // build a formulary in memory.
 struct FormularyTables {
@@ -126,6 +141,7 @@ struct FormularyTables {
   std::vector<NamedProduct> brands;        // brands.csv (table "brands.csv")
   std::vector<DictionaryEntry> dictionary; // dictionary.csv
   std::vector<Rule> rules;
+  std::vector<RouteRow> routes;            // routes.csv; routes it does not list keep the default
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
 
@@ -177,6 +193,9 @@ class Formulary {
   const ProductCode* FindCode(std::string_view code_system, std::string_view code) const;
   // The rule with this id, or nullptr.
   const Rule* FindRule(std::string_view id) const;
+  // The routes that count as systemic by default: DefaultSystemicRoutes() changed by the
+  // rows of routes.csv, in the specification's order.
+  std::vector<Route> SystemicRoutes() const;
 
   const FormularyTables& tables() const { return *tables_; }
   const std::vector<Ingredient>& ingredients() const { return tables_->ingredients; }
@@ -201,7 +220,7 @@ struct FormularyCheck {
   std::vector<std::string> faults;  // each "file:line: fault", in file order
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
          products = 0, brands = 0, dictionary_rows = 0, codes = 0, non_medicine_terms = 0,
-         rules = 0;
+         rules = 0, routes = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };
