@@ -373,6 +373,7 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
       burden.rules.push_back(std::move(*fired));
     }
   }
+  AddLongitudinalMeasures(timeline, tables, options, burden);
   return burden;
 }
 

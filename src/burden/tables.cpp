@@ -2,6 +2,7 @@
 
 #include <algorithm>
 
+#include "medload/burden/longitudinal.h"
 #include "medload/formulary/formulary.h"
 
 namespace medload {
@@ -45,6 +46,7 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
     tables.dbi[row.ingredient] = DbiEntry{row.min_daily_dose_mg, std::string(DbiEffectName(row.effect))};
   }
   tables.rules = formulary.rules();
+  AddLongitudinalTables(formulary, tables);
   return tables;
 }
 

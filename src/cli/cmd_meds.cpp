@@ -3,6 +3,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
+#include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
 #include "medload/io/json_text.h"
 #include "medload/io/meds_writer.h"
@@ -74,6 +75,10 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.records = *records;
   model.options = *measure;
   model.data_note = data_note;
+  // The same timeline 12 months before: each figure then uses only what was dispensed by then.
+  const Date before_on = MonthsBefore(*on, kTrajectoryMonths);
+  const Burden before = analysis->Evaluate(timeline, before_on, AgeOn(*registry, before_on));
+  model.trajectory = CompareBurdens(timeline, burden, before, DataStateOn(span, before_on, history_days));
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

@@ -46,7 +46,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   AddCriteriaFlags(options);
   AddMeasureFlags(options);
   int exit_code = 0;
-  auto vm = ParseOptions(context, "medload review --on DATE [--at-least items=N] [--rule ID] [options]", options,
+  auto vm = ParseOptions(context, "medload review --on DATE [--at-least items=N] [--below pdc=X] [--rule ID] [options]", options,
                          {}, args, exit_code);
   if (!vm) return exit_code;
   auto fail = [&](const Status& status) {
@@ -57,6 +57,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!worklist_options.ok()) return fail(worklist_options.status());
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
+  AddPdcGroups(worklist_options->criteria, *measure);
   std::optional<Pseudonymiser> pseudonymiser;
   if (vm->count("pseudonymise") != 0U) {
     auto loaded = Pseudonymiser::FromKeyFile((*vm)["pseudonymise"].as<std::string>());

@@ -4,6 +4,7 @@
 #include <cctype>
 #include <ostream>
 
+#include "medload/burden/longitudinal_writer.h"
 #include "medload/core/caution.h"
 #include "medload/io/output.h"
 
@@ -123,6 +124,7 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
     warnings.push_back("The patient's age is not known, so rules with an age limit were not checked.");
   }
   if (!model.registered) warnings.push_back("The patient has no row in the registry.");
+  for (std::string& warning : LongitudinalWarnings(model.burden->longitudinal)) warnings.push_back(std::move(warning));
   return warnings;
 }
 
@@ -179,7 +181,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
   nlohmann::json unmatched = nlohmann::json::array();
   for (const UnmatchedProduct* product : RecentUnmatched(model)) unmatched.push_back(product->product);
   nlohmann::json age = model.age ? nlohmann::json(*model.age) : nlohmann::json(nullptr);
-  return {{"patient", model.patient}, {"practice", model.practice}, {"on", burden.on.ToIso()},
+  nlohmann::json document = {{"patient", model.patient}, {"practice", model.practice}, {"on", burden.on.ToIso()},
           {"age", age}, {"items", burden.items}, {"acb", burden.acb}, {"scale", model.tables->scale},
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
@@ -187,6 +189,10 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
+  // Longitudinal measures ("falls", "tsdd", "adherence", ...) and the trajectory.
+  document.update(LongitudinalJson(*model.timeline, burden));
+  document["before"] = model.trajectory ? TrajectoryJson(*model.trajectory) : nlohmann::json(nullptr);
+  return document;
 }
 
 namespace {
@@ -237,6 +243,24 @@ std::string Totals(const MedsModel& model) {
          "; DBI " + FormatNumber(b.dbi, 2);
 }
 
+// The falls-risk categories of an active medicine's ingredients, and its PDC (or its
+// dispensings in the PDC period); empty when it has none.
+std::string FallsRiskOf(const MedsModel& model, const ActiveMedicine& active) {
+  std::vector<std::string> parts;
+  for (const FallsRiskIngredient& entry : model.burden->longitudinal.falls_ingredients) {
+    if (entry.medicine == active.medicine) parts.push_back(entry.ingredient + ":" + Join(entry.categories, "+"));
+  }
+  return Join(parts, "|");
+}
+
+std::string PdcOf(const MedsModel& model, const ActiveMedicine& active, bool dispensings) {
+  for (const MedicineAdherence& a : model.burden->longitudinal.adherence) {
+    if (a.medicine != active.medicine) continue;
+    return dispensings ? std::to_string(a.figure.dispensings) : FormatNumber(a.figure.pdc, 4);
+  }
+  return "";
+}
+
 }  // namespace
 
 void WriteMedsText(std::ostream& out, const MedsModel& model) {
@@ -261,6 +285,9 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
         << Join(RuleMedicines(model, fired), ", ") << "\n  " << fired.rule->explanation
         << "\n  source: " << fired.rule->source << "\n";
   }
+  out << "\n";
+  for (const std::string& line : LongitudinalLines(*model.timeline, b)) out << line << "\n";
+  if (model.trajectory) out << "Change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
   const auto warnings = MedsWarnings(model);
   if (!warnings.empty()) out << "\nWarnings:\n";
   for (const auto& w : warnings) out << "- " << w << "\n";
@@ -270,8 +297,13 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
   if (model.data_note) out << "# note: " << *model.data_note << "\n";
+  for (const std::string& line : LongitudinalLines(*model.timeline, *model.burden)) {
+    out << "# " << line << "\n";
+  }
+  if (model.trajectory) out << "# change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
-                 "product", "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes"});
+                 "product", "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes",
+                 "falls_risk", "pdc", "pdc_dispensings"});
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
     out << CsvRow({model.patient, model.burden->on.ToIso(), DisplayName(*row.medicine),
@@ -279,7 +311,8 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
                    row.active->in_tail ? "yes" : "no", use.dispensed_on.ToIso(), ProductText(model, use), std::to_string(use.supply.days),
                    std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(use.dosage),
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
-                   Join(ClassesOf(model, *row.medicine), "|")});
+                   Join(ClassesOf(model, *row.medicine), "|"), FallsRiskOf(model, *row.active),
+                   PdcOf(model, *row.active, false), PdcOf(model, *row.active, true)});
   }
 }
 
@@ -303,6 +336,12 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
         << EscapeHtml(fired.rule->source) << "</span></li>\n";
   }
   if (!b.rules.empty()) out << "</ul>\n";
+  out << "<h2>Over time</h2>\n<ul>\n";
+  for (const std::string& line : LongitudinalLines(*model.timeline, b)) {
+    out << "<li>" << EscapeHtml(line) << "</li>\n";
+  }
+  if (model.trajectory) out << "<li>" << EscapeHtml(TrajectoryText(*model.trajectory, ScaleLabel(model))) << "</li>\n";
+  out << "</ul>\n";
   const auto warnings = MedsWarnings(model);
   if (!warnings.empty()) out << "<h2>Warnings</h2>\n<ul>\n";
   for (const auto& w : warnings) out << "<li>" << EscapeHtml(w) << "</li>\n";

@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "medload/burden/longitudinal.h"
 #include "medload/burden/measure_options.h"
 #include "medload/burden/tables.h"
 #include "medload/burden/timeline.h"
@@ -79,6 +80,7 @@ struct Burden {
   std::vector<std::string> dbi_incomplete;  // DBI ingredients with no known dose
   std::vector<FiredRule> rules;             // in table order
   bool age_unknown_for_rules = false;       // a rule with an age limit could not be judged
+  LongitudinalMeasures longitudinal;        // falls, tsdd, adherence (longitudinal.h)
 };
 
 std::string_view DoseBasisName(DoseBasis basis);

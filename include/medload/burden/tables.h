@@ -26,6 +26,11 @@ struct BurdenTables {
   std::map<std::string, std::unordered_map<std::string, int>> scales;
   std::unordered_map<std::string, DbiEntry> dbi;
   std::vector<Rule> rules;
+  // Longitudinal measures (docs/measures.md): canonical ingredient -> minimum effective
+  // daily dose in mg (anticholinergic/tsdd.csv), and -> falls-risk categories, sorted
+  // (falls_risk.csv, classes expanded to their ingredients).
+  std::unordered_map<std::string, double> tsdd_doses;
+  std::unordered_map<std::string, std::vector<std::string>> falls_categories;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;

@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "medload/core/status.h"
+#include "medload/formulary/longitudinal_tables.h"
 #include "medload/formulary/product.h"
 #include "medload/formulary/rules.h"
 
@@ -94,6 +95,8 @@ struct FormularyTables {
   std::vector<ProductCode> codes;
   std::vector<NonMedicineTerm> non_medicines;
   std::vector<Rule> rules;
+  std::vector<TsddDose> tsdd;              // anticholinergic/tsdd.csv (optional file)
+  std::vector<FallsRiskRow> falls_risk;    // falls_risk.csv (optional file)
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
 
@@ -162,6 +165,7 @@ struct FormularyCheck {
   std::vector<std::string> faults;  // each "file:line: fault", in file order
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
          products = 0, codes = 0, non_medicine_terms = 0, rules = 0;
+  size_t tsdd_rows = 0, falls_risk_rows = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };

@@ -12,6 +12,7 @@
 #include <nlohmann/json.hpp>
 
 #include "medload/burden/burden.h"
+#include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
 
 namespace medload {
@@ -30,6 +31,8 @@ struct MedsModel {
   // full (DataStateNote): the first warning, and a `# note:` line after the caution in CSV.
   DataState data = DataState::kFull;
   std::optional<std::string> data_note;
+  // The same figures 12 months before, and the medicines started and stopped since.
+  std::optional<Trajectory> trajectory;
 };
 
 // Warnings a clinician must see with this patient's figures (unmatched products, doses
