@@ -3,7 +3,7 @@
 #include <charconv>
 
 #include "burden/longitudinal_criteria.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 

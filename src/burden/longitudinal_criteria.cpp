@@ -3,16 +3,11 @@
 #include <algorithm>
 #include <charconv>
 
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {
-
-std::string JoinClasses(const std::vector<std::string>& classes) {
-  std::string joined;
-  for (const std::string& name : classes) joined += (joined.empty() ? "" : "|") + name;
-  return joined;
-}
 
 bool IsClassName(std::string_view name) {
   if (name.empty() || name.front() == '-' || name.back() == '-') return false;
@@ -83,7 +78,7 @@ std::string LongitudinalKey(const Criterion& criterion) {
     case CriterionKind::kTsdd: return "tsdd>=" + FormatNumber(criterion.threshold, 3);
     case CriterionKind::kPdcBelow:
       return "pdc<" + FormatNumber(criterion.threshold, 3) +
-             (criterion.classes.empty() ? "" : ":" + JoinClasses(criterion.classes));
+             (criterion.classes.empty() ? "" : ":" + Join(criterion.classes, "|"));
     default: return "";
   }
 }
@@ -110,7 +105,7 @@ std::optional<Result<Criterion>> ParseLongitudinalCriterion(std::string_view tex
   if (text.substr(0, 4) == "tsdd") return ParseAtLeast(text, "tsdd", CriterionKind::kTsdd);
   if (text.substr(0, 3) != "pdc") return std::nullopt;
   if (text.substr(3, 1) != "<") {
-    return Result<Criterion>(Bad(text, "selects adherence below a threshold: write pdc<X (or --below pdc=X)"));
+    return Result<Criterion>(Bad(text, "selects adherence below a threshold: write pdc<X"));
   }
   return ParsePdc(text, text.substr(4));
 }
@@ -133,7 +128,7 @@ Status CheckPdcClassesExist(const std::vector<Criterion>& criteria, const Burden
 Result<Criterion> ParseBelowCriterion(std::string_view text) {
   if (text.substr(0, 4) == "pdc=") return ParsePdc(text, text.substr(4));
   if (text.substr(0, 4) == "pdc<") return ParsePdc(text, text.substr(4));
-  return Bad(text, "cannot be selected below a threshold; --below takes pdc=X or pdc=X:CLASS|CLASS");
+  return Bad(text, "cannot be selected below a threshold; only pdc can: pdc=X or pdc=X:CLASS|CLASS");
 }
 
 void AddPdcGroups(const std::vector<Criterion>& criteria, MeasureOptions& options) {

@@ -3,16 +3,11 @@
 #include <algorithm>
 #include <cmath>
 
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const std::string& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 std::string Plural(int n, const char* one, const char* many) { return std::to_string(n) + " " + (n == 1 ? one : many); }
 

@@ -3,7 +3,8 @@
 #include <algorithm>
 #include <set>
 
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/output.h"
 
 namespace medload {
 
@@ -34,12 +35,6 @@ std::vector<std::string> Difference(const std::set<std::string>& a, const std::s
   std::vector<std::string> out;
   std::set_difference(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(out));
   return out;
-}
-
-std::string Join(const std::vector<std::string>& parts) {
-  std::string joined;
-  for (const std::string& part : parts) joined += (joined.empty() ? "" : ", ") + part;
-  return joined;
 }
 
 }  // namespace
@@ -77,8 +72,8 @@ std::string TrajectoryText(const Trajectory& trajectory, const std::string& scal
   if (!trajectory.Comparable()) {
     return text + " (" + std::string(DataStateName(trajectory.before_data)) + ": no change is read from it)";
   }
-  text += "; started since: " + (trajectory.started.empty() ? std::string("none") : Join(trajectory.started));
-  text += "; stopped since: " + (trajectory.stopped.empty() ? std::string("none") : Join(trajectory.stopped));
+  text += "; started since: " + (trajectory.started.empty() ? std::string("none") : Join(trajectory.started, ", "));
+  text += "; stopped since: " + (trajectory.stopped.empty() ? std::string("none") : Join(trajectory.stopped, ", "));
   return text;
 }
 

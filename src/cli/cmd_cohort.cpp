@@ -4,12 +4,12 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/cohort/cohort.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
-#include "medload/io/json_text.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -36,6 +36,7 @@ Result<std::vector<Date>> ReadDates(const po::variables_map& vm) {
   const std::string every = vm["every"].as<std::string>();
   const std::optional<SeriesStep> step = ParseSeriesStep(every);
   if (!step) return Status::Usage("--every \"" + every + "\" is not month, quarter or year");
+  if (*to < *from) return Status::Usage("--to " + to->ToIso() + " is before --from " + from->ToIso());
   return SeriesDates(*from, *to, *step);
 }
 
@@ -53,11 +54,11 @@ Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
   auto criteria = ReadCriteriaFlags(vm);
   if (!criteria.ok()) return criteria.status();
   options.criteria = std::move(*criteria);
-  // Without criteria the cohort counts the spec's first example, ten or more medicines.
+  // Without criteria the cohort counts ten or more medicines (docs/cohort.md).
   if (options.criteria.empty()) options.criteria.push_back(*ParseCriterion("items=10"));
   if (vm.count("shard") != 0U) {
     auto shard = ParseShard(vm["shard"].as<std::string>());
-    if (!shard.ok()) return shard.status();
+    if (!shard.ok()) return AsFlagFault(shard.status());
     options.shard = *shard;
   }
   return options;
@@ -86,7 +87,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   AddPdcGroups(options->criteria, *measure);
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return store.status();
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return analysis.status();
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;
@@ -130,10 +131,7 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   auto vm = ParseOptions(context, kUsage, options, {{"file", -1}}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   const long suppress_below = (*vm)["suppress-below"].as<long>();
   if (suppress_below < 0) return fail(Status::Usage("--suppress-below must be 0 or more"));
   const bool merge = (*vm)["merge"].as<bool>();

@@ -2,11 +2,12 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/analysis.h"
+#include "medload/burden/meds_writer.h"
+#include "medload/burden/patient_facts.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
-#include "medload/io/json_text.h"
-#include "medload/io/meds_writer.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -19,10 +20,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto vm = ParseOptions(context, "medload meds PATIENT --on DATE [measure options]", options,
                          {{"patient", 1}}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("patient") == 0U) return fail(Status::Usage("meds needs a PATIENT identifier"));
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
   auto on = ReadDateFlag(*vm, "on");
@@ -32,7 +30,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
 
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
   auto records = store->DispensingsOf(patient);
   if (!records.ok()) return fail(records.status());

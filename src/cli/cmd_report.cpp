@@ -2,9 +2,11 @@
 #include <filesystem>
 #include <ostream>
 
+#include "cli/measure_flags.h"
 #include "cli/options.h"
-#include "medload/burden/analysis.h"
-#include "medload/io/output.h"
+#include "medload/burden/run_context.h"
+#include "medload/core/clock.h"
+#include "medload/format/output.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"
 #include "medload/store/store.h"
@@ -20,7 +22,7 @@ void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportC
   for (const std::string& code : outcome.digests) out << "  digest for " << code << "\n";
 }
 
-// The caution as a text footer (demo cannot include io/output.h beside the importer).
+// The caution as a text footer (demo cannot include format/output.h beside the importer).
 void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
 
 // A progress line on standard error every few thousand patients (none with --quiet).
@@ -37,10 +39,7 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   auto vm = ParseOptions(context, "medload report --config FILE --out DIR", options, {}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("config") == 0U) return fail(Status::Usage("--config FILE is required"));
   if (vm->count("out") == 0U) return fail(Status::Usage("--out DIR is required"));
   const std::string config_path = (*vm)["config"].as<std::string>();
@@ -48,15 +47,16 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   if (!config.ok()) return fail(config.status());
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, config->measure, &*store);
-  if (!analysis.ok()) return fail(analysis.status());
+  auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
+  // The config's settings (an unknown scale) are named as the config's keys, after its file.
+  if (!analysis.ok()) return fail(Status::Usage(config_path + ": " + analysis.status().message()));
   ReportRunOptions run;
   run.out_dir = (*vm)["out"].as<std::string>();
   run.config_dir = std::filesystem::path(config_path).parent_path().string();
   run.generated_at = UtcNow();
   run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
-  if (!outcome.ok()) return fail(outcome.status());
+  if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   for (const std::string& warning : outcome->warnings) Warn(context, warning);
   PrintReportOutcome(*context.out, run.out_dir, *config, *outcome);
   WriteTextCaution(*context.out);

@@ -3,8 +3,8 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/analysis.h"
-#include "medload/io/timeline_writer.h"
+#include "medload/burden/run_context.h"
+#include "medload/burden/timeline_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -35,17 +35,14 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   auto vm = ParseOptions(context, "medload timeline PATIENT [--from D] [--to D] [--on D] [--format svg|html|text|csv]",
                          options, {{"patient", 1}}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("patient") == 0U) return fail(Status::Usage("timeline needs a PATIENT identifier"));
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
   auto records = store->DispensingsOf(patient);
   if (!records.ok()) return fail(records.status());

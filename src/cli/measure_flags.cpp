@@ -121,4 +121,16 @@ Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name) {
   return *date;
 }
 
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store) {
+  Result<RunContext> run = RunContext::Open(context.formulary_dir, options, store);
+  // Open's only usage fault is an unknown scale, which came from --scale here.
+  if (!run.ok() && run.status().code() == StatusCode::kUsage) return AsFlagFault(run.status());
+  return run;
+}
+
+Status ReportFault(const Status& status, const ReportRunOptions& run) {
+  if (run.out_dir.empty() && status.code() == StatusCode::kUsage) return Status::Usage("--out needs a folder");
+  return status;
+}
+
 }  // namespace medload::cli

@@ -4,9 +4,9 @@
 #include <optional>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
+#include "medload/burden/run_context.h"
 
 namespace medload {
 
@@ -89,7 +89,7 @@ CohortTally CohortCounter::Take() {
   return std::move(tally_);
 }
 
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options) {
   auto practices = store.Practices();
   if (!practices.ok()) return practices.status();
@@ -124,6 +124,8 @@ Status CheckSameRun(const CohortTally& first, const CohortTally& other, const st
   return Status::Ok();
 }
 
+}  // namespace
+
 void AddCell(CohortCell& into, const CohortCell& from) {
   into.registered += from.registered;
   for (size_t b = 0; b < kEspBands; ++b) into.registered_by_band[b] += from.registered_by_band[b];
@@ -132,8 +134,6 @@ void AddCell(CohortCell& into, const CohortCell& from) {
     for (size_t b = 0; b < kEspBands; ++b) into.counts_by_band[k][b] += from.counts_by_band[k][b];
   }
 }
-
-}  // namespace
 
 Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
                                  const std::vector<std::string>& names) {

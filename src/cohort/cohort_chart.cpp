@@ -5,7 +5,8 @@
 #include <sstream>
 
 #include "medload/cohort/cohort_writer.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
+#include "medload/format/svg_chart.h"
 
 namespace medload {
 namespace {
@@ -19,16 +20,6 @@ constexpr double kBottom = 56;
 constexpr double kLabelGap = 12;  // the least vertical distance between two end labels
 constexpr const char* kColours[] = {"#1b6ca8", "#c0392b", "#2e8b57", "#8e44ad", "#d35400",
                                     "#2c3e50", "#7f8c8d", "#b7950b"};
-
-// A round number at or above `value` (1, 2 or 5 times a power of ten).
-double NiceCeiling(double value) {
-  if (value <= 0) return 1;
-  const double power = std::pow(10.0, std::floor(std::log10(value)));
-  for (const double step : {1.0, 2.0, 5.0, 10.0}) {
-    if (step * power >= value) return step * power;
-  }
-  return 10 * power;
-}
 
 struct Point {
   double x = 0;
@@ -55,23 +46,15 @@ Series SeriesOf(const CohortTable& table, const std::string& group, size_t key) 
   return series;
 }
 
-std::string Fixed(double value) {
-  std::ostringstream text;
-  text.setf(std::ios::fixed);
-  text.precision(1);
-  text << value;
-  return text.str();
-}
-
 // A point's marker: filled circle (full), hollow circle (short history), hollow square
 // (beyond the data), so that the states read without colour.
 void WriteMarker(std::ostringstream& svg, const Point& p, DataState data, const char* colour) {
   if (data == DataState::kBeyondData) {
-    svg << "<rect x=\"" << Fixed(p.x - 3) << "\" y=\"" << Fixed(p.y - 3) << "\" width=\"6\" height=\"6\" "
+    svg << "<rect x=\"" << SvgNumber(p.x - 3) << "\" y=\"" << SvgNumber(p.y - 3) << "\" width=\"6\" height=\"6\" "
         << "fill=\"#fff\" stroke=\"" << colour << "\" stroke-width=\"1.5\"><title>beyond the data</title></rect>\n";
     return;
   }
-  svg << "<circle cx=\"" << Fixed(p.x) << "\" cy=\"" << Fixed(p.y) << "\" r=\"" << (data == DataState::kFull ? "2.5" : "3")
+  svg << "<circle cx=\"" << SvgNumber(p.x) << "\" cy=\"" << SvgNumber(p.y) << "\" r=\"" << (data == DataState::kFull ? "2.5" : "3")
       << "\" fill=\"" << (data == DataState::kFull ? colour : "#fff") << "\""
       << (data == DataState::kFull ? "" : std::string(" stroke=\"") + colour + "\" stroke-width=\"1.5\"")
       << (data == DataState::kShortHistory ? "><title>short history</title></circle>\n" : "/>\n");
@@ -92,9 +75,9 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
       << EscapeHtml(title) << "</text>\n";
   for (int tick = 0; tick <= 4; ++tick) {
     const double y = kTop + plot_h - plot_h * tick / 4.0;
-    svg << "<line x1=\"" << kLeft << "\" y1=\"" << Fixed(y) << "\" x2=\"" << kLeft + plot_w
-        << "\" y2=\"" << Fixed(y) << "\" stroke=\"#ddd\"/>\n"
-        << "<text x=\"" << kLeft - 6 << "\" y=\"" << Fixed(y + 4)
+    svg << "<line x1=\"" << kLeft << "\" y1=\"" << SvgNumber(y) << "\" x2=\"" << kLeft + plot_w
+        << "\" y2=\"" << SvgNumber(y) << "\" stroke=\"#ddd\"/>\n"
+        << "<text x=\"" << kLeft - 6 << "\" y=\"" << SvgNumber(y + 4)
         << "\" font-size=\"11\" text-anchor=\"end\">" << FormatNumber(top_rate * tick / 4.0, 1)
         << "</text>\n";
   }
@@ -102,16 +85,16 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
   const size_t every = std::max<size_t>(1, (n + 7) / 8);  // at most about 8 date labels
   for (size_t d = 0; d < n; d += every) {
     const double x = XOf(d, n);
-    svg << "<text x=\"" << Fixed(x) << "\" y=\"" << Fixed(kTop + plot_h + 16)
+    svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(kTop + plot_h + 16)
         << "\" font-size=\"11\" text-anchor=\"middle\">" << table.dates[d].ToIso() << "</text>\n";
   }
   svg << "<line x1=\"" << kLeft << "\" y1=\"" << kTop + plot_h << "\" x2=\"" << kLeft + plot_w
       << "\" y2=\"" << kTop + plot_h << "\" stroke=\"#333\"/>\n"
       << "<line x1=\"" << kLeft << "\" y1=\"" << kTop << "\" x2=\"" << kLeft << "\" y2=\""
       << kTop + plot_h << "\" stroke=\"#333\"/>\n"
-      << "<text x=\"" << Fixed(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
+      << "<text x=\"" << SvgNumber(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
       << "\" font-size=\"12\" text-anchor=\"middle\">census date</text>\n"
-      << "<text transform=\"translate(16 " << Fixed(kTop + plot_h / 2)
+      << "<text transform=\"translate(16 " << SvgNumber(kTop + plot_h / 2)
       << ") rotate(-90)\" font-size=\"12\" text-anchor=\"middle\">rate per 1000 registered</text>\n";
 }
 
@@ -156,7 +139,7 @@ std::vector<std::optional<Point>> PointsOf(const std::vector<std::optional<doubl
 std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   double highest = 0;
   for (const CohortRow& row : table.rows) highest = std::max(highest, row.values[key].rate.value_or(0));
-  const double top_rate = NiceCeiling(highest);
+  const double top_rate = NiceAxisTop(highest);
   const std::string title = table.keys[key] + ": rate per 1000 registered, by " +
                             std::string(GroupByName(table.group_by));
   std::ostringstream svg;
@@ -183,8 +166,8 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
       if (d > 0 && points[d - 1]) {
         const bool full = series.data[d] == DataState::kFull && series.data[d - 1] == DataState::kFull;
         std::string& path = full ? solid : dashed;
-        if (previous_full != full) path += " M" + Fixed(points[d - 1]->x) + " " + Fixed(points[d - 1]->y);
-        path += " L" + Fixed(p.x) + " " + Fixed(p.y);
+        if (previous_full != full) path += " M" + SvgNumber(points[d - 1]->x) + " " + SvgNumber(points[d - 1]->y);
+        path += " L" + SvgNumber(p.x) + " " + SvgNumber(p.y);
         previous_full = full;
       }
       last = p;
@@ -202,7 +185,7 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   }
   SpreadLabels(labels);
   for (const Label& label : labels) {
-    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << Fixed(label.y)
+    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << SvgNumber(label.y)
         << "\" font-size=\"11\" fill=\"" << label.colour << "\">" << EscapeHtml(label.group)
         << "</text>\n";
   }

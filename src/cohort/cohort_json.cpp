@@ -5,6 +5,7 @@
 
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {

@@ -1,5 +1,7 @@
 #include "medload/cohort/cohort_table.h"
 
+#include "medload/format/suppression.h"
+
 namespace medload {
 namespace {
 
@@ -111,10 +113,6 @@ std::vector<std::string> CoverageNotes(const PracticeSpans& spans, const std::se
     }
   }
   return notes;
-}
-
-bool IsSuppressed(long count, long suppress_below) {
-  return count > 0 && count < suppress_below;
 }
 
 CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below, int history_days) {

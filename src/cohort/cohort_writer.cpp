@@ -4,7 +4,8 @@
 
 #include <ostream>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {
@@ -65,19 +66,6 @@ std::vector<std::string> Preamble(const CohortTable& table) {
 }
 
 }  // namespace
-
-std::string SuppressionNote(long suppress_below) {
-  if (suppress_below <= 1) {
-    return "No small-number suppression (--suppress-below 0): do not publish counts below "
-           "your local threshold.";
-  }
-  const std::string n = std::to_string(suppress_below);
-  return "Counts from 1 to " + std::to_string(suppress_below - 1) + " (below " + n +
-         ") are withheld with their rates; zero is shown. Secondary disclosure: a withheld "
-         "cell can still be worked out from a visible total, from the other criteria or "
-         "groups, or from an earlier or later date; medload suppresses each cell on its own "
-         "and does not suppress complementary cells, so check tables before publishing.";
-}
 
 void WriteCohortText(std::ostream& out, const CohortTable& table) {
   for (const std::string& line : Preamble(table)) out << line << "\n";

@@ -4,6 +4,8 @@
 #include <charconv>
 #include <string>
 
+#include "medload/core/text.h"
+
 namespace medload {
 namespace {
 
@@ -69,12 +71,6 @@ std::string LowerAscii(std::string_view text) {
     if (c >= 'A' && c <= 'Z') c = static_cast<char>(c - 'A' + 'a');
   }
   return lower;
-}
-
-std::string_view Trim(std::string_view text) {
-  while (!text.empty() && (text.front() == ' ' || text.front() == '\t')) text.remove_prefix(1);
-  while (!text.empty() && (text.back() == ' ' || text.back() == '\t')) text.remove_suffix(1);
-  return text;
 }
 
 std::optional<DoseUnit> LookUpWord(std::string_view word) {

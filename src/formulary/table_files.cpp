@@ -1,7 +1,5 @@
 #include "formulary/table_files.h"
 
-#include <openssl/evp.h>
-
 #include <algorithm>
 #include <charconv>
 #include <filesystem>
@@ -11,6 +9,7 @@
 
 #include "formulary/longitudinal_tables.h"
 #include "formulary/table_reader.h"
+#include "medload/core/hash.h"
 #include "medload/formulary/rules.h"
 
 namespace medload::formulary_internal {
@@ -262,24 +261,6 @@ std::string Checksum(FileContents files) {
 }
 
 }  // namespace
-
-std::string Sha256Hex(std::string_view data) {
-  const std::unique_ptr<EVP_MD_CTX, decltype(&EVP_MD_CTX_free)> context(EVP_MD_CTX_new(), &EVP_MD_CTX_free);
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int length = 0;
-  if (!context || EVP_DigestInit_ex(context.get(), EVP_sha256(), nullptr) != 1 ||
-      EVP_DigestUpdate(context.get(), data.data(), data.size()) != 1 ||
-      EVP_DigestFinal_ex(context.get(), digest, &length) != 1) {
-    return {};
-  }
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (unsigned int i = 0; i < length; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0xF];
-  }
-  return hex;
-}
 
 FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::string>& faults) {
   FormularyTables tables;

@@ -13,7 +13,4 @@ namespace medload::formulary_internal {
 // Every fault goes to `faults` as "file:line: fault" with file relative to `dir`.
 FormularyTables ReadTableFiles(const std::string& dir, std::vector<std::string>& faults);
 
-// SHA-256 of `data` as 64 lower-case hex digits (OpenSSL EVP).
-std::string Sha256Hex(std::string_view data);
-
 }  // namespace medload::formulary_internal

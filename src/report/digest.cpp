@@ -3,9 +3,10 @@
 #include <cmath>
 #include <sstream>
 
-#include "medload/cohort/cohort_table.h"
 #include "medload/core/caution.h"
-#include "medload/io/output.h"
+#include "medload/core/hash.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_files.h"
 
@@ -188,8 +189,8 @@ std::string FormatDigest(const Digest& digest) {
                      Header("Subject", "[" + digest.network + "] " + digest.practice +
                                            ": counts moved, census " + digest.on.ToIso()) +
                      Header("Date", MessageDate(digest.on)) +
-                     Header("Message-ID", "<" + HashHex(digest.network + "\n" + digest.practice + "\n" +
-                                                            digest.on.ToIso(), 32) + "@medload.invalid>") +
+                     Header("Message-ID", "<" + Sha256Hex(digest.network + "\n" + digest.practice + "\n" +
+                                                              digest.on.ToIso()).substr(0, 32) + "@medload.invalid>") +
                      Header("MIME-Version", "1.0") + Header("Content-Type", "text/plain; charset=utf-8") +
                      Header("Content-Transfer-Encoding", "8bit") + "\r\n";
   std::vector<std::string> body = {

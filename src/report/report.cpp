@@ -4,10 +4,11 @@
 #include <set>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_table.h"
-#include "medload/cohort/registration.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {
@@ -151,7 +152,7 @@ struct Pass {
   long patients = 0;
 };
 
-Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
+Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
   return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
@@ -209,7 +210,7 @@ Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& mode
 
 }  // namespace
 
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress) {
   ReportModel model;

@@ -6,9 +6,10 @@
 
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
-#include "medload/io/output.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
+#include "medload/review/worklist_writer.h"
 
 namespace medload {
 namespace {

@@ -1,27 +1,13 @@
 #include "medload/review/pseudonym.h"
 
-#include <openssl/evp.h>
-#include <openssl/hmac.h>
 #include <sys/stat.h>
 
 #include <fstream>
 #include <sstream>
 
-namespace medload {
+#include "medload/core/hash.h"
 
-std::string HmacSha256Hex(std::string_view key, std::string_view message) {
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int length = 0;
-  HMAC(EVP_sha256(), key.data(), static_cast<int>(key.size()),
-       reinterpret_cast<const unsigned char*>(message.data()), message.size(), digest, &length);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (unsigned int i = 0; i < length; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0xF];
-  }
-  return hex;
-}
+namespace medload {
 
 Result<Pseudonymiser> Pseudonymiser::FromKeyFile(const std::string& path) {
   struct stat info {};

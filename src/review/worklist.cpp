@@ -6,20 +6,15 @@
 
 #include <nlohmann/json.hpp>
 
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const auto& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 // A completed review in the `days` days ending on D.
 bool RecentlyReviewed(const std::vector<Date>& reviews, Date on, int days) {
@@ -119,9 +114,9 @@ void MarkTrajectories(const PracticeSpans& spans, int history_days, Worklist& wo
 
 }  // namespace
 
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options) {
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
   if (options.criteria.empty()) {
-    return Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X, falls=N, tsdd=N, --below pdc=X or --rule ID)");
+    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
   }
   if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
   std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates

@@ -2,8 +2,6 @@
 // rejecting rows, and the reject-rate rollback.
 #include "medload/store/importer.h"
 
-#include <openssl/evp.h>
-
 #include <algorithm>
 #include <array>
 #include <charconv>
@@ -14,8 +12,10 @@
 #include <optional>
 #include <streambuf>
 
-#include "medload/io/csv_reader.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/core/clock.h"
+#include "medload/core/hash.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/fhir_reader.h"
 #include "store/control_characters.h"
 #include "store/record_writers.h"
 #include "store/sqlite.h"
@@ -28,15 +28,6 @@ constexpr uint64_t kDeferMinRows = 20000;
 // Rough bytes per row, to guess a file's rows from its size.
 constexpr uint64_t kCsvBytesPerRow = 80;
 constexpr uint64_t kNdjsonBytesPerRow = 600;
-
-std::string UtcNow() {
-  const std::time_t now = std::time(nullptr);
-  std::tm utc{};
-  gmtime_r(&now, &utc);
-  char buffer[32];
-  std::strftime(buffer, sizeof buffer, "%Y-%m-%dT%H:%M:%SZ", &utc);
-  return buffer;
-}
 
 // True when the first line of `head` ends in a CR alone (classic Mac OS line ends).
 bool HasCrOnlyLineEnds(std::string_view head) {
@@ -471,16 +462,8 @@ std::string DispensingKey(const DispensingRecord& record) {
   content += '\x1f';
   AppendNormalised(content, record.dosage);
   AppendNormalised(content, record.practice);
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int digest_size = 0;
-  EVP_Digest(content.data(), content.size(), digest, &digest_size, EVP_sha256(), nullptr);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string key = "h:";
-  for (size_t i = 0; i < 16 && i < digest_size; ++i) {
-    key += kHex[digest[i] >> 4];
-    key += kHex[digest[i] & 0x0f];
-  }
-  return key;
+  // The first 16 bytes of the digest (32 hex digits).
+  return "h:" + Sha256Hex(content).substr(0, 32);
 }
 
 namespace {

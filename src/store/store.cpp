@@ -10,7 +10,7 @@
 #include <thread>
 #include <utility>
 
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 #include "store/sqlite.h"
 
 namespace medload {

@@ -15,7 +15,7 @@ constexpr const char* kDispensingColumns =
     "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
     " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status";
 
-// The statuses that count in measures (spec: only "completed" or none).
+// The statuses that count in measures (docs/input-formats.md: only "completed" or none).
 constexpr const char* kCounting = "status IN ('', 'completed')";
 
 constexpr const char* kPatientColumns =
@@ -335,17 +335,6 @@ Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_ran
     ranges[i + 1].from = starts[i];
   }
   return ranges;
-}
-
-Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
-  Result<PatientCursor> cursor = Patients();
-  if (!cursor.ok()) return cursor.status();
-  PatientHistory history;
-  for (;;) {
-    Result<bool> more = cursor->Next(history);
-    if (!more.ok()) return more.status();
-    if (!*more || !visit(history)) return Status::Ok();
-  }
 }
 
 Result<std::vector<PracticeRecord>> Store::Practices() const {

@@ -23,7 +23,7 @@ std::vector<DispensingRecord> StatinWithEarlyRefillAndGap() {
 
 }  // namespace
 
-TEST_SUITE("burden.adherence") {
+TEST_SUITE("burden/adherence") {
 
 TEST_CASE("an early refill is shifted to start after the previous supply and a gap is not covered") {
   // 1 Jul to 30 Oct 2024 is 122 days; covered: 1-30 Jul, 31 Jul-29 Aug (shifted), 1-30 Oct

@@ -113,7 +113,7 @@ DispensingRecord Rx(const std::string& product, Date on, double quantity, std::o
 
 }  // namespace
 
-TEST_SUITE("burden") {
+TEST_SUITE("burden/burden") {
 
 TEST_CASE("items counts distinct active medicines; two strengths of one ingredient are one medicine") {
   Fixture f;

@@ -27,7 +27,7 @@ std::vector<DispensingRecord> OxybutyninDaily(int days) {
 
 }  // namespace
 
-TEST_SUITE("burden.exposure") {
+TEST_SUITE("burden/exposure") {
 
 TEST_CASE("oxybutynin 5 mg daily gives one TSDD a day and falls in Gray et al.'s bands") {
   // Source: Gray et al. 2015, Table 3 footnote: the minimum effective daily dose of

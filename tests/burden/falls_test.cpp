@@ -14,7 +14,7 @@ using testing::Rx;
 
 }  // namespace
 
-TEST_SUITE("burden.falls") {
+TEST_SUITE("burden/falls") {
 
 TEST_CASE("a topical antidepressant does not count; a route not stated does") {
   // Diazepam (benzodiazepine), furosemide (diuretic) and tamsulosin (alpha-blocker, route

@@ -17,7 +17,7 @@ using testing::Rx;
 
 }  // namespace
 
-TEST_SUITE("burden.longitudinal_criteria") {
+TEST_SUITE("burden/longitudinal_criteria") {
 
 TEST_CASE("longitudinal criteria parse to stable keys") {
   struct Case {
@@ -68,14 +68,14 @@ TEST_CASE("malformed longitudinal criteria are refused with the reason") {
       {"falls<3", false, "criterion \"falls<3\" has an unknown comparison; use falls=N"},
       {"tsdd=-1", false, "criterion \"tsdd=-1\" has a threshold that is not a number >= 0"},
       {"tsdd=lots", false, "criterion \"tsdd=lots\" has a threshold that is not a number >= 0"},
-      {"pdc=0.8", false, "criterion \"pdc=0.8\" selects adherence below a threshold: write pdc<X (or --below pdc=X)"},
+      {"pdc=0.8", false, "criterion \"pdc=0.8\" selects adherence below a threshold: write pdc<X"},
       {"pdc<1.5", false, "criterion \"pdc<1.5\" needs a proportion of days covered above 0 and at most 1 (pdc<0.8)"},
       {"pdc<0", false, "criterion \"pdc<0\" needs a proportion of days covered above 0 and at most 1 (pdc<0.8)"},
       {"pdc<0.8:Statins", false,
        "criterion \"pdc<0.8:Statins\" names a class \"Statins\" that is not lower-case-hyphenated"},
       {"pdc<0.8:statin|", false, "criterion \"pdc<0.8:statin|\" names a class \"\" that is not lower-case-hyphenated"},
       {"items=3", true,
-       "criterion \"items=3\" cannot be selected below a threshold; --below takes pdc=X or pdc=X:CLASS|CLASS"},
+       "criterion \"items=3\" cannot be selected below a threshold; only pdc can: pdc=X or pdc=X:CLASS|CLASS"},
       {"pdc=abc", true, "criterion \"pdc=abc\" needs a proportion of days covered above 0 and at most 1 (pdc<0.8)"},
   };
   for (const Case& c : cases) {

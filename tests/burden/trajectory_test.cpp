@@ -32,7 +32,7 @@ TwoDates Example(const LongitudinalFixture& f) {
 
 }  // namespace
 
-TEST_SUITE("burden.trajectory") {
+TEST_SUITE("burden/trajectory") {
 
 TEST_CASE("months before keep the day of the month, or the month's last day when shorter") {
   CHECK(MonthsBefore(D(2024, 3, 31), 12) == D(2023, 3, 31));

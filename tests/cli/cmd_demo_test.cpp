@@ -9,7 +9,7 @@
 
 namespace medload {
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_demo") {
 
 TEST_CASE("the demo's network worklist is owner-only and its cohort table follows the umask") {
   TempFolder folder;

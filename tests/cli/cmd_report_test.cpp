@@ -69,7 +69,7 @@ void CheckNoRawMarkup(const std::string& html) {
 
 }  // namespace
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_report") {
 
 TEST_CASE("markup in names, identifiers and products is escaped in every HTML output") {
   TempFolder folder;

@@ -34,7 +34,7 @@ size_t Occurrences(const std::string& text, const std::string& needle) {
   return n;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_chart") {
 
 TEST_CASE("the trend chart has a title, axis labels and a text label per group") {
   const std::string svg = CohortTrendSvg(TwoGroups(), 0);

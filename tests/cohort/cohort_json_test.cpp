@@ -19,7 +19,7 @@ CohortOptions Options() {
   return options;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_json") {
 
 TEST_CASE("the cohort JSON has the spec's shape with null for suppressed values") {
   const CohortTally tally = CountFake(MixedPopulation(60), Options());

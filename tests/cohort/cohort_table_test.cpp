@@ -27,7 +27,7 @@ CohortTally OneCell() {
   return tally;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_table") {
 
 TEST_CASE("rates are per 1000 registered") {
   const CohortTable table = BuildCohortTable(OneCell(), 0, 84);
@@ -51,15 +51,6 @@ TEST_CASE("a count below the suppression threshold and its rates are null") {
   CHECK_FALSE(row.values[0].standardised.has_value());
   CHECK(row.values[1].count == 12);               // 12 >= 5 stays
   CHECK(row.registered == 40);                    // list sizes are not suppressed
-}
-
-TEST_CASE("suppression withholds 1 to N-1 and shows zero and N") {
-  CHECK_FALSE(IsSuppressed(0, 5));
-  CHECK(IsSuppressed(1, 5));
-  CHECK(IsSuppressed(4, 5));
-  CHECK_FALSE(IsSuppressed(5, 5));
-  CHECK_FALSE(IsSuppressed(1, 0));
-  CHECK_FALSE(IsSuppressed(1, 1));
 }
 
 TEST_CASE("a group with nobody registered on a date has null rates") {

@@ -30,7 +30,7 @@ std::vector<FakePatient> HandPopulation() {
       Registered("P01", "A01", D(1950, 3, 1), D(2024, 2, 29), std::nullopt, 12),
       // Registration ends on 31 January: counted in January only.
       Registered("P02", "A01", D(1980, 5, 5), std::nullopt, D(2024, 1, 31), 4),
-      // Birth year only, stored as 1 July 1954 (spec section 5): 69 in all three months.
+      // Birth year only, stored as 1 July 1954 (docs/input-formats.md): 69 in all three months.
       Registered("P03", "B02", D(1954, 7, 1), std::nullopt, std::nullopt, 10),
       // No registry row: dispensed 364 days before 31 January, inside the 365 days ending
       // on it (counts then, not later).
@@ -42,7 +42,7 @@ std::vector<FakePatient> HandPopulation() {
 
 const std::vector<Date> kMonths = {D(2024, 1, 31), D(2024, 2, 29), D(2024, 3, 31)};
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort") {
 
 TEST_CASE("a hand-worked population gives the expected registered and counts per practice") {
   int evaluations = 0;

@@ -28,7 +28,7 @@ CohortTable SmallTable(long suppress_below) {
   return BuildCohortTable(tally, suppress_below, 84);
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_writer") {
 
 TEST_CASE("the CSV starts with the caution and has one line per date, group and criterion") {
   std::ostringstream out;
@@ -64,13 +64,6 @@ TEST_CASE("the HTML page has the banner, an escaped group and a trend chart") {
   CHECK(html.find("&lt;A&amp;B&gt;") != std::string::npos);
   CHECK(html.find("<A&B>") == std::string::npos);
   CHECK(html.find("<svg") != std::string::npos);
-}
-
-TEST_CASE("the suppression note states the rule and the secondary-disclosure limit") {
-  CHECK(SuppressionNote(0).find("No small-number suppression") == 0);
-  const std::string note = SuppressionNote(10);
-  CHECK(note.find("Counts from 1 to 9 (below 10) are withheld") == 0);
-  CHECK(note.find("does not suppress complementary cells") != std::string::npos);
 }
 
 TEST_CASE("a table's warnings appear in the text, CSV, HTML and JSON") {

@@ -7,7 +7,7 @@ namespace {
 
 Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
 
-TEST_SUITE("data_coverage") {
+TEST_SUITE("core/data_coverage") {
 
 TEST_CASE("a date is without figures before the data, short-history in its first days, beyond after") {
   // Data from 2025-01-01 to 2025-12-31; history 84 days: 2025-01-01 .. 2025-03-25 is the

@@ -20,7 +20,7 @@ json Dosage(double value, const char* unit, int frequency, double period,
 
 }  // namespace
 
-TEST_SUITE("fhir_dosage") {
+TEST_SUITE("dose/fhir_dosage") {
 
 TEST_CASE("a dose quantity times the frequency per period gives units per day") {
   // Source: HL7 FHIR R4 Timing.repeat: frequency events per period of periodUnit.

@@ -18,7 +18,7 @@ const SupplyOptions kDefaults{};
 
 }  // namespace
 
-TEST_SUITE("supply") {
+TEST_SUITE("dose/supply") {
 
 TEST_CASE("supply rule names are the spelled names used in outputs") {
   CHECK(SupplyRuleName(SupplyRule::kRecordDaysSupply) == "days_supply");
@@ -36,7 +36,7 @@ TEST_CASE("the record's days supply comes first even when the dosage gives a rat
 }
 
 TEST_CASE("the dosage rate comes second and is rounded up to whole days") {
-  // 28 tablets at 1.5 a day last 18.67 days: 19 (spec section 5: ceil).
+  // 28 tablets at 1.5 a day last 18.67 days: 19 (docs/dosage-text.md: ceil).
   const Supply supply = ComputeSupply(28, std::nullopt, PerDay(1.5), 90, kDefaults);
   CHECK(supply.days == 19);
   CHECK(supply.rule == SupplyRule::kDosageText);

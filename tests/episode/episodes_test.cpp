@@ -13,7 +13,7 @@ std::vector<Episode> Build(std::vector<Coverage> coverages, int grace, bool carr
 
 }  // namespace
 
-TEST_SUITE("episodes") {
+TEST_SUITE("episode/episodes") {
 
 TEST_CASE("a supply of s days dispensed on day d covers d to d+s-1 inclusive, then its tail") {
   // Product specification: coverage d .. d+s-1; tail t = min(grace, s) days after it.

@@ -31,7 +31,7 @@ void ExpectFault(const std::string& file, const std::string& content, const std:
   CHECK_FALSE(LoadFormulary(folder.path()).ok());
 }
 
-TEST_SUITE("formulary.check") {
+TEST_SUITE("formulary/check") {
 
 TEST_CASE("the bundled formulary has no faults") {
   const FormularyCheck check = CheckFormulary(MEDLOAD_SOURCE_FORMULARY);

@@ -28,7 +28,7 @@ FormularyCheck CheckWith(const std::string& file, const std::string& content) {
 
 }  // namespace
 
-TEST_SUITE("formulary.longitudinal_tables") {
+TEST_SUITE("formulary/longitudinal_tables") {
 
 TEST_CASE("the bundled tsdd and falls-risk tables load without faults and are counted") {
   const FormularyCheck check = CheckFormulary(MEDLOAD_SOURCE_FORMULARY);

@@ -1,4 +1,4 @@
-// libFuzzer target: the FHIR R4 NDJSON reader (io/fhir_reader.h). The input is one NDJSON
+// libFuzzer target: the FHIR R4 NDJSON reader (input/fhir_reader.h). The input is one NDJSON
 // file of MedicationDispense and Patient resources.
 //
 // Invariants:
@@ -16,7 +16,7 @@
 #include <string_view>
 
 #include "fuzz/fuzz_check.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/input/fhir_reader.h"
 
 namespace medload {
 namespace {

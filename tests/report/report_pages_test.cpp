@@ -17,7 +17,7 @@ std::map<std::string, PracticeFiles> Files(const ReportModel& model) {
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_pages") {
 
 TEST_CASE("the overview has a table, a trend chart and a funnel plot per criterion and any") {
   testing::ReportPopulation population;

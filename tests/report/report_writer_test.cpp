@@ -46,7 +46,7 @@ ReportRunOptions Options(const std::string& out, const std::string& generated_at
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_writer") {
 
 TEST_CASE("the report folder holds the overview, a page, worklist and digest per practice, cohort and run files") {
   testing::ReportPopulation population;

@@ -28,7 +28,7 @@ void Import(Store& store, InputKind kind, const std::string& csv) {
 // Four invented patients at two invented practices, with 28-day supplies on 2024-01-01.
 struct Population {
   Store store = std::move(Store::Open(":memory:").value());
-  Analysis analysis = std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+  RunContext analysis = std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
 
   Population() {
     Import(store, InputKind::kPatients,
@@ -68,7 +68,7 @@ Criterion AtLeast(const char* text) { return ParseCriterion(text).value(); }
 
 }  // namespace
 
-TEST_SUITE("worklist") {
+TEST_SUITE("review/worklist") {
 
 TEST_CASE("the review order is rules, then acb, items, dbi, older age, then identifier") {
   auto entry = [](std::string id, int rules, int acb, int items, double dbi, std::optional<int> age) {
@@ -182,7 +182,7 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
                             {"explanation", "A test rule."}, {"source", "test"}, {"age_min", 65},
                             {"require", {{{"classes", {"opioid"}}, {"at_least", 1}}}}});
   std::ofstream(formulary / "rules.json") << rules.dump();
-  auto aged = Analysis::Open(formulary.string(), MeasureOptions{}, nullptr);
+  auto aged = RunContext::Open(formulary.string(), MeasureOptions{}, nullptr);
   REQUIRE(aged.ok());
   WorklistOptions options = On(D(2024, 1, 10), {AtLeast("items=2")});
   options.remember_run = false;
@@ -238,6 +238,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto none = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {}));
   REQUIRE_FALSE(none.ok());
   CHECK(none.status().code() == StatusCode::kUsage);
+  CHECK(none.status().message() == "a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==

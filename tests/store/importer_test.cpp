@@ -11,6 +11,7 @@
 #include <sstream>
 #include <thread>
 
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -68,7 +69,7 @@ const char* const kMixed =
 
 }  // namespace
 
-TEST_SUITE("importer") {
+TEST_SUITE("store/importer") {
 
 TEST_CASE("every row read is imported, a duplicate or rejected, and the counts add up") {
   Store store = Memory();
@@ -428,12 +429,11 @@ TEST_CASE("a load larger than the store rebuilds the per-patient index and keeps
   CHECK(PatientIndexRoot(*store) != small_root);  // built again after the rows went in
   long visited = 0;
   std::string previous;
-  REQUIRE(store->ForEachPatient([&](const PatientHistory& history) {
-                 CHECK(previous < history.patient_id);
-                 previous = history.patient_id;
-                 visited += static_cast<long>(history.dispensings.size());
-                 return true;
-               }).ok());
+  for (const PatientHistory& history : testing::ReadPatients(*store)) {
+    CHECK(previous < history.patient_id);
+    previous = history.patient_id;
+    visited += static_cast<long>(history.dispensings.size());
+  }
   CHECK(visited == 30020);
   CHECK(store->DispensingsOf("P5")->size() == 31);
 }

@@ -66,7 +66,7 @@ std::vector<DispensingRecord> Varied() {
 
 }  // namespace
 
-TEST_SUITE("store") {
+TEST_SUITE("store/packed_history") {
 
 TEST_CASE("a packed history unpacks to the same records, each with the patient's id") {
   const std::vector<DispensingRecord> records = Varied();

@@ -6,6 +6,7 @@
 
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -100,7 +101,7 @@ void Exec(Store& store, const std::string& sql) {
 
 }  // namespace
 
-TEST_SUITE("store_read") {
+TEST_SUITE("store/store_read") {
 
 TEST_CASE("the packed copy gives the same pass as the dispensings, whole and by range") {
   Store store = Loaded();
@@ -242,7 +243,7 @@ TEST_CASE("a patient's registry row reads back with a birth year as 1 July") {
   Result<std::optional<PatientRecord>> patient = store.PatientOf("P1");
   REQUIRE(patient.ok());
   REQUIRE(patient->has_value());
-  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // spec section 5
+  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // docs/input-formats.md
   CHECK((*patient)->birth_year_only);
   CHECK((*patient)->sex == "female");
   CHECK((*patient)->registered_from->ToIso() == "2010-01-01");
@@ -255,7 +256,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
   std::vector<std::string> ids;
   std::vector<size_t> counts;
   std::vector<bool> registered;
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
     ids.push_back(history.patient_id);
     counts.push_back(history.dispensings.size());
     registered.push_back(history.registry.has_value());
@@ -263,9 +264,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
       CHECK(history.dispensings[i - 1].dispensed_on <= history.dispensings[i].dispensed_on);
     }
     for (const DispensingRecord& record : history.dispensings) CHECK(record.patient_id == history.patient_id);
-    return true;
-  });
-  REQUIRE(status.ok());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3", "P4"});
   CHECK(counts == std::vector<size_t>{3, 1, 0, 1});
   CHECK(registered == std::vector<bool>{true, true, true, false});
@@ -276,19 +275,11 @@ TEST_CASE("a patient whose only dispensings do not count is visited only through
   SetStatus(store, "d5", "cancelled");  // P4 has no registry row and nothing counting
   SetStatus(store, "d1", "cancelled");  // P2 keeps the registry row
   std::vector<std::string> ids;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory& history) {
-                 ids.push_back(history.patient_id);
-                 if (history.patient_id == "P2") CHECK(history.dispensings.empty());
-                 return true;
-               }).ok());
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
+    ids.push_back(history.patient_id);
+    if (history.patient_id == "P2") CHECK(history.dispensings.empty());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3"});
-}
-
-TEST_CASE("the visit stops when the callback returns false") {
-  Store store = Loaded();
-  int visits = 0;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory&) { return ++visits < 2; }).ok());
-  CHECK(visits == 2);
 }
 
 TEST_CASE("a cursor reusing one history gives each patient exactly their own records") {
@@ -437,9 +428,7 @@ TEST_CASE("an empty store has no date span") {
   CHECK_FALSE(summary->earliest_dispensed.has_value());
   CHECK(summary->dispensings == 0);
   CHECK(store->PracticeDataSpans().value().empty());
-  int visits = 0;
-  REQUIRE(store->ForEachPatient([&](const PatientHistory&) { return ++visits > 0; }).ok());
-  CHECK(visits == 0);
+  CHECK(testing::ReadPatients(*store).empty());
 }
 
 }  // TEST_SUITE

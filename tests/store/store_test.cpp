@@ -36,7 +36,7 @@ void ExecRaw(const std::string& path, const char* sql) {
 
 }  // namespace
 
-TEST_SUITE("store") {
+TEST_SUITE("store/store") {
 
 TEST_CASE("opening a new store creates the schema at the current version in WAL mode") {
   TempFolder folder;

@@ -1,5 +1,4 @@
-// The options that change how medicines are counted and scored on a date (spec section
-// 4, "Measure options"), shared by meds, review, cohort and the report config. Each
+// The options that change how medicines are counted and scored on a date (docs/measures.md), shared by meds, review, cohort and the report config. Each
 // field's comment is the text of its --help line.
 #pragma once
 

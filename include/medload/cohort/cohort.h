@@ -23,7 +23,7 @@
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 struct CohortOptions {
   std::vector<Date> dates;               // census dates, oldest first (series.h)
@@ -41,6 +41,9 @@ struct CohortCell {
   std::vector<std::array<long, kEspBands>> counts_by_band;  // per criterion, then "any"
 };
 
+// Adds `from`'s counts into `into` (the same date and criteria; counts beyond the shorter
+// of the two lists are left as they are).
+void AddCell(CohortCell& into, const CohortCell& from);
 // Patients counted as registered on a date who had no dispensing on or before it: what a
 // practice whose data have not begun adds to a group that also holds other practices.
 struct UnseenCell {
@@ -89,7 +92,7 @@ class CohortCounter {
   void See(const PatientHistory& history);
   // True when the patient belongs to the counter's shard.
   bool Wants(const PatientHistory& history) const;
-  // Counts the patient on every census date on which they are registered (registration.h),
+  // Counts the patient on every census date on which they are registered (burden/patient_facts.h),
   // calling `burden` once for each such date and never for others. Patients outside the
   // shard are ignored.
   void Add(const PatientHistory& history, const BurdenOnDate& burden);
@@ -109,10 +112,10 @@ class CohortCounter {
   CohortTally tally_;
 };
 
-// One pass over the store (Store::ForEachPatient): each patient of the shard has their
+// One pass over the store (ForEachPatientTimeline): each patient of the shard has their
 // timeline built once and evaluated on every census date on which they are registered.
 // Fails with the store's Status.
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options);
 
 // Adds tallies of disjoint shards of the same run. Fails with Input (naming `names[i]`)

@@ -52,11 +52,6 @@ struct CohortTable {
   std::vector<std::string> notes;
 };
 
-// Small-number suppression: a count c with 0 < c < suppress_below is withheld (null), and
-// so are its crude and standardised rates. Zero is shown. Registered counts (list sizes)
-// are shown. suppress_below <= 1 suppresses nothing.
-bool IsSuppressed(long count, long suppress_below);
-
 // Builds the table from a tally: rows for every date and every group seen on any date,
 // each with its data coverage on that date (`history_days`: the short-history window), and
 // one note per practice whose coverage is not full on some date.

@@ -33,7 +33,7 @@ struct DispensingRecord {
 // One row of the patient registry.
 struct PatientRecord {
   std::string patient_id;
-  std::optional<Date> birth_date;  // from a year alone: 1 July of that year (spec 5)
+  std::optional<Date> birth_date;  // from a year alone: 1 July of that year (docs/input-formats.md)
   bool birth_year_only = false;
   std::string sex;                 // "female", "male", "other", "unknown" or empty
   std::string practice;
@@ -51,6 +51,15 @@ struct PracticeRecord {
 struct ReviewRecord {
   std::string patient_id;
   Date reviewed_on;
+};
+
+// One distinct product as dispensed, with how often and to how many patients.
+struct ProductCount {
+  std::string product;
+  std::string code;
+  std::string code_system;
+  long items = 0;     // counting dispensings
+  long patients = 0;  // distinct patients among them
 };
 
 }  // namespace medload

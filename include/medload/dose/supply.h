@@ -1,4 +1,4 @@
-// Days of supply of one dispensing, by the first rule that applies (spec section 5):
+// Days of supply of one dispensing, by the first rule that applies (docs/dosage-text.md):
 // the record's days supply, the dosage's units per day, the product default, the
 // default; then the cap. It does not build coverages or episodes from the result.
 #pragma once
@@ -48,7 +48,7 @@ std::optional<double> UnitsPerDayOfQuantity(const DosageReading& dosage,
                                             const QuantityUnit& quantity_unit,
                                             std::string* why = nullptr);
 
-// Spec section 5, first rule that applies: the record's days supply (> 0);
+// docs/dosage-text.md, first rule that applies: the record's days supply (> 0);
 // ceil(quantity / units per day) where the dosage gives units per day > 0 in a unit
 // that relates to the quantity's (see UnitsPerDayOfQuantity) and quantity > 0; the
 // product default (> 0); options.default_supply_days. Then min(days, max_supply_days).

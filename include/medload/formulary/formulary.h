@@ -121,8 +121,6 @@ class Formulary {
   bool HasClass(std::string_view ingredient, std::string_view class_name) const;
   // True if some ingredient carries the class.
   bool IsKnownClass(std::string_view class_name) const;
-  // Every class carried by some ingredient, sorted.
-  std::vector<std::string> ClassNames() const;
   // Canonical names of the ingredients in a class, in table order.
   std::vector<std::string> IngredientsInClass(std::string_view class_name) const;
 

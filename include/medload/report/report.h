@@ -1,4 +1,4 @@
-// The batch report of a care network (spec section 8): one pass over the store builds a
+// The batch report of a care network (docs/report.md): one pass over the store builds a
 // finished model (monthly counts per practice and for the network, every practice's
 // worklist on the census date, the previous report's counts), and writers turn it into the
 // report folder. It does not parse the config (report_config.h) or format pages itself
@@ -19,7 +19,7 @@
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 // One practice (or the network total) over the census dates.
 struct ReportSeries {
@@ -75,7 +75,7 @@ Result<Date> LatestCensusDate(const StoreSummary& summary);
 // practice in config.practices that the store does not know, or an unknown rule id.
 // `pseudonymise` (may be empty) replaces patient identifiers in the worklists after
 // ranking (review/pseudonym.h).
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis,
                                      const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress);

@@ -7,7 +7,7 @@
 #include <string_view>
 
 #include "medload/core/status.h"
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 
 namespace medload {
 
@@ -16,9 +16,6 @@ namespace medload {
 // SHA-256 of `text` are appended, so that two different codes never give the same stem.
 // Returns Status::Input naming the text when the result would be empty, "." or "..".
 Result<std::string> SafeFileStem(std::string_view text);
-
-// The first `digits` hex digits of the SHA-256 (FIPS 180-4) of `text` (at most 64).
-std::string HashHex(std::string_view text, size_t digits);
 
 // The report's output folder. Creates it (and its parents) when missing.
 class ReportFolder {

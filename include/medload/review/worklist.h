@@ -8,7 +8,7 @@
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/criteria.h"
 #include "medload/burden/longitudinal_writer.h"
 #include "medload/burden/trajectory.h"
@@ -83,7 +83,7 @@ struct Worklist {
   long suppress_below = 0;
 };
 
-// The fixed review order (spec section 6): more rules fired first, then higher acb, more
+// The fixed review order (docs/measures.md, "Review worklist"): more rules fired first, then higher acb, more
 // items, higher dbi, older age (unknown last), then patient id ascending.
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 
@@ -94,7 +94,7 @@ std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& b
 
 // Streams the store once and builds the ranked list. Status::Usage when no criterion is
 // given; Status::Input for a rule id the tables do not have or a storage error.
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options);
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options);
 
 // Marks `is_new` against the previous saved run (dated before this one) with the same
 // criteria and filters, and saves this one (the store keeps runs; a re-run on the same

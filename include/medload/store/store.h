@@ -37,15 +37,6 @@ struct PatientHistory {
   std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
 };
 
-// One distinct product as dispensed, with how often and to how many patients.
-struct ProductCount {
-  std::string product;
-  std::string code;
-  std::string code_system;
-  long items = 0;     // counting dispensings
-  long patients = 0;  // distinct patients among them
-};
-
 // Provenance figures for a run: the span of the data and the size of each table.
 struct StoreSummary {
   std::optional<Date> earliest_dispensed;  // counting dispensings only; absent if none
@@ -95,7 +86,7 @@ class StoreSnapshot {
   sqlite3* db_ = nullptr;
 };
 
-// Reads every patient in turn, in the order and with the content ForEachPatient gives,
+// Reads every patient in turn, in the order and with the content Store::Patients gives,
 // into a history the caller owns: its string and vector buffers are reused from one
 // patient to the next. The Store must outlive the cursor.
 class PatientCursor {
@@ -142,13 +133,10 @@ class Store {
   // The patient's registry row, or nullopt when none was imported.
   Result<std::optional<PatientRecord>> PatientOf(std::string_view patient_id) const;
 
-  // Calls `visit` once for every patient that has a registry row or a counting dispensing,
-  // in patient_id order (bytewise), with the registry row and all counting dispensings in
-  // date order. One ordered pass over the tables; memory holds one patient at a time. The
-  // history passed to `visit` is valid during the call only. `visit` returns false to stop
-  // early (the result is then Ok). Fails with Input on a storage error.
-  Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
-  // The same pass as a cursor (see PatientCursor). Fails with Input on a storage error.
+  // Every patient that has a registry row or a counting dispensing, in patient_id order
+  // (bytewise), with the registry row and all counting dispensings in date order, as a
+  // cursor (see PatientCursor): one ordered pass over the tables, memory for one patient
+  // at a time. Fails with Input on a storage error.
   Result<PatientCursor> Patients() const;
   // The same pass over the patients of one range only. Records a history no longer needs
   // wait in `spare` (the cursor's own pool if null) with their string buffers, for reuse:

@@ -1,0 +1,118 @@
+#include "medload/store/import_summary.h"
+
+#include <doctest/doctest.h>
+
+#include <sstream>
+
+#include "medload/core/caution.h"
+
+namespace medload {
+namespace {
+
+ImportSummary Example(const std::string& file) {
+  ImportSummary summary;
+  summary.file = file;
+  summary.kind = "dispensing";
+  summary.format = "csv";
+  summary.read = 10;
+  summary.imported = 6;
+  summary.duplicates = 2;
+  summary.rejected = 2;
+  summary.reasons = {{"bad_date", 1}, {"bad_quantity", 1}};
+  summary.examples = {file + ":3: quantity: \"abc\" is not a number"};
+  return summary;
+}
+
+}  // namespace
+
+TEST_SUITE("store/import_summary") {
+
+TEST_CASE("the JSON has the fixed import shape with totals at the top") {
+  // docs/input-formats.md, "The summary": {"read","imported","duplicates","rejected","reasons":{REASON:N},"caution"}.
+  const nlohmann::ordered_json json = ImportJson({Example("a.csv"), Example("b.csv")});
+  CHECK(json.at("read") == 20);
+  CHECK(json.at("imported") == 12);
+  CHECK(json.at("duplicates") == 4);
+  CHECK(json.at("rejected") == 4);
+  CHECK(json.at("reasons").at("bad_date") == 2);
+  CHECK(json.at("caution") == std::string(kCaution));
+  CHECK(json.at("files").size() == 2);
+  CHECK(json.at("files").at(1).at("file") == "b.csv");
+  CHECK_FALSE(json.contains("file"));
+  CHECK(ImportJson({Example("a.csv")}).at("file") == "a.csv");
+}
+
+TEST_CASE("the text summary has a row per file, a total, the examples and the caution footer") {
+  std::ostringstream out;
+  WriteImportText({Example("a.csv"), Example("b.csv")}, out);
+  const std::string text = out.str();
+  CHECK(text.find("a.csv") != std::string::npos);
+  CHECK(text.find("total") != std::string::npos);
+  CHECK(text.find("a.csv:3: quantity: \"abc\" is not a number") != std::string::npos);
+  CHECK(text.find("a.csv: rejected by reason: bad_date 1, bad_quantity 1") != std::string::npos);
+  CHECK(text.find("a.csv: ... and 1 more rejected rows") != std::string::npos);
+  CHECK(text.find("CAUTION:") != std::string::npos);
+  CHECK(text.substr(text.size() - 30).find("take precedence.") != std::string::npos);
+}
+
+TEST_CASE("the CSV summary starts with the caution line") {
+  std::ostringstream out;
+  WriteImportCsv({Example("a.csv")}, out);
+  const std::string text = out.str();
+  CHECK(text.rfind("# CAUTION:", 0) == 0);
+  CHECK(text.find("\nfile,kind,format,read,imported,duplicates,rejected,updated,rolled_back,reasons,"
+                  "not_counted\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,\n") !=
+        std::string::npos);
+}
+
+TEST_CASE("the HTML summary has the banner and escapes every value") {
+  std::ostringstream out;
+  WriteImportHtml({Example("<script>x</script>.csv")}, out);
+  const std::string html = out.str();
+  CHECK(html.find("class=\"caution\"") != std::string::npos);
+  CHECK(html.find("<script>") == std::string::npos);
+  CHECK(html.find("&lt;script&gt;x&lt;/script&gt;.csv") != std::string::npos);
+}
+
+TEST_CASE("a rolled-back file says so with its rate and the limit") {
+  ImportSummary summary = Example("a.csv");
+  summary.rolled_back = true;
+  summary.max_reject_rate = 0.1;
+  CHECK(RollbackMessage(summary) ==
+        "a.csv: 2 of 10 rows rejected (20%), above --max-reject-rate 0.1: the file was rolled "
+        "back and nothing from it was stored");
+  std::ostringstream out;
+  WriteImportText({summary}, out);
+  CHECK(out.str().find("rolled back") != std::string::npos);
+}
+
+TEST_CASE("the rejects file quotes the original row and guards against formulas") {
+  std::ostringstream out;
+  WriteRejectsHeader(out);
+  WriteRejectRow(out, "d.csv", 7, "bad_quantity", "d.csv:7: quantity: \"x\" is not a number",
+                 "=HYPERLINK(\"x\"),P1");
+  const std::string text = out.str();
+  CHECK(text.rfind("# CAUTION:", 0) == 0);
+  CHECK(text.find("\nfile,line,reason,message,original_row\n") != std::string::npos);
+  // Source: OWASP, "CSV Injection": a leading '=' is neutralised with an apostrophe.
+  CHECK(text.find("d.csv,7,bad_quantity,\"d.csv:7: quantity: \"\"x\"\" is not a number\","
+                  "\"'=HYPERLINK(\"\"x\"\"),P1\"\n") != std::string::npos);
+}
+
+TEST_CASE("totals add every count and merge the reasons") {
+  ImportSummary a = Example("a.csv");
+  ImportSummary b = Example("b.csv");
+  b.kind = "patients";
+  b.not_counted = {{"cancelled", 3}};
+  const ImportSummary total = TotalOf({a, b});
+  CHECK(total.file == "total");
+  CHECK(total.kind == "mixed");
+  CHECK(total.read == 20);
+  CHECK(total.reasons.at("bad_quantity") == 2);
+  CHECK(total.not_counted.at("cancelled") == 3);
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
