@@ -326,6 +326,7 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
   }
   ScoreAndDose(timeline, tables, options, burden);
   burden_internal::FireRules(timeline, tables, age, matches, burden);
+  AddLongitudinalMeasures(timeline, tables, options, burden);
   return burden;
 }
 

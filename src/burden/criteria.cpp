@@ -2,6 +2,7 @@
 
 #include <charconv>
 
+#include "burden/longitudinal_criteria.h"
 #include "medload/format/output.h"
 
 namespace medload {
@@ -12,6 +13,9 @@ std::string Criterion::Key() const {
     case CriterionKind::kAcb: return "acb>=" + FormatNumber(threshold, 0);
     case CriterionKind::kDbi: return "dbi>=" + FormatNumber(threshold, 3);
     case CriterionKind::kRule: return "rule:" + rule_id;
+    case CriterionKind::kFalls:
+    case CriterionKind::kTsdd:
+    case CriterionKind::kPdcBelow: return LongitudinalKey(*this);
   }
   return "";
 }
@@ -26,17 +30,21 @@ bool Criterion::Met(const Burden& burden) const {
         if (fired.rule->id == rule_id) return true;
       }
       return false;
+    case CriterionKind::kFalls:
+    case CriterionKind::kTsdd:
+    case CriterionKind::kPdcBelow: return LongitudinalMet(*this, burden.longitudinal);
   }
   return false;
 }
 
-Criterion RuleCriterion(std::string id) { return Criterion{CriterionKind::kRule, 0, std::move(id)}; }
+Criterion RuleCriterion(std::string id) { return Criterion{CriterionKind::kRule, 0, std::move(id), {}}; }
 
 Result<Criterion> ParseCriterion(std::string_view text) {
   const auto bad = [&](std::string_view why) {
     return Status::Usage("criterion \"" + std::string(text) + "\" " + std::string(why) +
-                         "; use items=N, acb=N, dbi=X or rule:ID");
+                         "; use items=N, acb=N, dbi=X, falls=N, tsdd=N, pdc<X or rule:ID");
   };
+  if (auto longitudinal = ParseLongitudinalCriterion(text)) return *longitudinal;
   for (std::string_view prefix : {"rule:", "rule="}) {
     if (text.substr(0, prefix.size()) == prefix) {
       if (text.size() == prefix.size()) return bad("names no rule");
@@ -68,6 +76,7 @@ Result<Criterion> ParseCriterion(std::string_view text) {
 }
 
 Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTables& tables) {
+  if (Status classes = CheckPdcClassesExist(criteria, tables); !classes.ok()) return classes;
   for (const Criterion& criterion : criteria) {
     if (criterion.kind == CriterionKind::kRule && tables.FindRule(criterion.rule_id) == nullptr) {
       return Status::Input("rule \"" + criterion.rule_id +

@@ -6,6 +6,7 @@
 #include <ostream>
 
 #include "medload/burden/route_notes.h"
+#include "medload/burden/longitudinal_writer.h"
 #include "medload/core/caution.h"
 #include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
@@ -229,6 +230,7 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
     sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
     warnings.push_back(std::move(sentence));
   }
+  for (std::string& warning : LongitudinalWarnings(model.burden->longitudinal)) warnings.push_back(std::move(warning));
   return warnings;
 }
 
@@ -290,7 +292,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
   nlohmann::json unmatched = nlohmann::json::array();
   for (const UnmatchedProduct* product : RecentUnmatched(model)) unmatched.push_back(product->product);
   nlohmann::json age = model.age ? nlohmann::json(*model.age) : nlohmann::json(nullptr);
-  return {{"patient", model.patient}, {"practice", model.practice}, {"on", burden.on.ToIso()},
+  nlohmann::json document = {{"patient", model.patient}, {"practice", model.practice}, {"on", burden.on.ToIso()},
           {"age", age}, {"items", burden.items}, {"acb", burden.acb}, {"scale", model.tables->scale},
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
@@ -300,6 +302,10 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
           {"systemic_routes", RouteListText(model.tables->systemic_routes, ",")}, {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
+  // Longitudinal measures ("falls", "tsdd", "adherence", ...) and the trajectory.
+  document.update(LongitudinalJson(*model.timeline, burden));
+  document["before"] = model.trajectory ? TrajectoryJson(*model.trajectory) : nlohmann::json(nullptr);
+  return document;
 }
 
 namespace {
@@ -351,6 +357,24 @@ std::string Totals(const MedsModel& model) {
          "; DBI " + FormatNumber(b.dbi, 2);
 }
 
+// The falls-risk categories of an active medicine's ingredients, and its PDC (or its
+// dispensings in the PDC period); empty when it has none.
+std::string FallsRiskOf(const MedsModel& model, const ActiveMedicine& active) {
+  std::vector<std::string> parts;
+  for (const FallsRiskIngredient& entry : model.burden->longitudinal.falls_ingredients) {
+    if (entry.medicine == active.medicine) parts.push_back(entry.ingredient + ":" + Join(entry.categories, "+"));
+  }
+  return Join(parts, "|");
+}
+
+std::string PdcOf(const MedsModel& model, const ActiveMedicine& active, bool dispensings) {
+  for (const MedicineAdherence& a : model.burden->longitudinal.adherence) {
+    if (a.medicine != active.medicine) continue;
+    return dispensings ? std::to_string(a.figure.dispensings) : FormatNumber(a.figure.pdc, 4);
+  }
+  return "";
+}
+
 }  // namespace
 
 void WriteMedsText(std::ostream& out, const MedsModel& model) {
@@ -382,6 +406,9 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
         << Join(RuleMedicines(model, fired), ", ") << "\n  " << fired.rule->explanation
         << "\n  source: " << RuleSourceText(*fired.rule) << "\n";
   }
+  out << "\n";
+  for (const std::string& line : LongitudinalLines(*model.timeline, b)) out << line << "\n";
+  if (model.trajectory) out << "Change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
   const auto warnings = MedsWarnings(model);
   if (!warnings.empty()) out << "\nWarnings:\n";
   for (const auto& w : warnings) out << "- " << w << "\n";
@@ -393,9 +420,13 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   if (model.data_note) out << "# note: " << *model.data_note << "\n";
   if (const std::string note = NotCountedNote(model); !note.empty()) out << "# note: " << note << "\n";
   out << CsvRow({"# " + SystemicRoutesSentence(model)});
+  for (const std::string& line : LongitudinalLines(*model.timeline, *model.burden)) {
+    out << "# " << line << "\n";
+  }
+  if (model.trajectory) out << "# change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
                  "product", "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi",
-                 "classes", "not_counted"});
+                 "classes", "not_counted", "falls_risk", "pdc", "pdc_dispensings"});
   const std::vector<RouteNote> notes = Notes(model);
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
@@ -406,7 +437,8 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
                    std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(model, use),
                    model.tables->scale,
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
-                   Join(ClassesOf(model, *row.medicine), "|"), Join(NotesOf(notes, *row.active, model), "; ")});
+                   Join(ClassesOf(model, *row.medicine), "|"), Join(NotesOf(notes, *row.active, model), "; "),
+                   FallsRiskOf(model, *row.active), PdcOf(model, *row.active, false), PdcOf(model, *row.active, true)});
   }
 }
 
@@ -438,6 +470,12 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
         << EscapeHtml(RuleSourceText(*fired.rule)) << "</span></li>\n";
   }
   if (!b.rules.empty()) out << "</ul>\n";
+  out << "<h2>Over time</h2>\n<ul>\n";
+  for (const std::string& line : LongitudinalLines(*model.timeline, b)) {
+    out << "<li>" << EscapeHtml(line) << "</li>\n";
+  }
+  if (model.trajectory) out << "<li>" << EscapeHtml(TrajectoryText(*model.trajectory, ScaleLabel(model))) << "</li>\n";
+  out << "</ul>\n";
   const auto warnings = MedsWarnings(model);
   if (!warnings.empty()) out << "<h2>Warnings</h2>\n<ul>\n";
   for (const auto& w : warnings) out << "<li>" << EscapeHtml(w) << "</li>\n";

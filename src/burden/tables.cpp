@@ -2,6 +2,7 @@
 
 #include <algorithm>
 
+#include "medload/burden/longitudinal.h"
 #include "medload/formulary/formulary.h"
 
 namespace medload {
@@ -84,6 +85,7 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
   for (const DbiClass& row : formulary.tables().dbi_classes) tables.dbi_classes.push_back(row.class_name);
   tables.rules = formulary.rules();
   tables.systemic_routes = RouteSet(formulary.SystemicRoutes());
+  AddLongitudinalTables(formulary, tables);
   return tables;
 }
 

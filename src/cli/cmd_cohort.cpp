@@ -84,6 +84,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (!options.ok()) return options.status();
   auto measure = ReadMeasureFlags(vm);
   if (!measure.ok()) return measure.status();
+  AddPdcGroups(options->criteria, *measure);
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return store.status();
   auto analysis = OpenRunContext(context, *measure, &*store);

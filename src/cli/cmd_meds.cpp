@@ -5,6 +5,7 @@
 #include "medload/burden/meds_writer.h"
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/run_context.h"
+#include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
 #include "medload/format/json_text.h"
 #include "medload/store/store.h"
@@ -80,6 +81,10 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.options = *measure;
   model.data_note = data_note;
   model.not_counted = std::move(not_counted.value());
+  // The same timeline 12 months before: each figure then uses only what was dispensed by then.
+  const Date before_on = MonthsBefore(*on, kTrajectoryMonths);
+  const Burden before = analysis->Evaluate(timeline, before_on, AgeOn(*registry, before_on));
+  model.trajectory = CompareBurdens(timeline, burden, before, DataStateOn(span, before_on, history_days));
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

@@ -47,7 +47,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   AddCriteriaFlags(options);
   AddMeasureFlags(options);
   int exit_code = 0;
-  auto vm = ParseOptions(context, "medload review --on DATE [--at-least items=N] [--rule ID] [options]", options,
+  auto vm = ParseOptions(context, "medload review --on DATE [--at-least items=N] [--below pdc=X] [--rule ID] [options]", options,
                          {}, args, exit_code);
   if (!vm) return exit_code;
   auto fail = [&](const Status& status) { return Fail(context, status); };
@@ -55,6 +55,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!worklist_options.ok()) return fail(worklist_options.status());
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
+  AddPdcGroups(worklist_options->criteria, *measure);
   std::optional<Pseudonymiser> pseudonymiser;
   if (vm->count("pseudonymise") != 0U) {
     auto loaded = Pseudonymiser::FromKeyFile((*vm)["pseudonymise"].as<std::string>());
@@ -69,7 +70,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (!worklist.ok()) {
     // Without criteria the worklist's first fault is that; named here with the flags.
     if (worklist_options->criteria.empty()) {
-      return fail(Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X or --rule ID)"));
+      return fail(Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X, falls=N, tsdd=N, --below pdc=X or --rule ID)"));
     }
     return fail(worklist.status());
   }

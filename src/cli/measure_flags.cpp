@@ -23,7 +23,13 @@ void AddMeasureFlags(po::options_description& options) {
       ("exclude-route", po::value<std::vector<std::string>>()->composing(),
        "leave out products given by this route (repeatable): oral, skin, eye, ...")
       ("scale", po::value<std::string>()->default_value("acb"),
-       "anticholinergic scale: a file name in formulary/anticholinergic/ (acb, ars, ...)");
+       "anticholinergic scale: a file name in formulary/anticholinergic/ (acb, ars, ...)")
+      ("exposure-years", po::value<int>(),
+       "cumulative anticholinergic exposure (tsdd) counts the dispensings of the N years "
+       "ending on the date (default: all data)")
+      ("pdc-class", po::value<std::vector<std::string>>()->composing(),
+       "also work out the combined proportion of days covered of these classes "
+       "(repeatable; CLASS or CLASS|CLASS, e.g. statin, ace-inhibitor|arb)");
 }
 
 Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
@@ -58,13 +64,27 @@ Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
     }
   }
   options.scale = vm["scale"].as<std::string>();
+  if (vm.count("exposure-years") != 0U) {
+    options.exposure_years = vm["exposure-years"].as<int>();
+    if (*options.exposure_years < 1) return Status::Usage("--exposure-years must be at least 1");
+  }
+  if (vm.count("pdc-class") != 0U) {
+    for (const std::string& classes : vm["pdc-class"].as<std::vector<std::string>>()) {
+      auto group = ParseBelowCriterion("pdc=1:" + classes);
+      if (!group.ok()) return Status::Usage("--pdc-class \"" + classes + "\" is not CLASS or CLASS|CLASS");
+      AddPdcGroups({*group}, options);
+    }
+  }
   return options;
 }
 
 void AddCriteriaFlags(po::options_description& options) {
   options.add_options()
       ("at-least", po::value<std::vector<std::string>>()->composing(),
-       "a threshold (repeatable): items=N, acb=N or dbi=X")
+       "a threshold (repeatable): items=N, acb=N, dbi=X, falls=N or tsdd=N")
+      ("below", po::value<std::vector<std::string>>()->composing(),
+       "adherence below a threshold (repeatable): pdc=X (any medicine) or pdc=X:CLASS|CLASS "
+       "(the combined proportion of days covered of those classes)")
       ("rule", po::value<std::vector<std::string>>()->composing(),
        "a combination rule by its id (repeatable)");
 }
@@ -76,6 +96,14 @@ Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
       auto criterion = ParseCriterion(text);
       if (!criterion.ok()) return criterion.status();
       if (criterion->kind == CriterionKind::kRule) return Status::Usage("use --rule ID for a rule");
+      if (criterion->kind == CriterionKind::kPdcBelow) return Status::Usage("use --below pdc=X for adherence");
+      criteria.push_back(*criterion);
+    }
+  }
+  if (vm.count("below") != 0U) {
+    for (const std::string& text : vm["below"].as<std::vector<std::string>>()) {
+      auto criterion = ParseBelowCriterion(text);
+      if (!criterion.ok()) return criterion.status();
       criteria.push_back(*criterion);
     }
   }

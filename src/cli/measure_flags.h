@@ -16,14 +16,15 @@
 namespace medload::cli {
 
 // Adds --measure, --window, --grace-days, --carryover, --default-supply-days,
-// --max-supply-days, --count-by, --exclude-prn, --exclude-route, --scale.
+// --max-supply-days, --count-by, --exclude-prn, --exclude-route, --scale, --exposure-years,
+// --pdc-class.
 void AddMeasureFlags(po::options_description& options);
 // Reads them back; a bad value is a usage error naming the flag.
 Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm);
 
-// Adds --at-least (repeatable) and --rule (repeatable).
+// Adds --at-least, --below and --rule (each repeatable).
 void AddCriteriaFlags(po::options_description& options);
-// Criteria in command-line order: every --at-least, then every --rule.
+// Criteria in command-line order: every --at-least, then every --below, then every --rule.
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm);
 
 // RunContext::Open for a command whose measure options came from its flags: an unknown

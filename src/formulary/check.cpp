@@ -3,6 +3,7 @@
 #include <set>
 #include <unordered_map>
 
+#include "formulary/longitudinal_tables.h"
 #include "formulary/name_index.h"
 #include "formulary/table_files.h"
 #include "formulary/table_reader.h"
@@ -227,6 +228,7 @@ void CheckTables(const FormularyTables& tables, std::vector<std::string>& faults
   CheckCodes(formulary, faults);
   CheckNonMedicines(formulary, faults);
   CheckRules(formulary, faults);
+  formulary_internal::CheckLongitudinalTables(formulary, faults);
 }
 
 FormularyCheck CheckFormulary(const std::string& dir) {
@@ -246,6 +248,8 @@ FormularyCheck CheckFormulary(const std::string& dir) {
   check.non_medicine_terms = tables.non_medicines.size();
   check.rules = tables.rules.size();
   check.routes = tables.routes.size();
+  check.tsdd_rows = tables.tsdd.size();
+  check.falls_risk_rows = tables.falls_risk.size();
   return check;
 }
 

@@ -33,6 +33,8 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"non-medicine terms", std::to_string(check.non_medicine_terms)},
           {"rules", std::to_string(check.rules)},
           {"routes", std::to_string(check.routes)},
+          {"tsdd rows", std::to_string(check.tsdd_rows)},
+          {"falls-risk rows", std::to_string(check.falls_risk_rows)},
           {"checksum", check.checksum}};
 }
 

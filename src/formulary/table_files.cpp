@@ -7,6 +7,7 @@
 #include <memory>
 #include <sstream>
 
+#include "formulary/longitudinal_tables.h"
 #include "formulary/table_reader.h"
 #include "medload/core/hash.h"
 #include "medload/formulary/resolver.h"
@@ -344,7 +345,10 @@ std::vector<std::string> ScaleFiles(const fs::path& dir) {
   std::error_code error;
   for (fs::directory_iterator it(dir / "anticholinergic", error), end; !error && it != end; it.increment(error)) {
     const fs::path& path = it->path();
-    if (path.extension() == ".csv" && it->is_regular_file(error)) names.push_back(path.stem().string());
+    // tsdd.csv sits beside the scales but is not one (longitudinal_tables.h reads it).
+    if (path.extension() == ".csv" && path.stem() != "tsdd" && it->is_regular_file(error)) {
+      names.push_back(path.stem().string());
+    }
   }
   std::sort(names.begin(), names.end());
   return names;
@@ -404,6 +408,10 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
   if (const auto rules = ReadFile(dir, "rules.json", false, files, faults)) {
     tables.rules = ParseRules(*rules, "rules.json", faults);
   }
+  ReadTableFile(dir, kTsddFile, false, {"ingredient", "min_effective_daily_dose_mg", "source"}, files, faults,
+                [&](const Table& t) { ReadTsdd(t, tables, faults); });
+  ReadTableFile(dir, kFallsRiskFile, false, {"category", "class", "ingredient", "source"}, files, faults,
+                [&](const Table& t) { ReadFallsRisk(t, tables, faults); });
   tables.checksum = Checksum(std::move(files));
   return tables;
 }

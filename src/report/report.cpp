@@ -171,7 +171,13 @@ Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& con
     ++pass.considered[*practice];
     const std::optional<int> age = AgeOn(history.registry, on);
     auto entry = EntryOf(history, *practice, patient.timeline(), *census, age, config, analysis.tables());
-    if (entry) pass.entries[*practice].push_back(std::move(*entry));
+    if (!entry) return true;
+    // Longitudinal fields and the trajectory; the earlier date's coverage is marked after
+    // the pass (FinishWorklist), when each practice's data span is known.
+    const Date before_on = MonthsBefore(on, kTrajectoryMonths);
+    FillLongitudinal(*entry, patient.timeline(), *census,
+                     patient.Evaluate(before_on, AgeOn(history.registry, before_on)), DataState::kFull);
+    pass.entries[*practice].push_back(std::move(*entry));
     return true;
   });
 }
@@ -184,6 +190,13 @@ Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& mode
   worklist.criteria = model.config.criteria;
   worklist.scale = scale;
   worklist.patients_considered = considered;
+  for (WorklistEntry& row : rows) {
+    if (!row.trajectory) continue;
+    const auto span = model.tally.spans.find(row.practice);
+    MarkTrajectoryCoverage(*row.trajectory,
+                           DataStateOn(span == model.tally.spans.end() ? std::nullopt : std::optional<DataSpan>(span->second),
+                                       row.trajectory->before_on, model.history_days));
+  }
   std::sort(rows.begin(), rows.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(rows.size());
   if (rows.size() > model.config.worklist_limit) rows.resize(model.config.worklist_limit);
@@ -231,9 +244,9 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;
   model.tally = pass.counter.Take();
+  model.history_days = HistoryDays(analysis.options());
   auto chosen = ChoosePractices(*known, config, model.tally);
   if (!chosen.ok()) return chosen.status();
-  model.history_days = HistoryDays(analysis.options());
   model.network = ReportSeries{config.network, config.network, std::nullopt,
                                std::vector<long>(model.dates.size(), 0),
                                std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(model.dates.size(), 0)),

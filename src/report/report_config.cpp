@@ -95,7 +95,8 @@ class Reader {
 const std::set<std::string> kTopKeys = {
     "title", "network", "on", "months", "criteria", "suppress_below", "practices", "measure",
     "window", "grace_days", "carryover", "default_supply_days", "max_supply_days", "count_by",
-    "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests"};
+    "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests",
+    "exposure_years"};
 
 Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
   std::string measure = std::string(MeasureName(m.measure));
@@ -113,6 +114,11 @@ Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
     long history = 0;
     MEDLOAD_TRY(r.Integer(doc, "history_days", "", 0, 3660, history));
     m.history_days = static_cast<int>(history);
+  }
+  if (doc.contains("exposure_years")) {
+    long years = 0;
+    MEDLOAD_TRY(r.Integer(doc, "exposure_years", "", 1, 100, years));
+    m.exposure_years = static_cast<int>(years);
   }
   m.window_days = static_cast<int>(window);
   m.episodes.grace_days = static_cast<int>(grace);
@@ -245,6 +251,7 @@ Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) 
     if (!seen.insert(config.practices[i]).second) return r.Fault("/practices/" + std::to_string(i), "\"" + config.practices[i] + "\" is listed twice");
   }
   MEDLOAD_TRY(ReadMeasure(r, doc, config.measure));
+  AddPdcGroups(config.criteria, config.measure);  // pdc criteria with classes need their groups
   MEDLOAD_TRY(r.String(doc, "pseudonymise_key", "", config.pseudonymise_key));
   if (doc.contains("digests")) MEDLOAD_TRY(ReadDigests(r, doc.at("digests"), config.digests));
   return config;
@@ -293,6 +300,7 @@ json ConfigParameters(const ReportConfig& config) {
           {"exclude_route", routes},
           {"scale", m.scale},
           {"history_days", HistoryDays(m)},
+          {"exposure_years", m.exposure_years ? json(*m.exposure_years) : json(nullptr)},
           {"worklist_limit", config.worklist_limit},
           {"pseudonymise_key", config.pseudonymise_key.empty() ? json(nullptr) : json("(set)")},
           {"digests", digests}};

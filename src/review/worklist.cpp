@@ -115,11 +115,21 @@ void NoteCoverage(const PracticeSpans& spans, int history_days, Worklist& workli
   }
 }
 
+// The data coverage of each row's earlier date (its practice's, like the census date's).
+void MarkTrajectories(const PracticeSpans& spans, int history_days, Worklist& worklist) {
+  for (WorklistEntry& entry : worklist.patients) {
+    if (!entry.trajectory) continue;
+    const auto it = spans.find(entry.practice);
+    const std::optional<DataSpan> span = it == spans.end() ? std::nullopt : std::optional<DataSpan>(it->second);
+    MarkTrajectoryCoverage(*entry.trajectory, DataStateOn(span, entry.trajectory->before_on, history_days));
+  }
+}
+
 }  // namespace
 
 Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
   if (options.criteria.empty()) {
-    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X or rule:ID)");
+    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
   }
   if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
   std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates
@@ -170,11 +180,16 @@ Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const Worklis
     for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
     entry.reasons = ExplainBurden(timeline, burden, analysis.tables());
     entry.warnings = EntryWarnings(timeline, burden, options.on, analysis.options().supply.max_supply_days);
+    const Date before_on = MonthsBefore(options.on, kTrajectoryMonths);
+    // The coverage of the earlier date is known after the pass (MarkTrajectories).
+    FillLongitudinal(entry, timeline, burden, analysis.Evaluate(timeline, before_on, AgeOn(history.registry, before_on)),
+                     DataState::kFull);
     worklist.patients.push_back(std::move(entry));
     return true;
   }, &facts);
   if (!status.ok()) return status;
   NoteCoverage(facts.practice_spans, HistoryDays(analysis.options()), worklist);
+  MarkTrajectories(facts.practice_spans, HistoryDays(analysis.options()), worklist);
   std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(worklist.patients.size());
   if (options.remember_run) {

@@ -40,6 +40,42 @@ nlohmann::json PracticeData(const Worklist& worklist) {
   return data;
 }
 
+// ---- longitudinal measures and trajectory (docs/measures.md) ----
+
+nlohmann::json AdherenceJson(const WorklistEntry& e) {
+  nlohmann::json list = nlohmann::json::array();
+  for (const AdherenceEntry& a : e.adherence) {
+    list.push_back({{a.group ? "group" : "medicine", a.name}, {"pdc", a.figure.pdc},
+                    {"dispensings", a.figure.dispensings}});
+  }
+  return list;
+}
+
+std::string LowPdc(const WorklistEntry& e) {
+  std::vector<std::string> low;
+  for (const AdherenceEntry& a : e.adherence) {
+    if (a.figure.pdc < kAdherentPdc - 1e-12) low.push_back(a.name + " " + PdcPercent(a.figure.pdc));
+  }
+  return Join(low, "; ");
+}
+
+std::string TrajectoryLine(const WorklistEntry& e, const std::string& scale) {
+  return e.trajectory ? TrajectoryText(*e.trajectory, scale) : "";
+}
+
+std::vector<std::string> TrajectoryCells(const WorklistEntry& e) {
+  if (!e.trajectory) return {"", "", "", "", "", "", "", ""};
+  const Trajectory& t = *e.trajectory;
+  const auto figure = [&](auto text) { return t.before ? text(*t.before) : std::string(); };
+  return {t.before_on.ToIso(),
+          figure([](const BurdenFigures& b) { return std::to_string(b.items); }),
+          figure([](const BurdenFigures& b) { return std::to_string(b.acb); }),
+          figure([](const BurdenFigures& b) { return FormatNumber(b.dbi, 4); }),
+          figure([](const BurdenFigures& b) { return std::to_string(b.falls); }),
+          figure([](const BurdenFigures& b) { return FormatNumber(b.tsdd, 1); }),
+          Join(t.started, "|"), Join(t.stopped, "|")};
+}
+
 }  // namespace
 
 const char* const kRankIsSortingOrder =
@@ -85,7 +121,9 @@ nlohmann::json WorklistJson(const Worklist& worklist) {
                         {"age", e.age ? nlohmann::json(*e.age) : nlohmann::json(nullptr)},
                         {"items", e.items}, {"acb", e.acb}, {"dbi", e.dbi}, {"reasons", e.reasons},
                         {"rules", e.rule_ids}, {"criteria_met", e.criteria_met}, {"warnings", e.warnings},
-                        {"new", e.is_new}});
+                        {"new", e.is_new}, {"falls", e.falls}, {"tsdd", e.tsdd},
+                        {"tsdd_band", std::string(TsddBand(e.tsdd))}, {"adherence", AdherenceJson(e)},
+                        {"before", e.trajectory ? TrajectoryJson(*e.trajectory) : nlohmann::json(nullptr)}});
   }
   return {{"on", worklist.on.ToIso()}, {"criteria", CriteriaKeys(worklist)}, {"scale", worklist.scale},
           {"patients", patients}, {"patients_considered", worklist.patients_considered},
@@ -106,13 +144,15 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " *" : ""), e.practice, Age(e),
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
-                    std::to_string(e.rule_ids.size())});
+                    std::to_string(e.rule_ids.size()), std::to_string(e.falls), FormatNumber(e.tsdd, 0)});
   }
-  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules"}, rows);
+  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules", "falls", "TSDD"},
+                 rows);
   if (!worklist.patients.empty()) out << "\nReasons:\n";
   for (const WorklistEntry& e : worklist.patients) {
     out << std::to_string(e.rank) << ". " << e.patient << ": " << Join(e.reasons, "; ") << "\n";
     if (!e.warnings.empty()) out << "   check: " << Join(e.warnings, "; ") << "\n";
+    if (e.trajectory) out << "   " << TrajectoryLine(e, worklist.scale) << "\n";
   }
   if (worklist.has_previous_run) out << "\n* new on the list since the previous run with these criteria\n";
   WriteTextCaution(out);
@@ -125,12 +165,16 @@ void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
   // "acb" is the score's key whatever the scale (as in JSON); "scale" names the scale.
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "scale", "dbi", "rules", "criteria_met",
-                 "new", "reasons", "warnings"});
+                 "new", "reasons", "warnings", "falls", "tsdd", "pdc_below_80", "before_on", "before_items",
+                 "before_acb", "before_dbi", "before_falls", "before_tsdd", "started", "stopped"});
   for (const WorklistEntry& e : worklist.patients) {
-    out << CsvRow({std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
-                   std::to_string(e.acb), worklist.scale, FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"),
-                   Join(e.criteria_met, "|"), e.is_new ? "yes" : "no", Join(e.reasons, "; "),
-                   Join(e.warnings, "; ")});
+    std::vector<std::string> cells = {std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
+                                      std::to_string(e.acb), worklist.scale, FormatNumber(e.dbi, 4),
+                                      Join(e.rule_ids, "|"), Join(e.criteria_met, "|"), e.is_new ? "yes" : "no",
+                                      Join(e.reasons, "; "), Join(e.warnings, "; "), std::to_string(e.falls),
+                                      FormatNumber(e.tsdd, 1), LowPdc(e)};
+    for (std::string& cell : TrajectoryCells(e)) cells.push_back(std::move(cell));
+    out << CsvRow(cells);
   }
 }
 
@@ -139,9 +183,12 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " (new)" : ""), e.practice, Age(e),
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
-                    Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; "))});
+                    std::to_string(e.falls), FormatNumber(e.tsdd, 0),
+                    Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; ")) +
+                        (e.trajectory ? ". " + TrajectoryLine(e, worklist.scale) : "")});
   }
-  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "reasons"}, rows);
+  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "falls", "TSDD", "reasons"},
+                 rows);
 }
 
 void WriteWorklistHtmlNotes(std::ostream& out, const Worklist& worklist) {

@@ -87,7 +87,7 @@ void Load(const TempFolder& folder, const ProcessOptions& run, const std::string
 }
 
 // The outputs for one date: review, a cohort series ending on it, a network cohort on it,
-// and meds of the first listed patients.
+// both again on the longitudinal criteria, and meds of the first listed patients.
 std::vector<std::pair<std::string, std::string>> Outputs(const ProcessOptions& run, const std::string& db, Date on,
                                                          const std::vector<std::string>& measure,
                                                          std::vector<std::string>& patients) {
@@ -108,6 +108,12 @@ std::vector<std::pair<std::string, std::string>> Outputs(const ProcessOptions& r
                                               "items=4", "--at-least", "dbi=0.5"}));
   outputs.emplace_back("cohort network", with({"cohort", "--on", on.ToIso(), "--by", "network", "--at-least",
                                                "acb=2"}));
+  // The longitudinal measures: falls-risk medicines, cumulative exposure and adherence.
+  outputs.emplace_back("review longitudinal",
+                       with({"review", "--on", on.ToIso(), "--at-least", "falls=2", "--at-least", "tsdd=30",
+                             "--below", "pdc=0.8", "--below", "pdc=0.8:ace-inhibitor|arb"}));
+  outputs.emplace_back("cohort longitudinal", with({"cohort", "--from", from.ToIso(), "--to", to.ToIso(), "--at-least",
+                                                    "falls=1", "--at-least", "tsdd=60", "--below", "pdc=0.8:statin"}));
   if (patients.empty()) {
     const json review = json::parse(outputs.front().second);
     for (const json& row : review.at("patients")) {

@@ -30,6 +30,19 @@ TEST_CASE("a minimal config takes the documented defaults") {
   CHECK(config->criteria[0].Key() == "items>=10");
 }
 
+TEST_CASE("longitudinal criteria and the exposure years are read, and a pdc class group is worked out") {
+  auto config = Read(R"({"title": "T", "network": "N", "exposure_years": 10,
+    "criteria": ["falls>=3", "tsdd>=1095", "pdc<0.8:statin", "pdc<0.8"]})");
+  REQUIRE(config.ok());
+  REQUIRE(config->criteria.size() == 4);
+  CHECK(config->criteria[0].Key() == "falls>=3");
+  CHECK(config->criteria[1].Key() == "tsdd>=1095");
+  CHECK(config->criteria[2].Key() == "pdc<0.8:statin");
+  CHECK(config->measure.exposure_years == 10);
+  CHECK(config->measure.pdc_groups == std::vector<std::vector<std::string>>{{"statin"}});
+  CHECK(ConfigParameters(*config)["exposure_years"] == 10);
+}
+
 TEST_CASE("every key of the schema is read") {
   auto config = Read(R"({"title": "T", "network": "N", "on": "2026-10-31", "months": 24,
     "criteria": ["items>=10", "acb>=3", "dbi>=1", "rule:opioid-benzodiazepine"],

@@ -282,7 +282,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto none = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {}));
   REQUIRE_FALSE(none.ok());
   CHECK(none.status().code() == StatusCode::kUsage);
-  CHECK(none.status().message() == "a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X or rule:ID)");
+  CHECK(none.status().message() == "a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==

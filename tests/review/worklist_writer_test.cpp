@@ -77,8 +77,9 @@ TEST_CASE("the worklist CSV gives the census date in a comment line after the ca
   REQUIRE(first_end != std::string::npos);
   CHECK(csv.rfind("# CAUTION", 0) == 0);
   CHECK(csv.compare(first_end + 1, 26, "# census date: 2026-12-31\n") == 0);
-  // Comment lines come before the header.
-  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,reasons,warnings\n"));
+  // Comment lines come before the header; the longitudinal columns follow the earlier ones.
+  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,reasons,warnings,falls,tsdd,"
+                 "pdc_below_80,before_on,before_items,before_acb,before_dbi,before_falls,before_tsdd,started,stopped\n"));
   CHECK(csv.find("# note:") < csv.find("\nrank,"));
 }
 

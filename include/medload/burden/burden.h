@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "medload/burden/longitudinal.h"
 #include "medload/burden/measure_options.h"
 #include "medload/burden/tables.h"
 #include "medload/burden/timeline.h"
@@ -88,6 +89,7 @@ struct Burden {
   // A rule with a minimum age would have fired but the age is not known, so it was not
   // judged (outputs say so).
   bool age_unknown_for_rules = false;
+  LongitudinalMeasures longitudinal;  // falls, tsdd, adherence (longitudinal.h)
 };
 
 std::string_view DoseBasisName(DoseBasis basis);

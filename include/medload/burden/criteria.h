@@ -12,27 +12,39 @@
 
 namespace medload {
 
-enum class CriterionKind { kItems, kAcb, kDbi, kRule };
+// kFalls, kTsdd: at least N (docs/measures.md, "Longitudinal measures"); kPdcBelow: some
+// proportion of days covered below X (of any medicine, or of a group of classes).
+enum class CriterionKind { kItems, kAcb, kDbi, kRule, kFalls, kTsdd, kPdcBelow };
 
 struct Criterion {
   CriterionKind kind = CriterionKind::kItems;
-  double threshold = 0;  // items and acb are whole numbers
+  double threshold = 0;  // items, acb and falls are whole numbers; pdc is in (0, 1]
   std::string rule_id;   // kRule only
+  std::vector<std::string> classes;  // kPdcBelow only: the group's classes, sorted; empty: any medicine
 
-  // The output key: "items>=10", "acb>=3", "dbi>=1", "dbi>=1.5", "rule:ID".
+  // The output key: "items>=10", "acb>=3", "dbi>=1", "dbi>=1.5", "rule:ID", "falls>=3",
+  // "tsdd>=1095", "pdc<0.8", "pdc<0.8:ace-inhibitor|arb".
   std::string Key() const;
   // True when `burden` meets the criterion.
   bool Met(const Burden& burden) const;
   bool operator==(const Criterion&) const = default;
 };
 
-// Parses "items=10", "items>=10", "acb=3", "dbi=1.0" (as given to --at-least or found in a
-// config) or "rule:ID" / "rule=ID". Errors name the text and what is accepted.
+// Parses "items=10", "items>=10", "acb=3", "dbi=1.0", "falls=3", "tsdd=1095" (as given to
+// --at-least or found in a config), "pdc<0.8" or "pdc<0.8:CLASS|CLASS" (a config), or
+// "rule:ID" / "rule=ID". Errors name the text and what is accepted.
 Result<Criterion> ParseCriterion(std::string_view text);
+// Parses the value of --below: "pdc=0.8" or "pdc=0.8:CLASS|CLASS" (the only measure
+// selected below a threshold).
+Result<Criterion> ParseBelowCriterion(std::string_view text);
+// Adds the class group of every pdc criterion with classes to options.pdc_groups (once),
+// so that the burden carries their combined PDC.
+void AddPdcGroups(const std::vector<Criterion>& criteria, MeasureOptions& options);
 // The criterion of `--rule ID`.
 Criterion RuleCriterion(std::string id);
 
-// Status::Input if a rule criterion names a rule the tables do not have.
+// Status::Input if a rule criterion names a rule the tables do not have, or a pdc
+// criterion a class that no ingredient carries.
 Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTables& tables);
 
 }  // namespace medload

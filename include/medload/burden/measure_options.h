@@ -34,6 +34,12 @@ struct MeasureOptions {
   // --history-days N: a date in the first N days of a practice's data is marked
   // short-history (default max(84, grace days)). Changes no figure, only its marking.
   std::optional<int> history_days;
+  // --exposure-years N: cumulative anticholinergic exposure (tsdd) counts the dispensings
+  // of the N years ending on the date (default: all data).
+  std::optional<int> exposure_years;
+  // --pdc-class CLASSES (repeatable; a pdc criterion with classes adds its own): groups of
+  // classes ("ace-inhibitor|arb") whose combined proportion of days covered is worked out.
+  std::vector<std::vector<std::string>> pdc_groups;
 };
 
 // The short-history window in force: history_days, or max(84, grace days).

@@ -13,6 +13,7 @@
 #include <nlohmann/json.hpp>
 
 #include "medload/burden/burden.h"
+#include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
 
 namespace medload {
@@ -35,6 +36,8 @@ struct MedsModel {
   // statuses other than "completed"), by status (Store::NotCountingOf): a warning, a
   // `# note:` line in CSV, and "not_counted" in JSON.
   std::map<std::string, long> not_counted;
+  // The same figures 12 months before, and the medicines started and stopped since.
+  std::optional<Trajectory> trajectory;
 };
 
 // The sentence saying how many dispensings do not count and why, or "" when none.

@@ -37,6 +37,11 @@ struct BurdenTables {
   // ingredient -> routes for the DBI. Absent: systemic_routes.
   std::map<std::string, std::unordered_map<std::string, RouteSet>> scale_routes;
   std::unordered_map<std::string, RouteSet> dbi_routes;
+  // Longitudinal measures (docs/measures.md): canonical ingredient -> minimum effective
+  // daily dose in mg (anticholinergic/tsdd.csv), and -> falls-risk categories, sorted
+  // (falls_risk.csv, classes expanded to their ingredients).
+  std::unordered_map<std::string, double> tsdd_doses;
+  std::unordered_map<std::string, std::vector<std::string>> falls_categories;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;

@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "medload/core/status.h"
+#include "medload/formulary/longitudinal_tables.h"
 #include "medload/formulary/product.h"
 #include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
@@ -142,6 +143,8 @@ struct FormularyTables {
   std::vector<DictionaryEntry> dictionary; // dictionary.csv
   std::vector<Rule> rules;
   std::vector<RouteRow> routes;            // routes.csv; routes it does not list keep the default
+  std::vector<TsddDose> tsdd;              // anticholinergic/tsdd.csv (optional file)
+  std::vector<FallsRiskRow> falls_risk;    // falls_risk.csv (optional file)
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
 
@@ -221,6 +224,7 @@ struct FormularyCheck {
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
          products = 0, brands = 0, dictionary_rows = 0, codes = 0, non_medicine_terms = 0,
          rules = 0, routes = 0;
+  size_t tsdd_rows = 0, falls_risk_rows = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };

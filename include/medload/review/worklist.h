@@ -10,6 +10,8 @@
 
 #include "medload/burden/run_context.h"
 #include "medload/burden/criteria.h"
+#include "medload/burden/longitudinal_writer.h"
+#include "medload/burden/trajectory.h"
 #include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
 
@@ -42,7 +44,19 @@ struct WorklistEntry {
   std::vector<std::string> reasons;       // readable, for the pharmacist
   std::vector<std::string> warnings;      // unmatched products, unknown doses, ...
   bool is_new = false;                    // not on the previous run's list (same criteria)
+  // Longitudinal measures on the date (docs/measures.md), and the same figures 12 months
+  // before with the medicines started and stopped since (FillLongitudinal).
+  int falls = 0;
+  double tsdd = 0;
+  std::vector<AdherenceEntry> adherence;  // medicines and class groups with a PDC
+  std::optional<Trajectory> trajectory;
 };
+
+// Fills the longitudinal fields of `entry` from the burden on the census date, and its
+// trajectory from the burden 12 months before (REQUIRES: both evaluated on `timeline`).
+// The reasons gain what stands out (falls-risk medicines, exposure, low PDCs).
+void FillLongitudinal(WorklistEntry& entry, const Timeline& timeline, const Burden& now, const Burden& before,
+                      DataState before_data);
 
 struct Worklist {
   Date on;
