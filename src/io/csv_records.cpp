@@ -246,7 +246,8 @@ std::optional<RowFault> CheckRecordShape(const CsvRow& row, const HeaderLayout& 
                    "has too many fields, the header has " + std::to_string(layout.field_count()));
     case CsvFault::kUnclosedQuote:
       return Fault("unclosed_quote", file, row.line, "row",
-                   "a quoted field is still open at the end of the file");
+                   "a quoted field opened on this line never closes into a valid row; only this "
+                   "line is rejected, the next line is read as a new row");
   }
   if (row.fields.size() != layout.field_count()) {
     return Fault("field_count", file, row.line, "row",

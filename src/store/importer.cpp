@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <array>
 #include <charconv>
+#include <cstring>
 #include <ctime>
 #include <filesystem>
 #include <fstream>
@@ -38,44 +39,63 @@ std::string UtcNow() {
   return buffer;
 }
 
-// True when the first line of `head` ends in a CR alone (classic Mac OS line ends).
-bool HasCrOnlyLineEnds(std::string_view head) {
-  const size_t end = head.find_first_of("\r\n");
-  return end != std::string_view::npos && head[end] == '\r' && end + 1 < head.size() &&
-         head[end + 1] != '\n';
-}
-
 // Serves bytes already read (to look at the start of the input) and then the rest of
-// the stream, so that the readers see the input whole. For input whose line ends are CR
-// alone, every CR is served as LF, so that the readers see its lines (and number them).
+// the stream, so that the readers see the input whole. With `lone_cr_ends_line` (NDJSON,
+// whose reader ends lines at LF), a CR not followed by LF is served as LF, so that a
+// file with CR-only line ends, or a block of them inside an LF file, is read line by line.
+// (The CSV reader ends lines at a CR alone itself.)
 class PrefixedBuffer : public std::streambuf {
  public:
-  PrefixedBuffer(std::string head, std::istream& rest)
-      : head_(std::move(head)), rest_(rest), cr_to_lf_(HasCrOnlyLineEnds(head_)) {
-    Translate(head_.data(), head_.size());
-    setg(head_.data(), head_.data(), head_.data() + head_.size());
-  }
+  PrefixedBuffer(std::string head, std::istream& rest, bool lone_cr_ends_line)
+      : head_(std::move(head)), rest_(rest), lone_cr_ends_line_(lone_cr_ends_line) {}
   bool failed() const { return rest_.bad(); }
 
  protected:
   int_type underflow() override {
     if (gptr() < egptr()) return traits_type::to_int_type(*gptr());
-    rest_.read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
-    const std::streamsize got = rest_.gcount();
-    if (got <= 0) return traits_type::eof();
-    Translate(buffer_.data(), static_cast<size_t>(got));
-    setg(buffer_.data(), buffer_.data(), buffer_.data() + got);
-    return traits_type::to_int_type(*gptr());
+    for (;;) {
+      size_t size = 0;
+      if (carried_cr_) buffer_[size++] = '\r';
+      carried_cr_ = false;
+      const size_t got = Read(buffer_.data() + size, buffer_.size() - size);
+      size += got;
+      if (size == 0) return traits_type::eof();
+      // A CR at the end of what was read may be the first half of a CRLF: held back until
+      // the next byte is known.
+      if (lone_cr_ends_line_ && got > 0 && buffer_[size - 1] == '\r') {
+        carried_cr_ = true;
+        --size;
+      }
+      if (size == 0) continue;
+      if (lone_cr_ends_line_) TranslateLoneCr(size);
+      setg(buffer_.data(), buffer_.data(), buffer_.data() + size);
+      return traits_type::to_int_type(*gptr());
+    }
   }
 
  private:
-  void Translate(char* data, size_t size) const {
-    if (cr_to_lf_) std::replace(data, data + size, '\r', '\n');
+  size_t Read(char* into, size_t room) {
+    if (head_used_ < head_.size()) {
+      const size_t take = std::min(room, head_.size() - head_used_);
+      std::memcpy(into, head_.data() + head_used_, take);
+      head_used_ += take;
+      return take;
+    }
+    rest_.read(into, static_cast<std::streamsize>(room));
+    return static_cast<size_t>(std::max<std::streamsize>(0, rest_.gcount()));
+  }
+
+  void TranslateLoneCr(size_t size) {
+    for (size_t i = 0; i < size; ++i) {
+      if (buffer_[i] == '\r' && (i + 1 == size || buffer_[i + 1] != '\n')) buffer_[i] = '\n';
+    }
   }
 
   std::string head_;
+  size_t head_used_ = 0;
   std::istream& rest_;
-  bool cr_to_lf_;
+  bool lone_cr_ends_line_;
+  bool carried_cr_ = false;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -139,9 +159,11 @@ class Session {
   bool patient_index_live() const { return !patient_index_deferred_; }
   sqlite3* db() const { return db_; }
 
-  // One more row read; reports progress.
-  void Tick() {
+  // One more row read, spanning `lines` physical lines; reports progress.
+  void Tick(size_t lines) {
     ++summary_.read;
+    summary_.row_lines += static_cast<long>(lines);
+    if (lines > 1) ++summary_.multiline_rows;
     if (options_.progress_every > 0 && options_.progress &&
         summary_.read % options_.progress_every == 0) {
       options_.progress(summary_.read);
@@ -244,7 +266,7 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
   Record record;
   CsvRow row;
   while (reader.Next(row)) {
-    session.Tick();
+    session.Tick(row.line_count);
     std::optional<RowFault> fault;
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
@@ -359,7 +381,7 @@ Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSu
   if (Status status = patients.Prepare(session.db(), session.source()); !status.ok()) return status;
   FhirItem item;
   while (reader.Next(item)) {
-    session.Tick();
+    session.Tick(1);
     if (item.kind != FhirItemKind::kRejected) {
       if (std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true)) {
         item.kind = FhirItemKind::kRejected;
@@ -404,6 +426,8 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   }
   Result<HeaderLayout> layout = HeaderLayout::Find(kind, header, options.columns, summary.file);
   if (!layout.ok()) return layout.status();
+  reader.ExpectFields(layout->field_count());
+  summary.header_lines = static_cast<long>(header.line_count);
   if (Status status = session.Begin(); !status.ok()) return status;
   if (kind == InputKind::kDispensing) {
     Status status = session.DeferPatientIndexIfLarge(size_bytes / kCsvBytesPerRow);
@@ -412,6 +436,7 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   const RowContext context{summary.file, options.date_order};
   Status status = ImportCsv(kind, reader, *layout, context, session);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
+  summary.lines = static_cast<long>(reader.lines());
   read_failed = reader.read_failed();
   return status;
 }
@@ -430,6 +455,7 @@ Status ImportFhirInput(InputKind kind, std::istream& in, uint64_t size_bytes, Se
   FhirReader reader(in, summary.file);
   Status status = ImportFhir(kind, reader, session, summary);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
+  summary.lines = summary.row_lines + summary.blank_lines;  // one resource a line
   read_failed = reader.read_failed();
   return status;
 }
@@ -506,7 +532,7 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   head.resize(static_cast<size_t>(in.gcount()));
   const bool ndjson = LooksLikeNdjson(head);
   summary.format = ndjson ? "fhir" : "csv";
-  PrefixedBuffer buffer(std::move(head), in);
+  PrefixedBuffer buffer(std::move(head), in, ndjson);
   std::istream whole(&buffer);
   Session session(store, summary, options);
   bool read_failed = false;

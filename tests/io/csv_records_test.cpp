@@ -115,7 +115,8 @@ TEST_CASE("each fault of a dispensing row has its reason and exact message") {
       {"R1,P1,A1,2024-03-01,Amlodipine\xFF,,,28,,,", "invalid_utf8",
        "dispensing.csv:2: row: is not valid UTF-8 (save the file as UTF-8)"},
       {"R1,P1,A1,2024-03-01,\"Amlodipine,,,28,,,", "unclosed_quote",
-       "dispensing.csv:2: row: a quoted field is still open at the end of the file"},
+       "dispensing.csv:2: row: a quoted field opened on this line never closes into a valid row; only this "
+       "line is rejected, the next line is read as a new row"},
   };
   for (const Case& c : cases) {
     CAPTURE(c.line);

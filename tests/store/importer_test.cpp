@@ -280,6 +280,69 @@ TEST_CASE("line ends of a CR alone are line ends, and rows keep their line numbe
   CHECK(Count(store, "SELECT source_line FROM dispensings WHERE patient_id = 'P3'") == 4);
 }
 
+TEST_CASE("a stray quote rejects its own line only, and every physical line is counted") {
+  // 2,000 rows; a quote opens a field on row 1,000 and, in the second file, a later row
+  // holds a quoted field that would close it.
+  for (const bool closed_later : {false, true}) {
+    CAPTURE(closed_later);
+    std::string text = "record_id,patient_id,dispensed_on,product,quantity,days_supply\n";
+    for (int i = 1; i <= 2000; ++i) {
+      const std::string product = i == 1000                    ? "\"Amlodipine 5mg tablets"
+                                  : closed_later && i == 1010 ? "\"Amlodipine, 5mg\""
+                                                              : "Amlodipine 5mg tablets";
+      text += "S" + std::to_string(i) + ",P" + std::to_string(i % 97) + ",2024-01-05," + product + ",28,28\n";
+    }
+    Store store = Memory();
+    Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text);
+    REQUIRE(summary.ok());
+    CheckAddsUp(*summary);
+    CHECK(summary->read == 2000);
+    CHECK(summary->imported == 1999);
+    CHECK(summary->reasons == std::map<std::string, long>{{"unclosed_quote", 1}});
+    CHECK(summary->examples.front().rfind("dispensing.csv:1001: row: a quoted field opened on this line", 0) == 0);
+    CHECK(summary->lines == 2001);
+    CHECK(summary->lines == summary->header_lines + summary->blank_lines + summary->row_lines);
+    CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'S1001'") == 1002);
+  }
+}
+
+TEST_CASE("a block of CR-only lines inside an LF file is read line by line, in CSV and in FHIR") {
+  std::string csv = "record_id,patient_id,dispensed_on,product,quantity\n";
+  std::string fhir;
+  for (int i = 1; i <= 100; ++i) {
+    const char* end = i >= 30 && i < 69 ? "\r" : "\n";
+    csv += "M" + std::to_string(i) + ",P1,2024-01-05,X," + std::to_string(i) + end;
+    fhir += R"({"resourceType":"MedicationDispense","id":"f)" + std::to_string(i) +
+            R"(","subject":{"reference":"Patient/P1"},"medicationCodeableConcept":{"text":"X"},)"
+            R"("quantity":{"value":1},"whenHandedOver":"2024-01-02"})" + end;
+  }
+  Store store = Memory();
+  for (const std::string& text : {csv, fhir}) {
+    Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text);
+    REQUIRE(summary.ok());
+    CHECK(summary->read == 100);
+    CHECK(summary->imported == 100);
+    CHECK(summary->rejected == 0);
+    CHECK(summary->lines == summary->header_lines + 100);
+  }
+  CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'M69'") == 70);
+}
+
+TEST_CASE("a quoted line break inside a row is one row of two lines in the line count") {
+  Store store = Memory();
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing,
+                                         "patient_id,dispensed_on,product,quantity,dosage\n"
+                                         "P1,2024-01-05,X,28,\"take one\ndaily\"\n\nP2,2024-01-05,X,28,\n");
+  REQUIRE(summary.ok());
+  CHECK(summary->read == 2);
+  CHECK(summary->imported == 2);
+  CHECK(summary->lines == 5);
+  CHECK(summary->header_lines == 1);
+  CHECK(summary->blank_lines == 1);
+  CHECK(summary->row_lines == 3);
+  CHECK(summary->multiline_rows == 1);
+}
+
 TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
   Store store = Memory();
   ImportOptions options;
