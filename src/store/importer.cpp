@@ -106,6 +106,31 @@ bool LooksLikeNdjson(std::string_view head) {
   return first != std::string_view::npos && head[first] == '{';
 }
 
+// The first 128 bits of the SHA-256 of `text`, in hex.
+std::string Sha256Hex128(std::string_view text) {
+  unsigned char digest[EVP_MAX_MD_SIZE];
+  unsigned int digest_size = 0;
+  EVP_Digest(text.data(), text.size(), digest, &digest_size, EVP_sha256(), nullptr);
+  static constexpr char kHex[] = "0123456789abcdef";
+  std::string hex;
+  for (size_t i = 0; i < 16 && i < digest_size; ++i) {
+    hex += kHex[digest[i] >> 4];
+    hex += kHex[digest[i] & 0x0f];
+  }
+  return hex;
+}
+
+// The identity of a rejected row across imports: the same row as written, on the same
+// line of an input of the same kind.
+std::string RejectedRowKey(std::string_view kind, size_t line, std::string_view original) {
+  std::string text(kind);
+  text += '\x1f';
+  text += std::to_string(line);
+  text += '\x1f';
+  text += original;
+  return Sha256Hex128(text);
+}
+
 // Counts, the --rejects output, the rejected_rows table and the run row of one file,
 // inside the file's transaction.
 class Session {
@@ -128,10 +153,12 @@ class Session {
     if (!transaction.ok()) return transaction.status();
     transaction_.emplace(std::move(transaction.value()));
     if (Status status = InsertRun("running"); !status.ok()) return status;
+    // A row rejected again by a re-import of its file is kept once, under the new run.
     Result<Statement> reject = Statement::Prepare(
         db_,
-        "INSERT INTO rejected_rows (run_id, line, reason, message, original_row)"
-        " VALUES (?1, ?2, ?3, ?4, ?5)");
+        "INSERT INTO rejected_rows (run_id, line, reason, message, original_row, row_key)"
+        " VALUES (?1, ?2, ?3, ?4, ?5, ?6) ON CONFLICT (row_key) DO UPDATE SET"
+        " run_id = excluded.run_id, reason = excluded.reason, message = excluded.message");
     if (!reject.ok()) return reject.status();
     insert_reject_ = std::move(reject.value());
     return Status::Ok();
@@ -182,7 +209,26 @@ class Session {
     insert_reject_.BindText(3, fault.reason);
     insert_reject_.BindText(4, fault.message);
     insert_reject_.BindText(5, original);
+    reject_key_ = RejectedRowKey(summary_.kind, line, original);  // bound without a copy
+    insert_reject_.BindText(6, reject_key_);
     return insert_reject_.Run();
+  }
+
+  // Counts a dispensing's outcome; a record id conflict is a rejected row, named by its
+  // `field` ("record_id", or "/id" in FHIR).
+  Status CountDispensing(WriteOutcome outcome, const DispensingWriter& writer,
+                         const DispensingRecord& record, size_t line, std::string_view text,
+                         std::string_view field) {
+    if (outcome != WriteOutcome::kConflict) {
+      Count(outcome);
+      return Status::Ok();
+    }
+    const RowFault fault{
+        "record_id_conflict",
+        FaultMessage(summary_.file, line, field,
+                     QuoteForMessage(record.record_id) + " is already stored for a different dispensing (read from " +
+                         writer.conflict() + "); a record id must name one dispensing only")};
+    return Reject(line, fault, text);
   }
 
   void Count(WriteOutcome outcome) {
@@ -256,6 +302,7 @@ class Session {
   const ImportOptions& options_;
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
+  std::string reject_key_;
   bool patient_index_deferred_ = false;
 };
 
@@ -275,7 +322,7 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
     }
-    if (Status status = store(record, row.line); !status.ok()) return status;
+    if (Status status = store(record, row.line, row.text); !status.ok()) return status;
   }
   return Status::Ok();
 }
@@ -286,7 +333,7 @@ Status ImportCsvWith(CsvReader& reader, const HeaderLayout& layout, const RowCon
   Writer writer;
   if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
   return ImportCsvRows<Record>(reader, layout, context, session, parse,
-                               [&](const Record& record, size_t) -> Status {
+                               [&](const Record& record, size_t, std::string_view) -> Status {
                                  Result<WriteOutcome> outcome = writer.Write(record);
                                  if (!outcome.ok()) return outcome.status();
                                  session.Count(*outcome);
@@ -303,10 +350,11 @@ class DispensingBatch {
 
   DispensingBatch(DispensingWriter& writer, Session& session) : writer_(writer), session_(session) {}
 
-  Status Add(const DispensingRecord& record, size_t line) {
+  Status Add(const DispensingRecord& record, size_t line, std::string_view text) {
     if (size_ == records_.size()) records_.emplace_back();
     records_[size_].record = record;  // reuses the slot's string capacity
     records_[size_].line = line;
+    records_[size_].text.assign(text);  // for a rejected row, should the record id clash
     ++size_;
     return size_ == kRows ? Flush() : Status::Ok();
   }
@@ -323,7 +371,9 @@ class DispensingBatch {
     for (const Slot* slot : order_) {
       Result<WriteOutcome> outcome = writer_.Write(slot->record, slot->line, false);
       if (!outcome.ok()) return outcome.status();
-      session_.Count(*outcome);
+      Status status = session_.CountDispensing(*outcome, writer_, slot->record, slot->line,
+                                               slot->text, "record_id");
+      if (!status.ok()) return status;
     }
     return Status::Ok();
   }
@@ -332,6 +382,7 @@ class DispensingBatch {
   struct Slot {
     DispensingRecord record;
     size_t line = 0;
+    std::string text;
   };
   DispensingWriter& writer_;
   Session& session_;
@@ -349,17 +400,18 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
       if (!session.patient_index_live()) {  // rows go in file order: record ids ascend
         return ImportCsvRows<DispensingRecord>(
             reader, layout, context, session, ParseDispensingRow,
-            [&](const DispensingRecord& record, size_t line) -> Status {
+            [&](const DispensingRecord& record, size_t line, std::string_view text) -> Status {
               Result<WriteOutcome> outcome = writer.Write(record, line, false);
               if (!outcome.ok()) return outcome.status();
-              session.Count(*outcome);
-              return Status::Ok();
+              return session.CountDispensing(*outcome, writer, record, line, text, "record_id");
             });
       }
       DispensingBatch batch(writer, session);
       Status status = ImportCsvRows<DispensingRecord>(
           reader, layout, context, session, ParseDispensingRow,
-          [&](const DispensingRecord& record, size_t line) { return batch.Add(record, line); });
+          [&](const DispensingRecord& record, size_t line, std::string_view text) {
+            return batch.Add(record, line, text);
+          });
       return status.ok() ? batch.Flush() : status;
     }
     case InputKind::kPatients:
@@ -404,9 +456,14 @@ Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSu
       outcome = patients.Write(item.patient);
     } else {
       outcome = dispensings.Write(item.dispense, item.line, true);
-      if (outcome.ok() && *outcome != WriteOutcome::kDuplicate && !StatusCounts(item.dispense.status)) {
+      if (!outcome.ok()) return outcome.status();
+      if (*outcome != WriteOutcome::kDuplicate && *outcome != WriteOutcome::kConflict &&
+          !StatusCounts(item.dispense.status)) {
         ++summary.not_counted[item.dispense.status];
       }
+      Status status = session.CountDispensing(*outcome, dispensings, item.dispense, item.line, item.text, "/id");
+      if (!status.ok()) return status;
+      continue;
     }
     if (!outcome.ok()) return outcome.status();
     session.Count(*outcome);
@@ -479,10 +536,8 @@ void AppendNormalised(std::string& key, std::string_view text) {
 
 }  // namespace
 
-std::string DispensingKey(const DispensingRecord& record) {
-  if (!record.record_id.empty()) return "r:" + record.record_id;
-  std::string content;
-  content.reserve(256);
+void DispensingContent(const DispensingRecord& record, std::string& content) {
+  content.clear();
   AppendNormalised(content, record.patient_id);
   content += record.dispensed_on.ToIso();
   content += '\x1f';
@@ -497,16 +552,14 @@ std::string DispensingKey(const DispensingRecord& record) {
   content += '\x1f';
   AppendNormalised(content, record.dosage);
   AppendNormalised(content, record.practice);
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int digest_size = 0;
-  EVP_Digest(content.data(), content.size(), digest, &digest_size, EVP_sha256(), nullptr);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string key = "h:";
-  for (size_t i = 0; i < 16 && i < digest_size; ++i) {
-    key += kHex[digest[i] >> 4];
-    key += kHex[digest[i] & 0x0f];
-  }
-  return key;
+}
+
+std::string DispensingKey(const DispensingRecord& record) {
+  if (!record.record_id.empty()) return "r:" + record.record_id;
+  std::string content;
+  content.reserve(256);
+  DispensingContent(record, content);
+  return "h:" + Sha256Hex128(content);
 }
 
 namespace {

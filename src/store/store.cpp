@@ -127,6 +127,13 @@ CREATE TRIGGER dispensing_updated_unpacks AFTER UPDATE ON dispensings
 CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
   BEGIN DELETE FROM packed_histories_state; END;
 )sql",
+    // 3 -> 4: a rejected row is kept once, whichever import rejected it last: row_key is
+    // a hash of the input kind, the line and the row as written (rows stored before this
+    // version have none, and stay as they were).
+    R"sql(
+ALTER TABLE rejected_rows ADD COLUMN row_key TEXT;
+CREATE UNIQUE INDEX rejected_rows_by_key ON rejected_rows(row_key);
+)sql",
 };
 
 bool FileExists(const std::string& path) {

@@ -280,6 +280,59 @@ TEST_CASE("line ends of a CR alone are line ends, and rows keep their line numbe
   CHECK(Count(store, "SELECT source_line FROM dispensings WHERE patient_id = 'P3'") == 4);
 }
 
+TEST_CASE("a record id reused for another patient's dispensing is a conflict, not a duplicate") {
+  const auto file = [](const std::string& patient, const std::string& product) {
+    std::string text = "record_id,patient_id,dispensed_on,product,quantity\n";
+    for (int i = 1; i <= 200; ++i) {
+      text += std::to_string(i) + "," + patient + ",2024-01-05," + product + "," + std::to_string(i) + "\n";
+    }
+    return text;
+  };
+  Store store = Memory();
+  REQUIRE(Import(store, InputKind::kDispensing, file("PA", "Amlodipine 5mg tablets")).ok());
+  // The same ids for another patient: rejected, and over the reject rate the file is
+  // rolled back.
+  Result<ImportSummary> other = Import(store, InputKind::kDispensing, file("PB", "Amlodipine 5mg tablets"));
+  REQUIRE(other.ok());
+  CheckAddsUp(*other);
+  CHECK(other->duplicates == 0);
+  CHECK(other->rejected == 200);
+  CHECK(other->reasons == std::map<std::string, long>{{"record_id_conflict", 200}});
+  CHECK(other->rolled_back);
+  CHECK(other->examples.front() ==
+        "dispensing.csv:2: record_id: \"1\" is already stored for a different dispensing (read from "
+        "\"dispensing.csv\" line 2); a record id must name one dispensing only");
+  // The same ids and content, written differently: duplicates.
+  Result<ImportSummary> again = Import(store, InputKind::kDispensing, file("PA", " AMLODIPINE  5mg tablets"));
+  REQUIRE(again.ok());
+  CHECK(again->duplicates == 200);
+  CHECK(again->rejected == 0);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings WHERE patient_id = 'PB'") == 0);
+  // FHIR: a dispense id already stored for another patient.
+  ImportOptions keep;
+  keep.max_reject_rate = 1;
+  Result<ImportSummary> fhir = Import(
+      store, InputKind::kDispensing,
+      R"({"resourceType":"MedicationDispense","id":"1","status":"completed","subject":{"reference":"Patient/PC"},)"
+      R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      keep);
+  REQUIRE(fhir.ok());
+  CHECK(fhir->reasons == std::map<std::string, long>{{"record_id_conflict", 1}});
+  CHECK(fhir->examples.front().rfind("dispensing.csv:1: /id: \"1\" is already stored", 0) == 0);
+}
+
+TEST_CASE("re-importing a file keeps each of its rejected rows once in the store") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  for (int run = 0; run < 3; ++run) {
+    REQUIRE(Import(store, InputKind::kDispensing, kMixed, options).ok());
+  }
+  CHECK(Count(store, "SELECT COUNT(*) FROM rejected_rows") == 4);
+  CHECK(Count(store, "SELECT COUNT(DISTINCT run_id) FROM rejected_rows") == 1);
+  CHECK(Count(store, "SELECT MIN(run_id) FROM rejected_rows") == 3);  // the latest run
+}
+
 TEST_CASE("a stray quote rejects its own line only, and every physical line is counted") {
   // 2,000 rows; a quote opens a field on row 1,000 and, in the second file, a later row
   // holds a quoted field that would close it.

@@ -57,4 +57,10 @@ Result<ImportSummary> ImportFile(Store& store, InputKind kind, const std::string
 // runs of spaces as one).
 std::string DispensingKey(const DispensingRecord& record);
 
+// The normalised content that DispensingKey hashes for a row without a record id (patient,
+// date, product, code, code system, quantity, days supply, dosage and practice), into
+// `out`. Two rows with the same record id are the same dispensing only when this is the
+// same for both.
+void DispensingContent(const DispensingRecord& record, std::string& out);
+
 }  // namespace medload

@@ -20,7 +20,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 3;
+inline constexpr int kStoreSchemaVersion = 4;
 
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
