@@ -81,7 +81,13 @@ TEST_CASE("each malformed element is reported with its JSON pointer") {
        "rules.json: /rules/0/age_min: not a whole number from 0 to 150"},
       {R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s", "measures": {"dbi": "high"},
            "require": [{"classes": ["x"]}]}]})",
-       "rules.json: /rules/0/measures/dbi: not a number >= 0"},
+       "rules.json: /rules/0/measures/dbi: not a number from 0 to 100"},
+      {R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s", "measures": {"dbi": 1e400},
+           "require": [{"classes": ["x"]}]}]})",
+       "rules.json: not valid JSON (a number is out of range)"},
+      {R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s", "measures": {"dbi": 250},
+           "require": [{"classes": ["x"]}]}]})",
+       "rules.json: /rules/0/measures/dbi: not a number from 0 to 100"},
   };
   for (const Case& c : cases) {
     const std::string expected = c.fault;
