@@ -204,36 +204,64 @@ TEST_CASE("network-level outputs carry no patient identifier") {
   }
 }
 
-TEST_CASE("report pages and worklists that name patients are owner-only, the overview is not") {
+TEST_CASE("a report folder is private whatever the umask: the folder 0700, every file 0600") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
   BuildNetwork(folder, run);
-  const mode_t old_mask = ::umask(022);
-  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
-  ::umask(old_mask);
-  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
-  size_t private_files = 0;
-  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
-    const std::string name = entry.path().filename().string();
-    CAPTURE(name);
-    if (name.rfind("practice-", 0) == 0 || name.rfind("worklist-", 0) == 0) {
+  for (const mode_t mask : {mode_t{0}, mode_t{022}}) {
+    CAPTURE(mask);
+    const std::string out = "out" + std::to_string(mask);
+    const mode_t old_mask = ::umask(mask);
+    ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", out}, run);
+    ::umask(old_mask);
+    REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+    CHECK(ModeOf(folder.File(out)) == 0700);
+    CHECK(ModeOf(folder.File(out + "/digests")) == 0700);
+    size_t files = 0;
+    for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File(out))) {
+      const std::string name = entry.path().filename().string();
+      CAPTURE(name);
+      if (!entry.is_regular_file()) continue;
       CHECK(ModeOf(entry.path().string()) == 0600);
-      ++private_files;
-    } else if (entry.is_regular_file()) {
-      CHECK(ModeOf(entry.path().string()) == 0644);
+      CHECK(name.find(".medload-") == std::string::npos);  // no temporary file left
+      ++files;
     }
+    CHECK(files >= 9);  // index, cohort csv and json, run.json, two pages, two worklists, digests
   }
-  CHECK(private_files == 4);
-  // A re-run narrows a worklist that was made readable by others in the meantime.
+  // A re-run replaces a worklist that was made readable by others in the meantime.
   const std::string worklist = [&] {
-    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out0"))) {
       if (entry.path().filename().string().rfind("worklist-", 0) == 0) return entry.path().string();
     }
     return std::string();
   }();
   REQUIRE(::chmod(worklist.c_str(), 0644) == 0);
-  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run).exit_code == 0);
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out0"}, run).exit_code == 0);
   CHECK(ModeOf(worklist) == 0600);
+}
+
+TEST_CASE("a report folder or file of another user is refused with exit 2 and left unchanged") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  constexpr uid_t kNobody = 65534;
+  if (geteuid() != 0) {
+    MESSAGE("skipped: only the superuser can give a file to another user");
+    return;
+  }
+  fs::create_directories(folder.File("theirs"));
+  REQUIRE(::chown(folder.File("theirs").c_str(), kNobody, kNobody) == 0);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "theirs"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err.find("theirs: belongs to another user (uid 65534); medload writes patient-level data only") !=
+        std::string::npos);
+  CHECK(fs::is_empty(folder.File("theirs")));
+  // A file of another user inside the user's own report folder.
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "mine"}, run).exit_code == 0);
+  REQUIRE(::chown(folder.File("mine/index.html").c_str(), kNobody, kNobody) == 0);
+  report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "mine"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err.find("index.html: belongs to another user") != std::string::npos);
 }
 
 }  // TEST_SUITE

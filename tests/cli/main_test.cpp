@@ -139,6 +139,66 @@ TEST_CASE("--output of a patient-level command is owner-only, of a practice-leve
   ::umask(old_mask);
 }
 
+TEST_CASE("a command that fails before writing leaves --output as it was") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  folder.Write("review.txt", "last month's worklist\n");
+  const ProcessResult result =
+      RunMedload({"--db", "missing.db", "review", "--on", "2024-01-31", "--at-least", "items=1", "--output",
+                  "review.txt"},
+                 run);
+  CHECK(result.exit_code == 2);
+  CHECK(result.err.find("review.txt was left as it was") != std::string::npos);
+  CHECK(ReadWholeFile(folder.File("review.txt")) == "last month's worklist\n");
+  CHECK(std::distance(fs::directory_iterator(folder.File("")), fs::directory_iterator()) == 3);  // + .out, .err
+}
+
+TEST_CASE("patient-level output into another user's file is refused with exit 2 and the file kept") {
+  if (geteuid() != 0) {
+    MESSAGE("skipped: only the superuser can give a file to another user");
+    return;
+  }
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  ImportFixtures(run);
+  for (const char* name : {"theirs.txt", "rejects.csv"}) {
+    folder.Write(name, "theirs\n");
+    REQUIRE(::chown(folder.File(name).c_str(), kNobody, kNobody) == 0);
+  }
+  const ProcessResult review =
+      RunMedload({"review", "--on", "2024-01-31", "--at-least", "items=1", "--output", "theirs.txt"}, run);
+  CHECK(review.exit_code == 2);
+  CHECK(review.err.find("theirs.txt: belongs to another user (uid 65534)") != std::string::npos);
+  const ProcessResult import = RunMedload({"import", "dispensing", std::string(MEDLOAD_TEST_DATA) + "/import/dispensing.csv",
+                                           "--rejects", "rejects.csv"},
+                                          run);
+  CHECK(import.exit_code == 2);
+  CHECK(import.err.find("rejects.csv: belongs to another user") != std::string::npos);
+  for (const char* name : {"theirs.txt", "rejects.csv"}) {
+    CAPTURE(name);
+    CHECK(ReadWholeFile(folder.File(name)) == "theirs\n");
+  }
+  // Practice-level output is not refused.
+  CHECK(RunMedload({"cohort", "--on", "2024-01-31", "--at-least", "items=1", "--output", "theirs.txt"}, run)
+            .exit_code == 0);
+}
+
+TEST_CASE("control characters in a file name or identifier are shown escaped on the terminal") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  ImportFixtures(run);
+  const ProcessResult missing = RunMedload({"import", "dispensing", "evil\x1b]0;owned\x07\r.csv"}, run);
+  CHECK(missing.exit_code == 2);
+  CHECK(missing.err.find('\x1b') == std::string::npos);
+  CHECK(missing.err.find('\r') == std::string::npos);
+  CHECK(missing.err.find("evil\\x1b]0;owned\\x07\\x0d.csv") != std::string::npos);
+  const ProcessResult meds = RunMedload({"meds", "P\xE2\x80\xAE\x1b[2J", "--on", "2024-01-31"}, run);
+  CHECK(meds.out.find('\x1b') == std::string::npos);
+  CHECK(meds.err.find('\x1b') == std::string::npos);
+  CHECK(meds.out.find("\xE2\x80\xAE") == std::string::npos);
+  CHECK(meds.err.find("\xE2\x80\xAE") == std::string::npos);
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload
