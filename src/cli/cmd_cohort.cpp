@@ -98,7 +98,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (!options.ok()) return options.status();
   auto measure = ReadMeasureFlags(vm);
   if (!measure.ok()) return measure.status();
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return store.status();
   auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
   if (!analysis.ok()) return analysis.status();

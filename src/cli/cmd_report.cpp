@@ -46,7 +46,7 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   const std::string config_path = (*vm)["config"].as<std::string>();
   auto config = LoadReportConfig(config_path);
   if (!config.ok()) return fail(config.status());
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = Analysis::Open(context.formulary_dir, config->measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());

@@ -42,7 +42,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());

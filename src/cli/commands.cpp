@@ -18,6 +18,7 @@ int RunDemo(Context& context, const std::vector<std::string>& args);
 int RunFormularyCheck(Context& context, const std::vector<std::string>& args);
 int RunFormularyLookup(Context& context, const std::vector<std::string>& args);
 int RunFormularyUnmatched(Context& context, const std::vector<std::string>& args);
+int RunStorePack(Context& context, const std::vector<std::string>& args);
 
 const std::vector<Command>& Commands() {
   static const std::vector<Command> kCommands = {
@@ -33,6 +34,7 @@ const std::vector<Command>& Commands() {
       {"formulary check", "validate the formulary tables; every fault as file:line: fault", RunFormularyCheck},
       {"formulary lookup", "show how a product description or code resolves", RunFormularyLookup},
       {"formulary unmatched", "stored products that nothing in the formulary recognises", RunFormularyUnmatched},
+      {"store pack", "pack every patient's history once, for readers that may not write the store", RunStorePack},
       {"report", "the batch report of a care network into a folder (--config, --out)", RunReportCommand},
       {"demo", "the bundled invented network: worklist, cohort table and report into a folder", RunDemo},
       {"synth", "write a synthetic, deterministic data set (invented network)", RunSynth},

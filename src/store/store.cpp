@@ -4,6 +4,7 @@
 
 #include <sqlite3.h>
 #include <sys/stat.h>
+#include <unistd.h>
 
 #include <array>
 #include <chrono>
@@ -161,6 +162,13 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   if (options.must_exist && !in_memory && !FileExists(path)) {
     return Status::Input("no store at \"" + path + "\": import data first, or give --db PATH");
   }
+  if (!in_memory) {
+    if (Status status = CheckStoreFile(path, options.must_exist); !status.ok()) return status;
+  }
+  // A store this user may not write: read-only for commands that only read.
+  if (options.read_only_allowed && !in_memory && ::access(path.c_str(), W_OK) != 0) {
+    return OpenReadOnly(path, options);
+  }
   if (!in_memory && !path.empty() && !FileExists(path)) {
     // A new store holds patient-level data: created owner-only, so that SQLite, which
     // gives its -wal and -shm files the mode of the database file, creates them so too.
@@ -177,9 +185,23 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   }
   Store store(db, path);
   if (sqlite3_db_readonly(db, "main") == 1) {
+    if (options.read_only_allowed) return OpenReadOnly(path, options);
     return Status::Input("cannot open the store \"" + path + "\": the file is read-only");
   }
-  if (Status status = store.Configure(options); !status.ok()) return status;
+  sqlite3_busy_timeout(db, options.busy_timeout_ms);
+  // Before anything is written: another program's database is never turned into a store.
+  if (Status status = store.CheckIdentity(options.must_exist); !status.ok()) {
+    const int error = sqlite3_errcode(db) & 0xff;
+    if (options.read_only_allowed && (error == SQLITE_CANTOPEN || error == SQLITE_READONLY)) {
+      return OpenReadOnly(path, options);
+    }
+    return status;
+  }
+  if (Status status = store.Configure(options); !status.ok()) {
+    // The folder cannot take the -wal and -shm files: read-only for commands that read.
+    if (options.read_only_allowed && !in_memory) return OpenReadOnly(path, options);
+    return status;
+  }
   if (Status status = store.Migrate(); !status.ok()) return status;
   return store;
 }
@@ -187,7 +209,8 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
 Store::Store(Store&& other) noexcept
     : db_(std::exchange(other.db_, nullptr)),
       path_(std::move(other.path_)),
-      busy_timeout_ms_(other.busy_timeout_ms_) {}
+      busy_timeout_ms_(other.busy_timeout_ms_),
+      read_only_(other.read_only_) {}
 
 Store& Store::operator=(Store&& other) noexcept {
   if (this != &other) {
@@ -195,6 +218,7 @@ Store& Store::operator=(Store&& other) noexcept {
     db_ = std::exchange(other.db_, nullptr);
     path_ = std::move(other.path_);
     busy_timeout_ms_ = other.busy_timeout_ms_;
+    read_only_ = other.read_only_;
   }
   return *this;
 }
@@ -329,7 +353,8 @@ Result<Store> Store::OpenPeer() const {
   if (!mine.ok()) return mine.status();
   StoreOptions options;
   options.must_exist = true;
-  Result<Store> peer = Store::Open(path_, options);
+  options.read_only_allowed = read_only_;
+  Result<Store> peer = read_only_ ? OpenReadOnly(path_, options) : Store::Open(path_, options);
   if (!peer.ok()) return peer.status();
   // A smaller memory map (176 MiB) and page cache (8 MiB) than a store's own connection
   // (256 and 16): mapped file pages count in the process's resident size once per
@@ -354,7 +379,7 @@ StoreSnapshot::~StoreSnapshot() {
 Status Store::SaveResolution(std::string_view product, std::string_view code,
                              std::string_view code_system, std::string_view checksum,
                              std::string_view resolution_json) {
-  if (sqlite3_get_autocommit(db_) == 0) return Status::Ok();  // inside a snapshot
+  if (sqlite3_get_autocommit(db_) == 0 || read_only_) return Status::Ok();  // inside a snapshot, or read-only
   Result<Statement> stmt = Statement::Prepare(
       db_,
       "INSERT INTO product_resolutions (product, code, code_system, formulary_checksum,"
@@ -371,6 +396,7 @@ Status Store::SaveResolution(std::string_view product, std::string_view code,
 
 Status Store::SaveRun(std::string_view kind, std::string_view key, std::string_view date_iso,
                       std::string_view payload_json) {
+  if (read_only_) return Status::Ok();  // a store read where it cannot be written keeps no runs
   Result<Statement> stmt = Statement::Prepare(
       db_,
       "INSERT INTO runs (kind, criteria_key, run_date, payload) VALUES (?1, ?2, ?3, ?4)"

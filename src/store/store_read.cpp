@@ -259,7 +259,7 @@ Result<bool> Store::PackedHistoriesCurrent() const {
 }
 
 Status Store::RefreshPackedHistories() const {
-  if (InSnapshot()) return Status::Ok();
+  if (InSnapshot() || read_only_) return Status::Ok();
   Result<bool> current = PackedHistoriesCurrent();
   if (!current.ok()) return current.status();
   if (*current) return Status::Ok();

@@ -68,39 +68,86 @@ TEST_CASE("read commands on a store that does not exist fail with exit 2 naming 
   }
 }
 
-TEST_CASE("a read-only store file is refused with exit 2 naming it, and left unchanged") {
+TEST_CASE("a read-only store file is read by the read commands, left unchanged, and refused for import") {
   TempFolder folder;
   ImportFixtures(InFolder(folder.File("")));
   const std::string db = folder.File("medload.db");
   REQUIRE(::chmod(db.c_str(), 0444) == 0);
   const auto size = fs::file_size(db);
   const ProcessOptions run = Unprivileged(folder);
-  std::vector<std::vector<std::string>> commands = kReadCommands;
-  commands.push_back({"import", "dispensing", std::string(MEDLOAD_TEST_DATA) + "/import/dispensing.csv"});
-  for (const std::vector<std::string>& args : commands) {
+  for (const std::vector<std::string>& args : kReadCommands) {
     CAPTURE(args[0]);
     const ProcessResult result = RunMedload(args, run);
-    CHECK(result.exit_code == 2);
-    CHECK(result.err.find("\"medload.db\"") != std::string::npos);
+    CHECK_MESSAGE(result.exit_code == 0, result.err);
+    CHECK(result.out.find("CAUTION") != std::string::npos);
   }
+  const ProcessResult import =
+      RunMedload({"import", "dispensing", std::string(MEDLOAD_TEST_DATA) + "/import/dispensing.csv"}, run);
+  CHECK(import.exit_code == 2);
+  CHECK(import.err.find("\"medload.db\"") != std::string::npos);
   CHECK(fs::file_size(db) == size);
   CHECK(ModeOf(db) == 0444);
 }
 
-TEST_CASE("a store in a folder that cannot be written is refused with exit 2 naming it") {
+TEST_CASE("a store in a folder that cannot be written is read by the read commands as written") {
   TempFolder folder;
   ImportFixtures(InFolder(folder.File("")));
+  // What the commands give with the store writable, to compare with.
+  std::vector<std::string> expected;
+  for (const std::vector<std::string>& args : kReadCommands) {
+    expected.push_back(RunMedload(args, InFolder(folder.File(""))).out);
+  }
   const ProcessOptions run = Unprivileged(folder);
   if (run.run_as) REQUIRE(::chown(folder.File("medload.db").c_str(), kNobody, kNobody) == 0);
   // The store's -wal and -shm files cannot be made beside it.
   REQUIRE(::chmod(folder.File("").c_str(), 0555) == 0);
-  for (const std::vector<std::string>& args : kReadCommands) {
-    CAPTURE(args[0]);
-    const ProcessResult result = RunMedload(args, run);
-    CHECK(result.exit_code == 2);
-    CHECK(result.err.find("\"medload.db\"") != std::string::npos);
+  const auto entries = std::distance(fs::directory_iterator(folder.File("")), fs::directory_iterator());
+  for (size_t i = 0; i < kReadCommands.size(); ++i) {
+    CAPTURE(kReadCommands[i][0]);
+    const ProcessResult result = RunMedload(kReadCommands[i], run);
+    CHECK_MESSAGE(result.exit_code == 0, result.err);
+    CHECK(result.out == expected[i]);
   }
   REQUIRE(::chmod(folder.File("").c_str(), 0755) == 0);
+  CHECK(std::distance(fs::directory_iterator(folder.File("")), fs::directory_iterator()) == entries);
+}
+
+TEST_CASE("read commands refuse a --db that is not a medload store, saying what it is") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  folder.Write("empty.db", "");
+  folder.Write("notes.txt", "notes\n");
+  for (const auto& [file, what] : std::vector<std::pair<std::string, std::string>>{
+           {"empty.db", "is an empty file, not a medload store"},
+           {"notes.txt", "is not a medload store: it is not a SQLite database"}}) {
+    for (const std::vector<std::string>& command : kReadCommands) {
+      CAPTURE(file);
+      CAPTURE(command[0]);
+      std::vector<std::string> args = {"--db", file};
+      args.insert(args.end(), command.begin(), command.end());
+      const ProcessResult result = RunMedload(args, run);
+      CHECK(result.exit_code == 2);
+      CHECK(result.err.find("\"" + file + "\" " + what) != std::string::npos);
+    }
+  }
+  CHECK(fs::file_size(folder.File("empty.db")) == 0);
+}
+
+TEST_CASE("store pack packs the histories once, and a read-only store then reads the packed copy") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  ImportFixtures(run);
+  const ProcessResult first = RunMedload({"store", "pack"}, run);
+  REQUIRE_MESSAGE(first.exit_code == 0, first.err);
+  CHECK(first.out.rfind("medload.db: packed the histories of ", 0) == 0);
+  const ProcessResult again = RunMedload({"store", "pack"}, run);
+  CHECK(again.out.rfind("medload.db: the packed histories are already current\n", 0) == 0);
+  const std::string expected = RunMedload(kReadCommands[0], run).out;
+  REQUIRE(::chmod(folder.File("medload.db").c_str(), 0444) == 0);
+  const ProcessResult read = RunMedload(kReadCommands[0], Unprivileged(folder));
+  CHECK(read.exit_code == 0);
+  CHECK(read.out == expected);
+  CHECK(RunMedload({"--db", "missing.db", "store", "pack"}, run).exit_code == 2);
 }
 
 TEST_CASE("a store made by an import is readable by its owner only") {
