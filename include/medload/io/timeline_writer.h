@@ -7,6 +7,7 @@
 #include <optional>
 #include <span>
 #include <string>
+#include <vector>
 
 #include "medload/burden/timeline.h"
 
@@ -23,6 +24,12 @@ struct TimelineModel {
 
 // Number of medicines with an episode containing each day from `from` to `to`.
 std::vector<int> ConcurrentCounts(const Timeline& timeline, Date from, Date to);
+
+// What the chart leaves out, one sentence each, in every format: the dispensings of each
+// product nothing in the formulary recognises (by name, at most 20, then how many more),
+// of non-medicines, those left out by --exclude-prn or --exclude-route, and those whose
+// status does not count. Empty when nothing is left out.
+std::vector<std::string> NotDrawnNotes(const Timeline& timeline);
 
 void WriteTimelineSvg(std::ostream& out, const TimelineModel& model);
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model);
