@@ -1,6 +1,7 @@
 #include "medload/burden/burden.h"
 
 #include <algorithm>
+#include <cmath>
 #include <map>
 #include <set>
 
@@ -101,7 +102,9 @@ std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::st
     dose.basis = DoseBasis::kQuantity;
     dose.supply_assumed = use.supply.rule == SupplyRule::kDefaultDays;
   }
-  if (!(dose.dose_mg_per_day > 0)) return std::nullopt;
+  // A dose that cannot be worked out (none, or beyond any number) is unknown: the
+  // ingredient is listed as incomplete, never a blank or infinite contribution.
+  if (!(dose.dose_mg_per_day > 0) || !std::isfinite(dose.dose_mg_per_day)) return std::nullopt;
   return dose;
 }
 

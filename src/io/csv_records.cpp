@@ -266,6 +266,10 @@ std::optional<RowFault> ParseQuantity(std::string_view text, std::string_view fi
     return Fault("bad_quantity", file, line, field, Quoted(text) + " is not a number");
   }
   if (value <= 0) return Fault("bad_quantity", file, line, field, Quoted(text) + " is not above zero");
+  if (value > kMaxQuantity) {
+    return Fault("bad_quantity", file, line, field,
+                 Quoted(text) + " is above 1000000, the largest plausible quantity (check the unit)");
+  }
   quantity = value;
   return std::nullopt;
 }
@@ -283,6 +287,9 @@ std::optional<RowFault> ParseDaysSupply(std::string_view text, std::string_view 
     return Fault("bad_days_supply", file, line, field, Quoted(text) + " is not a whole number of days");
   }
   if (value <= 0) return Fault("bad_days_supply", file, line, field, Quoted(text) + " is not above zero");
+  if (value > kMaxDaysSupply) {
+    return Fault("bad_days_supply", file, line, field, Quoted(text) + " is above 3650 days (ten years)");
+  }
   days = static_cast<int>(value);
   return std::nullopt;
 }

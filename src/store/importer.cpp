@@ -18,6 +18,7 @@
 #include "medload/io/csv_reader.h"
 #include "medload/io/fhir_reader.h"
 #include "store/control_characters.h"
+#include "store/record_checks.h"
 #include "store/record_writers.h"
 #include "store/sqlite.h"
 
@@ -318,6 +319,7 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
     if (!fault) fault = parse(row, layout, context, record);
+    if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv);
     if (fault) {
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
@@ -435,7 +437,13 @@ Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSu
   while (reader.Next(item)) {
     session.Tick(1);
     if (item.kind != FhirItemKind::kRejected) {
-      if (std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true)) {
+      std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true);
+      if (!fault) {
+        fault = item.kind == FhirItemKind::kDispense
+                    ? RecordFault(item.dispense, summary.file, item.line, FieldNames::kFhir)
+                    : RecordFault(item.patient, summary.file, item.line, FieldNames::kFhir);
+      }
+      if (fault) {
         item.kind = FhirItemKind::kRejected;
         item.fault = std::move(*fault);
       }

@@ -396,6 +396,72 @@ TEST_CASE("a quoted line break inside a row is one row of two lines in the line 
   CHECK(summary->multiline_rows == 1);
 }
 
+TEST_CASE("identifiers holding a line break, tab or bidi control are rejected, in CSV and in FHIR") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  // U+202E RIGHT-TO-LEFT OVERRIDE; source: Unicode Standard Annex #9, table 4.
+  Result<ImportSummary> csv = Import(store, InputKind::kDispensing,
+                                     "record_id,patient_id,practice,dispensed_on,product,quantity\n"
+                                     "R1,\"P1\nP2\",A1,2024-01-05,X,1\n"
+                                     "R2,P\xE2\x80\xAE" "3,A1,2024-01-05,X,1\n"
+                                     "R3,P4,\"A\t1\",2024-01-05,X,1\n"
+                                     "R\xE2\x81\xA6" "4,P5,A1,2024-01-05,X,1\n"
+                                     "R5,P6,A1,2024-01-05,X,1\n",
+                                     options);
+  REQUIRE(csv.ok());
+  CHECK(csv->read == 5);
+  CHECK(csv->imported == 1);
+  CHECK(csv->reasons == std::map<std::string, long>{{"bad_identifier", 4}});
+  CHECK(csv->examples == std::vector<std::string>{
+                             "dispensing.csv:2: patient_id: holds the character \\x0a; identifiers must be plain text (it "
+                             "would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:4: patient_id: holds the character \\u202E; identifiers must be plain text "
+                             "(it would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:5: practice: holds the character \\x09; identifiers must be plain text (it "
+                             "would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:6: record_id: holds the character \\u2066; identifiers must be plain text "
+                             "(it would reorder or break the lines of every output naming it)"});
+  Result<ImportSummary> patients = Import(store, InputKind::kPatients,
+                                          "patient_id,birth_date\nP\xE2\x80\x8F" "7,1950\n", options);
+  REQUIRE(patients.ok());
+  CHECK(patients->reasons == std::map<std::string, long>{{"bad_identifier", 1}});
+  Result<ImportSummary> fhir = Import(
+      store, InputKind::kDispensing,
+      R"({"resourceType":"MedicationDispense","id":"m8","subject":{"reference":"Patient/P\u202e8"},)"
+      R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      options);
+  REQUIRE(fhir.ok());
+  CHECK(fhir->reasons == std::map<std::string, long>{{"bad_identifier", 1}});
+  CHECK(fhir->examples.front().rfind("dispensing.csv:1: /subject/reference: holds the character \\u202E", 0) == 0);
+}
+
+TEST_CASE("a quantity, days supply or strength beyond plausible bounds is rejected with its reason") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing,
+                                         "patient_id,dispensed_on,product,quantity,days_supply\n"
+                                         "P1,2024-01-05,Amlodipine 5mg tablets,1e308,28\n"
+                                         "P2,2024-01-05,Amlodipine 5mg tablets,28,10000\n"
+                                         "P3,2024-01-05,Amlodipine 5000000mg tablets,28,28\n"
+                                         "P4,2024-01-05,Benzathine benzylpenicillin 2400000 units injection,1,28\n"
+                                         "P5,2024-01-05,Hydrocortisone 150% cream,1,28\n"
+                                         "P6,2024-01-05,Glucose 75g sachets,1,\n",
+                                         options);
+  REQUIRE(summary.ok());
+  CheckAddsUp(*summary);
+  CHECK(summary->imported == 2);
+  CHECK(summary->reasons == std::map<std::string, long>{
+                                {"bad_days_supply", 1}, {"bad_quantity", 1}, {"implausible_strength", 2}});
+  CHECK(summary->examples[2] ==
+        "dispensing.csv:4: product: \"Amlodipine 5000000mg tablets\": a strength of 5000000 mg is above the "
+        "plausible 1000000 mg; check the description");
+  CHECK(summary->examples[3] ==
+        "dispensing.csv:6: product: \"Hydrocortisone 150% cream\": a strength of 150 % is above the plausible "
+        "100 %; check the description");
+}
+
 TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
   Store store = Memory();
   ImportOptions options;
