@@ -204,6 +204,32 @@ TEST_CASE("network-level outputs carry no patient identifier") {
   }
 }
 
+TEST_CASE("control characters and bidi controls in the report title reach no output raw") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  // An escape sequence and U+202E RIGHT-TO-LEFT OVERRIDE (Unicode Standard Annex #9).
+  folder.Write("hostile.json",
+               "{\"title\":\"Invented \\u001b]0;owned\\u0007 \\u202e Net\",\"network\":\"Invented Net\","
+               "\"on\":\"2024-03-10\",\"months\":2,\"criteria\":[\"items>=1\"],"
+               "\"digests\":{\"to\":[\"team@example.invalid\"],\"triggers\":{\"rise_patients\":1}}}");
+  const ProcessResult report = RunMedload({"report", "--config", "hostile.json", "--out", "out"}, run);
+  REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  std::vector<std::pair<std::string, std::string>> outputs = {{"stdout", report.out}, {"stderr", report.err}};
+  for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File("out"))) {
+    if (entry.is_regular_file()) outputs.emplace_back(entry.path().string(), ReadWholeFile(entry.path().string()));
+  }
+  size_t shown = 0;
+  for (const auto& [name, text] : outputs) {
+    CAPTURE(name);
+    CHECK(text.find('\x1b') == std::string::npos);
+    CHECK(text.find('\x07') == std::string::npos);
+    CHECK(text.find("\xE2\x80\xAE") == std::string::npos);
+    if (text.find("\\x1b]0;owned") != std::string::npos || text.find("\\u001b]0;owned") != std::string::npos) ++shown;
+  }
+  CHECK(shown >= 4);  // stdout, the overview, a practice page and a digest at least
+}
+
 TEST_CASE("a report folder is private whatever the umask: the folder 0700, every file 0600") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
