@@ -230,6 +230,7 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
   // The visitor, on this thread, in range order: range r comes from reader r % n.
   Status status;
   std::exception_ptr failure;
+  long capped_patients = 0;
   std::vector<bool> reader_done(readers_used, false);
   // Takes the reader's next batch, keeping the first fault it carries.
   auto next = [&](size_t reader) {
@@ -248,6 +249,7 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
       for (size_t i = 0; i < batch->used && !stop; ++i) {
         try {
           const Slot& slot = batch->slots[i];
+          if (slot.history.dropped > 0) ++capped_patients;
           PassPatient patient(slot.history, slot.timeline, slot.matches, analysis);
           if (!visit(patient)) stop = true;
         } catch (...) {
@@ -269,6 +271,8 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
   analysis.SaveResolutions();
   if (failure) std::rethrow_exception(failure);
   if (status.ok() && facts != nullptr) {
+    facts->capped_patients = capped_patients;
+    facts->history_bound = store.history_bound();
     facts->latest_dispensed.reset();
     for (const Reader& reader : readers) {
       if (reader.latest_dispensed && (!facts->latest_dispensed || *facts->latest_dispensed < *reader.latest_dispensed)) {
@@ -277,6 +281,14 @@ Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const Pass
     }
   }
   return status;
+}
+
+std::optional<std::string> CappedHistoriesNote(long patients, size_t bound) {
+  if (patients <= 0) return std::nullopt;
+  return std::to_string(patients) + (patients == 1 ? " patient has" : " patients have") + " more than " +
+         std::to_string(bound) +
+         " counting dispensings: only the latest of each are read, so figures for dates before them may miss "
+         "medicines (check the source of such histories)";
 }
 
 }  // namespace medload

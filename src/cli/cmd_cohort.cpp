@@ -6,6 +6,7 @@
 
 #include "cli/measure_flags.h"
 #include "medload/burden/analysis.h"
+#include "medload/burden/patient_pass.h"
 #include "medload/cohort/cohort.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
@@ -165,6 +166,10 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   if (beyond_data) {
     Warn(context, *beyond_data);
     table.notes.push_back(std::move(*beyond_data));
+  }
+  if (auto capped = CappedHistoriesNote(tally->capped_patients, tally->history_bound)) {
+    Warn(context, *capped);
+    table.notes.push_back(std::move(*capped));
   }
   if (!table.complete && !context.quiet) {
     *context.err << "medload: note: only " << table.shards << " are in this result\n";

@@ -33,7 +33,8 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return fail(store.status());
   auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
-  auto records = store->DispensingsOf(patient);
+  long dropped = 0;
+  auto records = store->DispensingsOf(patient, &dropped);
   if (!records.ok()) return fail(records.status());
   auto registry = store->PatientOf(patient);
   if (!registry.ok()) return fail(registry.status());
@@ -44,6 +45,12 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto latest = store->LatestDispensed();
   if (!latest.ok()) return fail(latest.status());
   std::optional<std::string> census_note = CensusBeyondDataNote(*on, *latest);
+  if (dropped > 0) {  // a history past the bound on one patient's dispensings
+    const std::string capped = "only the latest " + std::to_string(records->size()) + " of the patient's " +
+                               std::to_string(static_cast<long>(records->size()) + dropped) +
+                               " counting dispensings are read: medicines dispensed only before them are missing";
+    census_note = census_note ? *census_note + "; " + capped : capped;
+  }
   if (census_note) Warn(context, *census_note);
 
   const Timeline timeline = analysis->BuildTimeline(*records);

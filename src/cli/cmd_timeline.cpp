@@ -46,7 +46,8 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return fail(store.status());
   auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
-  auto records = store->DispensingsOf(patient);
+  long dropped = 0;
+  auto records = store->DispensingsOf(patient, &dropped);
   if (!records.ok()) return fail(records.status());
   if (records->empty()) return fail(Status::Input("patient \"" + patient + "\" has no dispensings in " + context.db_path));
   const Timeline timeline = analysis->BuildTimeline(*records);
@@ -55,6 +56,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   model.patient = patient;
   model.timeline = &timeline;
   model.records = *records;
+  model.dropped = dropped;
   model.from = records->front().dispensed_on;
   model.to = model.from;
   DefaultRange(timeline, model.from, model.to);

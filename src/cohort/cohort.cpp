@@ -84,6 +84,8 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   if (!status.ok()) return status;
   CohortTally tally = counter.Take();
   tally.latest_dispensed = facts.latest_dispensed;
+  tally.capped_patients = facts.capped_patients;
+  tally.history_bound = facts.history_bound;
   return tally;
 }
 

@@ -100,8 +100,12 @@ void WriteSvgNotes(std::ostream& out, const std::vector<std::string>& notes, int
 
 }  // namespace
 
-std::vector<std::string> NotDrawnNotes(const Timeline& timeline) {
+std::vector<std::string> NotDrawnNotes(const Timeline& timeline, long dropped, size_t kept) {
   std::vector<std::string> notes;
+  if (dropped > 0) {
+    notes.push_back("Not drawn: the oldest " + Dispensings(dropped) + " of the patient; a history is read up to its latest " +
+                    std::to_string(kept) + " dispensings.");
+  }
   long unmatched = 0;
   for (const UnmatchedProduct& product : timeline.unmatched) unmatched += product.items;
   if (unmatched > 0) {
@@ -159,7 +163,7 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
   const int rows = static_cast<int>(model.timeline->medicines.size());
   const int plot_top = 40;
   const int rows_bottom = plot_top + rows * kRowHeight;
-  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline);
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
   const int notes_top = rows_bottom + 30 + kCountHeight + 10;
   const int height = notes_top + static_cast<int>(notes.size()) * 14 + 30;
   const std::string title = "Medication episodes of patient " + model.patient + ", " + model.from.ToIso() +
@@ -192,7 +196,7 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model) {
   WriteHtmlStart(out, "Medication timeline of patient " + model.patient);
   WriteTimelineSvg(out, model);
-  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline);
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
   if (!notes.empty()) {
     out << "<ul class=\"notes\">\n";
     for (const std::string& note : notes) out << "<li>" << EscapeHtml(note) << "</li>\n";
@@ -221,7 +225,7 @@ void WriteTimelineText(std::ostream& out, const TimelineModel& model) {
   out << "Medication episodes of patient " << model.patient << ", " << model.from.ToIso() << " to "
       << model.to.ToIso() << "\n\n";
   WriteTextTable(out, {"medicine", "start", "end", "days", "dispensings"}, EpisodeRows(model));
-  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline);
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
   if (!notes.empty()) out << "\n";
   for (const std::string& note : notes) out << note << "\n";
   WriteTextCaution(out);
@@ -230,7 +234,7 @@ void WriteTimelineText(std::ostream& out, const TimelineModel& model) {
 void WriteTimelineCsv(std::ostream& out, const TimelineModel& model) {
   WriteCsvCaution(out);
   // What is not drawn: comment lines after the caution, before the header.
-  for (const std::string& note : NotDrawnNotes(*model.timeline)) out << CsvRow({"# " + note});
+  for (const std::string& note : NotDrawnNotes(*model.timeline, model.dropped, model.records.size())) out << CsvRow({"# " + note});
   out << CsvRow({"patient", "medicine", "start", "end", "days", "dispensings"});
   for (auto& row : EpisodeRows(model)) {
     row.insert(row.begin(), model.patient);

@@ -133,6 +133,7 @@ struct Pass {
   std::map<std::string, std::vector<WorklistEntry>> entries;  // practice -> rows
   std::map<std::string, long> considered;                     // practice -> registered on `on`
   long patients = 0;
+  long capped = 0;  // patients whose oldest dispensings were left out
 };
 
 Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
@@ -140,6 +141,7 @@ Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& confi
   return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
     ++pass.patients;
+    if (history.dropped > 0) ++pass.capped;
     if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
     std::optional<Burden> census;
     pass.counter.Add(history, [&](Date date, std::optional<int> age) {
@@ -212,6 +214,8 @@ Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, con
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;
+  model.capped_patients = pass.capped;
+  model.history_bound = store.history_bound();
   model.tally = pass.counter.Take();
   auto chosen = ChoosePractices(*known, config, model.tally);
   if (!chosen.ok()) return chosen.status();

@@ -3,6 +3,7 @@
 
 #include <sstream>
 
+#include "medload/burden/patient_pass.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/census_note.h"
 #include "medload/io/output.h"
@@ -84,6 +85,7 @@ void WriteRunFacts(std::ostream& out, const ReportModel& model) {
 std::vector<std::string> ReportWarnings(const ReportModel& model) {
   std::vector<std::string> warnings;
   if (auto note = CensusBeyondDataNote(model.on, model.data.latest_dispensed)) warnings.push_back(std::move(*note));
+  if (auto note = CappedHistoriesNote(model.capped_patients, model.history_bound)) warnings.push_back(std::move(*note));
   return warnings;
 }
 

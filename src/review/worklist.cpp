@@ -148,6 +148,7 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
   }, &facts);
   if (!status.ok()) return status;
   worklist.latest_dispensed = facts.latest_dispensed;
+  if (auto note = CappedHistoriesNote(facts.capped_patients, facts.history_bound)) worklist.notes.push_back(std::move(*note));
   std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(worklist.patients.size());
   if (options.remember_run) {

@@ -6,6 +6,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <array>
 #include <chrono>
 #include <thread>
@@ -130,10 +131,14 @@ CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
 )sql",
     // 3 -> 4: a rejected row is kept once, whichever import rejected it last: row_key is
     // a hash of the input kind, the line and the row as written (rows stored before this
-    // version have none, and stay as they were).
+    // version have none, and stay as they were). A packed history holds at most the
+    // latest kMaxDispensingsPerPatient dispensings and says how many older ones it left
+    // out; the copy is packed again.
     R"sql(
 ALTER TABLE rejected_rows ADD COLUMN row_key TEXT;
 CREATE UNIQUE INDEX rejected_rows_by_key ON rejected_rows(row_key);
+ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
+DELETE FROM packed_histories_state;
 )sql",
 };
 
@@ -210,7 +215,8 @@ Store::Store(Store&& other) noexcept
     : db_(std::exchange(other.db_, nullptr)),
       path_(std::move(other.path_)),
       busy_timeout_ms_(other.busy_timeout_ms_),
-      read_only_(other.read_only_) {}
+      read_only_(other.read_only_),
+      max_dispensings_(other.max_dispensings_) {}
 
 Store& Store::operator=(Store&& other) noexcept {
   if (this != &other) {
@@ -219,6 +225,7 @@ Store& Store::operator=(Store&& other) noexcept {
     path_ = std::move(other.path_);
     busy_timeout_ms_ = other.busy_timeout_ms_;
     read_only_ = other.read_only_;
+    max_dispensings_ = other.max_dispensings_;
   }
   return *this;
 }
@@ -228,6 +235,7 @@ Store::~Store() { sqlite3_close(db_); }
 Status Store::Configure(const StoreOptions& options) {
   sqlite3_busy_timeout(db_, options.busy_timeout_ms);
   busy_timeout_ms_ = options.busy_timeout_ms;
+  max_dispensings_ = std::max<size_t>(1, options.max_dispensings_per_patient);
   // The page size applies only when the file is new (before WAL is set): 16 KiB pages
   // make bulk imports cheaper (fewer pages and writes). WAL lets readers run beside one
   // writer and survives a killed writer; synchronous=NORMAL is durable across process
@@ -354,6 +362,7 @@ Result<Store> Store::OpenPeer() const {
   StoreOptions options;
   options.must_exist = true;
   options.read_only_allowed = read_only_;
+  options.max_dispensings_per_patient = max_dispensings_;
   Result<Store> peer = read_only_ ? OpenReadOnly(path_, options) : Store::Open(path_, options);
   if (!peer.ok()) return peer.status();
   // A smaller memory map (176 MiB) and page cache (8 MiB) than a store's own connection

@@ -5,6 +5,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <array>
 #include <cerrno>
 #include <cstring>
@@ -107,6 +108,7 @@ Result<Store> Store::OpenReadOnly(const std::string& path, const StoreOptions& o
   Store store(*db, path);
   store.read_only_ = true;
   store.busy_timeout_ms_ = options.busy_timeout_ms;
+  store.max_dispensings_ = std::max<size_t>(1, options.max_dispensings_per_patient);
   Status identity = store.CheckIdentity(true);
   const int error = sqlite3_errcode(store.db_) & 0xff;
   if (!identity.ok() && (error == SQLITE_CANTOPEN || error == SQLITE_READONLY)) {
@@ -123,6 +125,7 @@ Result<Store> Store::OpenReadOnly(const std::string& path, const StoreOptions& o
     store = Store(*db, path);
     store.read_only_ = true;
     store.busy_timeout_ms_ = options.busy_timeout_ms;
+    store.max_dispensings_ = std::max<size_t>(1, options.max_dispensings_per_patient);
     identity = store.CheckIdentity(true);
   }
   if (!identity.ok()) return identity;

@@ -60,6 +60,21 @@ TEST_CASE("every timeline format says how many dispensings of which unrecognised
   }
 }
 
+TEST_CASE("a timeline of a history cut by the store's bound says how many older dispensings it left out") {
+  Timeline timeline = WithUnrecognised();
+  timeline.unmatched.clear();
+  timeline.non_medicine_items = 0;
+  const std::vector<std::string> notes = NotDrawnNotes(timeline, 280000, 20000);
+  REQUIRE(notes.size() == 1);
+  CHECK(notes[0] == "Not drawn: the oldest 280000 dispensings of the patient; a history is read up to its latest "
+                    "20000 dispensings.");
+  TimelineModel model = Model(timeline);
+  model.dropped = 1;
+  std::ostringstream out;
+  WriteTimelineCsv(out, model);
+  CHECK(out.str().find("# Not drawn: the oldest 1 dispensing of the patient;") != std::string::npos);
+}
+
 TEST_CASE("a timeline that leaves nothing out has no notes") {
   Timeline timeline = WithUnrecognised();
   timeline.unmatched.clear();

@@ -7,6 +7,7 @@
 #include <functional>
 #include <optional>
 #include <span>
+#include <string>
 #include <vector>
 
 #include "medload/burden/analysis.h"
@@ -42,7 +43,15 @@ struct PassFacts {
   // The latest counting dispensing among the patients read (every patient, unless the
   // visitor stopped the pass early): Store::LatestDispensed without a walk of the table.
   std::optional<Date> latest_dispensed;
+  // Patients whose oldest dispensings were left out (PatientHistory::dropped > 0), and
+  // the bound that cut them (Store::history_bound).
+  long capped_patients = 0;
+  size_t history_bound = kMaxDispensingsPerPatient;
 };
+
+// The note outputs carry when `patients` histories were cut to their latest `bound`
+// dispensings; nullopt when none were.
+std::optional<std::string> CappedHistoriesNote(long patients, size_t bound);
 
 // Returns false to stop the pass early.
 using PassVisit = std::function<bool(PassPatient&)>;

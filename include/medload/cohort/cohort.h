@@ -53,6 +53,10 @@ struct CohortTally {
   // The latest counting dispensing in the store RunCohort read (every patient, whatever
   // the shard), for the census-date warning. Not saved with the tally nor merged.
   std::optional<Date> latest_dispensed;
+  // Patients whose oldest dispensings the pass left out (PassFacts::capped_patients). Not
+  // saved with the tally nor merged.
+  long capped_patients = 0;
+  size_t history_bound = 0;  // PassFacts::history_bound
 
   // True when every one of the N shards is covered.
   bool complete() const { return shards.size() == shard_count; }

@@ -49,6 +49,8 @@ struct ReportModel {
   std::string formulary_checksum;
   std::string measure;                      // the measure options in words
   long patients_seen = 0;                   // patients visited in the pass
+  long capped_patients = 0;                 // of them, histories cut to their latest
+  size_t history_bound = 0;                 // Store::history_bound dispensings
 };
 
 // Called every so many patients with the number visited so far (progress on stderr).

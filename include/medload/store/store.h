@@ -22,6 +22,13 @@ namespace medload {
 // The schema version this build writes; older stores are migrated forward on Open.
 inline constexpr int kStoreSchemaVersion = 4;
 
+// The most counting dispensings of one patient that reads hold (the latest ones): memory
+// stays bounded whatever one id's history holds (a feed that gives every item one id, a
+// test id). 20,000 is over a century of a patient on fifteen monthly medicines; past it the
+// older dispensings are left out of every figure, and outputs say so
+// (docs/reliability.md, "Bounded memory").
+inline constexpr size_t kMaxDispensingsPerPatient = 20000;
+
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
   int busy_timeout_ms = 30000;
@@ -32,6 +39,8 @@ struct StoreOptions {
   // cannot take its -wal and -shm files, is opened read-only instead of refused. The
   // store then writes nothing: no packed copy, no cached resolutions, no saved runs.
   bool read_only_allowed = false;
+  // The most counting dispensings of one patient that reads hold (the latest ones).
+  size_t max_dispensings_per_patient = kMaxDispensingsPerPatient;
 };
 
 // Everything the store keeps about one patient, in the order cohort runs need it.
@@ -39,6 +48,8 @@ struct PatientHistory {
   std::string patient_id;
   std::optional<PatientRecord> registry;       // the registry row, if imported
   std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
+                                               // (the latest max_dispensings_per_patient)
+  long dropped = 0;  // older counting dispensings left out by that bound
 };
 
 // One distinct product as dispensed, with how often and to how many patients.
@@ -141,14 +152,21 @@ class Store {
   const std::string& path() const { return path_; }
   // True when opened read-only (StoreOptions::read_only_allowed): writes are skipped.
   bool read_only() const { return read_only_; }
+  // The most counting dispensings of one patient that reads hold (StoreOptions).
+  size_t history_bound() const { return max_dispensings_; }
   // The schema version recorded in the file (kStoreSchemaVersion after a successful Open).
   Result<int> SchemaVersion() const;
 
   // One patient's counting dispensings (status empty or "completed"), in dispensed_on
-  // order, then in import order. Empty when the patient is unknown.
-  Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id) const;
-  // Every stored dispensing of the patient, whatever its status, in the same order.
-  Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id) const;
+  // order, then in import order: the latest max_dispensings_per_patient of them, and
+  // `dropped` (may be null) says how many older ones were left out. Empty when the
+  // patient is unknown.
+  Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id,
+                                                      long* dropped = nullptr) const;
+  // Every stored dispensing of the patient, whatever its status, in the same order, up to
+  // the same bound (the latest ones); `dropped` (may be null) as above.
+  Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id,
+                                                         long* dropped = nullptr) const;
   // The patient's registry row, or nullopt when none was imported.
   Result<std::optional<PatientRecord>> PatientOf(std::string_view patient_id) const;
 
@@ -273,6 +291,7 @@ class Store {
   std::string path_;
   int busy_timeout_ms_ = 0;  // as opened (StoreOptions), for waits set back after a try
   bool read_only_ = false;
+  size_t max_dispensings_ = kMaxDispensingsPerPatient;  // StoreOptions::max_dispensings_per_patient
 };
 
 }  // namespace medload
