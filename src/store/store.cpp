@@ -191,7 +191,9 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   Store store(db, path);
   if (sqlite3_db_readonly(db, "main") == 1) {
     if (options.read_only_allowed) return OpenReadOnly(path, options);
-    return Status::Input("cannot open the store \"" + path + "\": the file is read-only");
+    return Status::Input("cannot write the store \"" + path +
+                         "\": the file is read-only; run this command as a user who may write it, or give --db a "
+                         "store that can be written");
   }
   sqlite3_busy_timeout(db, options.busy_timeout_ms);
   // Before anything is written: another program's database is never turned into a store.

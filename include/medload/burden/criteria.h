@@ -27,7 +27,9 @@ struct Criterion {
 };
 
 // Parses "items=10", "items>=10", "acb=3", "dbi=1.0" (as given to --at-least or found in a
-// config) or "rule:ID" / "rule=ID". Errors name the text and what is accepted.
+// config) or "rule:ID" / "rule=ID". Thresholds are numbers from 0: items and acb whole
+// numbers up to 1000, dbi up to 100 (inf, nan and 1e400 are refused). Errors
+// (Status::Usage) name the text, the fault and what is accepted.
 Result<Criterion> ParseCriterion(std::string_view text);
 // The criterion of `--rule ID`.
 Criterion RuleCriterion(std::string id);
