@@ -3,7 +3,7 @@
 // month-ends.
 #include <benchmark/benchmark.h>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 
 namespace medload {
 namespace {
@@ -33,14 +33,14 @@ std::vector<DispensingRecord> Patient() {
   return records;
 }
 
-Analysis& SharedAnalysis() {
-  static Analysis analysis = std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+RunContext& SharedAnalysis() {
+  static RunContext analysis = std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
   return analysis;
 }
 
 void BM_BuildTimeline(benchmark::State& state) {
   const auto records = Patient();
-  Analysis& analysis = SharedAnalysis();
+  RunContext& analysis = SharedAnalysis();
   for (auto _ : state) benchmark::DoNotOptimize(analysis.BuildTimeline(records));
   state.SetItemsProcessed(state.iterations() * static_cast<int64_t>(records.size()));
 }
@@ -48,7 +48,7 @@ BENCHMARK(BM_BuildTimeline);
 
 void BM_EvaluateOneDate(benchmark::State& state) {
   const auto records = Patient();
-  Analysis& analysis = SharedAnalysis();
+  RunContext& analysis = SharedAnalysis();
   const Timeline timeline = analysis.BuildTimeline(records);
   Date on = Date::FromCivil(2025, 6, 30);
   for (auto _ : state) benchmark::DoNotOptimize(analysis.Evaluate(timeline, on, 84));
@@ -60,7 +60,7 @@ BENCHMARK(BM_EvaluateOneDate);
 // for each patient; items are patient-dates.
 void BM_EvaluateSeries(benchmark::State& state) {
   const auto records = Patient();
-  Analysis& analysis = SharedAnalysis();
+  RunContext& analysis = SharedAnalysis();
   const Timeline timeline = analysis.BuildTimeline(records);
   std::vector<Date> dates;
   for (int month = 1; month <= 12; ++month) {

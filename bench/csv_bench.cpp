@@ -12,8 +12,8 @@
 #include <system_error>
 
 #include "medload/core/records.h"
-#include "medload/io/csv_reader.h"
-#include "medload/io/csv_records.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/csv_records.h"
 #include "medload/synth/synth.h"
 
 namespace medload {

@@ -1,13 +1,13 @@
 // Kernels of product resolution against the bundled formulary: distinct descriptions
 // resolved cold (the resolver alone, and through a fresh ResolutionCache), and the cached
-// hit that every later dispensing of the same product costs in a command (Analysis).
+// hit that every later dispensing of the same product costs in a command (RunContext).
 #include <benchmark/benchmark.h>
 
 #include <cstdio>
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/core/records.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
@@ -17,9 +17,9 @@ namespace {
 
 constexpr size_t kDistinct = 1000;
 
-Analysis& SharedAnalysis() {
-  static Analysis analysis =
-      std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+RunContext& SharedAnalysis() {
+  static RunContext analysis =
+      std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
   return analysis;
 }
 
@@ -82,10 +82,10 @@ void BM_ResolutionCacheHits(benchmark::State& state) {
 }
 BENCHMARK(BM_ResolutionCacheHits)->Unit(benchmark::kMicrosecond);
 
-// The path the commands take for every dispensing: Analysis::Resolve on a record whose
+// The path the commands take for every dispensing: RunContext::Resolve on a record whose
 // product this run has already resolved (no store behind it).
 void BM_AnalysisResolveCached(benchmark::State& state) {
-  Analysis& analysis = SharedAnalysis();
+  RunContext& analysis = SharedAnalysis();
   const auto descriptions = DistinctDescriptions(analysis.formulary(), kDistinct);
   std::vector<DispensingRecord> records(descriptions.size());
   for (size_t i = 0; i < records.size(); ++i) {

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <map>
 #include <set>
+#include <tuple>
 
 namespace medload {
 
@@ -14,6 +15,18 @@ std::string_view DoseBasisName(DoseBasis basis) {
     case DoseBasis::kQuantity: return "strength x quantity / days supply";
   }
   return "";
+}
+
+std::string DoseBasisMark(const DbiContribution& contribution) {
+  std::vector<std::string> marks;
+  if (contribution.as_needed_max) marks.push_back("as-needed maximum");
+  if (contribution.sources.size() > 1) {
+    marks.push_back(std::to_string(contribution.sources.size()) + " products summed");
+  }
+  if (contribution.supply_assumed) marks.push_back("days of supply assumed");
+  std::string text;
+  for (const std::string& mark : marks) text += (text.empty() ? " (" : "; ") + mark;
+  return text.empty() ? text : text + ")";
 }
 
 namespace {
@@ -33,9 +46,16 @@ size_t LatestUseIn(const Episode& episode, const Medicine& medicine, Date on) {
 }
 
 std::optional<ActiveMedicine> ActiveConcurrent(const Medicine& medicine, size_t index, Date on) {
-  const Episode* episode = EpisodeOn(medicine.episodes, on);
-  if (episode == nullptr) return std::nullopt;
-  return ActiveMedicine{index, episode->start, episode->end, LatestUseIn(*episode, medicine, on), 0, 0};
+  const std::optional<EpisodeKnown> known = EpisodeKnownOn(medicine.episodes, on);
+  if (!known) return std::nullopt;
+  ActiveMedicine active;
+  active.medicine = index;
+  active.since = known->start;
+  active.until = known->end;
+  active.supply_end = known->supply_end;
+  active.in_tail = known->in_tail;
+  active.latest_use = LatestUseIn(*known->episode, medicine, on);
+  return active;
 }
 
 std::optional<ActiveMedicine> ActiveLookback(const Medicine& medicine, size_t index, Date on,
@@ -45,9 +65,10 @@ std::optional<ActiveMedicine> ActiveLookback(const Medicine& medicine, size_t in
   for (size_t i = 0; i < medicine.uses.size(); ++i) {
     const DispensingUse& use = medicine.uses[i];
     if (use.dispensed_on < first_day || use.dispensed_on > on) continue;
-    if (!active) active = ActiveMedicine{index, use.dispensed_on, use.dispensed_on, i, 0, 0};
+    if (!active) active = ActiveMedicine{index, use.dispensed_on, use.dispensed_on, use.dispensed_on, false, i, 0, 0};
     active->latest_use = i;  // uses are in date order
     active->until = std::max(active->until, use.dispensed_on + (use.supply.days - 1));
+    active->supply_end = active->until;
   }
   return active;
 }
@@ -65,7 +86,7 @@ std::vector<ActiveMedicine> FindActive(const Timeline& timeline, Date on, const 
 }
 
 // For each distinct active ingredient, the active medicine whose latest dispensing of it
-// is the most recent: that medicine carries the ingredient's score and dose.
+// is the most recent: that medicine carries the ingredient's score.
 std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
                                                const std::vector<ActiveMedicine>& active) {
   std::map<std::string, size_t> owners;  // ingredient -> index into `active`
@@ -82,13 +103,17 @@ std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
   return owners;
 }
 
-std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::string& ingredient) {
-  if (!use.ingredients) return std::nullopt;
+const ResolvedIngredient* IngredientIn(const DispensingUse& use, const std::string& ingredient) {
+  if (!use.ingredients) return nullptr;
   const auto it = std::find_if(use.ingredients->begin(), use.ingredients->end(),
                                [&](const auto& i) { return i.ingredient == ingredient; });
-  if (it == use.ingredients->end()) return std::nullopt;
-  DbiContribution dose;
-  dose.ingredient = ingredient;
+  return it == use.ingredients->end() ? nullptr : &*it;
+}
+
+std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient) {
+  const ResolvedIngredient* it = IngredientIn(use, ingredient);
+  if (it == nullptr) return std::nullopt;
+  DoseSource dose;
   if (it->mg_per_day) {
     dose.dose_mg_per_day = *it->mg_per_day;
     dose.basis = DoseBasis::kRateStrength;
@@ -97,6 +122,7 @@ std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::st
   } else if (use.supply.units_per_day) {
     // Units per day in units of the dispensed quantity (the dosage, converted).
     dose.dose_mg_per_day = *it->mg_per_unit * *use.supply.units_per_day;
+    dose.as_needed_max = use.dosage.as_needed;
   } else {
     dose.dose_mg_per_day = *it->mg_per_unit * use.quantity / use.supply.days;
     dose.basis = DoseBasis::kQuantity;
@@ -108,18 +134,143 @@ std::optional<DbiContribution> DailyDose(const DispensingUse& use, const std::st
   return dose;
 }
 
-void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, Burden& burden) {
+// One product of an ingredient active on D: the same strength of it by the same route
+// within one medicine (descriptions that differ only in wording are one product).
+struct ActiveProduct {
+  size_t active = 0;     // index into Burden::active
+  size_t use = 0;        // its latest dispensing on or before D (index into Medicine::uses)
+  Date chain_start;      // the first day of its own run of supplies that reaches D
+};
+
+using ProductKey = std::tuple<std::optional<double>, std::optional<double>, Route>;
+
+std::optional<ProductKey> KeyFor(const DispensingUse& use, const std::string& ingredient) {
+  const ResolvedIngredient* it = IngredientIn(use, ingredient);
+  if (it == nullptr) return std::nullopt;
+  return ProductKey{it->mg_per_unit, it->mg_per_day, use.route};
+}
+
+// The uses of one medicine that count on D, as (start, last counted day, use): the
+// coverages of the episode known on D (concurrent), or the dispensings in the window
+// (lookback: each counted on its day only, so that a run is the whole window).
+std::vector<std::tuple<Date, Date, size_t>> CountedUses(const Medicine& medicine, Date on,
+                                                         const MeasureOptions& options) {
+  std::vector<std::tuple<Date, Date, size_t>> uses;
+  if (options.measure == Measure::kLookback) {
+    const Date first_day = on - (options.window_days - 1);
+    for (size_t i = 0; i < medicine.uses.size(); ++i) {
+      const Date day = medicine.uses[i].dispensed_on;
+      if (day >= first_day && day <= on) uses.emplace_back(first_day, on, i);
+    }
+    return uses;
+  }
+  const Episode* episode = EpisodeOn(medicine.episodes, on);
+  if (episode == nullptr) return uses;
+  for (const Coverage& coverage : episode->coverages) {
+    if (coverage.dispensed <= on) uses.emplace_back(coverage.start, coverage.tail_end(), coverage.source);
+  }
+  return uses;
+}
+
+// The products of `ingredient` in one active medicine that are active on D.
+void CollectProducts(const Timeline& timeline, const std::vector<ActiveMedicine>& active, size_t a,
+                     const std::string& ingredient, Date on, const MeasureOptions& options,
+                     std::vector<ActiveProduct>& out) {
+  const Medicine& medicine = timeline.medicines[active[a].medicine];
+  std::map<ProductKey, std::vector<std::tuple<Date, Date, size_t>>> by_product;
+  for (const auto& counted : CountedUses(medicine, on, options)) {
+    auto key = KeyFor(medicine.uses[std::get<2>(counted)], ingredient);
+    if (key) by_product[*key].push_back(counted);
+  }
+  for (const auto& [key, runs] : by_product) {
+    // In start order: a run reaching D, and its first day.
+    std::optional<Date> start, end;
+    std::optional<Date> reaching;
+    size_t latest = std::get<2>(runs.front());
+    for (const auto& [from, to, use] : runs) {
+      if (!end || from > *end + 1) start = from, end = to;
+      else end = std::max(*end, to);
+      if (*start <= on && on <= *end) reaching = *start;
+      if (medicine.uses[use].dispensed_on > medicine.uses[latest].dispensed_on ||
+          (medicine.uses[use].dispensed_on == medicine.uses[latest].dispensed_on && use > latest)) {
+        latest = use;
+      }
+    }
+    if (reaching) out.push_back(ActiveProduct{a, latest, *reaching});
+  }
+}
+
+// The products of `ingredient` taken together on D, the most recently dispensed first:
+// that product, plus every other active product dispensed again since its run began (a
+// product dispensed only before then was switched from, not added).
+std::vector<ActiveProduct> ProductsTakenTogether(const Timeline& timeline, const Burden& burden,
+                                                 const std::string& ingredient, Date on,
+                                                 const MeasureOptions& options) {
+  std::vector<ActiveProduct> products;
+  for (size_t a = 0; a < burden.active.size(); ++a) {
+    const Medicine& medicine = timeline.medicines[burden.active[a].medicine];
+    if (std::binary_search(medicine.ingredients.begin(), medicine.ingredients.end(), ingredient)) {
+      CollectProducts(timeline, burden.active, a, ingredient, on, options, products);
+    }
+  }
+  if (products.empty()) return products;
+  auto use_of = [&](const ActiveProduct& p) -> const DispensingUse& {
+    return timeline.medicines[burden.active[p.active].medicine].uses[p.use];
+  };
+  std::stable_sort(products.begin(), products.end(), [&](const ActiveProduct& x, const ActiveProduct& y) {
+    const DispensingUse& ux = use_of(x);
+    const DispensingUse& uy = use_of(y);
+    return ux.dispensed_on != uy.dispensed_on ? ux.dispensed_on > uy.dispensed_on : ux.record > uy.record;
+  });
+  std::vector<ActiveProduct> together = {products.front()};
+  const Date since = products.front().chain_start;
+  for (size_t i = 1; i < products.size(); ++i) {
+    if (use_of(products[i]).dispensed_on >= since) together.push_back(products[i]);
+  }
+  return together;
+}
+
+// The DBI dose of one ingredient: the sum over its products taken together, or nullopt
+// when any of their doses is unknown.
+std::optional<DbiContribution> IngredientDose(const Timeline& timeline, const Burden& burden,
+                                              const std::string& ingredient,
+                                              const std::vector<ActiveProduct>& products) {
+  DbiContribution total;
+  total.ingredient = ingredient;
+  for (const ActiveProduct& product : products) {
+    const size_t medicine = burden.active[product.active].medicine;
+    auto dose = DailyDose(timeline.medicines[medicine].uses[product.use], ingredient);
+    if (!dose) return std::nullopt;
+    dose->medicine = medicine;
+    dose->use = product.use;
+    total.dose_mg_per_day += dose->dose_mg_per_day;
+    total.supply_assumed = total.supply_assumed || dose->supply_assumed;
+    total.as_needed_max = total.as_needed_max || dose->as_needed_max;
+    total.sources.push_back(*dose);
+  }
+  if (total.sources.empty()) return std::nullopt;
+  total.basis = total.sources.front().basis;
+  return total;
+}
+
+void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const MeasureOptions& options,
+                  Burden& burden) {
   for (const auto& [ingredient, owner] : IngredientOwners(timeline, burden.active)) {
-    ActiveMedicine& active = burden.active[owner];
-    const Medicine& medicine = timeline.medicines[active.medicine];
     if (const int score = tables.Score(ingredient); score > 0) {
       burden.score_contributions.push_back({ingredient, score});
       burden.acb += score;
-      active.score += score;
+      burden.active[owner].score += score;
     }
     const DbiEntry* entry = tables.Dbi(ingredient);
-    if (entry == nullptr) continue;
-    auto dose = DailyDose(medicine.uses[active.latest_use], ingredient);
+    if (entry == nullptr) {
+      if (tables.InDbiClass(ingredient)) {
+        burden.dbi_incomplete.push_back(ingredient);
+        burden.dbi_no_minimum.push_back(ingredient);
+      }
+      continue;
+    }
+    const auto products = ProductsTakenTogether(timeline, burden, ingredient, burden.on, options);
+    auto dose = IngredientDose(timeline, burden, ingredient, products);
     if (!dose) {
       burden.dbi_incomplete.push_back(ingredient);
       continue;
@@ -128,8 +279,8 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, Burden& 
     dose->min_daily_dose_mg = entry->min_daily_dose_mg;
     dose->value = dose->dose_mg_per_day / (dose->dose_mg_per_day + entry->min_daily_dose_mg);
     burden.dbi += dose->value;
-    active.dbi += dose->value;
-    burden.dbi_contributions.push_back(*dose);
+    burden.active[products.front().active].dbi += dose->value;
+    burden.dbi_contributions.push_back(std::move(*dose));
   }
   std::stable_sort(burden.score_contributions.begin(), burden.score_contributions.end(),
                    [](const auto& a, const auto& b) { return a.score > b.score; });
@@ -214,7 +365,7 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
   burden.on = on;
   burden.active = FindActive(timeline, on, options);
   burden.items = static_cast<int>(burden.active.size());
-  ScoreAndDose(timeline, tables, burden);
+  ScoreAndDose(timeline, tables, options, burden);
   PreparedMatches prepared{matches, matches != nullptr ? RequirementCount(tables) : 0, 0};
   for (size_t first = 0; const Rule& rule : tables.rules) {
     prepared.first = first;

@@ -2,7 +2,7 @@
 
 #include <charconv>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {

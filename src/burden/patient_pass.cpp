@@ -11,6 +11,28 @@
 
 namespace medload {
 
+const std::string& PracticeOfDispensing(const DispensingRecord& record,
+                                        const std::optional<PatientRecord>& registry) {
+  static const std::string kNone;
+  if (!record.practice.empty()) return record.practice;
+  return registry ? registry->practice : kNone;
+}
+
+void AddHistoryToSpans(const PatientHistory& history, PracticeSpans& spans) {
+  const std::string* last_practice = nullptr;
+  DataSpan* span = nullptr;
+  for (const DispensingRecord& record : history.dispensings) {
+    const std::string& practice = PracticeOfDispensing(record, history.registry);
+    // A history names one practice almost always: look it up once per change.
+    if (last_practice == nullptr || *last_practice != practice) {
+      auto [it, added] = spans.try_emplace(practice, DataSpan{record.dispensed_on, record.dispensed_on});
+      span = &it->second;
+      last_practice = &practice;
+    }
+    span->Add(record.dispensed_on);
+  }
+}
+
 Burden PassPatient::Evaluate(Date on, std::optional<int> age) const {
   return analysis_.Evaluate(timeline_, on, age, &matches_);
 }
@@ -73,12 +95,12 @@ class Handover {
   std::deque<Batch*> queue_;
 };
 
-// Products resolved for one reader: its own map in front of the run's Analysis, which
-// readers share under one lock (the Analysis and its store connection are not
+// Products resolved for one reader: its own map in front of the run's RunContext, which
+// readers share under one lock (the RunContext and its store connection are not
 // thread-safe; the map makes the lock rare, once per distinct product and reader).
 class ReaderResolutions {
  public:
-  ReaderResolutions(Analysis& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
+  ReaderResolutions(RunContext& analysis, std::mutex& lock) : analysis_(analysis), lock_(lock) {}
 
   const ResolvedProduct* Resolve(const DispensingRecord& record) {
     ProductKeyOf(record, key_);
@@ -93,7 +115,7 @@ class ReaderResolutions {
   }
 
  private:
-  Analysis& analysis_;
+  RunContext& analysis_;
   std::mutex& lock_;
   std::unordered_map<std::string, const ResolvedProduct*> seen_;
   std::string key_;
@@ -102,10 +124,12 @@ class ReaderResolutions {
 // One reader: its connection, the ranges it reads (every n-th), its batches.
 struct Reader {
   const Store* source = nullptr;
-  const Analysis* analysis = nullptr;  // read only here: the options and tables
+  const RunContext* analysis = nullptr;  // read only here: the options and tables
   DosageTextCache dosages;             // this reader's own (the run's is not shared)
   std::vector<DispensingRecord> spare;  // records kept for reuse across its ranges
   std::optional<Date> latest_dispensed;  // among the records it read
+  PracticeSpans practice_spans;          // likewise, per practice
+  long capped_patients = 0;              // histories cut by the store's bound
   std::vector<Batch> batches = std::vector<Batch>(kBatchesPerReader);
   Handover free;    // batches the visitor has finished with
   Handover filled;  // batches ready to visit, in range order
@@ -148,10 +172,12 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
         for (size_t i = 0; i < records.size(); ++i) slot.products[i] = resolutions.Resolve(records[i]);
         slot.timeline = reader.analysis->BuildTimeline(records, slot.products, reader.dosages);
         slot.matches = MatchRuleRequirements(slot.timeline, reader.analysis->tables());
+        if (slot.history.dropped > 0) ++reader.capped_patients;
         if (!slot.history.dispensings.empty()) {
           // In date order: the last is the patient's latest.
           const Date last = slot.history.dispensings.back().dispensed_on;
           if (!reader.latest_dispensed || *reader.latest_dispensed < last) reader.latest_dispensed = last;
+          AddHistoryToSpans(slot.history, reader.practice_spans);
         }
         if (++batch->used == kPatientsPerBatch) {
           hand_over();
@@ -173,114 +199,166 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
   reader.filled.Put(batch);
 }
 
-}  // namespace
-
-Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit,
-                              PassFacts* facts) {
-  // Two connections need one snapshot to agree on: the caller's, or one for the pass.
+// The pass's own snapshot (two connections need one to agree on), unless the caller has
+// one open. The first pass after an import packs each history once first (best effort).
+Result<std::optional<StoreSnapshot>> OpenPassSnapshot(const Store& store) {
   std::optional<StoreSnapshot> own_snapshot;
-  if (!store.InSnapshot()) {
-    // The first pass after an import packs each history once (best effort).
-    if (Status packed = store.RefreshPackedHistories(); !packed.ok()) return packed;
-    Result<StoreSnapshot> snapshot = store.BeginSnapshot();
-    if (!snapshot.ok()) return snapshot.status();
-    own_snapshot.emplace(std::move(snapshot).value());
-  }
-  Result<std::vector<PatientIdRange>> ranges = store.PatientRanges(kPatientsPerRange);
-  if (!ranges.ok()) return ranges.status();
-  // A second reader when the store has a peer connection and more than one range; the
-  // store's own connection then serves only the shared resolutions. Otherwise one reader
-  // on the store's connection: an in-memory store, or an import committed just now.
+  if (store.InSnapshot()) return own_snapshot;
+  if (Status packed = store.RefreshPackedHistories(); !packed.ok()) return packed;
+  Result<StoreSnapshot> snapshot = store.BeginSnapshot();
+  if (!snapshot.ok()) return snapshot.status();
+  own_snapshot.emplace(std::move(snapshot).value());
+  return own_snapshot;
+}
+
+// The peer connections for a second reader: kMaxReaders of them when the store has peers
+// and there is more than one range, else none (one reader then reads on the store's own
+// connection: an in-memory store, or an import committed just now).
+std::vector<Store> OpenPeers(const Store& store, size_t range_count) {
   std::vector<Store> peers;
-  if (ranges->size() > 1) {
-    for (size_t i = 0; i < kMaxReaders; ++i) {
-      Result<Store> peer = store.OpenPeer();
-      if (!peer.ok()) break;
-      peers.push_back(std::move(peer).value());
-    }
-    if (peers.size() < kMaxReaders) peers.clear();
+  if (range_count <= 1) return peers;
+  for (size_t i = 0; i < kMaxReaders; ++i) {
+    Result<Store> peer = store.OpenPeer();
+    if (!peer.ok()) break;
+    peers.push_back(std::move(peer).value());
   }
-  // With peers reading, the store's own connection serves only the resolutions: its map
-  // is released, so that pages it mapped before the pass (a report's summary walks the
-  // whole table) do not count again beside the peers' maps. Best effort.
-  struct MapRelease {
-    const Store* store = nullptr;
-    ~MapRelease() {
-      if (store != nullptr) static_cast<void>(store->UseMemoryMap(true));
-    }
-  } map_release;
-  if (!peers.empty() && store.UseMemoryMap(false).ok()) map_release.store = &store;
-  const size_t readers_used = peers.empty() ? 1 : peers.size();
-  std::vector<Reader> readers(readers_used);
+  if (peers.size() < kMaxReaders) peers.clear();
+  return peers;
+}
+
+// With peers reading, the store's own connection serves only the resolutions: its map
+// is released, so that pages it mapped before the pass (a report's summary walks the
+// whole table) do not count again beside the peers' maps; restored when this ends. Best
+// effort.
+struct MapRelease {
+  const Store* store = nullptr;
+  MapRelease(const Store& on, bool peers_read) {
+    if (peers_read && on.UseMemoryMap(false).ok()) store = &on;
+  }
+  MapRelease(const MapRelease&) = delete;
+  MapRelease& operator=(const MapRelease&) = delete;
+  ~MapRelease() {
+    if (store != nullptr) static_cast<void>(store->UseMemoryMap(true));
+  }
+};
+
+// The readers of one pass, each on its thread, and the flag that stops them.
+struct ReaderPool {
+  std::vector<Reader> readers;
   std::mutex resolution_lock;
   std::vector<ReaderResolutions> resolutions;
-  for (size_t i = 0; i < readers_used; ++i) {
-    readers[i].source = peers.empty() ? &store : &peers[i];
-    readers[i].analysis = &analysis;
-    for (Batch& batch : readers[i].batches) readers[i].free.Put(&batch);
-    resolutions.emplace_back(analysis, resolution_lock);
-  }
-  std::atomic<bool> stop{false};
   std::vector<std::thread> threads;
-  for (size_t i = 0; i < readers_used; ++i) {
-    threads.emplace_back(ReadRanges, std::ref(readers[i]), std::cref(*ranges), i, readers_used,
-                         std::ref(resolutions[i]), std::cref(stop));
-  }
+  std::atomic<bool> stop{false};
+};
 
-  // The visitor, on this thread, in range order: range r comes from reader r % n.
+// Starts one reader per peer (or one on the store's own connection without peers), reader
+// i reading ranges i, i + n, ...
+void StartReaders(ReaderPool& pool, const Store& store, std::vector<Store>& peers, RunContext& run,
+                  const std::vector<PatientIdRange>& ranges) {
+  const size_t readers_used = peers.empty() ? 1 : peers.size();
+  pool.readers = std::vector<Reader>(readers_used);
+  for (size_t i = 0; i < readers_used; ++i) {
+    pool.readers[i].source = peers.empty() ? &store : &peers[i];
+    pool.readers[i].analysis = &run;
+    for (Batch& batch : pool.readers[i].batches) pool.readers[i].free.Put(&batch);
+    pool.resolutions.emplace_back(run, pool.resolution_lock);
+  }
+  for (size_t i = 0; i < readers_used; ++i) {
+    pool.threads.emplace_back(ReadRanges, std::ref(pool.readers[i]), std::cref(ranges), i, readers_used,
+                              std::ref(pool.resolutions[i]), std::cref(pool.stop));
+  }
+}
+
+// What the visiting side has seen: the first fault any batch carried, which readers are
+// done.
+struct Visiting {
   Status status;
   std::exception_ptr failure;
-  long capped_patients = 0;
-  std::vector<bool> reader_done(readers_used, false);
-  // Takes the reader's next batch, keeping the first fault it carries.
-  auto next = [&](size_t reader) {
-    Batch* batch = readers[reader].filled.Take();
+  std::vector<bool> reader_done;
+
+  // Takes the reader's next batch, keeping the first fault it carries; a fault or a
+  // reader's end stops the pass.
+  Batch* Next(ReaderPool& pool, size_t reader) {
+    Batch* batch = pool.readers[reader].filled.Take();
     if (batch->failure && !failure && status.ok()) failure = batch->failure;
     if (!batch->status.ok() && !failure && status.ok()) status = batch->status;
     if (batch->reader_done) reader_done[reader] = true;
-    if (failure || !status.ok() || batch->reader_done) stop = true;
+    if (failure || !status.ok() || batch->reader_done) pool.stop = true;
     return batch;
-  };
-  for (size_t r = 0; r < ranges->size() && !stop; ++r) {
+  }
+};
+
+// The visitor, on this thread, in range order: range r comes from reader r % n.
+void VisitRanges(ReaderPool& pool, Visiting& visiting, size_t range_count, const RunContext& run,
+                 const PassVisit& visit) {
+  const size_t readers_used = pool.readers.size();
+  for (size_t r = 0; r < range_count && !pool.stop; ++r) {
     const size_t reader = r % readers_used;
-    for (bool range_end = false; !range_end && !stop;) {
-      Batch* batch = next(reader);
+    for (bool range_end = false; !range_end && !pool.stop;) {
+      Batch* batch = visiting.Next(pool, reader);
       range_end = batch->range_end;
-      for (size_t i = 0; i < batch->used && !stop; ++i) {
+      for (size_t i = 0; i < batch->used && !pool.stop; ++i) {
         try {
           const Slot& slot = batch->slots[i];
-          if (slot.history.dropped > 0) ++capped_patients;
-          PassPatient patient(slot.history, slot.timeline, slot.matches, analysis);
-          if (!visit(patient)) stop = true;
+          PassPatient patient(slot.history, slot.timeline, slot.matches, run);
+          if (!visit(patient)) pool.stop = true;
         } catch (...) {
-          failure = std::current_exception();
-          stop = true;
+          visiting.failure = std::current_exception();
+          pool.stop = true;
         }
       }
-      readers[reader].free.Put(batch);
+      pool.readers[reader].free.Put(batch);
     }
   }
-  // Stop the readers and take back every batch until each says it is done.
-  stop = true;
-  for (size_t reader = 0; reader < readers_used; ++reader) {
-    while (!reader_done[reader]) readers[reader].free.Put(next(reader));
+}
+
+// Stops the readers, takes back every batch until each says it is done, joins them.
+void StopReaders(ReaderPool& pool, Visiting& visiting) {
+  pool.stop = true;
+  for (size_t reader = 0; reader < pool.readers.size(); ++reader) {
+    while (!visiting.reader_done[reader]) pool.readers[reader].free.Put(visiting.Next(pool, reader));
   }
-  for (std::thread& thread : threads) thread.join();
+  for (std::thread& thread : pool.threads) thread.join();
+}
+
+// What every reader saw: the latest dispensing, each practice's span of data, the
+// histories cut by the store's bound.
+void CollectFacts(const Store& store, const ReaderPool& pool, PassFacts& facts) {
+  facts.latest_dispensed.reset();
+  facts.practice_spans.clear();
+  facts.capped_patients = 0;
+  facts.history_bound = store.history_bound();
+  for (const Reader& reader : pool.readers) {
+    facts.capped_patients += reader.capped_patients;
+    MergeSpans(facts.practice_spans, reader.practice_spans);
+    if (reader.latest_dispensed && (!facts.latest_dispensed || *facts.latest_dispensed < *reader.latest_dispensed)) {
+      facts.latest_dispensed = reader.latest_dispensed;
+    }
+  }
+}
+
+}  // namespace
+
+Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const PassVisit& visit,
+                              PassFacts* facts) {
+  Result<std::optional<StoreSnapshot>> own_snapshot = OpenPassSnapshot(store);
+  if (!own_snapshot.ok()) return own_snapshot.status();
+  Result<std::vector<PatientIdRange>> ranges = store.PatientRanges(kPatientsPerRange);
+  if (!ranges.ok()) return ranges.status();
+  std::vector<Store> peers = OpenPeers(store, ranges->size());
+  const MapRelease map_release(store, !peers.empty());
+  ReaderPool pool;
+  StartReaders(pool, store, peers, analysis, *ranges);
+  Visiting visiting;
+  visiting.reader_done.assign(pool.readers.size(), false);
+  VisitRanges(pool, visiting, ranges->size(), analysis, visit);
+  StopReaders(pool, visiting);
   peers.clear();
-  own_snapshot.reset();
+  own_snapshot->reset();
   analysis.SaveResolutions();
-  if (failure) std::rethrow_exception(failure);
-  if (status.ok() && facts != nullptr) {
-    facts->capped_patients = capped_patients;
-    facts->history_bound = store.history_bound();
-    facts->latest_dispensed.reset();
-    for (const Reader& reader : readers) {
-      if (reader.latest_dispensed && (!facts->latest_dispensed || *facts->latest_dispensed < *reader.latest_dispensed)) {
-        facts->latest_dispensed = reader.latest_dispensed;
-      }
-    }
-  }
-  return status;
+  if (visiting.failure) std::rethrow_exception(visiting.failure);
+  if (visiting.status.ok() && facts != nullptr) CollectFacts(store, pool, *facts);
+  return visiting.status;
 }
 
 std::optional<std::string> CappedHistoriesNote(long patients, size_t bound) {

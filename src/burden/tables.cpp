@@ -24,6 +24,11 @@ const DbiEntry* BurdenTables::Dbi(const std::string& ingredient) const {
   return it == dbi.end() ? nullptr : &it->second;
 }
 
+bool BurdenTables::InDbiClass(const std::string& ingredient) const {
+  return std::any_of(dbi_classes.begin(), dbi_classes.end(),
+                     [&](const std::string& name) { return HasClass(ingredient, name); });
+}
+
 const Rule* BurdenTables::FindRule(const std::string& id) const {
   for (const Rule& rule : rules) {
     if (rule.id == id) return &rule;
@@ -44,6 +49,7 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
   for (const DbiDose& row : formulary.tables().dbi) {
     tables.dbi[row.ingredient] = DbiEntry{row.min_daily_dose_mg, std::string(DbiEffectName(row.effect))};
   }
+  for (const DbiClass& row : formulary.tables().dbi_classes) tables.dbi_classes.push_back(row.class_name);
   tables.rules = formulary.rules();
   return tables;
 }

@@ -1,6 +1,9 @@
 #include "medload/burden/timeline.h"
 
+#include "medload/core/data_coverage.h"
+
 #include <algorithm>
+#include <iterator>
 #include <map>
 
 namespace medload {
@@ -11,6 +14,20 @@ std::string_view MeasureName(Measure measure) {
 
 std::string_view CountByName(CountBy count_by) {
   return count_by == CountBy::kMedicine ? "medicine" : "ingredient";
+}
+
+int HistoryDays(const MeasureOptions& options) {
+  return options.history_days.value_or(DefaultHistoryDays(options.episodes.grace_days));
+}
+
+int UnmatchedProduct::ItemsBy(Date on) const {
+  return static_cast<int>(std::upper_bound(dispensed.begin(), dispensed.end(), on) - dispensed.begin());
+}
+
+std::optional<Date> UnmatchedProduct::LastBy(Date on) const {
+  const auto it = std::upper_bound(dispensed.begin(), dispensed.end(), on);
+  if (it == dispensed.begin()) return std::nullopt;
+  return *std::prev(it);
 }
 
 namespace {
@@ -26,10 +43,9 @@ bool RouteExcluded(Route route, const MeasureOptions& options) {
 
 void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r) {
   UnmatchedProduct& entry = unmatched[r.product + '\x1f' + r.code];
-  if (entry.items == 0 || r.dispensed_on > entry.last_dispensed) entry.last_dispensed = r.dispensed_on;
   entry.product = r.product;
   entry.code = r.code;
-  ++entry.items;
+  entry.dispensed.push_back(r.dispensed_on);
 }
 
 // The groups a product's ingredients count as: one medicine, or one per ingredient.
@@ -142,7 +158,10 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     FinishMedicine(medicine, options);
     timeline.medicines.push_back(std::move(medicine));
   }
-  for (auto& [key, entry] : unmatched) timeline.unmatched.push_back(std::move(entry));
+  for (auto& [key, entry] : unmatched) {
+    std::sort(entry.dispensed.begin(), entry.dispensed.end());
+    timeline.unmatched.push_back(std::move(entry));
+  }
   return timeline;
 }
 

@@ -1,18 +1,16 @@
 // `medload cohort`: counts and rates per group per census date, one pass over the store;
 // `--shard K/N` counts one shard of the patients and `--merge FILES...` adds shard outputs.
-#include <algorithm>
 #include <fstream>
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/analysis.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/run_context.h"
 #include "medload/cohort/cohort.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
-#include "medload/core/census_note.h"
-#include "medload/io/json_text.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -39,6 +37,7 @@ Result<std::vector<Date>> ReadDates(const po::variables_map& vm) {
   const std::string every = vm["every"].as<std::string>();
   const std::optional<SeriesStep> step = ParseSeriesStep(every);
   if (!step) return Status::Usage("--every \"" + every + "\" is not month, quarter or year");
+  if (*to < *from) return Status::Usage("--to " + to->ToIso() + " is before --from " + from->ToIso());
   return SeriesDates(*from, *to, *step);
 }
 
@@ -56,11 +55,11 @@ Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
   auto criteria = ReadCriteriaFlags(vm);
   if (!criteria.ok()) return criteria.status();
   options.criteria = std::move(*criteria);
-  // Without criteria the cohort counts the spec's first example, ten or more medicines.
+  // Without criteria the cohort counts ten or more medicines (docs/cohort.md).
   if (options.criteria.empty()) options.criteria.push_back(*ParseCriterion("items=10"));
   if (vm.count("shard") != 0U) {
     auto shard = ParseShard(vm["shard"].as<std::string>());
-    if (!shard.ok()) return shard.status();
+    if (!shard.ok()) return AsFlagFault(shard.status());
     options.shard = *shard;
   }
   return options;
@@ -80,35 +79,20 @@ Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
   return MergeTallies(tallies, files);
 }
 
-// The warning for census dates after the latest dispensing loaded, naming the last date
-// of the series and how many of the dates are beyond the data; nullopt when none is.
-std::optional<std::string> BeyondDataNote(const std::vector<Date>& dates, std::optional<Date> latest) {
-  if (dates.empty() || !latest) return std::nullopt;
-  const Date last = *std::max_element(dates.begin(), dates.end());
-  auto note = CensusBeyondDataNote(last, latest);
-  if (!note) return std::nullopt;
-  const auto beyond = std::count_if(dates.begin(), dates.end(), [&](Date d) { return d > *latest; });
-  return *note + " (" + std::to_string(beyond) + " of " + std::to_string(dates.size()) +
-         " census date(s) are after it)";
-}
-
-// Counts from the store; `note` receives the beyond-the-data warning, if any.
-Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm,
-                                   std::optional<std::string>& note) {
+// Counts from the store.
+Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm) {
   auto options = ReadCohortOptions(vm);
   if (!options.ok()) return options.status();
   auto measure = ReadMeasureFlags(vm);
   if (!measure.ok()) return measure.status();
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return store.status();
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return analysis.status();
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;
   }
-  auto tally = medload::RunCohort(*store, *analysis, *options);
-  if (tally.ok()) note = BeyondDataNote(options->dates, tally->latest_dispensed);
-  return tally;
+  return medload::RunCohort(*store, *analysis, *options);
 }
 
 void Write(const Context& context, const CohortTable& table, const CohortTally& tally) {
@@ -147,10 +131,7 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   auto vm = ParseOptions(context, kUsage, options, {{"file", -1}}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   const long suppress_below = (*vm)["suppress-below"].as<long>();
   if (suppress_below < 0) return fail(Status::Usage("--suppress-below must be 0 or more"));
   const bool merge = (*vm)["merge"].as<bool>();
@@ -158,19 +139,16 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   if (context.format == Format::kSvg) return fail(Status::Usage("cohort writes text, csv, json or html"));
   if (!merge && has_files) return fail(Status::Usage("file arguments are only taken with --merge"));
   if (merge && !has_files) return fail(Status::Usage("--merge needs one or more cohort JSON files"));
-  std::optional<std::string> beyond_data;
+  auto measure = ReadMeasureFlags(*vm);
+  if (!measure.ok()) return fail(measure.status());
   auto tally = merge ? MergeFiles((*vm)["file"].as<std::vector<std::string>>())
-                     : CountFromStore(context, *vm, beyond_data);
+                     : CountFromStore(context, *vm);
   if (!tally.ok()) return fail(tally.status());
-  CohortTable table = BuildCohortTable(*tally, suppress_below);
-  if (beyond_data) {
-    Warn(context, *beyond_data);
-    table.notes.push_back(std::move(*beyond_data));
-  }
+  CohortTable table = BuildCohortTable(*tally, suppress_below, HistoryDays(*measure));
   if (auto capped = CappedHistoriesNote(tally->capped_patients, tally->history_bound)) {
-    Warn(context, *capped);
     table.notes.push_back(std::move(*capped));
   }
+  for (const std::string& note : table.notes) Warn(context, note);
   if (!table.complete && !context.quiet) {
     *context.err << "medload: note: only " << table.shards << " are in this result\n";
   }

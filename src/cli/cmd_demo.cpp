@@ -6,13 +6,15 @@
 #include <ostream>
 #include <sstream>
 
+#include "cli/measure_flags.h"
 #include "cli/options.h"
-#include "medload/burden/analysis.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/burden/run_context.h"
+#include "medload/core/clock.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_writer.h"
 #include "medload/review/worklist.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
 
@@ -60,7 +62,7 @@ Status ImportDemo(Store& store, const fs::path& data) {
 }
 
 // The network worklist on the report's census date, as CSV and HTML in `dir`.
-Status WriteNetworkWorklist(Store& store, Analysis& analysis, const ReportConfig& config, Date on,
+Status WriteNetworkWorklist(Store& store, RunContext& analysis, const ReportConfig& config, Date on,
                             const fs::path& dir) {
   WorklistOptions options;
   options.on = on;
@@ -91,10 +93,7 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   auto vm = ParseOptions(context, "medload demo [--out DIR]", options, {}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   const fs::path data = (*vm)["data"].as<std::string>();
   const std::string out = (*vm)["out"].as<std::string>();
   auto config = LoadReportConfig((data / "network.json").string());
@@ -105,7 +104,7 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return fail(store.status());
   if (!context.quiet) *context.err << "medload: demo: loading " << data.string() << " into a temporary store\n";
   if (Status status = ImportDemo(*store, data); !status.ok()) return fail(status);
-  auto analysis = Analysis::Open(context.formulary_dir, config->measure, &*store);
+  auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
   ReportRunOptions run;
   run.out_dir = out;
@@ -113,7 +112,7 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   run.generated_at = UtcNow();
   run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
-  if (!outcome.ok()) return fail(outcome.status());
+  if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   if (Status status = WriteNetworkWorklist(*store, *analysis, *config, outcome->on, out); !status.ok()) {
     return fail(status);
   }

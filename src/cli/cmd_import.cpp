@@ -1,6 +1,6 @@
 // `medload import dispensing|patients|practices|reviews FILE...`: loads files into the
 // store, one transaction per file, and prints how many rows were read, imported,
-// duplicates and rejected (spec sections 4 and 6).
+// duplicates and rejected (docs/input-formats.md).
 #include <charconv>
 #include <cmath>
 #include <optional>
@@ -10,15 +10,13 @@
 
 #include "cli/options.h"
 #include "medload/format/output_file.h"
-#include "medload/io/import_summary.h"
+#include "medload/store/import_summary.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
 namespace {
 
-constexpr int kExitInput = 2;
-constexpr int kExitRejected = 3;
 constexpr long kProgressEvery = 1000000;
 // How long an import waits for the store's write lock (another import, a migration): an
 // hour, so that imports started together by a scheduler run one after the other.
@@ -82,11 +80,6 @@ void WriteSummary(Format format, const std::vector<ImportSummary>& summaries, st
     case Format::kHtml: WriteImportHtml(summaries, out); break;
     default: WriteImportText(summaries, out); break;
   }
-}
-
-int Fail(Context& context, const Status& status) {
-  *context.err << "medload: " << status.message() << "\n";
-  return status.exit_code();
 }
 
 // Imports the files one by one; a file that fails does not stop the others.

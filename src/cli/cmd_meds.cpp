@@ -2,10 +2,11 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/burden/analysis.h"
-#include "medload/core/census_note.h"
-#include "medload/io/json_text.h"
-#include "medload/io/meds_writer.h"
+#include "medload/burden/meds_writer.h"
+#include "medload/burden/patient_facts.h"
+#include "medload/burden/run_context.h"
+#include "medload/core/data_coverage.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -18,10 +19,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto vm = ParseOptions(context, "medload meds PATIENT --on DATE [measure options]", options,
                          {{"patient", 1}}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("patient") == 0U) return fail(Status::Usage("meds needs a PATIENT identifier"));
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
   auto on = ReadDateFlag(*vm, "on");
@@ -31,7 +29,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
 
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
   long dropped = 0;
   auto records = store->DispensingsOf(patient, &dropped);
@@ -39,27 +37,47 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto registry = store->PatientOf(patient);
   if (!registry.ok()) return fail(registry.status());
   if (records->empty() && !registry->has_value()) {
-    return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
+    // A patient whose every dispensing has a status that does not count is still known.
+    auto all = store->AllDispensingsOf(patient);
+    if (!all.ok()) return fail(all.status());
+    if (all->empty()) {
+      return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
+    }
   }
 
-  auto latest = store->LatestDispensed();
-  if (!latest.ok()) return fail(latest.status());
-  std::optional<std::string> census_note = CensusBeyondDataNote(*on, *latest);
+  auto not_counted = store->NotCountingOf(patient, *on);
+  if (!not_counted.ok()) return fail(not_counted.status());
+  // The practice whose data coverage applies: the registry's, else the one named by the
+  // latest dispensing on or before the date (nothing later: the point-in-time rule).
+  std::string practice = registry->has_value() ? (*registry)->practice : "";
+  if (!registry->has_value()) {
+    for (const DispensingRecord& record : *records) {
+      if (record.dispensed_on <= *on) practice = record.practice;
+    }
+  }
+  auto spans = store->PracticeDataSpans();
+  if (!spans.ok()) return fail(spans.status());
+  const auto span_it = spans->find(practice);
+  const std::optional<DataSpan> span =
+      span_it == spans->end() ? std::nullopt : std::optional<DataSpan>(span_it->second);
+  const int history_days = HistoryDays(*measure);
+  const DataState data = DataStateOn(span, *on, history_days);
+  std::optional<std::string> data_note = DataStateNote(practice, data, span, *on, history_days);
   if (dropped > 0) {  // a history past the bound on one patient's dispensings
     const std::string capped = "only the latest " + std::to_string(records->size()) + " of the patient's " +
                                std::to_string(static_cast<long>(records->size()) + dropped) +
                                " counting dispensings are read: medicines dispensed only before them are missing";
-    census_note = census_note ? *census_note + "; " + capped : capped;
+    data_note = data_note ? *data_note + "; " + capped : capped;
   }
-  if (census_note) Warn(context, *census_note);
+  if (data_note) Warn(context, *data_note);
 
   const Timeline timeline = analysis->BuildTimeline(*records);
   const std::optional<int> age = AgeOn(*registry, *on);
   const Burden burden = analysis->Evaluate(timeline, *on, age);
   MedsModel model;
   model.patient = patient;
-  model.practice = registry->has_value() ? (*registry)->practice
-                                         : (records->empty() ? "" : records->back().practice);
+  model.practice = practice;
+  model.data = data;
   model.age = age;
   model.registered = registry->has_value();
   model.timeline = &timeline;
@@ -67,7 +85,8 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.tables = &analysis->tables();
   model.records = *records;
   model.options = *measure;
-  model.census_note = census_note;
+  model.data_note = data_note;
+  model.not_counted = std::move(not_counted.value());
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

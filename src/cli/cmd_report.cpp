@@ -2,9 +2,11 @@
 #include <filesystem>
 #include <ostream>
 
+#include "cli/measure_flags.h"
 #include "cli/options.h"
-#include "medload/burden/analysis.h"
-#include "medload/io/output.h"
+#include "medload/burden/run_context.h"
+#include "medload/core/clock.h"
+#include "medload/format/output.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"
 #include "medload/store/store.h"
@@ -20,7 +22,7 @@ void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportC
   for (const std::string& code : outcome.digests) out << "  digest for " << code << "\n";
 }
 
-// The caution as a text footer (demo cannot include io/output.h beside the importer).
+// The caution as a text footer (demo cannot include format/output.h beside the importer).
 void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
 
 // A progress line on standard error every few thousand patients (none with --quiet).
@@ -30,6 +32,20 @@ std::function<void(long)> ReportProgressLine(const Context& context) {
   return [err](long patients) { *err << "medload: report: " << patients << " patients read\n"; };
 }
 
+namespace {
+
+// The one Usage fault of RunContext::Open, an unknown scale, came from the config: it is
+// a config fault (exit 2) naming the file and the key, `FILE: /scale: "x" is not a scale
+// in ...`, like every other config fault.
+Status ConfigSettingFault(const std::string& config_path, const Status& status) {
+  if (status.code() != StatusCode::kUsage) return status;
+  std::string_view fault = status.message();
+  if (fault.substr(0, 6) == "scale ") fault.remove_prefix(6);
+  return Status::Input(config_path + ": /scale: " + std::string(fault) + "; set \"scale\" to one of them");
+}
+
+}  // namespace
+
 int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   po::options_description options("report options");
   options.add_options()("config", po::value<std::string>(), "the report's JSON config (docs/report.md)")(
@@ -37,10 +53,7 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   auto vm = ParseOptions(context, "medload report --config FILE --out DIR", options, {}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("config") == 0U) return fail(Status::Usage("--config FILE is required"));
   if (vm->count("out") == 0U) return fail(Status::Usage("--out DIR is required"));
   const std::string config_path = (*vm)["config"].as<std::string>();
@@ -48,15 +61,15 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   if (!config.ok()) return fail(config.status());
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, config->measure, &*store);
-  if (!analysis.ok()) return fail(analysis.status());
+  auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
+  if (!analysis.ok()) return fail(ConfigSettingFault(config_path, analysis.status()));
   ReportRunOptions run;
   run.out_dir = (*vm)["out"].as<std::string>();
   run.config_dir = std::filesystem::path(config_path).parent_path().string();
   run.generated_at = UtcNow();
   run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
-  if (!outcome.ok()) return fail(outcome.status());
+  if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   for (const std::string& warning : outcome->warnings) Warn(context, warning);
   PrintReportOutcome(*context.out, run.out_dir, *config, *outcome);
   WriteTextCaution(*context.out);

@@ -2,11 +2,11 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
-#include "medload/core/census_note.h"
-#include "medload/io/json_text.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/format/json_text.h"
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
+#include "medload/review/worklist_writer.h"
+#include "medload/review/worklist_writer.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -50,10 +50,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   auto vm = ParseOptions(context, "medload review --on DATE [--at-least items=N] [--rule ID] [options]", options,
                          {}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   auto worklist_options = ReadWorklistFlags(*vm);
   if (!worklist_options.ok()) return fail(worklist_options.status());
   auto measure = ReadMeasureFlags(*vm);
@@ -66,14 +63,17 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   }
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = Analysis::Open(context.formulary_dir, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
-  if (!worklist.ok()) return fail(worklist.status());
-  if (auto note = CensusBeyondDataNote(worklist->on, worklist->latest_dispensed)) {
-    Warn(context, *note);
-    worklist->notes.push_back(std::move(*note));
+  if (!worklist.ok()) {
+    // Without criteria the worklist's first fault is that; named here with the flags.
+    if (worklist_options->criteria.empty()) {
+      return fail(Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X or --rule ID)"));
+    }
+    return fail(worklist.status());
   }
+  for (const std::string& note : worklist->notes) Warn(context, note);
   if (pseudonymiser) {
     for (WorklistEntry& entry : worklist->patients) entry.patient = pseudonymiser->Pseudonym(entry.patient);
   }

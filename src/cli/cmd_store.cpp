@@ -4,7 +4,7 @@
 #include <ostream>
 
 #include "cli/options.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -20,10 +20,7 @@ int RunStorePack(Context& context, const std::vector<std::string>& args) {
   int exit_code = 0;
   const auto vm = ParseOptions(context, "medload store pack", options, {}, args, exit_code);
   if (!vm) return exit_code;
-  const auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  const auto fail = [&](const Status& status) { return Fail(context, status); };
   StoreOptions store_options;
   store_options.must_exist = true;
   store_options.busy_timeout_ms = kPackWaitMs;

@@ -7,8 +7,8 @@
 
 #include "cli/options.h"
 #include "medload/core/caution.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/synth/synth.h"
 
 namespace medload::cli {
@@ -47,7 +47,7 @@ Result<SynthOptions> ReadSynthOptions(const po::variables_map& vm) {
   } else if (format != "csv") {
     return Status::Usage("--data-format \"" + format + "\" is not one of csv, fhir");
   }
-  if (Status status = CheckSynthOptions(options); !status.ok()) return status;
+  if (Status status = CheckSynthOptions(options); !status.ok()) return AsFlagFault(status);
   return options;
 }
 
@@ -134,10 +134,7 @@ int RunSynth(Context& context, const std::vector<std::string>& args) {
                       "[--end DATE] [--data-format csv|fhir]";
   auto vm = ParseOptions(context, usage, options, {}, args, exit_code);
   if (!vm) return exit_code;
-  auto fail = [&](const Status& status) {
-    *context.err << "medload: " << status.message() << "\n";
-    return status.exit_code();
-  };
+  auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("out") == 0U) return fail(Status::Usage("synth needs --out DIR"));
   Result<SynthOptions> synth_options = ReadSynthOptions(*vm);
   if (!synth_options.ok()) return fail(synth_options.status());

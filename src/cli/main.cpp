@@ -12,14 +12,11 @@
 #include "cli/context.h"
 #include "medload/core/caution.h"
 #include "medload/format/output_file.h"
+#include "medload/format/private_file.h"
 #include "medload/format/shown_text.h"
-#include "medload/io/private_file.h"
 
 namespace medload::cli {
 namespace {
-
-constexpr int kExitUsage = 1;
-constexpr int kExitInput = 2;
 
 void PrintHelp(std::ostream& out) {
   out << "medload " MEDLOAD_VERSION
@@ -212,6 +209,27 @@ int Main(int argc, char** argv) {
 }
 
 }  // namespace
+
+int ExitCodeOf(const Status& status) {
+  switch (status.code()) {
+    case StatusCode::kOk: return 0;
+    case StatusCode::kUsage: return kExitUsage;
+    case StatusCode::kInput: return kExitInput;
+    case StatusCode::kRejected: return kExitRejected;
+  }
+  return kExitInput;
+}
+
+Status AsFlagFault(const Status& status) {
+  if (status.ok()) return status;
+  return status.code() == StatusCode::kUsage ? Status::Usage("--" + status.message()) : Status::Input("--" + status.message());
+}
+
+int Fail(const Context& context, const Status& status) {
+  *context.err << "medload: " << status.message() << "\n";
+  return ExitCodeOf(status);
+}
+
 }  // namespace medload::cli
 
 int main(int argc, char** argv) { return medload::cli::Main(argc, argv); }

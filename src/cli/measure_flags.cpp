@@ -8,7 +8,11 @@ void AddMeasureFlags(po::options_description& options) {
        "concurrent (an episode contains the date) or lookback (dispensed in the window)")
       ("window", po::value<int>()->default_value(84), "lookback window in days")
       ("grace-days", po::value<int>()->default_value(30),
-       "a gap of at most this many days between supplies joins them into one episode")
+       "the longest tail after a supply runs out in which it still counts (the tail is "
+       "min(grace, days supplied)); supplies whose tails meet join one episode")
+      ("history-days", po::value<int>(),
+       "dates in the first N days of a practice's data are marked short-history "
+       "(default: max(84, grace days))")
       ("carryover", po::bool_switch(), "an early refill starts the day after the previous supply ends")
       ("default-supply-days", po::value<int>()->default_value(28),
        "days of supply when neither the record, the dosage nor the product gives them")
@@ -41,6 +45,10 @@ Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
   if (options.episodes.grace_days < 0) return Status::Usage("--grace-days must be 0 or more");
   if (options.supply.default_supply_days < 1) return Status::Usage("--default-supply-days must be at least 1");
   if (options.supply.max_supply_days < 1) return Status::Usage("--max-supply-days must be at least 1");
+  if (vm.count("history-days") != 0U) {
+    options.history_days = vm["history-days"].as<int>();
+    if (*options.history_days < 0) return Status::Usage("--history-days must be 0 or more");
+  }
   options.exclude_prn = vm["exclude-prn"].as<bool>();
   if (vm.count("exclude-route") != 0U) {
     for (const std::string& name : vm["exclude-route"].as<std::vector<std::string>>()) {
@@ -83,6 +91,18 @@ Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name) {
   auto date = ParseDate(text);
   if (!date) return Status::Usage(std::string("--") + name + " \"" + text + "\" is not a date (YYYY-MM-DD)");
   return *date;
+}
+
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store) {
+  Result<RunContext> run = RunContext::Open(context.formulary_dir, options, store);
+  // Open's only usage fault is an unknown scale, which came from --scale here.
+  if (!run.ok() && run.status().code() == StatusCode::kUsage) return AsFlagFault(run.status());
+  return run;
+}
+
+Status ReportFault(const Status& status, const ReportRunOptions& run) {
+  if (run.out_dir.empty() && status.code() == StatusCode::kUsage) return Status::Usage("--out needs a folder");
+  return status;
 }
 
 }  // namespace medload::cli

@@ -1,13 +1,17 @@
 // The measure options and the selection criteria as command-line flags, shared by meds,
-// review, cohort (spec section 4). The help texts repeat the MeasureOptions comments.
+// review, cohort (docs/measures.md). The help texts repeat the MeasureOptions comments.
 #pragma once
 
 #include <vector>
 
+#include "cli/context.h"
 #include "cli/options.h"
 #include "medload/burden/criteria.h"
 #include "medload/burden/measure_options.h"
+#include "medload/burden/run_context.h"
 #include "medload/core/status.h"
+#include "medload/report/report_writer.h"
+#include "medload/store/store.h"
 
 namespace medload::cli {
 
@@ -21,6 +25,14 @@ Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm);
 void AddCriteriaFlags(po::options_description& options);
 // Criteria in command-line order: every --at-least, then every --rule.
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm);
+
+// RunContext::Open for a command whose measure options came from its flags: an unknown
+// scale is named as the flag (`--scale "NAME" is not a scale in ...`).
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store);
+
+// A report's fault as the command line names it: the report folder's usage fault, when
+// --out was empty, names the flag ("--out needs a folder").
+Status ReportFault(const Status& status, const ReportRunOptions& run);
 
 // Reads a date option that must be present ("--on"); usage error naming it otherwise.
 Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name);

@@ -1,11 +1,12 @@
 #include "medload/cohort/cohort.h"
 
+#include <algorithm>
 #include <optional>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
+#include "medload/burden/run_context.h"
 
 namespace medload {
 
@@ -18,6 +19,13 @@ CohortCounter::CohortCounter(const CohortOptions& options,
   tally_.measure = std::move(measure);
   tally_.shard_count = options_.shard.count;
   tally_.shards.insert(options_.shard.index);
+}
+
+void CohortCounter::See(const PatientHistory& history) { AddHistoryToSpans(history, tally_.spans); }
+
+bool CohortCounter::Settled(const std::string& practice) const {
+  const auto it = tally_.spans.find(practice);
+  return !options_.dates.empty() && it != tally_.spans.end() && it->second.first <= options_.dates.front();
 }
 
 bool CohortCounter::Wants(const PatientHistory& history) const {
@@ -52,6 +60,14 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
         age && *age >= 0 ? std::optional<size_t>(EspBandOf(*age)) : std::nullopt;
     ++cell.registered;
     if (band) ++cell.registered_by_band[*band];
+    tally_.practices[group].insert(*practice);
+    const bool unseen = history.dispensings.empty() || history.dispensings.front().dispensed_on > on;
+    if (unseen && !Settled(*practice)) {
+      auto& per_date = tally_.unseen[group][*practice];
+      per_date.resize(options_.dates.size());
+      ++per_date[d].registered;
+      if (band) ++per_date[d].registered_by_band[*band];
+    }
     if (options_.criteria.empty()) continue;
     const Burden value = burden(on, age);
     bool any = false;
@@ -65,7 +81,15 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   }
 }
 
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+CohortTally CohortCounter::Take() {
+  for (auto& [group, by_practice] : tally_.unseen) {
+    std::erase_if(by_practice, [&](const auto& entry) { return Settled(entry.first); });
+  }
+  std::erase_if(tally_.unseen, [](const auto& entry) { return entry.second.empty(); });
+  return std::move(tally_);
+}
+
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options) {
   auto practices = store.Practices();
   if (!practices.ok()) return practices.status();
@@ -74,6 +98,7 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
   PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    counter.See(patient.history());
     if (!counter.Wants(patient.history())) return true;
     // The timeline is built on the first date that needs it, then reused.
     counter.Add(patient.history(), [&](Date on, std::optional<int> age) {
@@ -83,7 +108,6 @@ Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
   }, &facts);
   if (!status.ok()) return status;
   CohortTally tally = counter.Take();
-  tally.latest_dispensed = facts.latest_dispensed;
   tally.capped_patients = facts.capped_patients;
   tally.history_bound = facts.history_bound;
   return tally;
@@ -104,6 +128,8 @@ Status CheckSameRun(const CohortTally& first, const CohortTally& other, const st
   return Status::Ok();
 }
 
+}  // namespace
+
 void AddCell(CohortCell& into, const CohortCell& from) {
   into.registered += from.registered;
   for (size_t b = 0; b < kEspBands; ++b) into.registered_by_band[b] += from.registered_by_band[b];
@@ -112,8 +138,6 @@ void AddCell(CohortCell& into, const CohortCell& from) {
     for (size_t b = 0; b < kEspBands; ++b) into.counts_by_band[k][b] += from.counts_by_band[k][b];
   }
 }
-
-}  // namespace
 
 Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
                                  const std::vector<std::string>& names) {
@@ -130,6 +154,18 @@ Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
       }
     }
     merged.patients += other.patients;
+    MergeSpans(merged.spans, other.spans);
+    for (const auto& [group, codes] : other.practices) merged.practices[group].insert(codes.begin(), codes.end());
+    for (const auto& [group, by_practice] : other.unseen) {
+      for (const auto& [practice, cells] : by_practice) {
+        auto& into = merged.unseen[group][practice];
+        into.resize(std::max(into.size(), cells.size()));
+        for (size_t d = 0; d < cells.size(); ++d) {
+          into[d].registered += cells[d].registered;
+          for (size_t b = 0; b < kEspBands; ++b) into[d].registered_by_band[b] += cells[d].registered_by_band[b];
+        }
+      }
+    }
     for (const auto& [group, cells] : other.groups) {
       auto [it, added] = merged.groups.try_emplace(group, cells);
       if (added) continue;

@@ -5,7 +5,8 @@
 #include <sstream>
 
 #include "medload/cohort/cohort_writer.h"
-#include "medload/io/output.h"
+#include "medload/format/output.h"
+#include "medload/format/svg_chart.h"
 
 namespace medload {
 namespace {
@@ -20,39 +21,43 @@ constexpr double kLabelGap = 12;  // the least vertical distance between two end
 constexpr const char* kColours[] = {"#1b6ca8", "#c0392b", "#2e8b57", "#8e44ad", "#d35400",
                                     "#2c3e50", "#7f8c8d", "#b7950b"};
 
-// A round number at or above `value` (1, 2 or 5 times a power of ten).
-double NiceCeiling(double value) {
-  if (value <= 0) return 1;
-  const double power = std::pow(10.0, std::floor(std::log10(value)));
-  for (const double step : {1.0, 2.0, 5.0, 10.0}) {
-    if (step * power >= value) return step * power;
-  }
-  return 10 * power;
-}
-
 struct Point {
   double x = 0;
   double y = 0;
 };
 
-// One group's rates, by date index (absent = suppressed or none registered).
-std::vector<std::optional<double>> SeriesOf(const CohortTable& table, const std::string& group,
-                                            size_t key) {
-  std::vector<std::optional<double>> values(table.dates.size());
+// One group's rates, by date index (absent = no data, suppressed or none registered),
+// and the data coverage of each date.
+struct Series {
+  std::vector<std::optional<double>> rates;
+  std::vector<DataState> data;
+};
+
+Series SeriesOf(const CohortTable& table, const std::string& group, size_t key) {
+  Series series{std::vector<std::optional<double>>(table.dates.size()),
+                std::vector<DataState>(table.dates.size(), DataState::kNoData)};
   for (const CohortRow& row : table.rows) {
     if (row.group != group) continue;
-    const auto at = std::find(table.dates.begin(), table.dates.end(), row.date);
-    values[static_cast<size_t>(at - table.dates.begin())] = row.values[key].rate;
+    const auto at = static_cast<size_t>(std::find(table.dates.begin(), table.dates.end(), row.date) -
+                                        table.dates.begin());
+    series.rates[at] = row.values[key].rate;
+    series.data[at] = row.data;
   }
-  return values;
+  return series;
 }
 
-std::string Fixed(double value) {
-  std::ostringstream text;
-  text.setf(std::ios::fixed);
-  text.precision(1);
-  text << value;
-  return text.str();
+// A point's marker: filled circle (full), hollow circle (short history), hollow square
+// (beyond the data), so that the states read without colour.
+void WriteMarker(std::ostringstream& svg, const Point& p, DataState data, const char* colour) {
+  if (data == DataState::kBeyondData) {
+    svg << "<rect x=\"" << SvgNumber(p.x - 3) << "\" y=\"" << SvgNumber(p.y - 3) << "\" width=\"6\" height=\"6\" "
+        << "fill=\"#fff\" stroke=\"" << colour << "\" stroke-width=\"1.5\"><title>beyond the data</title></rect>\n";
+    return;
+  }
+  svg << "<circle cx=\"" << SvgNumber(p.x) << "\" cy=\"" << SvgNumber(p.y) << "\" r=\"" << (data == DataState::kFull ? "2.5" : "3")
+      << "\" fill=\"" << (data == DataState::kFull ? colour : "#fff") << "\""
+      << (data == DataState::kFull ? "" : std::string(" stroke=\"") + colour + "\" stroke-width=\"1.5\"")
+      << (data == DataState::kShortHistory ? "><title>short history</title></circle>\n" : "/>\n");
 }
 
 // The x of date index `d` of `n`: spread across the plot, or its middle for one date.
@@ -70,9 +75,9 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
       << EscapeHtml(title) << "</text>\n";
   for (int tick = 0; tick <= 4; ++tick) {
     const double y = kTop + plot_h - plot_h * tick / 4.0;
-    svg << "<line x1=\"" << kLeft << "\" y1=\"" << Fixed(y) << "\" x2=\"" << kLeft + plot_w
-        << "\" y2=\"" << Fixed(y) << "\" stroke=\"#ddd\"/>\n"
-        << "<text x=\"" << kLeft - 6 << "\" y=\"" << Fixed(y + 4)
+    svg << "<line x1=\"" << kLeft << "\" y1=\"" << SvgNumber(y) << "\" x2=\"" << kLeft + plot_w
+        << "\" y2=\"" << SvgNumber(y) << "\" stroke=\"#ddd\"/>\n"
+        << "<text x=\"" << kLeft - 6 << "\" y=\"" << SvgNumber(y + 4)
         << "\" font-size=\"11\" text-anchor=\"end\">" << FormatNumber(top_rate * tick / 4.0, 1)
         << "</text>\n";
   }
@@ -80,16 +85,16 @@ void WriteAxes(std::ostringstream& svg, const CohortTable& table, double top_rat
   const size_t every = std::max<size_t>(1, (n + 7) / 8);  // at most about 8 date labels
   for (size_t d = 0; d < n; d += every) {
     const double x = XOf(d, n);
-    svg << "<text x=\"" << Fixed(x) << "\" y=\"" << Fixed(kTop + plot_h + 16)
+    svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(kTop + plot_h + 16)
         << "\" font-size=\"11\" text-anchor=\"middle\">" << table.dates[d].ToIso() << "</text>\n";
   }
   svg << "<line x1=\"" << kLeft << "\" y1=\"" << kTop + plot_h << "\" x2=\"" << kLeft + plot_w
       << "\" y2=\"" << kTop + plot_h << "\" stroke=\"#333\"/>\n"
       << "<line x1=\"" << kLeft << "\" y1=\"" << kTop << "\" x2=\"" << kLeft << "\" y2=\""
       << kTop + plot_h << "\" stroke=\"#333\"/>\n"
-      << "<text x=\"" << Fixed(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
+      << "<text x=\"" << SvgNumber(kLeft + plot_w / 2) << "\" y=\"" << kHeight - 14
       << "\" font-size=\"12\" text-anchor=\"middle\">census date</text>\n"
-      << "<text transform=\"translate(16 " << Fixed(kTop + plot_h / 2)
+      << "<text transform=\"translate(16 " << SvgNumber(kTop + plot_h / 2)
       << ") rotate(-90)\" font-size=\"12\" text-anchor=\"middle\">rate per 1000 registered</text>\n";
 }
 
@@ -134,7 +139,7 @@ std::vector<std::optional<Point>> PointsOf(const std::vector<std::optional<doubl
 std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   double highest = 0;
   for (const CohortRow& row : table.rows) highest = std::max(highest, row.values[key].rate.value_or(0));
-  const double top_rate = NiceCeiling(highest);
+  const double top_rate = NiceAxisTop(highest);
   const std::string title = table.keys[key] + ": rate per 1000 registered, by " +
                             std::string(GroupByName(table.group_by));
   std::ostringstream svg;
@@ -145,31 +150,42 @@ std::string CohortTrendSvg(const CohortTable& table, size_t key) {
   std::vector<Label> labels;
   for (size_t g = 0; g < table.groups.size(); ++g) {
     const char* colour = kColours[g % (sizeof(kColours) / sizeof(kColours[0]))];
-    const std::vector<std::optional<Point>> points =
-        PointsOf(SeriesOf(table, table.groups[g], key), top_rate);
-    std::string path;
-    bool drawing = false;
+    const Series series = SeriesOf(table, table.groups[g], key);
+    const std::vector<std::optional<Point>> points = PointsOf(series.rates, top_rate);
+    // Solid between two full points, dashed where either end is short-history or beyond
+    // the data; a date without a value is a gap.
+    std::string solid, dashed;
     std::optional<Point> last;
-    for (const std::optional<Point>& p : points) {
-      if (!p) {
-        drawing = false;  // a gap: the next point starts a new segment
+    std::optional<bool> previous_full;  // the style of the segment ending at d - 1, if any
+    for (size_t d = 0; d < points.size(); ++d) {
+      if (!points[d]) {
+        previous_full.reset();
         continue;
       }
-      path += (drawing ? " L" : " M") + Fixed(p->x) + " " + Fixed(p->y);
-      drawing = true;
+      const Point& p = *points[d];
+      if (d > 0 && points[d - 1]) {
+        const bool full = series.data[d] == DataState::kFull && series.data[d - 1] == DataState::kFull;
+        std::string& path = full ? solid : dashed;
+        if (previous_full != full) path += " M" + SvgNumber(points[d - 1]->x) + " " + SvgNumber(points[d - 1]->y);
+        path += " L" + SvgNumber(p.x) + " " + SvgNumber(p.y);
+        previous_full = full;
+      }
       last = p;
-      svg << "<circle cx=\"" << Fixed(p->x) << "\" cy=\"" << Fixed(p->y)
-          << "\" r=\"2.5\" fill=\"" << colour << "\"/>\n";
+      WriteMarker(svg, p, series.data[d], colour);
     }
-    if (!path.empty()) {
-      svg << "<path d=\"" << path.substr(1) << "\" fill=\"none\" stroke=\"" << colour
+    if (!solid.empty()) {
+      svg << "<path d=\"" << solid.substr(1) << "\" fill=\"none\" stroke=\"" << colour
           << "\" stroke-width=\"2\"/>\n";
+    }
+    if (!dashed.empty()) {
+      svg << "<path d=\"" << dashed.substr(1) << "\" fill=\"none\" stroke=\"" << colour
+          << "\" stroke-width=\"2\" stroke-dasharray=\"5 4\"/>\n";
     }
     if (last) labels.push_back(Label{last->y + 4, table.groups[g], colour});
   }
   SpreadLabels(labels);
   for (const Label& label : labels) {
-    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << Fixed(label.y)
+    svg << "<text x=\"" << kWidth - kRight + 8 << "\" y=\"" << SvgNumber(label.y)
         << "\" font-size=\"11\" fill=\"" << label.colour << "\">" << EscapeHtml(label.group)
         << "</text>\n";
   }

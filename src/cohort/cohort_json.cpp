@@ -1,8 +1,11 @@
 // The cohort JSON document and the raw tally inside it (read back by `cohort --merge`).
+#include <array>
+#include <set>
 #include <string>
 
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {
@@ -34,9 +37,28 @@ json RowJson(const CohortTable& table, const CohortRow& row) {
           {"group", row.group},
           {"registered", row.registered},
           {"registered_known_age", row.registered_known_age},
+          {"data", std::string(DataStateName(row.data))},
+          {"practices_without_data", row.practices_without_data},
           {"counts", counts},
           {"rates_per_1000", rates},
           {"standardised_per_1000", standardised}};
+}
+
+// The tally's data coverage: spans per practice, practices per group, unseen cells.
+json CoverageJson(const CohortTally& tally) {
+  json spans = json::object();
+  for (const auto& [practice, span] : tally.spans) spans[practice] = {span.first.ToIso(), span.latest.ToIso()};
+  json practices = json::object();
+  for (const auto& [group, codes] : tally.practices) practices[group] = codes;
+  json unseen = json::object();
+  for (const auto& [group, by_practice] : tally.unseen) {
+    for (const auto& [practice, cells] : by_practice) {
+      json list = json::array();
+      for (const UnseenCell& cell : cells) list.push_back({cell.registered, cell.registered_by_band});
+      unseen[group][practice] = list;
+    }
+  }
+  return {{"spans", spans}, {"practices", practices}, {"unseen", unseen}};
 }
 
 }  // namespace
@@ -51,6 +73,7 @@ json CohortJson(const CohortTable& table, const CohortTally* raw) {
   document["measure"] = table.measure;
   document["suppress_below"] = table.suppress_below;
   document["suppression"] = SuppressionNote(table.suppress_below);
+  document["history_days"] = table.history_days;
   document["standard_population"] =
       "European Standard Population 2013 (Eurostat 2013), 19 bands 0-4 to 90+, patients of "
       "known age; 95% limits by Dobson et al. 1991";
@@ -86,7 +109,8 @@ json TallyJson(const CohortTally& tally) {
           {"shard_count", tally.shard_count},
           {"shards", tally.shards},
           {"patients", tally.patients},
-          {"groups", groups}};
+          {"groups", groups},
+          {"coverage", CoverageJson(tally)}};
 }
 
 namespace {
@@ -124,6 +148,48 @@ Status ReadCells(const json& list, const std::string& pointer, const std::string
       return Status::Input(file + ": " + at + ": expected one count per criterion and any");
     }
     cells.push_back(std::move(cell));
+  }
+  return Status::Ok();
+}
+
+Status ReadSpans(const json& spans, const std::string& at, const std::string& file, CohortTally& tally) {
+  for (const auto& [practice, pair] : spans.items()) {
+    std::optional<Date> first, latest;
+    if (pair.is_array() && pair.size() == 2 && pair[0].is_string() && pair[1].is_string()) {
+      first = ParseDate(pair[0].get<std::string>());
+      latest = ParseDate(pair[1].get<std::string>());
+    }
+    if (!first || !latest) {
+      return Status::Input(file + ": " + at + "/spans/" + practice + ": expected [first, latest] as dates");
+    }
+    tally.spans[practice] = DataSpan{*first, *latest};
+  }
+  return Status::Ok();
+}
+
+// The coverage member, absent from tallies written before coverage was kept (their
+// groups then count as fully covered).
+Status ReadCoverage(const json& document, const std::string& base, const std::string& file, CohortTally& tally) {
+  const json::json_pointer pointer(base + "/coverage");
+  if (!document.contains(pointer)) return Status::Ok();
+  const std::string at = base + "/coverage";
+  try {
+    const json& coverage = document.at(pointer);
+    if (Status spans = ReadSpans(coverage.at("spans"), at, file, tally); !spans.ok()) return spans;
+    for (const auto& [group, codes] : coverage.at("practices").items()) {
+      tally.practices[group] = codes.get<std::set<std::string>>();
+    }
+    for (const auto& [group, by_practice] : coverage.at("unseen").items()) {
+      for (const auto& [practice, list] : by_practice.items()) {
+        std::vector<UnseenCell> cells;
+        for (const json& cell : list) {
+          cells.push_back(UnseenCell{cell.at(0).get<long>(), cell.at(1).get<std::array<long, kEspBands>>()});
+        }
+        tally.unseen[group][practice] = std::move(cells);
+      }
+    }
+  } catch (const json::exception&) {
+    return Status::Input(file + ": " + at + ": malformed (expected spans, practices and unseen)");
   }
   return Status::Ok();
 }
@@ -173,6 +239,7 @@ Result<CohortTally> TallyFromJson(const json& document, const std::string& file)
     if (!status.ok()) return status;
     tally.groups[group] = std::move(cells);
   }
+  if (Status coverage = ReadCoverage(document, base, file, tally); !coverage.ok()) return coverage;
   return tally;
 }
 

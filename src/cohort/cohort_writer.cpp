@@ -4,14 +4,25 @@
 
 #include <ostream>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {
 
-std::string CountText(const CohortValue& value, long suppress_below) {
+std::string CountText(const CohortRow& row, const CohortValue& value, long suppress_below) {
+  if (!HasFigures(row.data)) return "no data";
   if (value.count) return std::to_string(*value.count);
   return "<" + std::to_string(suppress_below);
+}
+
+// The row's coverage, blank when full; with the practices left out of a group.
+std::string DataText(const CohortRow& row) {
+  std::string text = row.data == DataState::kFull ? "" : std::string(DataStateName(row.data));
+  if (row.practices_without_data > 0) {
+    text += (text.empty() ? "" : "; ") + std::to_string(row.practices_without_data) + " practice(s) without data left out";
+  }
+  return text;
 }
 
 std::string RateText(const std::optional<double>& rate) {
@@ -47,28 +58,19 @@ std::vector<std::string> Preamble(const CohortTable& table) {
   }
   lines.push_back(SuppressionNote(table.suppress_below));
   for (const std::string& note : table.notes) lines.push_back("Warning: " + note + ".");
+  lines.push_back("Data coverage: no-data = before a practice's dispensing data begin (no figures); "
+                  "short-history = within the first " + std::to_string(table.history_days) +
+                  " days of its data (figures may be too low); beyond-data = after its latest dispensing "
+                  "loaded.");
   return lines;
 }
 
 }  // namespace
 
-std::string SuppressionNote(long suppress_below) {
-  if (suppress_below <= 1) {
-    return "No small-number suppression (--suppress-below 0): do not publish counts below "
-           "your local threshold.";
-  }
-  const std::string n = std::to_string(suppress_below);
-  return "Counts from 1 to " + std::to_string(suppress_below - 1) + " (below " + n +
-         ") are withheld with their rates; zero is shown. Secondary disclosure: a withheld "
-         "cell can still be worked out from a visible total, from the other criteria or "
-         "groups, or from an earlier or later date; medload suppresses each cell on its own "
-         "and does not suppress complementary cells, so check tables before publishing.";
-}
-
 void WriteCohortText(std::ostream& out, const CohortTable& table) {
   for (const std::string& line : Preamble(table)) out << line << "\n";
   out << "\n";
-  std::vector<std::string> header = {"date", "group", "registered"};
+  std::vector<std::string> header = {"date", "group", "registered", "data"};
   for (const std::string& key : table.keys) {
     header.push_back(key);
     header.push_back("per 1000");
@@ -76,9 +78,9 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
   header.push_back("any ESP2013 per 1000 (95% CI)");
   std::vector<std::vector<std::string>> rows;
   for (const CohortRow& row : table.rows) {
-    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered)};
+    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered), DataText(row)};
     for (const CohortValue& value : row.values) {
-      cells.push_back(CountText(value, table.suppress_below));
+      cells.push_back(CountText(row, value, table.suppress_below));
       cells.push_back(RateText(value.rate));
     }
     cells.push_back(StandardisedText(row.values.back()));
@@ -91,13 +93,13 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
 void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
   for (const std::string& note : table.notes) out << "# note: " << note << "\n";
-  out << CsvRow({"date", "group", "registered", "criterion", "count", "rate_per_1000",
-                 "standardised_per_1000", "standardised_lower", "standardised_upper",
+  out << CsvRow({"date", "group", "registered", "data", "practices_without_data", "criterion", "count",
+                 "rate_per_1000", "standardised_per_1000", "standardised_lower", "standardised_upper",
                  "suppressed"});
   for (const CohortRow& row : table.rows) {
     for (size_t k = 0; k < table.keys.size(); ++k) {
       const CohortValue& value = row.values[k];
-      const bool suppressed = !value.count;
+      const bool suppressed = !value.count && HasFigures(row.data);
       std::optional<double> standardised;
       std::optional<double> lower;
       std::optional<double> upper;
@@ -106,7 +108,8 @@ void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
         lower = value.standardised->lower;
         upper = value.standardised->upper;
       }
-      out << CsvRow({row.date.ToIso(), row.group, std::to_string(row.registered), table.keys[k],
+      out << CsvRow({row.date.ToIso(), row.group, std::to_string(row.registered),
+                     std::string(DataStateName(row.data)), std::to_string(row.practices_without_data), table.keys[k],
                      value.count ? std::to_string(*value.count) : "",
                      OptionalText(value.rate, 4), OptionalText(standardised, 4),
                      OptionalText(lower, 4), OptionalText(upper, 4),
@@ -121,7 +124,7 @@ void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
   for (size_t k = 0; k < table.keys.size(); ++k) {
     out << "<figure>" << CohortTrendSvg(table, k) << "</figure>\n";
   }
-  std::vector<std::string> header = {"date", "group", "registered"};
+  std::vector<std::string> header = {"date", "group", "registered", "data"};
   for (const std::string& key : table.keys) {
     header.push_back(key);
     header.push_back(key + " per 1000");
@@ -129,9 +132,9 @@ void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
   }
   std::vector<std::vector<std::string>> rows;
   for (const CohortRow& row : table.rows) {
-    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered)};
+    std::vector<std::string> cells = {row.date.ToIso(), row.group, std::to_string(row.registered), DataText(row)};
     for (const CohortValue& value : row.values) {
-      cells.push_back(CountText(value, table.suppress_below));
+      cells.push_back(CountText(row, value, table.suppress_below));
       cells.push_back(RateText(value.rate));
       cells.push_back(StandardisedText(value));
     }

@@ -29,7 +29,7 @@ Date PeriodEnd(Date date, SeriesStep step) {
 
 Result<std::vector<Date>> SeriesDates(Date from, Date to, SeriesStep step, size_t max_dates) {
   if (to < from) {
-    return Status::Usage("--to " + to.ToIso() + " is before --from " + from.ToIso());
+    return Status::Usage("the series ends on " + to.ToIso() + ", before its start " + from.ToIso());
   }
   std::vector<Date> dates;
   const Date last = PeriodEnd(to, step);

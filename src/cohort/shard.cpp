@@ -21,7 +21,7 @@ Result<ShardSpec> ParseShard(std::string_view text) {
   if (slash == std::string_view::npos || !ParseWhole(text.substr(0, slash), shard.index) ||
       !ParseWhole(text.substr(slash + 1), shard.count) || shard.count < 1 ||
       shard.count > kMaxShards || shard.index < 1 || shard.index > shard.count) {
-    return Status::Usage("--shard \"" + std::string(text) +
+    return Status::Usage("shard \"" + std::string(text) +
                          "\" is not K/N with 1 <= K <= N <= 100000 (e.g. 3/8)");
   }
   return shard;

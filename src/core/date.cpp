@@ -17,13 +17,7 @@ int32_t DaysFromCivil(int y, int m, int d) {
   return era * 146097 + doe - 719468;
 }
 
-struct Civil {
-  int year;
-  int month;
-  int day;
-};
-
-Civil CivilFromDays(int32_t z) {
+CivilDate CivilFromDays(int32_t z) {
   z += 719468;
   const int era = (z >= 0 ? z : z - 146096) / 146097;
   const int doe = z - era * 146097;
@@ -102,7 +96,7 @@ int Date::month() const { return CivilFromDays(days_).month; }
 int Date::day() const { return CivilFromDays(days_).day; }
 
 std::string Date::ToIso() const {
-  const Civil c = CivilFromDays(days_);
+  const CivilDate c = CivilFromDays(days_);
   char buffer[16];
   std::snprintf(buffer, sizeof buffer, "%04d-%02d-%02d", c.year, c.month, c.day);
   return buffer;
@@ -123,12 +117,12 @@ std::optional<Date> ParseDate(std::string_view text, DateOrder order) {
 }
 
 Date EndOfMonth(Date date) {
-  const Civil c = CivilFromDays(date.days());
+  const CivilDate c = CivilFromDays(date.days());
   return Date::FromCivil(c.year, c.month, DaysInMonth(c.year, c.month));
 }
 
 Date EndOfQuarter(Date date) {
-  const Civil c = CivilFromDays(date.days());
+  const CivilDate c = CivilFromDays(date.days());
   const int last_month = (c.month - 1) / 3 * 3 + 3;
   return Date::FromCivil(c.year, last_month, DaysInMonth(c.year, last_month));
 }
@@ -136,11 +130,13 @@ Date EndOfQuarter(Date date) {
 Date EndOfYear(Date date) { return Date::FromCivil(date.year(), 12, 31); }
 
 int CompletedYears(Date birth, Date on) {
-  const Civil b = CivilFromDays(birth.days());
-  const Civil o = CivilFromDays(on.days());
+  const CivilDate b = CivilFromDays(birth.days());
+  const CivilDate o = CivilFromDays(on.days());
   int years = o.year - b.year;
   if (o.month < b.month || (o.month == b.month && o.day < b.day)) --years;
   return years < 0 ? 0 : years;
 }
+
+CivilDate ToCivil(Date date) { return CivilFromDays(date.days()); }
 
 }  // namespace medload

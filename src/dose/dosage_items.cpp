@@ -88,9 +88,9 @@ class Recogniser {
     return k < t_.size() && t_[k].kind != TokenKind::kNumber && t_[k].text == word;
   }
 
-  void Emit(ItemKind kind, size_t next, double value = 0, double value2 = 0,
+  void Emit(ItemKind kind, size_t next, double value = 0, double period_days = 0,
             std::string_view unit = {}) {
-    items_.push_back(Item{kind, value, value2, unit, {}});
+    items_.push_back(Item{kind, value, period_days, unit, {}, false});
     i_ = next;
   }
 
@@ -328,8 +328,8 @@ class Recogniser {
     const auto range = RangeAt(i_);
     if (!range) return false;
     if (range->high > kMaxDosageAmount) {
-      // value2 1: an amount that cannot be a dose, so the dose it belongs to is unusable.
-      items_.push_back(Item{ItemKind::kUnknown, 0, 1, {}, std::string(Text(i_))});
+      // An amount that cannot be a dose, so the dose it belongs to is unusable.
+      items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, std::string(Text(i_)), true});
       i_ = range->next;
       return true;
     }

@@ -16,7 +16,7 @@ enum class ItemKind {
   kUnit,        // unit: canonical unit name; value: factor to it
   kCount,       // value: administrations in the period ("twice", "3 times", "x3")
   kPeriod,      // value: the period in days ("daily" 1, "weekly" 7, "every 4 hours" 1/6)
-  kFrequency,   // value: administrations in value2 days ("bd", "tds", "od")
+  kFrequency,   // value: administrations in period_days days ("bd", "tds", "od")
   kEvent,       // value: a time of day id (morning, night, 08:00, ...)
   kMeals,       // "with meals": three administrations a day unless a frequency is given
   kWeekday,     // value: days of the week as bits, 1 Monday .. 64 Sunday ("weekends" 96)
@@ -29,15 +29,16 @@ enum class ItemKind {
   kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
   kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
   kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")
-  kUnknown,     // not understood; text: the word; value2 1: a number too large for a dose
+  kUnknown,     // not understood; text: the word; unusable_amount: a number too large for a dose
 };
 
 struct Item {
   ItemKind kind = ItemKind::kUnknown;
   double value = 0;
-  double value2 = 0;
+  double period_days = 0;      // kFrequency: the days its administrations are spread over
   std::string_view unit = {};  // static storage
   std::string text = {};       // the word, for kUnknown
+  bool unusable_amount = false;  // kUnknown: a number too large for a dose (the dose is unusable)
 };
 
 // Amounts above this are not doses (hostile or mistyped numbers): read as unknown.

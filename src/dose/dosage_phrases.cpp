@@ -10,7 +10,7 @@ struct Phrase {
   std::string_view words;  // space-separated tokens (punctuation is a token too)
   ItemKind kind;
   double value = 0;
-  double value2 = 0;
+  double period_days = 0;  // kFrequency: the days its administrations are spread over
   std::string_view unit = {};
 };
 
@@ -48,7 +48,7 @@ constexpr Phrase kPhrases[] = {
     {"as per", K::kAsDirected}, {"per instructions", K::kAsDirected},
     {"according to instructions", K::kAsDirected},
     {"according to the instructions", K::kAsDirected},
-    // Abbreviated frequencies: administrations per value2 days.
+    // Abbreviated frequencies: administrations per period_days days.
     {"od", K::kFrequency, 1, 1}, {"qd", K::kFrequency, 1, 1},
     {"bd", K::kFrequency, 2, 1}, {"bid", K::kFrequency, 2, 1},
     {"tds", K::kFrequency, 3, 1}, {"tid", K::kFrequency, 3, 1},
@@ -190,7 +190,7 @@ std::vector<std::string_view> SplitWords(std::string_view words) {
 PhraseIndex BuildIndex() {
   PhraseIndex index;
   for (const Phrase& phrase : kPhrases) {
-    Item item{phrase.kind, phrase.value, phrase.value2, phrase.unit, {}};
+    Item item{phrase.kind, phrase.value, phrase.period_days, phrase.unit, {}, false};
     auto words = SplitWords(phrase.words);
     index[words.front()].push_back(SplitPhrase{std::move(words), item});
   }

@@ -8,6 +8,7 @@
 
 #include "dose/dosage_items.h"
 #include "dose/dosage_lexer.h"
+#include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
@@ -123,7 +124,7 @@ class Assembler {
       case ItemKind::kFrequency:
         if (!part_.count && !part_.period) {
           part_.count = item.value;
-          part_.period = item.value2;
+          part_.period = item.period_days;
         }
         break;
       default:
@@ -157,7 +158,7 @@ class Assembler {
         break;
       case ItemKind::kUnknown:
         unknown_.push_back(item.text);
-        if (item.value2 == 1) {
+        if (item.unusable_amount) {
           if (part_.amount) StartPart();
           part_.amount = std::numeric_limits<double>::quiet_NaN();  // an unusable dose
         }
@@ -184,7 +185,7 @@ class Assembler {
       case ItemKind::kPeriod: max.period = item.value; return true;
       case ItemKind::kFrequency:
         max.count = item.value;
-        max.period = item.value2;
+        max.period = item.period_days;
         return true;
       case ItemKind::kEvent: AddDistinct(max.events, static_cast<int>(item.value)); return true;
       case ItemKind::kMaximum:
@@ -401,12 +402,6 @@ DosageReading Assembler::Finish(bool truncated) {
   return reading;
 }
 
-bool IsBlank(std::string_view text) {
-  return std::all_of(text.begin(), text.end(), [](char c) {
-    return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v';
-  });
-}
-
 }  // namespace
 
 std::string_view UnderstandingName(Understanding understanding) {
@@ -420,7 +415,7 @@ std::string_view UnderstandingName(Understanding understanding) {
 }
 
 DosageReading ReadDosageText(std::string_view text) {
-  if (IsBlank(text)) return DosageReading{};
+  if (IsBlank(text, " \t\n\r\f\v")) return DosageReading{};
   const LexedText lexed = LexDosageText(text);
   if (lexed.tokens.empty()) return DosageReading{};
   Assembler assembler;

@@ -4,6 +4,8 @@
 #include <charconv>
 #include <string>
 
+#include "medload/core/text.h"
+
 namespace medload {
 namespace {
 
@@ -71,12 +73,6 @@ std::string LowerAscii(std::string_view text) {
   return lower;
 }
 
-std::string_view Trim(std::string_view text) {
-  while (!text.empty() && (text.front() == ' ' || text.front() == '\t')) text.remove_prefix(1);
-  while (!text.empty() && (text.back() == ' ' || text.back() == '\t')) text.remove_suffix(1);
-  return text;
-}
-
 std::optional<DoseUnit> LookUpWord(std::string_view word) {
   for (const UnitWord& entry : kUnitWords) {
     if (entry.word == word) return DoseUnit{entry.name, entry.factor};
@@ -109,6 +105,14 @@ std::optional<DoseUnit> ReadDoseUnit(std::string_view text) {
   if (word.empty()) return std::nullopt;
   if (word.front() >= '0' && word.front() <= '9') return ReadSpoon(word);
   return LookUpWord(word);
+}
+
+bool IsSingleUnitForm(std::string_view canonical) {
+  for (std::string_view form : {"tablet", "capsule", "patch", "suppository", "pessary", "sachet",
+                                "lozenge", "pastille", "enema"}) {
+    if (canonical == form) return true;
+  }
+  return false;
 }
 
 bool SameDoseUnit(std::string_view canonical_a, std::string_view canonical_b) {

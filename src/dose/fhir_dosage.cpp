@@ -137,9 +137,12 @@ std::optional<Amount> ReadQuantity(const json& quantity, const std::string& poin
       return Amount{*value * unit->factor, std::string(unit->name)};
     }
   }
-  const std::string unit = String(quantity, "unit");
+  // A unit this table does not know is kept as written, so that nobody takes the amount
+  // for one in the quantity's unit.
+  std::string unit = String(quantity, "unit");
+  if (unit.empty()) unit = String(quantity, "code");
   if (!unit.empty()) notes.Add(pointer + "/unit \"" + unit + "\" is not a known dose unit");
-  return Amount{*value, {}};
+  return Amount{*value, unit};
 }
 
 std::optional<Amount> DoseOf(const json& dosage, Notes& notes) {
@@ -189,10 +192,12 @@ bool AsNeeded(const json& dosage) {
 }
 
 // The structured reading: fills `reading` and returns true when it gave units per day.
-bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes) {
+// `times` is set to the administrations a day whenever the timing gives them.
+bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes,
+                   std::optional<double>& times) {
   reading.as_needed = AsNeeded(dosage);
   const auto dose = DoseOf(dosage, notes);
-  const auto times = TimesPerDay(dosage, notes);
+  times = TimesPerDay(dosage, notes);
   auto max = MaxPerDay(dosage, notes);
   if (dose) reading.unit = dose->unit;
   if (max && dose && !max->unit.empty() && !dose->unit.empty() &&
@@ -215,6 +220,35 @@ bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes) {
   return reading.units_per_day.has_value();
 }
 
+// When the structure gave no amount a day: the text's reading, else (a frequency without
+// a dose) so many administrations a day, for the supply calculation to count one unit
+// each only for single-unit forms.
+DosageReading ReadWithoutStructure(const json& dosage, DosageReading reading, std::optional<double> times,
+                                   Notes& notes) {
+  const std::string text = String(dosage, "text");
+  DosageReading from_text = text.empty() ? DosageReading() : ReadDosageText(text);
+  if (from_text.units_per_day || (!text.empty() && !times)) {
+    from_text.as_needed = from_text.as_needed || reading.as_needed;
+    if (from_text.unit.empty()) from_text.unit = reading.unit;
+    notes.Add("no structured dose and frequency: read from the text");
+    if (!from_text.note.empty()) notes.Add(from_text.note);
+    from_text.note = notes.text();
+    return from_text;
+  }
+  if (times && reading.unit.empty() && std::isfinite(*times)) {
+    reading.units_per_day = *times;
+    reading.unit = std::string(kAdministrationUnit);
+    reading.understanding = Understanding::kPartial;
+    notes.Add("a frequency without a dose: administrations a day");
+  } else {
+    notes.Add(text.empty() ? "no structured dose and frequency and no text"
+                           : "no structured dose and frequency, and the text gave none");
+    reading.understanding = Understanding::kUnknown;
+  }
+  reading.note = notes.text();
+  return reading;
+}
+
 }  // namespace
 
 DosageReading ReadFhirDosage(const json& dosage) {
@@ -227,23 +261,13 @@ DosageReading ReadFhirDosage(const json& dosage) {
       return reading;
     }
     if (dosage.empty()) return reading;
-    if (ReadStructure(dosage, reading, notes)) {
+    std::optional<double> times;
+    if (ReadStructure(dosage, reading, notes, times)) {
       reading.understanding = Understanding::kFull;
       reading.note = notes.text();
       return reading;
     }
-    const std::string text = String(dosage, "text");
-    if (!text.empty()) {
-      DosageReading from_text = ReadDosageText(text);
-      from_text.as_needed = from_text.as_needed || reading.as_needed;
-      if (from_text.unit.empty()) from_text.unit = reading.unit;
-      notes.Add("no structured dose and frequency: read from the text");
-      if (!from_text.note.empty()) notes.Add(from_text.note);
-      from_text.note = notes.text();
-      return from_text;
-    }
-    notes.Add("no structured dose and frequency and no text");
-    reading.understanding = Understanding::kUnknown;
+    return ReadWithoutStructure(dosage, reading, times, notes);
   } catch (const json::exception& error) {
     reading.units_per_day.reset();
     reading.understanding = Understanding::kUnknown;

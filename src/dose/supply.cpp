@@ -21,6 +21,19 @@ void Explain(std::string* why, std::string text) {
   if (why != nullptr) *why = std::move(text);
 }
 
+// Administrations a day without a dose: one unit each when the quantity is counted in a
+// single-unit form (tablets, capsules, patches...); for anything else (ml, puffs, an
+// unknown unit) the amount is not known.
+std::optional<double> AdministrationsAsUnits(const DosageReading& dosage, const QuantityUnit& quantity_unit,
+                                             std::string* why) {
+  const auto quantity = ReadDoseUnit(quantity_unit.unit);
+  if (quantity && IsSingleUnitForm(quantity->name) && quantity->factor == 1) return dosage.units_per_day;
+  Explain(why, "the dosage gives a frequency without a dose, and the quantity is not counted in "
+               "tablets, capsules or other single units" +
+                   (quantity_unit.unit.empty() ? std::string() : " (it is in \"" + quantity_unit.unit + "\")"));
+  return std::nullopt;
+}
+
 }  // namespace
 
 std::string_view SupplyRuleName(SupplyRule rule) {
@@ -40,6 +53,7 @@ std::optional<double> UnitsPerDayOfQuantity(const DosageReading& dosage,
       !std::isfinite(*dosage.units_per_day)) {
     return std::nullopt;
   }
+  if (dosage.unit == kAdministrationUnit) return AdministrationsAsUnits(dosage, quantity_unit, why);
   bool dose_ok = true;
   bool quantity_ok = true;
   const auto dose = Canonical(dosage.unit, dose_ok);
@@ -99,9 +113,12 @@ DosageReading ReadRecordDosage(const DispensingRecord& record, DosageTextCache* 
   if (record.structured_units_per_day && *record.structured_units_per_day > 0) {
     DosageReading reading;
     reading.units_per_day = record.structured_units_per_day;
+    reading.unit = record.structured_unit;
     reading.as_needed = record.structured_as_needed;
-    reading.understanding = Understanding::kFull;
-    reading.note = "from the structured dosage";
+    const bool administrations = record.structured_unit == kAdministrationUnit;
+    reading.understanding = administrations ? Understanding::kPartial : Understanding::kFull;
+    reading.note = administrations ? "from the structured dosage: a frequency without a dose"
+                                   : "from the structured dosage";
     return reading;
   }
   DosageReading reading = cache != nullptr ? cache->Read(record.dosage) : ReadDosageText(record.dosage);

@@ -25,20 +25,23 @@ std::vector<Episode> BuildEpisodes(std::span<const Coverage> coverages,
   std::stable_sort(sorted.begin(), sorted.end(), [](const Coverage& a, const Coverage& b) {
     return a.start != b.start ? a.start < b.start : a.source < b.source;
   });
+  const int grace = std::max(0, options.grace_days);
+  for (Coverage& coverage : sorted) {
+    coverage.dispensed = coverage.start;
+    coverage.tail = std::min(grace, coverage.days);
+  }
   if (options.carryover) ApplyCarryover(sorted);
 
   std::vector<Episode> episodes;
   for (const Coverage& coverage : sorted) {
-    if (!episodes.empty()) {
+    if (!episodes.empty() && coverage.start <= episodes.back().end + 1) {
       Episode& current = episodes.back();
-      const int gap = coverage.start - current.end - 1;
-      if (gap <= options.grace_days) {
-        current.end = std::max(current.end, coverage.end());
-        current.coverages.push_back(coverage);
-        continue;
-      }
+      current.end = std::max(current.end, coverage.tail_end());
+      current.supply_end = std::max(current.supply_end, coverage.end());
+      current.coverages.push_back(coverage);
+      continue;
     }
-    episodes.push_back(Episode{coverage.start, coverage.end(), {coverage}});
+    episodes.push_back(Episode{coverage.start, coverage.tail_end(), coverage.end(), {coverage}});
   }
   return episodes;
 }
@@ -50,6 +53,25 @@ const Episode* EpisodeOn(std::span<const Episode> episodes, Date day) {
   if (it == episodes.begin()) return nullptr;
   --it;
   return it->Contains(day) ? &*it : nullptr;
+}
+
+std::optional<EpisodeKnown> EpisodeKnownOn(std::span<const Episode> episodes, Date day) {
+  const Episode* episode = EpisodeOn(episodes, day);
+  if (episode == nullptr) return std::nullopt;
+  // A supply dispensed after `day` starts after it, so it cannot reach `day`; the supplies
+  // dispensed by then form one chain from the episode's start (they come first in start
+  // order and each joins the ones before it).
+  EpisodeKnown known{episode, episode->start, episode->start, episode->start, true};
+  bool any = false;
+  for (const Coverage& coverage : episode->coverages) {
+    if (coverage.dispensed > day) continue;
+    known.end = any ? std::max(known.end, coverage.tail_end()) : coverage.tail_end();
+    known.supply_end = any ? std::max(known.supply_end, coverage.end()) : coverage.end();
+    if (coverage.start <= day && day <= coverage.end()) known.in_tail = false;
+    any = true;
+  }
+  if (!any || known.end < day) return std::nullopt;
+  return known;
 }
 
 }  // namespace medload

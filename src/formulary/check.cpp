@@ -75,6 +75,23 @@ void CheckIngredientRows(const Formulary& formulary, const std::string& file, co
   }
 }
 
+// dbi_classes.csv: each class is one some ingredient has, named once.
+void CheckDbiClasses(const Formulary& formulary, std::vector<std::string>& faults) {
+  std::set<std::string> known;
+  for (const Ingredient& ingredient : formulary.ingredients()) known.insert(ingredient.classes.begin(), ingredient.classes.end());
+  std::unordered_map<std::string, int> seen;
+  for (const DbiClass& row : formulary.tables().dbi_classes) {
+    if (known.count(row.class_name) == 0U) {
+      faults.push_back(Fault("dbi_classes.csv", row.line, "no ingredient has the class \"" + row.class_name + "\""));
+    }
+    const auto [it, inserted] = seen.emplace(row.class_name, row.line);
+    if (!inserted) {
+      faults.push_back(Fault("dbi_classes.csv", row.line, "duplicate class \"" + row.class_name + "\" (first on line " +
+                                                             std::to_string(it->second) + ")"));
+    }
+  }
+}
+
 void CheckProducts(const Formulary& formulary, std::vector<std::string>& faults) {
   std::unordered_map<std::string, int> seen;
   for (const NamedProduct& product : formulary.tables().products) {
@@ -168,6 +185,7 @@ void CheckTables(const FormularyTables& tables, std::vector<std::string>& faults
     CheckIngredientRows(formulary, "anticholinergic/" + scale.name + ".csv", scale.rows, faults);
   }
   CheckIngredientRows(formulary, "dbi.csv", formulary.tables().dbi, faults);
+  CheckDbiClasses(formulary, faults);
   CheckProducts(formulary, faults);
   CheckCodes(formulary, faults);
   CheckNonMedicines(formulary, faults);

@@ -136,12 +136,6 @@ bool Formulary::IsKnownClass(std::string_view class_name) const {
   return lookups_->by_class.find(class_name) != lookups_->by_class.end();
 }
 
-std::vector<std::string> Formulary::ClassNames() const {
-  std::vector<std::string> names;
-  for (const auto& [name, members] : lookups_->by_class) names.push_back(name);
-  return names;
-}
-
 std::vector<std::string> Formulary::IngredientsInClass(std::string_view class_name) const {
   std::vector<std::string> names;
   const auto it = lookups_->by_class.find(class_name);

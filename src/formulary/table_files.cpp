@@ -1,7 +1,5 @@
 #include "formulary/table_files.h"
 
-#include <openssl/evp.h>
-
 #include <algorithm>
 #include <charconv>
 #include <cmath>
@@ -11,6 +9,7 @@
 #include <sstream>
 
 #include "formulary/table_reader.h"
+#include "medload/core/hash.h"
 #include "medload/formulary/rules.h"
 
 namespace medload::formulary_internal {
@@ -186,6 +185,19 @@ void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::strin
   }
 }
 
+void ReadDbiClasses(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "class", faults)) continue;
+    const auto effect = EffectFromName(row.fields[1]);
+    if (!effect) {
+      faults.push_back(Fault(table.name, row.line,
+                             "effect: \"" + row.fields[1] + "\" is not anticholinergic, sedative or both"));
+      continue;
+    }
+    tables.dbi_classes.push_back(DbiClass{row.fields[0], *effect, row.fields[2], row.line});
+  }
+}
+
 void ReadProducts(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "product", faults)) continue;
@@ -272,31 +284,12 @@ std::string Checksum(FileContents files) {
 
 }  // namespace
 
-std::string Sha256Hex(std::string_view data) {
-  const std::unique_ptr<EVP_MD_CTX, decltype(&EVP_MD_CTX_free)> context(EVP_MD_CTX_new(), &EVP_MD_CTX_free);
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int length = 0;
-  if (!context || EVP_DigestInit_ex(context.get(), EVP_sha256(), nullptr) != 1 ||
-      EVP_DigestUpdate(context.get(), data.data(), data.size()) != 1 ||
-      EVP_DigestFinal_ex(context.get(), digest, &length) != 1) {
-    return {};
-  }
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (unsigned int i = 0; i < length; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0xF];
-  }
-  return hex;
-}
-
 const std::vector<std::string_view>& RequiredTableFiles() {
   static const std::vector<std::string_view> kRequired = {
-      "ingredients.csv", "anticholinergic/acb.csv", "dbi.csv",         "products.csv",
-      "codes.csv",       "non_medicines.csv",       "rules.json"};
+      "ingredients.csv", "anticholinergic/acb.csv", "dbi.csv",   "dbi_classes.csv",
+      "products.csv",    "codes.csv",               "non_medicines.csv", "rules.json"};
   return kRequired;
 }
-
 FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::string>& faults) {
   // Every table is required (RequiredTableFiles): a missing one would make its measure
   // read 0, or its products unresolved, without a word.
@@ -324,6 +317,8 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
   }
   ReadTableFile(dir, "dbi.csv", kRequired, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
                 [&](const Table& t) { ReadDbi(t, tables, faults); });
+  ReadTableFile(dir, "dbi_classes.csv", kRequired, {"class", "effect", "source"}, files, faults,
+                [&](const Table& t) { ReadDbiClasses(t, tables, faults); });
   ReadTableFile(dir, "products.csv", kRequired,
                 {"product", "requires", "ingredients", "form", "route", "dose_unit", "supply_days_per_unit",
                  "source"},

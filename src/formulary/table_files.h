@@ -19,7 +19,4 @@ const std::vector<std::string_view>& RequiredTableFiles();
 // required file that is missing is "FILE: missing (required)".
 FormularyTables ReadTableFiles(const std::string& dir, std::vector<std::string>& faults);
 
-// SHA-256 of `data` as 64 lower-case hex digits (OpenSSL EVP).
-std::string Sha256Hex(std::string_view data);
-
 }  // namespace medload::formulary_internal

@@ -3,18 +3,13 @@
 #include <algorithm>
 #include <cstddef>
 
+#include "medload/core/text.h"
+
 namespace medload::formulary_internal {
 namespace {
 
-std::string Trim(std::string_view text) {
-  size_t begin = 0;
-  size_t end = text.size();
-  while (begin < end && (text[begin] == ' ' || text[begin] == '\t')) ++begin;
-  while (end > begin && (text[end - 1] == ' ' || text[end - 1] == '\t' || text[end - 1] == '\r')) {
-    --end;
-  }
-  return std::string(text.substr(begin, end - begin));
-}
+// A field without spaces and tabs around it, nor a CR left at its end.
+std::string TrimField(std::string_view text) { return std::string(TrimEnd(TrimStart(text), " \t\r")); }
 
 // One physical record: its fields and the line it starts on. Quoted fields may hold
 // commas, doubled quotes and line breaks.
@@ -52,12 +47,12 @@ RawRecord ReadRecord(std::string_view content, size_t& pos, int& line) {
         if (c == '\n') ++line;
         field += c;
       }
-    } else if (c == '"' && Trim(field).empty()) {
+    } else if (c == '"' && TrimField(field).empty()) {
       quoted = true;
       was_quoted = true;
       field.clear();
     } else if (c == ',') {
-      record.fields.push_back(was_quoted ? field : Trim(field));
+      record.fields.push_back(was_quoted ? field : TrimField(field));
       field.clear();
       was_quoted = false;
     } else if (c == '\n') {
@@ -69,7 +64,7 @@ RawRecord ReadRecord(std::string_view content, size_t& pos, int& line) {
       field += c;
     }
   }
-  record.fields.push_back(was_quoted ? field : Trim(field));
+  record.fields.push_back(was_quoted ? field : TrimField(field));
   if (record.fields.size() == 1 && record.fields[0].empty() && !was_quoted) {
     record.blank_or_comment = true;
   }
@@ -88,7 +83,7 @@ std::vector<std::string> SplitList(std::string_view text) {
   while (start <= text.size()) {
     size_t end = text.find('|', start);
     if (end == std::string_view::npos) end = text.size();
-    std::string part = Trim(text.substr(start, end - start));
+    std::string part = TrimField(text.substr(start, end - start));
     if (!part.empty()) parts.push_back(std::move(part));
     start = end + 1;
   }

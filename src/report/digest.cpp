@@ -3,10 +3,11 @@
 #include <cmath>
 #include <sstream>
 
-#include "medload/cohort/cohort_table.h"
 #include "medload/core/caution.h"
+#include "medload/core/hash.h"
+#include "medload/format/output.h"
 #include "medload/format/shown_text.h"
-#include "medload/io/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_files.h"
 
@@ -98,6 +99,9 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
   const DigestConfig& config = model.config.digests;
   if (!config.enabled || model.dates.empty()) return std::nullopt;
   const ReportSeries& series = model.practices[index];
+  // No figures on the census date: nothing to say. Short history: no change is computed.
+  if (!HasFigures(series.data.back())) return std::nullopt;
+  const bool comparable = Comparable(series.data.back());
   Digest digest;
   digest.practice = series.code;
   digest.practice_name = series.name;
@@ -109,22 +113,30 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
   digest.registered = series.registered.back();
   std::vector<std::optional<long>> before(model.keys.size());
   std::string since;
-  if (model.previous && model.previous->counts.count(series.code) != 0U) {
+  const auto previous_state = model.previous ? model.previous->data.find(series.code)
+                                             : std::map<std::string, DataState>::const_iterator();
+  const bool previous_comparable =
+      model.previous && (previous_state == model.previous->data.end() || Comparable(previous_state->second));
+  if (!comparable) {
+    digest.baseline = "none: the census date is in the short-history window of the practice's data";
+  } else if (previous_comparable && model.previous->counts.count(series.code) != 0U) {
     const std::vector<long>& counts = model.previous->counts.at(series.code);
     for (size_t k = 0; k < before.size() && k < counts.size(); ++k) before[k] = counts[k];
     since = model.previous->on.ToIso();
     digest.baseline = "the report of " + since;
-  } else if (model.dates.size() >= 2) {
+  } else if (model.dates.size() >= 2 && Comparable(series.data[model.dates.size() - 2])) {
     const size_t prior = model.dates.size() - 2;
     for (size_t k = 0; k < before.size(); ++k) before[k] = series.counts[k][prior];
     since = model.dates[prior].ToIso();
     digest.baseline = "the previous month, " + since + " (no earlier report)";
+  } else {
+    digest.baseline = "none: no earlier date with full figures";
   }
   AddMeasures(model, series, before, digest);
   for (const DigestMeasure& measure : digest.measures) {
     if (auto finding = RiseFinding(measure, config.triggers, since)) digest.findings.push_back(*finding);
   }
-  if (config.triggers.above_upper_limit) AddLimitFindings(model, series, digest);
+  if (config.triggers.above_upper_limit && comparable) AddLimitFindings(model, series, digest);
   if (digest.findings.empty()) return std::nullopt;
   digest.from = config.from;
   const auto it = config.practice_to.find(series.code);
@@ -178,8 +190,8 @@ std::string FormatDigest(const Digest& digest) {
                      Header("Subject", "[" + digest.network + "] " + digest.practice +
                                            ": counts moved, census " + digest.on.ToIso()) +
                      Header("Date", MessageDate(digest.on)) +
-                     Header("Message-ID", "<" + HashHex(digest.network + "\n" + digest.practice + "\n" +
-                                                            digest.on.ToIso(), 32) + "@medload.invalid>") +
+                     Header("Message-ID", "<" + Sha256Hex(digest.network + "\n" + digest.practice + "\n" +
+                                                              digest.on.ToIso()).substr(0, 32) + "@medload.invalid>") +
                      Header("MIME-Version", "1.0") + Header("Content-Type", "text/plain; charset=utf-8") +
                      Header("Content-Transfer-Encoding", "8bit") + "\r\n";
   std::vector<std::string> body = {

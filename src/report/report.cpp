@@ -4,9 +4,11 @@
 #include <set>
 #include <utility>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
+#include "medload/burden/run_context.h"
+#include "medload/cohort/cohort_table.h"
+#include "medload/format/suppression.h"
 
 namespace medload {
 namespace {
@@ -92,13 +94,19 @@ Result<std::vector<PracticeRecord>> ChoosePractices(const std::vector<PracticeRe
 }
 
 ReportSeries SeriesOf(const PracticeRecord& practice, const CohortTally& tally, size_t keys,
-                      size_t dates) {
+                      size_t dates, int history_days) {
   ReportSeries series;
   series.code = practice.practice;
   series.name = practice.name;
   series.list_size = practice.list_size;
   series.registered.assign(dates, 0);
   series.counts.assign(keys, std::vector<long>(dates, 0));
+  series.practices_without_data.assign(dates, 0);
+  const auto span = tally.spans.find(practice.practice);
+  for (size_t d = 0; d < dates; ++d) {
+    series.data.push_back(DataStateOn(span == tally.spans.end() ? std::nullopt : std::optional<DataSpan>(span->second),
+                                      tally.dates[d], history_days));
+  }
   const auto it = tally.groups.find(practice.practice);
   if (it == tally.groups.end()) return series;
   for (size_t d = 0; d < dates && d < it->second.size(); ++d) {
@@ -108,10 +116,19 @@ ReportSeries SeriesOf(const PracticeRecord& practice, const CohortTally& tally, 
   return series;
 }
 
+// Adds a practice's series into the network total on the dates it has figures, and
+// combines the coverage states (REQUIRES: `into.data` starts all kNoData).
 void AddSeries(ReportSeries& into, const ReportSeries& from) {
-  for (size_t d = 0; d < into.registered.size(); ++d) into.registered[d] += from.registered[d];
-  for (size_t k = 0; k < into.counts.size(); ++k) {
-    for (size_t d = 0; d < into.counts[k].size(); ++d) into.counts[k][d] += from.counts[k][d];
+  for (size_t d = 0; d < into.registered.size(); ++d) {
+    if (!HasFigures(from.data[d])) {
+      ++into.practices_without_data[d];
+      continue;
+    }
+    into.registered[d] += from.registered[d];
+    for (size_t k = 0; k < into.counts.size(); ++k) into.counts[k][d] += from.counts[k][d];
+    DataState& state = into.data[d];
+    if (from.data[d] == DataState::kShortHistory || state == DataState::kNoData) state = from.data[d];
+    else if (from.data[d] == DataState::kBeyondData && state == DataState::kFull) state = from.data[d];
   }
 }
 
@@ -133,15 +150,18 @@ struct Pass {
   std::map<std::string, std::vector<WorklistEntry>> entries;  // practice -> rows
   std::map<std::string, long> considered;                     // practice -> registered on `on`
   long patients = 0;
-  long capped = 0;  // patients whose oldest dispensings were left out
+  // practice (the registry's; "" when none) -> patients whose oldest dispensings the
+  // store's bound left out
+  std::map<std::string, long> capped;
 };
 
-Status RunPass(const Store& store, Analysis& analysis, const ReportConfig& config, Date on,
+Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
   return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
     ++pass.patients;
-    if (history.dropped > 0) ++pass.capped;
+    if (history.dropped > 0) ++pass.capped[history.registry ? history.registry->practice : ""];
+    pass.counter.See(history);
     if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
     std::optional<Burden> census;
     pass.counter.Add(history, [&](Date date, std::optional<int> age) {
@@ -181,7 +201,7 @@ Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& mode
 
 }  // namespace
 
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress) {
   ReportModel model;
@@ -210,20 +230,24 @@ Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis, con
   cohort.dates = model.dates;
   cohort.group_by = GroupBy::kPractice;
   cohort.criteria = config.criteria;
-  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0};
+  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0, {}};
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;
-  model.capped_patients = pass.capped;
+  model.capped_patients = std::move(pass.capped);
   model.history_bound = store.history_bound();
   model.tally = pass.counter.Take();
   auto chosen = ChoosePractices(*known, config, model.tally);
   if (!chosen.ok()) return chosen.status();
+  model.history_days = HistoryDays(analysis.options());
   model.network = ReportSeries{config.network, config.network, std::nullopt,
                                std::vector<long>(model.dates.size(), 0),
-                               std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(model.dates.size(), 0))};
+                               std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(model.dates.size(), 0)),
+                               std::vector<DataState>(model.dates.size(), DataState::kNoData),
+                               std::vector<long>(model.dates.size(), 0)};
   for (const PracticeRecord& practice : *chosen) {
-    model.practices.push_back(SeriesOf(practice, model.tally, model.keys.size(), model.dates.size()));
+    model.practices.push_back(
+        SeriesOf(practice, model.tally, model.keys.size(), model.dates.size(), model.history_days));
     AddSeries(model.network, model.practices.back());
     model.worklists[practice.practice] =
         FinishWorklist(std::move(pass.entries[practice.practice]), model, pass.considered[practice.practice],
@@ -243,12 +267,14 @@ std::string ReportRunKey(const ReportModel& model) {
 
 nlohmann::json ReportRunPayload(const ReportModel& model) {
   nlohmann::json counts = nlohmann::json::object();
+  nlohmann::json data = nlohmann::json::object();
   for (const ReportSeries& series : model.practices) {
     nlohmann::json values = nlohmann::json::array();
     for (const auto& per_date : series.counts) values.push_back(per_date.back());
     counts[series.code] = values;
+    data[series.code] = std::string(DataStateName(series.data.back()));
   }
-  return {{"on", model.on.ToIso()}, {"keys", model.keys}, {"counts", counts}};
+  return {{"on", model.on.ToIso()}, {"keys", model.keys}, {"counts", counts}, {"data", data}};
 }
 
 std::optional<PreviousReport> ParsePreviousReport(const std::string& payload) {
@@ -270,7 +296,26 @@ std::optional<PreviousReport> ParsePreviousReport(const std::string& payload) {
     }
     previous.counts[item.key()] = std::move(values);
   }
+  if (doc.contains("data") && doc.at("data").is_object()) {
+    for (const auto& item : doc.at("data").items()) {
+      for (const DataState state : {DataState::kNoData, DataState::kShortHistory, DataState::kFull,
+                                    DataState::kBeyondData}) {
+        if (item.value().is_string() && item.value().get<std::string>() == DataStateName(state)) {
+          previous.data[item.key()] = state;
+        }
+      }
+    }
+  }
   return previous;
+}
+
+Change SeriesChange(const ReportSeries& series, size_t key, size_t back, long suppress_below) {
+  const std::vector<long>& counts = series.counts[key];
+  if (counts.size() <= back) return {};
+  const size_t last = counts.size() - 1;
+  if (!Comparable(series.data[last]) || !Comparable(series.data[last - back])) return {};
+  if (IsSuppressed(counts[last], suppress_below) || IsSuppressed(counts[last - back], suppress_below)) return {};
+  return ChangeOf(counts[last], counts[last - back]);
 }
 
 Change ChangeOf(std::optional<long> now, std::optional<long> before) {

@@ -1,9 +1,12 @@
 // The report's funnel plots, and the cohort table behind its trend charts.
 #include <algorithm>
 #include <cmath>
+#include <set>
 #include <sstream>
 
-#include "medload/io/output.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
+#include "medload/format/svg_chart.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_pages.h"
 
@@ -17,23 +20,6 @@ constexpr double kRight = 190;  // room for the legend
 constexpr double kTop = 40;
 constexpr double kBottom = 60;
 constexpr int kCurveSteps = 80;
-
-double NiceTop(double value) {
-  if (value <= 0) return 1;
-  const double power = std::pow(10.0, std::floor(std::log10(value)));
-  for (const double step : {1.0, 1.5, 2.0, 2.5, 5.0, 10.0}) {
-    if (step * power >= value) return step * power;
-  }
-  return 10 * power;
-}
-
-std::string Num(double value) {
-  std::ostringstream text;
-  text.setf(std::ios::fixed);
-  text.precision(1);
-  text << value;
-  return text.str();
-}
 
 struct Frame {
   double x_top = 1;  // registered patients at the right edge
@@ -52,19 +38,19 @@ void WriteFrame(std::ostringstream& svg, const Frame& f, const std::string& titl
   for (int tick = 0; tick <= 4; ++tick) {
     const double rate = f.y_top * tick / 4.0;
     const double n = f.x_top * tick / 4.0;
-    svg << "<line x1=\"" << kLeft << "\" y1=\"" << Num(f.Y(rate)) << "\" x2=\"" << Num(f.X(f.x_top)) << "\" y2=\""
-        << Num(f.Y(rate)) << "\" stroke=\"#ddd\"/>\n<text x=\"" << kLeft - 6 << "\" y=\"" << Num(f.Y(rate) + 4)
+    svg << "<line x1=\"" << kLeft << "\" y1=\"" << SvgNumber(f.Y(rate)) << "\" x2=\"" << SvgNumber(f.X(f.x_top)) << "\" y2=\""
+        << SvgNumber(f.Y(rate)) << "\" stroke=\"#ddd\"/>\n<text x=\"" << kLeft - 6 << "\" y=\"" << SvgNumber(f.Y(rate) + 4)
         << "\" font-size=\"11\" text-anchor=\"end\">" << FormatNumber(rate, 1) << "</text>\n"
-        << "<text x=\"" << Num(f.X(n)) << "\" y=\"" << Num(bottom + 16)
+        << "<text x=\"" << SvgNumber(f.X(n)) << "\" y=\"" << SvgNumber(bottom + 16)
         << "\" font-size=\"11\" text-anchor=\"middle\">" << FormatNumber(n, 0) << "</text>\n";
   }
-  svg << "<line x1=\"" << kLeft << "\" y1=\"" << bottom << "\" x2=\"" << Num(f.X(f.x_top)) << "\" y2=\"" << bottom
+  svg << "<line x1=\"" << kLeft << "\" y1=\"" << bottom << "\" x2=\"" << SvgNumber(f.X(f.x_top)) << "\" y2=\"" << bottom
       << "\" stroke=\"#333\"/>\n<line x1=\"" << kLeft << "\" y1=\"" << kTop << "\" x2=\"" << kLeft << "\" y2=\""
       << bottom << "\" stroke=\"#333\"/>\n"
-      << "<text x=\"" << Num(f.X(f.x_top / 2)) << "\" y=\"" << Num(bottom + 38)
+      << "<text x=\"" << SvgNumber(f.X(f.x_top / 2)) << "\" y=\"" << SvgNumber(bottom + 38)
       << "\" font-size=\"12\" text-anchor=\"middle\">Registered patients on the census date</text>\n"
-      << "<text x=\"16\" y=\"" << Num(kTop + (bottom - kTop) / 2) << "\" font-size=\"12\" text-anchor=\"middle\" "
-      << "transform=\"rotate(-90 16 " << Num(kTop + (bottom - kTop) / 2) << ")\">Patients per 1000</text>\n";
+      << "<text x=\"16\" y=\"" << SvgNumber(kTop + (bottom - kTop) / 2) << "\" font-size=\"12\" text-anchor=\"middle\" "
+      << "transform=\"rotate(-90 16 " << SvgNumber(kTop + (bottom - kTop) / 2) << ")\">Patients per 1000</text>\n";
 }
 
 // One control-limit curve (upper or lower) as a polyline over the list sizes.
@@ -76,7 +62,7 @@ void WriteLimit(std::ostringstream& svg, const Frame& f, double p0, double cover
   for (int step = 0; step <= kCurveSteps; ++step) {
     const double n = n_min + (f.x_top - n_min) * step / kCurveSteps;
     const ControlLimits limits = FunnelLimits(p0, std::lround(n), coverage);
-    svg << (step == 0 ? "" : " ") << Num(f.X(n)) << "," << Num(f.Y(1000 * (upper ? limits.upper : limits.lower)));
+    svg << (step == 0 ? "" : " ") << SvgNumber(f.X(n)) << "," << SvgNumber(f.Y(1000 * (upper ? limits.upper : limits.lower)));
   }
   svg << "\"/>\n";
 }
@@ -116,16 +102,16 @@ std::string FunnelSvg(const ReportModel& model, size_t key) {
       top_rate = std::max(top_rate, 1000.0 * static_cast<double>(s.counts[key][last]) / static_cast<double>(s.registered[last]));
     }
   }
-  f.x_top = NiceTop(1.1 * static_cast<double>(std::max(top_n, 10L)));
-  f.y_top = NiceTop(1.1 * std::max(top_rate, 1.0));
+  f.x_top = NiceAxisTop(1.1 * static_cast<double>(std::max(top_n, 10L)), kFineAxisSteps);
+  f.y_top = NiceAxisTop(1.1 * std::max(top_rate, 1.0), kFineAxisSteps);
   const std::string title = model.keys[key] + ": rate per 1000 against list size, " + model.on.ToIso();
   std::ostringstream svg;
   svg << "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"funnel\" viewBox=\"0 0 " << kWidth << " " << kHeight
       << "\" width=\"" << kWidth << "\" height=\"" << kHeight << "\" role=\"img\" aria-label=\"" << EscapeHtml(title)
       << "\">\n<title>" << EscapeHtml(title) << "</title>\n";
   WriteFrame(svg, f, title);
-  svg << "<line x1=\"" << Num(f.X(0)) << "\" y1=\"" << Num(f.Y(1000 * p0)) << "\" x2=\"" << Num(f.X(f.x_top))
-      << "\" y2=\"" << Num(f.Y(1000 * p0)) << "\" stroke=\"#222\" stroke-width=\"1.5\"/>\n";
+  svg << "<line x1=\"" << SvgNumber(f.X(0)) << "\" y1=\"" << SvgNumber(f.Y(1000 * p0)) << "\" x2=\"" << SvgNumber(f.X(f.x_top))
+      << "\" y2=\"" << SvgNumber(f.Y(1000 * p0)) << "\" stroke=\"#222\" stroke-width=\"1.5\"/>\n";
   if (p0 > 0 && p0 < 1) {
     for (const bool upper : {true, false}) {
       WriteLimit(svg, f, p0, 0.95, upper, "6 4");
@@ -139,9 +125,9 @@ std::string FunnelSvg(const ReportModel& model, size_t key) {
     const double rate = 1000.0 * static_cast<double>(count) / static_cast<double>(n);
     const double x = f.X(static_cast<double>(n));
     const double y = f.Y(rate);
-    svg << "<circle cx=\"" << Num(x) << "\" cy=\"" << Num(y) << "\" r=\"4\" fill=\"#1b6ca8\" stroke=\"#000\"><title>"
+    svg << "<circle cx=\"" << SvgNumber(x) << "\" cy=\"" << SvgNumber(y) << "\" r=\"4\" fill=\"#1b6ca8\" stroke=\"#000\"><title>"
         << EscapeHtml(s.code + ": " + FormatNumber(rate, 1) + " per 1000, " + std::to_string(n) + " registered")
-        << "</title></circle>\n<text x=\"" << Num(x + 6) << "\" y=\"" << Num(y - 6) << "\" font-size=\"11\">"
+        << "</title></circle>\n<text x=\"" << SvgNumber(x + 6) << "\" y=\"" << SvgNumber(y - 6) << "\" font-size=\"11\">"
         << EscapeHtml(s.code) << "</text>\n";
   }
   WriteLegend(svg, 1000 * p0);
@@ -152,28 +138,27 @@ std::string FunnelSvg(const ReportModel& model, size_t key) {
 CohortTable ReportCohortTable(const ReportModel& model, const std::string* only) {
   CohortTally tally = model.tally;
   tally.groups.clear();
+  tally.unseen.clear();
+  std::set<std::string>& network_practices = tally.practices[std::string(kNetworkGroup)];
   std::vector<CohortCell> total;
   for (const ReportSeries& series : model.practices) {
     const auto it = model.tally.groups.find(series.code);
     if (it == model.tally.groups.end()) continue;
     if (only == nullptr || *only == series.code) tally.groups[series.code] = it->second;
+    network_practices.insert(series.code);
     if (total.empty()) {
-      total = it->second;
-      continue;
+      CohortCell empty;
+      empty.counts.assign(model.keys.size(), 0);
+      empty.counts_by_band.assign(model.keys.size(), std::array<long, kEspBands>{});
+      total.assign(it->second.size(), empty);
     }
     for (size_t d = 0; d < total.size() && d < it->second.size(); ++d) {
-      CohortCell& into = total[d];
-      const CohortCell& from = it->second[d];
-      into.registered += from.registered;
-      for (size_t b = 0; b < kEspBands; ++b) into.registered_by_band[b] += from.registered_by_band[b];
-      for (size_t k = 0; k < into.counts.size() && k < from.counts.size(); ++k) {
-        into.counts[k] += from.counts[k];
-        for (size_t b = 0; b < kEspBands; ++b) into.counts_by_band[k][b] += from.counts_by_band[k][b];
-      }
+      if (!HasFigures(series.data[d])) continue;  // a practice without data adds nothing that day
+      AddCell(total[d], it->second[d]);
     }
   }
   if (!total.empty()) tally.groups[std::string(kNetworkGroup)] = std::move(total);
-  return BuildCohortTable(tally, model.config.suppress_below);
+  return BuildCohortTable(tally, model.config.suppress_below, model.history_days);
 }
 
 }  // namespace medload

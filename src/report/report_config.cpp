@@ -95,7 +95,7 @@ class Reader {
 const std::set<std::string> kTopKeys = {
     "title", "network", "on", "months", "criteria", "suppress_below", "practices", "measure",
     "window", "grace_days", "carryover", "default_supply_days", "max_supply_days", "count_by",
-    "exclude_prn", "exclude_route", "scale", "worklist_limit", "pseudonymise_key", "digests"};
+    "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests"};
 
 Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
   std::string measure = std::string(MeasureName(m.measure));
@@ -109,6 +109,11 @@ Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
   MEDLOAD_TRY(r.Integer(doc, "grace_days", "", 0, 3660, grace));
   MEDLOAD_TRY(r.Integer(doc, "default_supply_days", "", 1, 3660, default_supply));
   MEDLOAD_TRY(r.Integer(doc, "max_supply_days", "", 1, 3660, max_supply));
+  if (doc.contains("history_days")) {
+    long history = 0;
+    MEDLOAD_TRY(r.Integer(doc, "history_days", "", 0, 3660, history));
+    m.history_days = static_cast<int>(history);
+  }
   m.window_days = static_cast<int>(window);
   m.episodes.grace_days = static_cast<int>(grace);
   m.supply.default_supply_days = static_cast<int>(default_supply);
@@ -287,6 +292,7 @@ json ConfigParameters(const ReportConfig& config) {
           {"exclude_prn", m.exclude_prn},
           {"exclude_route", routes},
           {"scale", m.scale},
+          {"history_days", HistoryDays(m)},
           {"worklist_limit", config.worklist_limit},
           {"pseudonymise_key", config.pseudonymise_key.empty() ? json(nullptr) : json("(set)")},
           {"digests", digests}};

@@ -1,12 +1,12 @@
 #include "medload/report/report_files.h"
 
-#include <openssl/evp.h>
 #include <sys/stat.h>
 
 #include <cerrno>
 #include <cstring>
 #include <filesystem>
 
+#include "medload/core/hash.h"
 #include "medload/format/output_file.h"
 
 namespace medload {
@@ -35,19 +35,6 @@ bool IsPlainRelative(std::string_view relative) {
 
 }  // namespace
 
-std::string HashHex(std::string_view text, size_t digits) {
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int length = 0;
-  EVP_Digest(text.data(), text.size(), digest, &length, EVP_sha256(), nullptr);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (unsigned int i = 0; i < length; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0x0f];
-  }
-  return hex.substr(0, std::min(digits, hex.size()));
-}
-
 Result<std::string> SafeFileStem(std::string_view text) {
   std::string stem;
   bool changed = false;
@@ -55,7 +42,7 @@ Result<std::string> SafeFileStem(std::string_view text) {
     stem += IsSafeByte(c) ? c : '_';
     changed = changed || !IsSafeByte(c);
   }
-  if (changed) stem += "-" + HashHex(text, 8);
+  if (changed) stem += "-" + Sha256Hex(text).substr(0, 8);
   if (stem.empty() || stem == "." || stem == "..") {
     return Status::Input("\"" + std::string(text) + "\" cannot be used as a file name");
   }
@@ -87,7 +74,7 @@ Status PrivateFolder(const fs::path& path, bool no_link) {
 
 Result<ReportFolder> ReportFolder::Open(const std::string& path) {
   std::error_code error;
-  if (path.empty()) return Status::Usage("--out needs a folder");
+  if (path.empty()) return Status::Usage("the report folder has no name (an empty path)");
   const fs::path folder(path);
   if (folder.has_parent_path() && !fs::exists(folder.parent_path(), error)) {
     fs::create_directories(folder.parent_path(), error);

@@ -1,35 +1,38 @@
 // The report's HTML pages: the network overview and one page per practice.
 #include "medload/report/report_pages.h"
 
+#include <set>
 #include <sstream>
 
 #include "medload/burden/patient_pass.h"
+#include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
-#include "medload/core/census_note.h"
-#include "medload/io/output.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/format/output.h"
+#include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
+#include "medload/review/worklist_writer.h"
 
 namespace medload {
 namespace {
 
-std::string CountText(long count, long suppress_below) {
+std::string CountText(const ReportSeries& s, size_t key, long suppress_below) {
+  if (!HasFigures(s.data.back())) return "no data";
+  const long count = s.counts[key].back();
   return IsSuppressed(count, suppress_below) ? "<" + std::to_string(suppress_below) : std::to_string(count);
 }
 
-std::string RateText(long count, long registered, long suppress_below) {
-  if (registered < 1 || IsSuppressed(count, suppress_below)) return "-";
+std::string RateText(const ReportSeries& s, size_t key, long suppress_below) {
+  const long count = s.counts[key].back();
+  const long registered = s.registered.back();
+  if (!HasFigures(s.data.back()) || registered < 1 || IsSuppressed(count, suppress_below)) return "-";
   return FormatNumber(1000.0 * static_cast<double>(count) / static_cast<double>(registered), 1);
 }
 
 // The change of a count since `back` census dates earlier; "-" when that date is outside
-// the series or either count is suppressed.
-std::string ChangeText(const std::vector<long>& counts, size_t back, long suppress_below) {
-  if (counts.size() <= back) return "-";
-  const long now = counts.back();
-  const long then = counts[counts.size() - 1 - back];
-  if (IsSuppressed(now, suppress_below) || IsSuppressed(then, suppress_below)) return "-";
-  const Change change = ChangeOf(now, then);
+// the series, either date has no figures or short history, or either count is withheld.
+std::string ChangeText(const ReportSeries& s, size_t key, size_t back, long suppress_below) {
+  const Change change = SeriesChange(s, key, back, suppress_below);
+  if (!change.patients) return "-";
   std::string text = (*change.patients > 0 ? "+" : "") + std::to_string(*change.patients);
   if (change.percent) text += " (" + std::string(*change.percent > 0 ? "+" : "") + FormatNumber(*change.percent, 1) + "%)";
   return text;
@@ -39,7 +42,9 @@ std::string PositionText(const ReportModel& model, const ReportSeries& s, size_t
   const long n = s.registered.back();
   const long count = s.counts[key].back();
   const long network_n = model.network.registered.back();
-  if (n < 1 || network_n < 1 || IsSuppressed(count, model.config.suppress_below)) return "-";
+  if (!HasFigures(s.data.back()) || n < 1 || network_n < 1 || IsSuppressed(count, model.config.suppress_below)) {
+    return "-";
+  }
   const double p0 = static_cast<double>(model.network.counts[key].back()) / static_cast<double>(network_n);
   for (const double coverage : {0.998, 0.95}) {
     const FunnelPosition position = PositionOf(count, n, p0, coverage);
@@ -50,22 +55,30 @@ std::string PositionText(const ReportModel& model, const ReportSeries& s, size_t
   return "within limits";
 }
 
+// The series' data coverage on the census date, blank when full.
+std::string DataText(const ReportSeries& s) {
+  std::string text = s.data.back() == DataState::kFull ? "" : std::string(DataStateName(s.data.back()));
+  if (!s.practices_without_data.empty() && s.practices_without_data.back() > 0) {
+    text += (text.empty() ? "" : "; ") + std::to_string(s.practices_without_data.back()) + " practice(s) without data";
+  }
+  return text;
+}
+
 std::vector<std::string> SeriesRow(const ReportModel& model, const ReportSeries& s, size_t key,
                                    const std::string& name) {
   const long sb = model.config.suppress_below;
   return {s.code == model.config.network ? std::string(kNetworkGroup) : s.code, name,
-          std::to_string(s.registered.back()), CountText(s.counts[key].back(), sb),
-          RateText(s.counts[key].back(), s.registered.back(), sb), ChangeText(s.counts[key], 1, sb),
-          ChangeText(s.counts[key], 12, sb)};
+          std::to_string(s.registered.back()), DataText(s), CountText(s, key, sb),
+          RateText(s, key, sb), ChangeText(s, key, 1, sb), ChangeText(s, key, 12, sb)};
 }
 
-void WriteWarnings(std::ostream& out, const ReportModel& model) {
-  for (const std::string& warning : ReportWarnings(model)) {
+void WriteWarnings(std::ostream& out, const ReportModel& model, const std::string* only) {
+  for (const std::string& warning : ReportWarnings(model, only)) {
     out << "<p class=\"note\"><strong>Warning:</strong> " << EscapeHtml(warning) << ".</p>\n";
   }
 }
 
-void WriteRunFacts(std::ostream& out, const ReportModel& model) {
+void WriteRunFacts(std::ostream& out, const ReportModel& model, const std::string* only = nullptr) {
   std::string criteria;
   for (size_t k = 0; k + 1 < model.keys.size(); ++k) criteria += (k == 0 ? "" : ", ") + model.keys[k];
   out << "<p>Network: <strong>" << EscapeHtml(model.config.network) << "</strong>. Census date "
@@ -77,22 +90,29 @@ void WriteRunFacts(std::ostream& out, const ReportModel& model) {
         << " to " << EscapeHtml(model.data.latest_dispensed->ToIso()) << ". "
         << EscapeHtml(SuppressionNote(model.config.suppress_below)) << "</p>\n";
   }
-  WriteWarnings(out, model);
+  WriteWarnings(out, model, only);
 }
 
 }  // namespace
 
-std::vector<std::string> ReportWarnings(const ReportModel& model) {
-  std::vector<std::string> warnings;
-  if (auto note = CensusBeyondDataNote(model.on, model.data.latest_dispensed)) warnings.push_back(std::move(*note));
-  if (auto note = CappedHistoriesNote(model.capped_patients, model.history_bound)) warnings.push_back(std::move(*note));
+std::vector<std::string> ReportWarnings(const ReportModel& model, const std::string* only) {
+  std::set<std::string> practices;
+  for (const ReportSeries& s : model.practices) {
+    if (only == nullptr || *only == s.code) practices.insert(s.code);
+  }
+  std::vector<std::string> warnings = CoverageNotes(model.tally.spans, practices, model.dates, model.history_days);
+  long capped = 0;
+  for (const auto& [practice, patients] : model.capped_patients) {
+    if (only == nullptr || *only == practice) capped += patients;
+  }
+  if (auto note = CappedHistoriesNote(capped, model.history_bound)) warnings.push_back(std::move(*note));
   return warnings;
 }
 
 Worklist ReportWorklist(const ReportModel& model, const std::string& code) {
   Worklist worklist = model.worklists.at(code);
   worklist.suppress_below = model.config.suppress_below;
-  worklist.notes = ReportWarnings(model);
+  worklist.notes = ReportWarnings(model, &code);
   return worklist;
 }
 
@@ -119,8 +139,8 @@ std::string IndexHtml(const ReportModel& model, const std::map<std::string, Prac
     }
     rows.push_back(SeriesRow(model, model.network, k, model.config.network));
     rows.back().push_back("");
-    WriteHtmlTable(out, {"practice", "name", "registered", "patients", "per 1000", "change since previous month",
-                         "change since 12 months before", "against the network (funnel)"},
+    WriteHtmlTable(out, {"practice", "name", "registered", "data", "patients", "per 1000",
+                         "change since previous month", "change since 12 months before", "against the network (funnel)"},
                    rows);
     out << "<figure>\n" << CohortTrendSvg(table, k) << "<figcaption>Monthly rate per 1000 registered, one labelled "
         << "line per practice and the network total.</figcaption>\n</figure>\n<figure>\n" << FunnelSvg(model, k)
@@ -146,7 +166,7 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
   std::ostringstream out;
   WriteHtmlStart(out, model.config.title + ": " + s.code + (s.name.empty() ? "" : " " + s.name));
   out << "<p><a href=\"index.html\">Network overview</a></p>\n";
-  WriteRunFacts(out, model);
+  WriteRunFacts(out, model, &s.code);
   std::vector<std::vector<std::string>> rows;
   for (size_t k = 0; k < model.keys.size(); ++k) {
     rows.push_back(SeriesRow(model, s, k, model.keys[k]));
@@ -154,7 +174,7 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
     rows.back()[1] = PositionText(model, s, k);
   }
   out << "<h2>On the census date</h2>\n";
-  WriteHtmlTable(out, {"criterion", "against the network (funnel)", "registered", "patients", "per 1000",
+  WriteHtmlTable(out, {"criterion", "against the network (funnel)", "registered", "data", "patients", "per 1000",
                        "change since previous month", "change since 12 months before"},
                  rows);
   const CohortTable table = ReportCohortTable(model, &s.code);

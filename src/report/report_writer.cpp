@@ -1,20 +1,19 @@
 #include "medload/report/report_writer.h"
 
 #include <algorithm>
-#include <chrono>
-#include <ctime>
 #include <filesystem>
 #include <sstream>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/core/caution.h"
-#include "medload/io/json_text.h"
-#include "medload/io/worklist_writer.h"
+#include "medload/core/clock.h"
+#include "medload/format/json_text.h"
 #include "medload/report/digest.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_pages.h"
 #include "medload/review/pseudonym.h"
+#include "medload/review/worklist_writer.h"
 
 namespace medload {
 namespace {
@@ -129,7 +128,7 @@ Result<ReportOutcome> WriteReport(const ReportModel& model, const std::string& o
   return outcome;
 }
 
-Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportOutcome> RunReport(Store& store, RunContext& analysis, const ReportConfig& config,
                                 const ReportRunOptions& options) {
   std::function<std::string(const std::string&)> pseudonymise;
   std::optional<Pseudonymiser> keyed;
@@ -159,15 +158,6 @@ Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportCo
     return s;
   }
   return outcome;
-}
-
-std::string UtcNow() {
-  const std::time_t now = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
-  std::tm utc{};
-  gmtime_r(&now, &utc);
-  char text[32];
-  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%SZ", &utc);
-  return text;
 }
 
 }  // namespace medload

@@ -1,7 +1,5 @@
 #include "medload/review/pseudonym.h"
 
-#include <openssl/evp.h>
-#include <openssl/hmac.h>
 #include <fcntl.h>
 #include <sys/stat.h>
 #include <unistd.h>
@@ -9,23 +7,9 @@
 #include <cerrno>
 #include <cstring>
 
+#include "medload/core/hash.h"
 
 namespace medload {
-
-std::string HmacSha256Hex(std::string_view key, std::string_view message) {
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int length = 0;
-  HMAC(EVP_sha256(), key.data(), static_cast<int>(key.size()),
-       reinterpret_cast<const unsigned char*>(message.data()), message.size(), digest, &length);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (unsigned int i = 0; i < length; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0xF];
-  }
-  return hex;
-}
-
 namespace {
 
 // What a path that is not a regular file is, for the refusal.

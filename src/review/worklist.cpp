@@ -6,20 +6,15 @@
 
 #include <nlohmann/json.hpp>
 
+#include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
-#include "medload/cohort/registration.h"
-#include "medload/io/json_text.h"
-#include "medload/io/output.h"
+#include "medload/core/text.h"
+#include "medload/format/json_text.h"
+#include "medload/format/output.h"
 #include "medload/store/store.h"
 
 namespace medload {
 namespace {
-
-std::string Join(const std::vector<std::string>& parts, std::string_view separator) {
-  std::string joined;
-  for (const auto& part : parts) joined += (joined.empty() ? "" : std::string(separator)) + part;
-  return joined;
-}
 
 // A completed review in the `days` days ending on D.
 bool RecentlyReviewed(const std::vector<Date>& reviews, Date on, int days) {
@@ -63,7 +58,9 @@ std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& b
   }
   if (burden.dbi > 0) {
     std::vector<std::string> parts;
-    for (const auto& c : burden.dbi_contributions) parts.push_back(c.ingredient + " " + FormatNumber(c.value, 2));
+    for (const auto& c : burden.dbi_contributions) {
+      parts.push_back(c.ingredient + " " + FormatNumber(c.value, 2) + DoseBasisMark(c));
+    }
     reasons.push_back("DBI " + FormatNumber(burden.dbi, 2) + ": " + Join(parts, ", "));
   }
   for (const FiredRule& fired : burden.rules) {
@@ -81,7 +78,8 @@ std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& b
   std::vector<std::string> warnings;
   int unmatched = 0;
   for (const auto& product : timeline.unmatched) {
-    if (product.last_dispensed <= on && product.last_dispensed > on - max_supply_days) ++unmatched;
+    const std::optional<Date> last = product.LastBy(on);
+    if (last && *last > on - max_supply_days) ++unmatched;
   }
   if (unmatched > 0) warnings.push_back(std::to_string(unmatched) + " recent product(s) not recognised");
   if (!burden.dbi_incomplete.empty()) warnings.push_back("dose unknown: " + Join(burden.dbi_incomplete, ", "));
@@ -89,11 +87,26 @@ std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& b
   return warnings;
 }
 
+// Each practice's data coverage on the date, a note for each that is not full, and a
+// warning on each row of such a practice.
+void NoteCoverage(const PracticeSpans& spans, int history_days, Worklist& worklist) {
+  for (auto& [practice, state] : worklist.practice_data) {
+    const auto it = spans.find(practice);
+    const std::optional<DataSpan> span = it == spans.end() ? std::nullopt : std::optional<DataSpan>(it->second);
+    state = DataStateOn(span, worklist.on, history_days);
+    if (auto note = DataStateNote(practice, state, span, worklist.on, history_days)) worklist.notes.push_back(*note);
+  }
+  for (WorklistEntry& entry : worklist.patients) {
+    const DataState state = worklist.practice_data[entry.practice];
+    if (state != DataState::kFull) entry.warnings.push_back("practice data " + std::string(DataStateName(state)));
+  }
+}
+
 }  // namespace
 
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options) {
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
   if (options.criteria.empty()) {
-    return Status::Usage("review needs at least one criterion (--at-least items=N, acb=N, dbi=X or --rule ID)");
+    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X or rule:ID)");
   }
   if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
   std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates
@@ -112,6 +125,7 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
     const PatientHistory& history = patient.history();
     const auto practice = RegisteredPractice(history, options.on);
     if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
+    worklist.practice_data.try_emplace(*practice, DataState::kFull);
     const std::optional<int> age = AgeOn(history.registry, options.on);
     if (options.age_min && age && *age < *options.age_min) return true;
     const Timeline& timeline = patient.timeline();
@@ -147,7 +161,7 @@ Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistO
     return true;
   }, &facts);
   if (!status.ok()) return status;
-  worklist.latest_dispensed = facts.latest_dispensed;
+  NoteCoverage(facts.practice_spans, HistoryDays(analysis.options()), worklist);
   if (auto note = CappedHistoriesNote(facts.capped_patients, facts.history_bound)) worklist.notes.push_back(std::move(*note));
   std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(worklist.patients.size());

@@ -8,7 +8,7 @@
 #include <optional>
 #include <string_view>
 
-#include "medload/io/csv_records.h"
+#include "medload/input/csv_records.h"
 
 namespace medload {
 

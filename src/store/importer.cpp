@@ -2,8 +2,6 @@
 // rejecting rows, and the reject-rate rollback.
 #include "medload/store/importer.h"
 
-#include <openssl/evp.h>
-
 #include <algorithm>
 #include <array>
 #include <charconv>
@@ -15,11 +13,15 @@
 #include <optional>
 #include <streambuf>
 
-#include "medload/io/csv_reader.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/core/clock.h"
+#include "medload/core/hash.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/fhir_reader.h"
 #include "store/control_characters.h"
 #include "store/record_checks.h"
+#include "store/fhir_import.h"
 #include "store/record_writers.h"
+#include "store/registry_check.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -30,15 +32,6 @@ constexpr uint64_t kDeferMinRows = 20000;
 // Rough bytes per row, to guess a file's rows from its size.
 constexpr uint64_t kCsvBytesPerRow = 80;
 constexpr uint64_t kNdjsonBytesPerRow = 600;
-
-std::string UtcNow() {
-  const std::time_t now = std::time(nullptr);
-  std::tm utc{};
-  gmtime_r(&now, &utc);
-  char buffer[32];
-  std::strftime(buffer, sizeof buffer, "%Y-%m-%dT%H:%M:%SZ", &utc);
-  return buffer;
-}
 
 // Serves bytes already read (to look at the start of the input) and then the rest of
 // the stream, so that the readers see the input whole. With `lone_cr_ends_line` (NDJSON,
@@ -107,39 +100,25 @@ bool LooksLikeNdjson(std::string_view head) {
   return first != std::string_view::npos && head[first] == '{';
 }
 
-// The first 128 bits of the SHA-256 of `text`, in hex.
-std::string Sha256Hex128(std::string_view text) {
-  unsigned char digest[EVP_MAX_MD_SIZE];
-  unsigned int digest_size = 0;
-  EVP_Digest(text.data(), text.size(), digest, &digest_size, EVP_sha256(), nullptr);
-  static constexpr char kHex[] = "0123456789abcdef";
-  std::string hex;
-  for (size_t i = 0; i < 16 && i < digest_size; ++i) {
-    hex += kHex[digest[i] >> 4];
-    hex += kHex[digest[i] & 0x0f];
-  }
-  return hex;
-}
-
 // The identity of a rejected row across imports: the same row as written, on the same
-// line of an input of the same kind.
+// line of an input of the same kind (the first 128 bits of a SHA-256, in hex).
 std::string RejectedRowKey(std::string_view kind, size_t line, std::string_view original) {
   std::string text(kind);
   text += '\x1f';
   text += std::to_string(line);
   text += '\x1f';
   text += original;
-  return Sha256Hex128(text);
+  return Sha256Hex(text).substr(0, 32);
 }
 
-// Counts, the --rejects output, the rejected_rows table and the run row of one file,
-// inside the file's transaction.
-class Session {
+// Counts, the --rejects output, the rejected_rows table, the registry check and the run
+// row of one file, inside the file's transaction.
+class Session : public RowSink {
  public:
   Session(Store& store, ImportSummary& summary, const ImportOptions& options)
       : db_(store.handle()), summary_(summary), options_(options) {}
 
-  ~Session() {
+  ~Session() override {
     transaction_.reset();  // ends the transaction (rolling back unless committed) first
     (void)SetMemoryMap(db_, true);
     (void)SetPageCache(db_, false);
@@ -162,7 +141,7 @@ class Session {
         " run_id = excluded.run_id, reason = excluded.reason, message = excluded.message");
     if (!reject.ok()) return reject.status();
     insert_reject_ = std::move(reject.value());
-    return Status::Ok();
+    return registry_.Prepare(db_, summary_.format == "fhir");
   }
 
   WriteSource source() const { return {summary_.run_id, summary_.file}; }
@@ -188,7 +167,7 @@ class Session {
   sqlite3* db() const { return db_; }
 
   // One more row read, spanning `lines` physical lines; reports progress.
-  void Tick(size_t lines) {
+  void Tick(size_t lines) override {
     ++summary_.read;
     summary_.row_lines += static_cast<long>(lines);
     if (lines > 1) ++summary_.multiline_rows;
@@ -198,7 +177,7 @@ class Session {
     }
   }
 
-  Status Reject(size_t line, const RowFault& fault, std::string_view original) {
+  Status Reject(size_t line, const RowFault& fault, std::string_view original) override {
     ++summary_.rejected;
     ++summary_.reasons[fault.reason];
     if (summary_.examples.size() < options_.max_examples) summary_.examples.push_back(fault.message);
@@ -215,30 +194,31 @@ class Session {
     return insert_reject_.Run();
   }
 
-  // Counts a dispensing's outcome; a record id conflict is a rejected row, named by its
-  // `field` ("record_id", or "/id" in FHIR).
-  Status CountDispensing(WriteOutcome outcome, const DispensingWriter& writer,
-                         const DispensingRecord& record, size_t line, std::string_view text,
-                         std::string_view field) {
-    if (outcome != WriteOutcome::kConflict) {
-      Count(outcome);
-      return Status::Ok();
-    }
-    const RowFault fault{
-        "record_id_conflict",
-        FaultMessage(summary_.file, line, field,
-                     QuoteForMessage(record.record_id) + " is already stored for a different dispensing (read from " +
-                         writer.conflict() + "); a record id must name one dispensing only")};
-    return Reject(line, fault, text);
-  }
-
-  void Count(WriteOutcome outcome) {
+  void Count(WriteOutcome outcome) override {
     if (outcome == WriteOutcome::kDuplicate) {
       ++summary_.duplicates;
       return;
     }
     ++summary_.imported;
     if (outcome == WriteOutcome::kUpdated) ++summary_.updated;
+  }
+
+  // A record id conflict is a rejected row, named by the record id's field ("record_id",
+  // or "/id" in FHIR); any other outcome is counted.
+  Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome,
+                         const DispensingWriter& writer, std::string_view text) override {
+    if (outcome == WriteOutcome::kConflict) {
+      const std::string_view field = summary_.format == "fhir" ? "/id" : "record_id";
+      const RowFault fault{"record_id_conflict",
+                           FaultMessage(summary_.file, line, field,
+                                        QuoteForMessage(record.record_id) +
+                                            " is already stored for a different dispensing (read from " +
+                                            writer.conflict() + "); a record id must name one dispensing only")};
+      return Reject(line, fault, text);
+    }
+    Count(outcome);
+    if (outcome == WriteOutcome::kDuplicate) return Status::Ok();
+    return registry_.Note(record.patient_id, line);
   }
 
   // Commits, or rolls back when the reject rate is above the limit.
@@ -253,6 +233,9 @@ class Session {
       if (!trace.ok()) return trace.status();
       if (Status status = InsertRun("rolled_back"); !status.ok()) return status;
       return trace->Commit();
+    }
+    if (summary_.kind == InputKindName(InputKind::kDispensing)) {
+      if (Status status = registry_.Finish(summary_); !status.ok()) return status;
     }
     if (patient_index_deferred_) {
       // The same definition as in the schema (store.cpp, version 1).
@@ -304,6 +287,7 @@ class Session {
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
   std::string reject_key_;
+  RegistryCheck registry_;
   bool patient_index_deferred_ = false;
 };
 
@@ -373,8 +357,7 @@ class DispensingBatch {
     for (const Slot* slot : order_) {
       Result<WriteOutcome> outcome = writer_.Write(slot->record, slot->line, false);
       if (!outcome.ok()) return outcome.status();
-      Status status = session_.CountDispensing(*outcome, writer_, slot->record, slot->line,
-                                               slot->text, "record_id");
+      Status status = session_.CountDispensing(slot->record, slot->line, *outcome, writer_, slot->text);
       if (!status.ok()) return status;
     }
     return Status::Ok();
@@ -405,7 +388,7 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
             [&](const DispensingRecord& record, size_t line, std::string_view text) -> Status {
               Result<WriteOutcome> outcome = writer.Write(record, line, false);
               if (!outcome.ok()) return outcome.status();
-              return session.CountDispensing(*outcome, writer, record, line, text, "record_id");
+              return session.CountDispensing(record, line, *outcome, writer, text);
             });
       }
       DispensingBatch batch(writer, session);
@@ -423,58 +406,6 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
                                                            ParsePracticeRow);
     case InputKind::kReviews:
       return ImportCsvWith<ReviewWriter, ReviewRecord>(reader, layout, context, session, ParseReviewRow);
-  }
-  return Status::Ok();
-}
-
-// FHIR NDJSON: MedicationDispense (dispensing imports) and Patient resources.
-Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSummary& summary) {
-  DispensingWriter dispensings;
-  PatientWriter patients;
-  if (Status status = dispensings.Prepare(session.db(), session.source()); !status.ok()) return status;
-  if (Status status = patients.Prepare(session.db(), session.source()); !status.ok()) return status;
-  FhirItem item;
-  while (reader.Next(item)) {
-    session.Tick(1);
-    if (item.kind != FhirItemKind::kRejected) {
-      std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true);
-      if (!fault) {
-        fault = item.kind == FhirItemKind::kDispense
-                    ? RecordFault(item.dispense, summary.file, item.line, FieldNames::kFhir)
-                    : RecordFault(item.patient, summary.file, item.line, FieldNames::kFhir);
-      }
-      if (fault) {
-        item.kind = FhirItemKind::kRejected;
-        item.fault = std::move(*fault);
-      }
-    }
-    if (item.kind == FhirItemKind::kDispense && kind != InputKind::kDispensing) {
-      item.kind = FhirItemKind::kRejected;
-      item.fault = {"unsupported_resource",
-                    FaultMessage(summary.file, item.line, "/resourceType",
-                                 "MedicationDispense in a patients import (use 'import dispensing')")};
-    }
-    if (item.kind == FhirItemKind::kRejected) {
-      if (Status status = session.Reject(item.line, item.fault, item.text); !status.ok()) return status;
-      continue;
-    }
-    Result<WriteOutcome> outcome = WriteOutcome::kDuplicate;
-    if (item.kind == FhirItemKind::kPatient) {
-      if (kind == InputKind::kDispensing) ++summary.patients;
-      outcome = patients.Write(item.patient);
-    } else {
-      outcome = dispensings.Write(item.dispense, item.line, true);
-      if (!outcome.ok()) return outcome.status();
-      if (*outcome != WriteOutcome::kDuplicate && *outcome != WriteOutcome::kConflict &&
-          !StatusCounts(item.dispense.status)) {
-        ++summary.not_counted[item.dispense.status];
-      }
-      Status status = session.CountDispensing(*outcome, dispensings, item.dispense, item.line, item.text, "/id");
-      if (!status.ok()) return status;
-      continue;
-    }
-    if (!outcome.ok()) return outcome.status();
-    session.Count(*outcome);
   }
   return Status::Ok();
 }
@@ -518,7 +449,7 @@ Status ImportFhirInput(InputKind kind, std::istream& in, uint64_t size_bytes, Se
     if (!status.ok()) return status;
   }
   FhirReader reader(in, summary.file);
-  Status status = ImportFhir(kind, reader, session, summary);
+  Status status = ImportFhirItems(kind, reader, session.db(), session.source(), session, summary);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
   summary.lines = summary.row_lines + summary.blank_lines;  // one resource a line
   read_failed = reader.read_failed();
@@ -567,7 +498,8 @@ std::string DispensingKey(const DispensingRecord& record) {
   std::string content;
   content.reserve(256);
   DispensingContent(record, content);
-  return "h:" + Sha256Hex128(content);
+  // The first 16 bytes of the digest (32 hex digits).
+  return "h:" + Sha256Hex(content).substr(0, 32);
 }
 
 namespace {

@@ -12,7 +12,7 @@
 #include <thread>
 #include <utility>
 
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -129,7 +129,30 @@ CREATE TRIGGER dispensing_updated_unpacks AFTER UPDATE ON dispensings
 CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
   BEGIN DELETE FROM packed_histories_state; END;
 )sql",
-    // 3 -> 4: a rejected row is kept once, whichever import rejected it last: row_key is
+    // 3 -> 4: the unit of a structured FHIR dose (mg, administrations...; '' = the
+    // quantity's unit), so the packed copy is built again in its new layout; the
+    // identifiers of FHIR Patient resources, through which a dispense's subject given by
+    // identifier or urn:uuid is found; and the FHIR Medication resources dispenses name.
+    R"sql(
+ALTER TABLE dispensings ADD COLUMN structured_unit TEXT NOT NULL DEFAULT '';
+DELETE FROM packed_histories;
+DELETE FROM packed_histories_state;
+CREATE TABLE patient_identifiers (
+  system TEXT NOT NULL,
+  value TEXT NOT NULL,
+  patient_id TEXT NOT NULL,
+  run_id INTEGER REFERENCES import_runs(id),
+  PRIMARY KEY (value, system, patient_id)
+) WITHOUT ROWID;
+CREATE TABLE fhir_medications (
+  medication_id TEXT PRIMARY KEY,
+  product TEXT NOT NULL,
+  code TEXT NOT NULL DEFAULT '',
+  code_system TEXT NOT NULL DEFAULT '',
+  run_id INTEGER REFERENCES import_runs(id)
+) WITHOUT ROWID;
+)sql",
+    // 4 -> 5: a rejected row is kept once, whichever import rejected it last: row_key is
     // a hash of the input kind, the line and the row as written (rows stored before this
     // version have none, and stay as they were). A packed history holds at most the
     // latest kMaxDispensingsPerPatient dispensings and says how many older ones it left
@@ -138,9 +161,21 @@ CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
 ALTER TABLE rejected_rows ADD COLUMN row_key TEXT;
 CREATE UNIQUE INDEX rejected_rows_by_key ON rejected_rows(row_key);
 ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
+DELETE FROM packed_histories;
 DELETE FROM packed_histories_state;
 )sql",
 };
+
+// Whether `table` has a column `column` (names are this file's constants, not data).
+Result<bool> HasColumn(sqlite3* db, const char* table, const char* column) {
+  Result<Statement> stmt = Statement::Prepare(db, "SELECT COUNT(*) FROM pragma_table_info(?1) WHERE name = ?2");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, table);
+  stmt->BindText(2, column);
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  return *row && stmt->ColumnInt(0) > 0;
+}
 
 bool FileExists(const std::string& path) {
   struct stat info {};
@@ -296,6 +331,16 @@ Status Store::Migrate() {
                          std::to_string(kStoreSchemaVersion) + "); use a newer medload");
   }
   if (*version == kStoreSchemaVersion) return Status::Ok();  // another process migrated it
+  if (*version == 4) {
+    // A version 4 written by a development build that numbered its own changes 4 (rejected
+    // rows with a key, no FHIR dose units) is not the released 4: refused, not damaged.
+    Result<bool> keyed = HasColumn(db_, "rejected_rows", "row_key");
+    if (!keyed.ok()) return keyed.status();
+    if (*keyed) {
+      return Status::Input("the store \"" + path_ + "\" has a schema version 4 of a development build of medload, "
+                           "which this medload cannot migrate; import its files into a new store");
+    }
+  }
   for (int step = *version; step < kStoreSchemaVersion; ++step) {
     if (Status status = ExecSql(db_, kMigrations[static_cast<size_t>(step)]); !status.ok()) {
       return Status::Input("migrating the store \"" + path_ + "\" to version " +

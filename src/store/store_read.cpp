@@ -1,6 +1,7 @@
 // The store's read API over imported records: one patient's history, the ordered pass
 // over every patient, practices, reviews, product counts and provenance figures.
 #include <algorithm>
+#include <map>
 #include <span>
 #include <utility>
 
@@ -13,9 +14,10 @@ namespace {
 
 constexpr const char* kDispensingColumns =
     "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
-    " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status";
+    " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status,"
+    " structured_unit";
 
-// The statuses that count in measures (spec: only "completed" or none).
+// The statuses that count in measures (docs/input-formats.md: only "completed" or none).
 constexpr const char* kCounting = "status IN ('', 'completed')";
 
 constexpr const char* kPatientColumns =
@@ -49,6 +51,7 @@ Status ReadDispensing(const Statement& stmt, DispensingRecord& record) {
   if (!stmt.ColumnIsNull(11)) record.structured_units_per_day = stmt.ColumnDouble(11);
   record.structured_as_needed = stmt.ColumnInt(12) != 0;
   record.status.assign(stmt.ColumnText(13));
+  record.structured_unit.assign(stmt.ColumnText(14));
   return Status::Ok();
 }
 
@@ -147,6 +150,24 @@ Result<std::vector<DispensingRecord>> Store::DispensingsOf(std::string_view pati
 
 Result<std::vector<DispensingRecord>> Store::AllDispensingsOf(std::string_view patient_id, long* dropped) const {
   return SelectDispensings(db_, patient_id, false, max_dispensings_, dropped);
+}
+
+Result<std::map<std::string, long>> Store::NotCountingOf(std::string_view patient_id, Date on) const {
+  Result<Statement> stmt = Statement::Prepare(
+      db_, std::string("SELECT status, COUNT(*) FROM dispensings WHERE patient_id = ?1 AND"
+                       " dispensed_on <= ?2 AND NOT ") + kCounting + " GROUP BY status ORDER BY status");
+  if (!stmt.ok()) return stmt.status();
+  const std::string on_iso = on.ToIso();
+  stmt->BindText(1, patient_id);
+  stmt->BindText(2, on_iso);
+  std::map<std::string, long> counts;
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    counts[std::string(stmt->ColumnText(0))] = static_cast<long>(stmt->ColumnInt(1));
+  }
+  return counts;
 }
 
 Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_id) const {
@@ -377,17 +398,6 @@ Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_ran
   return ranges;
 }
 
-Status Store::ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const {
-  Result<PatientCursor> cursor = Patients();
-  if (!cursor.ok()) return cursor.status();
-  PatientHistory history;
-  for (;;) {
-    Result<bool> more = cursor->Next(history);
-    if (!more.ok()) return more.status();
-    if (!*more || !visit(history)) return Status::Ok();
-  }
-}
-
 Result<std::vector<PracticeRecord>> Store::Practices() const {
   Result<Statement> stmt = Statement::Prepare(
       db_, "SELECT practice, name, network, list_size FROM practices ORDER BY practice");
@@ -432,13 +442,24 @@ Result<std::vector<ProductCount>> Store::ProductCounts() const {
   return counts;
 }
 
-Result<std::optional<Date>> Store::LatestDispensed() const {
+Result<PracticeSpans> Store::PracticeDataSpans() const {
   Result<Statement> stmt = Statement::Prepare(
-      db_, std::string("SELECT MAX(dispensed_on) FROM dispensings WHERE ") + kCounting);
+      db_, "SELECT CASE WHEN d.practice <> '' THEN d.practice ELSE COALESCE(p.practice, '') END AS owner,"
+           " MIN(d.dispensed_on), MAX(d.dispensed_on) FROM dispensings d"
+           " LEFT JOIN patients p ON p.patient_id = d.patient_id"
+           " WHERE d.status IN ('', 'completed') GROUP BY owner");
   if (!stmt.ok()) return stmt.status();
-  Result<bool> row = stmt->Step();
-  if (!row.ok()) return row.status();
-  return ColumnDate(*stmt, 0);
+  PracticeSpans spans;
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    const std::optional<Date> first = ColumnDate(*stmt, 1);
+    const std::optional<Date> latest = ColumnDate(*stmt, 2);
+    if (!first || !latest) return Status::Input(path_ + ": a stored dispensing date is malformed");
+    spans[std::string(stmt->ColumnText(0))] = DataSpan{*first, *latest};
+  }
+  return spans;
 }
 
 Result<StoreSummary> Store::Summary() const {

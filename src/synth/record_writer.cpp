@@ -11,18 +11,9 @@ namespace {
 
 constexpr size_t kBufferBytes = size_t{1} << 20;
 
-// YYYY-MM-DD without going through printf: dates are the most frequent field. The
-// civil-from-days step is H. Hinnant's public-domain algorithm, as in core/date.cpp.
+// YYYY-MM-DD without going through printf: dates are the most frequent field.
 void AppendDate(std::string& out, Date date) {
-  int32_t z = date.days() + 719468;
-  const int32_t era = (z >= 0 ? z : z - 146096) / 146097;
-  const int32_t doe = z - era * 146097;
-  const int32_t yoe = (doe - doe / 1460 + doe / 36524 - doe / 146096) / 365;
-  const int32_t doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-  const int32_t mp = (5 * doy + 2) / 153;
-  const int32_t day = doy - (153 * mp + 2) / 5 + 1;
-  const int32_t month = mp + (mp < 10 ? 3 : -9);
-  const int32_t year = yoe + era * 400 + (month <= 2 ? 1 : 0);
+  const auto [year, month, day] = ToCivil(date);
   if (year < 0 || year > 9999) {
     out += date.ToIso();
     return;

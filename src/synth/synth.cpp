@@ -120,15 +120,15 @@ std::string_view SynthFormatName(SynthFormat format) {
 
 Status CheckSynthOptions(const SynthOptions& options) {
   if (options.patients < 1 || options.patients > kMaxPatients) {
-    return Status::Usage("--patients " + std::to_string(options.patients) +
+    return Status::Usage("patients " + std::to_string(options.patients) +
                          " is out of range: give 1 to 50000000");
   }
   if (options.months < 1 || options.months > kMaxMonths) {
-    return Status::Usage("--months " + std::to_string(options.months) +
+    return Status::Usage("months " + std::to_string(options.months) +
                          " is out of range: give 1 to 240");
   }
   if (options.end.year() < 1950 || options.end.year() > 2150) {
-    return Status::Usage("--end " + options.end.ToIso() +
+    return Status::Usage("end " + options.end.ToIso() +
                          " is out of range: give a date in 1950-2150");
   }
   return Status::Ok();

@@ -113,7 +113,7 @@ DispensingRecord Rx(const std::string& product, Date on, double quantity, std::o
 
 }  // namespace
 
-TEST_SUITE("burden") {
+TEST_SUITE("burden/burden") {
 
 TEST_CASE("items counts distinct active medicines; two strengths of one ingredient are one medicine") {
   Fixture f;
@@ -175,6 +175,106 @@ TEST_CASE("the dose comes from the latest dispensing in the active episode") {
              D(2024, 1, 20)).dbi == doctest::Approx(0.5));
 }
 
+TEST_CASE("a refill due but not collected keeps the medicine active through its tail") {
+  // Product specification: active on D while d' <= D <= e + t, t = min(grace, s).
+  // 28 days from 1 Jan: supplied to 28 Jan, tail to 25 Feb (grace 30).
+  Fixture f;
+  const std::vector<DispensingRecord> records = {Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)};
+  const Burden late = f.On(records, D(2024, 2, 10));
+  REQUIRE(late.items == 1);
+  CHECK(late.active[0].in_tail);
+  CHECK(late.active[0].supply_end == D(2024, 1, 28));
+  CHECK(late.active[0].until == D(2024, 2, 25));
+  CHECK(late.acb == 3);
+  CHECK_FALSE(f.On(records, D(2024, 1, 28)).active[0].in_tail);
+  CHECK(f.On(records, D(2024, 2, 26)).items == 0);
+}
+
+TEST_CASE("figures on a date do not change when later dispensings are loaded") {
+  // Product specification, point in time: a figure for D depends only on records
+  // dispensed on or before D.
+  Fixture f;
+  const std::vector<DispensingRecord> known = {
+      Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28), Rx("codeine 30mg tablets", D(2024, 1, 3), 28, 28),
+      Rx("diazepam 5mg tablets", D(2024, 1, 10), 28, 28)};
+  std::vector<DispensingRecord> later = known;
+  later.push_back(Rx("amitriptyline 25mg tablets", D(2024, 2, 8), 28, 28));
+  later.push_back(Rx("codeine 30mg tablets", D(2024, 2, 2), 28, 28));
+  later.push_back(Rx("oxybutynin 5mg tablets", D(2024, 2, 3), 28, 28));
+  for (const bool carryover : {false, true}) {
+    f.options.episodes.carryover = carryover;
+    for (Date on = D(2023, 12, 30); on <= D(2024, 2, 1); on = on + 1) {
+      CAPTURE(on.ToIso());
+      const Burden a = f.On(known, on);
+      const Burden b = f.On(later, on);
+      CHECK(a.items == b.items);
+      CHECK(a.acb == b.acb);
+      CHECK(a.dbi == doctest::Approx(b.dbi));
+      CHECK(a.rules.size() == b.rules.size());
+      REQUIRE(a.active.size() == b.active.size());
+      for (size_t i = 0; i < a.active.size(); ++i) {
+        CHECK(a.active[i].since == b.active[i].since);
+        CHECK(a.active[i].until == b.active[i].until);
+        CHECK(a.active[i].in_tail == b.active[i].in_tail);
+      }
+    }
+  }
+}
+
+TEST_CASE("doses of one ingredient taken together are summed for the Drug Burden Index") {
+  // Amitriptyline 10 mg and 25 mg, both at night, both collected every month: 35 mg/day.
+  // Hilmer et al. 2007: DBI = D / (D + delta); delta 10 mg (from memory): 35/45.
+  Fixture f;
+  auto b = f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28, "one at night"),
+                 Rx("amitriptyline 25mg tablets", D(2024, 1, 1), 28, 28, "one at night"),
+                 Rx("amitriptyline 10mg tablets", D(2024, 1, 29), 28, 28, "one at night"),
+                 Rx("amitriptyline 25mg tablets", D(2024, 1, 30), 28, 28, "one at night")},
+                D(2024, 2, 10));
+  REQUIRE(b.dbi_contributions.size() == 1);
+  CHECK(b.dbi_contributions[0].dose_mg_per_day == doctest::Approx(35));
+  CHECK(b.dbi_contributions[0].sources.size() == 2);
+  CHECK(b.dbi == doctest::Approx(35.0 / 45.0));
+  CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (2 products summed)");
+}
+
+TEST_CASE("a switch of strength is not a combination: the old strength's tail adds no dose") {
+  // 10 mg collected in January, then 25 mg from 26 February: on 5 March the 10 mg supply
+  // is still in its tail, but it was not dispensed again since the 25 mg run began.
+  Fixture f;
+  auto b = f.On({Rx("amitriptyline 10mg tablets", D(2024, 1, 1), 28, 28, "one at night"),
+                 Rx("amitriptyline 10mg tablets", D(2024, 1, 29), 28, 28, "one at night"),
+                 Rx("amitriptyline 25mg tablets", D(2024, 2, 26), 28, 28, "one at night")},
+                D(2024, 3, 5));
+  REQUIRE(b.dbi_contributions.size() == 1);
+  CHECK(b.dbi_contributions[0].dose_mg_per_day == doctest::Approx(25));
+  CHECK(b.dbi_contributions[0].sources.size() == 1);
+}
+
+TEST_CASE("a dose from an as-needed maximum is marked as such") {
+  // "one or two four times a day when required": the stated maximum, 8 a day, is used
+  // (product specification, units per day) and the DBI says so.
+  Fixture f;
+  auto b = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, std::nullopt, "one or two four times a day when required")},
+                D(2024, 1, 2));
+  REQUIRE(b.dbi_contributions.size() == 1);
+  CHECK(b.dbi_contributions[0].as_needed_max);
+  CHECK(b.dbi_contributions[0].dose_mg_per_day == doctest::Approx(40));
+  CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (as-needed maximum)");
+}
+
+TEST_CASE("a sedative class member without a minimum dose is listed as incomplete, never a silent 0") {
+  // Hilmer et al. 2007: the DBI counts drugs with sedative effects, opioids among them.
+  Fixture f;
+  f.tables.dbi.erase("diazepam");
+  f.tables.dbi_classes = {"benzodiazepine"};
+  const Burden b = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
+  CHECK(b.dbi == 0);
+  CHECK(b.dbi_incomplete == std::vector<std::string>{"diazepam"});
+  CHECK(b.dbi_no_minimum == std::vector<std::string>{"diazepam"});
+  // Outside the listed classes nothing is expected: oxybutynin is not a benzodiazepine.
+  CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10)).dbi_incomplete.empty());
+}
+
 TEST_CASE("an ingredient with a minimum dose but no known strength is listed as incomplete") {
   Fixture f;
   auto b = f.On({Rx("diazepam tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
@@ -203,8 +303,12 @@ TEST_CASE("non-medicines never count and unmatched products are reported") {
   const Timeline timeline = f.Build(records);
   CHECK(timeline.non_medicine_items == 1);
   REQUIRE(timeline.unmatched.size() == 1);
-  CHECK(timeline.unmatched[0].items == 2);
-  CHECK(timeline.unmatched[0].last_dispensed == D(2024, 1, 5));
+  CHECK(timeline.unmatched[0].ItemsBy(D(2024, 1, 10)) == 2);
+  CHECK(timeline.unmatched[0].LastBy(D(2024, 1, 10)) == D(2024, 1, 5));
+  // As known on Jan 3, one of them had been dispensed; before Jan 1, none.
+  CHECK(timeline.unmatched[0].ItemsBy(D(2024, 1, 3)) == 1);
+  CHECK(timeline.unmatched[0].LastBy(D(2024, 1, 3)) == D(2024, 1, 1));
+  CHECK_FALSE(timeline.unmatched[0].LastBy(D(2023, 12, 31)).has_value());
   CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80).items == 0);
 }
 
@@ -252,9 +356,10 @@ TEST_CASE("the ACE inhibitor, diuretic and NSAID rule fires only with all three 
   REQUIRE(b.rules.size() == 1);
   CHECK(b.rules[0].rule->id == "aki-triple");
   CHECK(b.rules[0].medicines.size() == 3);
-  // The NSAID course has ended (5 Jan + 7 days - 1 = 11 Jan) and the grace does not
-  // extend an episode past its last supply.
-  CHECK(f.On(records, D(2024, 1, 12)).rules.empty());
+  // The 7-day NSAID course ends on 11 Jan; its tail is 7 days (min(grace, days)), so it
+  // counts to 18 Jan and no longer on 19 Jan.
+  CHECK(f.On(records, D(2024, 1, 18)).rules.size() == 1);
+  CHECK(f.On(records, D(2024, 1, 19)).rules.empty());
 }
 
 TEST_CASE("rule matches worked out once serve every date, firing only with the medicines active then") {

@@ -9,6 +9,7 @@
 #include <thread>
 
 #include "medload/store/importer.h"
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -35,12 +36,12 @@ struct ManyPatients {
   static constexpr int kPatients = 700;
   std::unique_ptr<TempFolder> folder;
   Store store;
-  Analysis analysis;
+  RunContext analysis;
 
   explicit ManyPatients(bool in_file = false)
       : folder(in_file ? std::make_unique<TempFolder>() : nullptr),
         store(std::move(Store::Open(in_file ? folder->File("pass.db") : ":memory:").value())),
-        analysis(std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, in_file ? &store : nullptr).value())) {
+        analysis(std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, in_file ? &store : nullptr).value())) {
     const char* products[] = {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets", "Codeine 30mg tablets",
                               "Ramipril 5mg capsules"};
     std::string rows = "patient_id,dispensed_on,product,quantity,dosage\n";
@@ -94,21 +95,20 @@ Visited Pass(ManyPatients& population, PassFacts* facts = nullptr) {
 // The same, one patient at a time on this thread, as the store's own pass gives them.
 Visited Sequential(ManyPatients& population) {
   Visited seen;
-  REQUIRE(population.store.ForEachPatient([&](const PatientHistory& history) {
+  for (const PatientHistory& history : testing::ReadPatients(population.store)) {
     const Timeline timeline = population.analysis.BuildTimeline(history.dispensings);
     seen.ids.push_back(history.patient_id);
     seen.dispensings.push_back(history.dispensings.size());
     seen.medicines.push_back(timeline.medicines.size());
     seen.unmatched.push_back(timeline.unmatched.size());
     seen.burdens.push_back(Describe(population.analysis.Evaluate(timeline, kOn, 84)));
-    return true;
-  }).ok());
+  }
   return seen;
 }
 
 }  // namespace
 
-TEST_SUITE("burden") {
+TEST_SUITE("burden/patient_pass") {
 
 TEST_CASE("the pass visits every patient once, in store order, with the same timelines as one thread") {
   for (const bool in_file : {false, true}) {
@@ -127,7 +127,7 @@ TEST_CASE("the pass visits every patient once, in store order, with the same tim
     CHECK(seen.medicines[3] == 4);
     CHECK(seen.unmatched[7] == 1);
     // Dispensing dates run up to September (patient numbers 8, 17, ... ; fourth medicine).
-    CHECK(facts.latest_dispensed == population.store.LatestDispensed().value());
+    CHECK(facts.practice_spans == population.store.PracticeDataSpans().value());
     CHECK(facts.latest_dispensed == Date::FromCivil(2024, 9, 4));
   }
 }

@@ -1,4 +1,4 @@
-#include "medload/io/timeline_writer.h"
+#include "medload/burden/timeline_writer.h"
 
 #include <doctest/doctest.h>
 
@@ -6,6 +6,22 @@
 
 namespace medload {
 namespace {
+
+Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
+
+// One medicine with two 28-day supplies, the second collected 10 days late (on 8 March,
+// inside the first one's 28-day tail).
+Timeline LateRefill() {
+  Timeline timeline;
+  Medicine medicine;
+  medicine.key = "oxybutynin";
+  medicine.ingredients = {"oxybutynin"};
+  medicine.episodes = BuildEpisodes(std::vector<Coverage>{{D(2024, 2, 1), 28, 0}, {D(2024, 3, 8), 28, 1}},
+                                    EpisodeOptions{30, false});
+  timeline.medicines.push_back(medicine);
+  return timeline;
+}
+
 
 // A timeline of one medicine and products nothing recognised: 10,000 dispensings of one,
 // and 25 more products of two dispensings each.
@@ -19,9 +35,9 @@ Timeline WithUnrecognised() {
   episode.end = Date::FromCivil(2024, 2, 27);
   medicine.episodes.push_back(episode);
   timeline.medicines.push_back(medicine);
-  timeline.unmatched.push_back({"Zelquorin 5mg tablets", "", 10000, Date::FromCivil(2024, 2, 1)});
+  timeline.unmatched.push_back({"Zelquorin 5mg tablets", "", std::vector<Date>(10000, Date::FromCivil(2024, 2, 1))});
   for (int i = 0; i < 25; ++i) {
-    timeline.unmatched.push_back({"Invented product " + std::to_string(i), "", 2, Date::FromCivil(2024, 1, 5)});
+    timeline.unmatched.push_back({"Invented product " + std::to_string(i), "", std::vector<Date>(2, Date::FromCivil(2024, 1, 5))});
   }
   timeline.non_medicine_items = 3;
   return timeline;
@@ -38,7 +54,34 @@ TimelineModel Model(const Timeline& timeline) {
 
 }  // namespace
 
-TEST_SUITE("timeline_writer") {
+TEST_SUITE("burden/timeline_writer") {
+
+TEST_CASE("an episode's supplied days and its tail days are told apart") {
+  const Timeline timeline = LateRefill();
+  REQUIRE(timeline.medicines[0].episodes.size() == 1);
+  const Episode& episode = timeline.medicines[0].episodes[0];
+  // Supplied 1-28 February and 8 March - 4 April; the days between and after are tail.
+  const auto spans = SuppliedSpans(episode);
+  REQUIRE(spans.size() == 2);
+  CHECK(spans[0] == std::make_pair(D(2024, 2, 1), D(2024, 2, 28)));
+  CHECK(spans[1] == std::make_pair(D(2024, 3, 8), D(2024, 4, 4)));
+  CHECK(episode.end == D(2024, 5, 2));
+
+  TimelineModel model;
+  model.patient = "T1";
+  model.timeline = &timeline;
+  model.from = D(2024, 2, 1);
+  model.to = D(2024, 5, 31);
+  std::ostringstream text;
+  WriteTimelineText(text, model);
+  // 92 days in the episode, 56 supplied, 36 in tails.
+  CHECK(text.str().find("oxybutynin  2024-02-01  2024-05-02    92        56           36            2") !=
+        std::string::npos);
+  std::ostringstream svg;
+  WriteTimelineSvg(svg, model);
+  CHECK(svg.str().find("pale days are tail days") != std::string::npos);
+  CHECK(svg.str().find("supplied 2024-03-08 to 2024-04-04") != std::string::npos);
+}
 
 TEST_CASE("every timeline format says how many dispensings of which unrecognised products are not drawn") {
   const Timeline timeline = WithUnrecognised();

@@ -9,7 +9,7 @@
 
 namespace medload {
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_demo") {
 
 TEST_CASE("the demo's folder is private like a report folder: 0700, every file 0600") {
   TempFolder folder;

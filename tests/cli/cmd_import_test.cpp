@@ -68,7 +68,7 @@ long RowsWithPrefix(const std::string& db_path, const std::string& prefix) {
 
 }  // namespace
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_import") {
 
 TEST_CASE("an import killed at random points leaves a whole store with all or none of the file") {
   constexpr int kKills = 24;

@@ -33,6 +33,9 @@ void BuildNetwork(const TempFolder& folder, const ProcessOptions& run) {
     const std::string id = "\"" + kPatients[i] + "\"";
     const std::string practice = i % 2 == 0 ? "../up" : "+X2";
     patients += id + ",1940," + (i % 2 == 0 ? "F" : "M") + "," + practice + "\n";
+    // An earlier course, so that the practices' data begin months before the census dates
+    // (a date in the first days of the data has no change computed against it).
+    dispensing += id + "," + practice + ",2023-09-01,Ramipril 5mg capsules,28,28\n";
     for (const char* product : {"Amitriptyline 10mg tablets", "Oxybutynin 5mg tablets",
                                 "<img src=x onerror=alert(1)> 5mg tablets", "-2+3 tablets"}) {
       dispensing += id + "," + practice + ",2024-03-01,\"" + std::string(product) + "\",28,28\n";
@@ -66,7 +69,7 @@ void CheckNoRawMarkup(const std::string& html) {
 
 }  // namespace
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/cmd_report") {
 
 TEST_CASE("markup in names, identifiers and products is escaped in every HTML output") {
   TempFolder folder;
@@ -288,6 +291,18 @@ TEST_CASE("a report folder or file of another user is refused with exit 2 and le
   report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "mine"}, run);
   CHECK(report.exit_code == 2);
   CHECK(report.err.find("index.html: belongs to another user") != std::string::npos);
+}
+
+TEST_CASE("an unknown scale in the config is a config fault: exit 2, naming the file and the key") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  folder.Write("scale.json", R"({"title":"T","network":"Invented Net","criteria":["items>=1"],"scale":"nosuch"})");
+  const ProcessResult report = RunMedload({"--quiet", "report", "--config", "scale.json", "--out", "out"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err == "medload: scale.json: /scale: \"nosuch\" is not a scale in " MEDLOAD_SOURCE_FORMULARY
+                      "/anticholinergic/ (known: acb, ars); set \"scale\" to one of them\n");
+  CHECK_FALSE(fs::exists(folder.File("out")));
 }
 
 }  // TEST_SUITE

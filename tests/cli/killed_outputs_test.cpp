@@ -84,7 +84,7 @@ void Report(const std::string& what, const KillFigures& figures) {
 
 }  // namespace
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/killed_outputs") {
 
 TEST_CASE("a review killed while it writes --output leaves the previous worklist or the new one, whole") {
   TempFolder folder;

@@ -52,7 +52,7 @@ const std::vector<std::vector<std::string>> kReadCommands = {
 
 }  // namespace
 
-TEST_SUITE("cli") {
+TEST_SUITE("cli/main") {
 
 TEST_CASE("read commands on a store that does not exist fail with exit 2 naming it and create nothing") {
   TempFolder folder;

@@ -19,11 +19,11 @@ CohortOptions Options() {
   return options;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_json") {
 
 TEST_CASE("the cohort JSON has the spec's shape with null for suppressed values") {
   const CohortTally tally = CountFake(MixedPopulation(60), Options());
-  const CohortTable table = BuildCohortTable(tally, 1000);  // every non-zero count withheld
+  const CohortTable table = BuildCohortTable(tally, 1000, 84);  // every non-zero count withheld
   const nlohmann::json document = CohortJson(table, nullptr);
   CHECK(document.at("criteria") == nlohmann::json::array({"items>=10"}));
   CHECK(document.at("caution") == std::string(kCaution));
@@ -44,7 +44,7 @@ TEST_CASE("the cohort JSON has the spec's shape with null for suppressed values"
 
 TEST_CASE("a tally survives a JSON round trip exactly") {
   const CohortTally tally = CountFake(MixedPopulation(120), Options());
-  const nlohmann::json document = CohortJson(BuildCohortTable(tally, 0), &tally);
+  const nlohmann::json document = CohortJson(BuildCohortTable(tally, 0, 84), &tally);
   auto back = TallyFromJson(nlohmann::json::parse(document.dump()), "run.json");
   REQUIRE(back.ok());
   CHECK(back->criteria == tally.criteria);
@@ -62,7 +62,7 @@ TEST_CASE("shard outputs read back from JSON merge to the one-run answer") {
     CohortOptions options = Options();
     options.shard = ShardSpec{k, 3};
     const CohortTally shard = CountFake(patients, options);
-    const std::string text = CohortJson(BuildCohortTable(shard, 0), &shard).dump();
+    const std::string text = CohortJson(BuildCohortTable(shard, 0, 84), &shard).dump();
     auto back = TallyFromJson(nlohmann::json::parse(text), "shard.json");
     REQUIRE(back.ok());
     shards.push_back(*back);
@@ -70,13 +70,13 @@ TEST_CASE("shard outputs read back from JSON merge to the one-run answer") {
   auto merged = MergeTallies(shards, {"1.json", "2.json", "3.json"});
   REQUIRE(merged.ok());
   CHECK(testing::SameCells(*merged, one));
-  CHECK(CohortJson(BuildCohortTable(*merged, 0), nullptr).at("rows") ==
-        CohortJson(BuildCohortTable(one, 0), nullptr).at("rows"));
+  CHECK(CohortJson(BuildCohortTable(*merged, 0, 84), nullptr).at("rows") ==
+        CohortJson(BuildCohortTable(one, 0, 84), nullptr).at("rows"));
 }
 
 TEST_CASE("a cohort file without raw counts cannot be merged") {
   const CohortTally tally = CountFake(MixedPopulation(20), Options());
-  const nlohmann::json document = CohortJson(BuildCohortTable(tally, 5), nullptr);
+  const nlohmann::json document = CohortJson(BuildCohortTable(tally, 5, 84), nullptr);
   auto back = TallyFromJson(document, "public.json");
   REQUIRE_FALSE(back.ok());
   CHECK(back.status().code() == StatusCode::kInput);
@@ -85,7 +85,7 @@ TEST_CASE("a cohort file without raw counts cannot be merged") {
 
 TEST_CASE("a malformed tally names the member at fault") {
   const CohortTally tally = CountFake(MixedPopulation(20), Options());
-  nlohmann::json document = CohortJson(BuildCohortTable(tally, 0), &tally);
+  nlohmann::json document = CohortJson(BuildCohortTable(tally, 0, 84), &tally);
   document["tally"]["shard_count"] = "two";
   auto back = TallyFromJson(document, "bad.json");
   REQUIRE_FALSE(back.ok());

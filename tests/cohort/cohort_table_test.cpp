@@ -27,10 +27,10 @@ CohortTally OneCell() {
   return tally;
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_table") {
 
 TEST_CASE("rates are per 1000 registered") {
-  const CohortTable table = BuildCohortTable(OneCell(), 0);
+  const CohortTable table = BuildCohortTable(OneCell(), 0, 84);
   REQUIRE(table.rows.size() == 1);
   const CohortRow& row = table.rows[0];
   CHECK(table.keys == std::vector<std::string>{"items>=10", "acb>=3", "any"});
@@ -44,22 +44,13 @@ TEST_CASE("rates are per 1000 registered") {
 }
 
 TEST_CASE("a count below the suppression threshold and its rates are null") {
-  const CohortTable table = BuildCohortTable(OneCell(), 5);
+  const CohortTable table = BuildCohortTable(OneCell(), 5, 84);
   const CohortRow& row = table.rows[0];
   CHECK_FALSE(row.values[0].count.has_value());  // 3 < 5
   CHECK_FALSE(row.values[0].rate.has_value());
   CHECK_FALSE(row.values[0].standardised.has_value());
   CHECK(row.values[1].count == 12);               // 12 >= 5 stays
   CHECK(row.registered == 40);                    // list sizes are not suppressed
-}
-
-TEST_CASE("suppression withholds 1 to N-1 and shows zero and N") {
-  CHECK_FALSE(IsSuppressed(0, 5));
-  CHECK(IsSuppressed(1, 5));
-  CHECK(IsSuppressed(4, 5));
-  CHECK_FALSE(IsSuppressed(5, 5));
-  CHECK_FALSE(IsSuppressed(1, 0));
-  CHECK_FALSE(IsSuppressed(1, 1));
 }
 
 TEST_CASE("a group with nobody registered on a date has null rates") {
@@ -69,7 +60,7 @@ TEST_CASE("a group with nobody registered on a date has null rates") {
   empty.counts = {0, 0, 0};
   empty.counts_by_band.assign(3, {});
   tally.groups["A01"].push_back(empty);
-  const CohortTable table = BuildCohortTable(tally, 0);
+  const CohortTable table = BuildCohortTable(tally, 0, 84);
   REQUIRE(table.rows.size() == 2);
   CHECK(table.rows[1].values[2].count == 0);
   CHECK_FALSE(table.rows[1].values[2].rate.has_value());

@@ -1,4 +1,5 @@
 #include "medload/cohort/cohort.h"
+#include "medload/cohort/cohort_table.h"
 
 #include <doctest/doctest.h>
 
@@ -29,7 +30,7 @@ std::vector<FakePatient> HandPopulation() {
       Registered("P01", "A01", D(1950, 3, 1), D(2024, 2, 29), std::nullopt, 12),
       // Registration ends on 31 January: counted in January only.
       Registered("P02", "A01", D(1980, 5, 5), std::nullopt, D(2024, 1, 31), 4),
-      // Birth year only, stored as 1 July 1954 (spec section 5): 69 in all three months.
+      // Birth year only, stored as 1 July 1954 (docs/input-formats.md): 69 in all three months.
       Registered("P03", "B02", D(1954, 7, 1), std::nullopt, std::nullopt, 10),
       // No registry row: dispensed 364 days before 31 January, inside the 365 days ending
       // on it (counts then, not later).
@@ -41,7 +42,7 @@ std::vector<FakePatient> HandPopulation() {
 
 const std::vector<Date> kMonths = {D(2024, 1, 31), D(2024, 2, 29), D(2024, 3, 31)};
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort") {
 
 TEST_CASE("a hand-worked population gives the expected registered and counts per practice") {
   int evaluations = 0;
@@ -173,6 +174,61 @@ TEST_CASE("a merge of some shards only is marked incomplete") {
   REQUIRE(merged.ok());
   CHECK_FALSE(merged->complete());
   CHECK(merged->shards == std::set<uint32_t>{1, 3});
+}
+
+TEST_CASE("a group leaves out, on each date, the practices whose data have not begun") {
+  // A01's data begin on 2024-01-05, B02's on 2024-03-10. By none: January and February
+  // count A01 only (B02's registered patients are not in the denominator); March counts
+  // both and is short-history (B02's data are days old). By practice: B02 has no figures
+  // before March (null, never 0).
+  auto patient = [](std::string id, std::string practice, std::optional<Date> dispensed) {
+    FakePatient fake = Registered(id, practice, D(1950, 1, 1), std::nullopt, std::nullopt, 12);
+    if (dispensed) {
+      DispensingRecord record;
+      record.patient_id = id;
+      record.practice = practice;
+      record.dispensed_on = *dispensed;
+      fake.history.dispensings.push_back(record);
+    }
+    return fake;
+  };
+  const std::vector<FakePatient> patients = {patient("X", "A01", D(2024, 1, 5)), patient("Y", "A01", std::nullopt),
+                                             patient("Z", "B02", D(2024, 3, 10)), patient("W", "B02", std::nullopt)};
+  auto count = [&](GroupBy group_by) {
+    CohortCounter counter(Options({D(2024, 1, 31), D(2024, 2, 29), D(2024, 3, 31)}, group_by), {}, "test");
+    for (const FakePatient& fake : patients) {
+      counter.See(fake.history);
+      counter.Add(fake.history, [&](Date on, std::optional<int>) {
+        Burden burden;
+        burden.on = on;
+        const bool any = !fake.history.dispensings.empty() && fake.history.dispensings.front().dispensed_on <= on;
+        burden.items = any ? fake.items : 0;
+        return burden;
+      });
+    }
+    return BuildCohortTable(counter.Take(), 0, 84);
+  };
+  const CohortTable all = count(GroupBy::kNone);
+  REQUIRE(all.rows.size() == 3);
+  CHECK(all.rows[0].registered == 2);
+  CHECK(all.rows[0].practices_without_data == 1);
+  CHECK(*all.rows[0].values[0].count == 1);
+  CHECK(*all.rows[0].values[0].rate == doctest::Approx(500));
+  CHECK(all.rows[0].data == DataState::kShortHistory);  // A01's data are 26 days old
+  CHECK(all.rows[1].registered == 2);
+  CHECK(all.rows[2].registered == 4);
+  CHECK(all.rows[2].practices_without_data == 0);
+  CHECK(*all.rows[2].values[0].count == 2);
+  CHECK(all.rows[2].data == DataState::kShortHistory);
+  const CohortTable by_practice = count(GroupBy::kPractice);
+  REQUIRE(by_practice.rows.size() == 6);
+  const CohortRow& b02_january = by_practice.rows[1];
+  CHECK(b02_january.group == "B02");
+  CHECK(b02_january.data == DataState::kNoData);
+  CHECK(b02_january.registered == 2);
+  CHECK_FALSE(b02_january.values[0].count.has_value());
+  CHECK_FALSE(b02_january.values[0].rate.has_value());
+  CHECK(by_practice.rows[5].data == DataState::kShortHistory);
 }
 
 }  // TEST_SUITE

@@ -25,25 +25,26 @@ CohortTable SmallTable(long suppress_below) {
   cell.counts_by_band[0][15] = 2;
   cell.counts_by_band[1][15] = 2;
   tally.groups["<A&B>"] = {cell};
-  return BuildCohortTable(tally, suppress_below);
+  return BuildCohortTable(tally, suppress_below, 84);
 }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/cohort_writer") {
 
 TEST_CASE("the CSV starts with the caution and has one line per date, group and criterion") {
   std::ostringstream out;
   WriteCohortCsv(out, SmallTable(0));
   const std::string text = out.str();
   CHECK(text.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
-  CHECK(text.find("date,group,registered,criterion,count,rate_per_1000,") != std::string::npos);
-  CHECK(text.find("2024-01-31,<A&B>,50,items>=10,2,40,40,") != std::string::npos);
-  CHECK(text.find("2024-01-31,<A&B>,50,any,2,40,40,") != std::string::npos);
+  CHECK(text.find("date,group,registered,data,practices_without_data,criterion,count,rate_per_1000,") !=
+        std::string::npos);
+  CHECK(text.find("2024-01-31,<A&B>,50,full,0,items>=10,2,40,40,") != std::string::npos);
+  CHECK(text.find("2024-01-31,<A&B>,50,full,0,any,2,40,40,") != std::string::npos);
 }
 
 TEST_CASE("suppressed CSV cells are empty and flagged") {
   std::ostringstream out;
   WriteCohortCsv(out, SmallTable(5));
-  CHECK(out.str().find("2024-01-31,<A&B>,50,items>=10,,,,,,yes") != std::string::npos);
+  CHECK(out.str().find("2024-01-31,<A&B>,50,full,0,items>=10,,,,,,yes") != std::string::npos);
 }
 
 TEST_CASE("the text table shows withheld counts as below the threshold and ends with the caution") {
@@ -63,13 +64,6 @@ TEST_CASE("the HTML page has the banner, an escaped group and a trend chart") {
   CHECK(html.find("&lt;A&amp;B&gt;") != std::string::npos);
   CHECK(html.find("<A&B>") == std::string::npos);
   CHECK(html.find("<svg") != std::string::npos);
-}
-
-TEST_CASE("the suppression note states the rule and the secondary-disclosure limit") {
-  CHECK(SuppressionNote(0).find("No small-number suppression") == 0);
-  const std::string note = SuppressionNote(10);
-  CHECK(note.find("Counts from 1 to 9 (below 10) are withheld") == 0);
-  CHECK(note.find("does not suppress complementary cells") != std::string::npos);
 }
 
 TEST_CASE("a table's warnings appear in the text, CSV, HTML and JSON") {

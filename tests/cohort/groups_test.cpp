@@ -7,7 +7,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/groups") {
 
 TEST_CASE("age bands have their documented edges") {
   const std::vector<std::pair<int, const char*>> cases = {

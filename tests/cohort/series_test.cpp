@@ -7,7 +7,7 @@ namespace {
 
 Date D(int y, int m, int d) { return Date::FromCivil(y, m, d); }
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/series") {
 
 TEST_CASE("a monthly series gives every month end from the month of --from to that of --to") {
   auto dates = SeriesDates(D(2024, 1, 15), D(2024, 3, 1), SeriesStep::kMonth);
@@ -38,7 +38,7 @@ TEST_CASE("a series whose end is before its start is a usage error") {
   auto dates = SeriesDates(D(2024, 3, 1), D(2024, 1, 1), SeriesStep::kMonth);
   REQUIRE_FALSE(dates.ok());
   CHECK(dates.status().code() == StatusCode::kUsage);
-  CHECK(dates.status().message() == "--to 2024-01-01 is before --from 2024-03-01");
+  CHECK(dates.status().message() == "the series ends on 2024-01-01, before its start 2024-03-01");
 }
 
 TEST_CASE("a series longer than the limit is refused") {

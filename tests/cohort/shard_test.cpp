@@ -7,7 +7,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/shard") {
 
 TEST_CASE("FNV-1a 64-bit hashes match the published test vectors") {
   // Source: Fowler, Noll and Vo, FNV hash reference test vectors (fnv-1a 64: "" and "a").
@@ -40,7 +40,7 @@ TEST_CASE("shards are K/N with K between 1 and N") {
     CHECK(parsed.status().code() == StatusCode::kUsage);
   }
   CHECK(ParseShard("0/4").status().message() ==
-        "--shard \"0/4\" is not K/N with 1 <= K <= N <= 100000 (e.g. 3/8)");
+        "shard \"0/4\" is not K/N with 1 <= K <= N <= 100000 (e.g. 3/8)");
 }
 
 }  // TEST_SUITE

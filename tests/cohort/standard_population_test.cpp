@@ -7,7 +7,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("cohort") {
+TEST_SUITE("cohort/standard_population") {
 
 TEST_CASE("the ESP 2013 weights are the Eurostat table and sum to 100000") {
   // Source: Eurostat 2013, Revision of the European Standard Population, ESP 2013 table:

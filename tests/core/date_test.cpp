@@ -4,6 +4,8 @@
 
 namespace medload {
 
+TEST_SUITE("core/date") {
+
 TEST_CASE("dates convert between days and the civil calendar") {
   // Source: the Unix epoch is 1970-01-01 (POSIX.1-2017, Base Definitions 4.16).
   CHECK(Date::FromCivil(1970, 1, 1).days() == 0);
@@ -71,5 +73,7 @@ TEST_CASE("age is completed years, counting the birthday itself") {
   CHECK(CompletedYears(leap, Date::FromCivil(2001, 2, 28)) == 0);
   CHECK(CompletedYears(leap, Date::FromCivil(2001, 3, 1)) == 1);
 }
+
+}  // TEST_SUITE
 
 }  // namespace medload

@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("dose") {
+TEST_SUITE("dose/dosage_cache") {
 
 TEST_CASE("a cached dosage reading equals a fresh reading of the same text") {
   DosageTextCache cache;

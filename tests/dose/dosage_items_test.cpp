@@ -56,7 +56,7 @@ double ValueOf(std::string_view text, size_t index) {
 
 }  // namespace
 
-TEST_SUITE("dosage_items") {
+TEST_SUITE("dose/dosage_items") {
 
 TEST_CASE("amounts read digits, words, fractions and ranges at their upper value") {
   CHECK(ValueOf("2", 0) == 2);
@@ -136,7 +136,7 @@ TEST_CASE("numbers too large for a dose are unknown and marked unusable") {
   const auto items = RecogniseDosageItems(LexDosageText("1000000 daily").tokens);
   REQUIRE(items.size() == 2);
   CHECK(items[0].kind == ItemKind::kUnknown);
-  CHECK(items[0].value2 == 1);
+  CHECK(items[0].unusable_amount);
 }
 
 TEST_CASE("unknown words are kept with their text and punctuation is filler") {

@@ -29,7 +29,7 @@ std::string Show(std::string_view text) {
 
 }  // namespace
 
-TEST_SUITE("dosage_lexer") {
+TEST_SUITE("dose/dosage_lexer") {
 
 TEST_CASE("words fold to lower case and numbers split from their units") {
   CHECK(Show("Take 2 TABLETS") == "take #2 tablets");

@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("dosage_phrases") {
+TEST_SUITE("dose/dosage_phrases") {
 
 TEST_CASE("the longest listed phrase wins and numbers never start one") {
   const auto tokens = LexDosageText("as and when required").tokens;
@@ -32,7 +32,7 @@ TEST_CASE("every listed abbreviation carries its administrations per day") {
     const auto match = MatchDosagePhrase(LexDosageText(c.word).tokens, 0);
     REQUIRE(match);
     CHECK(match->item.kind == ItemKind::kFrequency);
-    CHECK(match->item.value / match->item.value2 == doctest::Approx(c.per_day));
+    CHECK(match->item.value / match->item.period_days == doctest::Approx(c.per_day));
   }
 }
 

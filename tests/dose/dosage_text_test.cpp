@@ -28,7 +28,7 @@ struct Case {
 // Expected readings are common practice: how a British primary-care pharmacist counts
 // these instructions (od = once daily, bd = twice, tds = three times, qds = four times,
 // mane = morning, nocte = at night, prn = when required; ranges and as-needed
-// instructions at their maximum, spec section 5).
+// instructions at their maximum, docs/dosage-text.md).
 const Case kCases[] = {
     // Once a day.
     {"1 tablet once daily", 1, kRegular, kFull, "tablet"},
@@ -205,7 +205,7 @@ const Case kCases[] = {
 
 }  // namespace
 
-TEST_SUITE("dosage_text") {
+TEST_SUITE("dose/dosage_text") {
 
 TEST_CASE("instructions as prescribers write them read into units per day") {
   for (const Case& c : kCases) {

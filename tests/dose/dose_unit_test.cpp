@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("dose_unit") {
+TEST_SUITE("dose/dose_unit") {
 
 TEST_CASE("unit spellings reduce to one canonical name and a factor") {
   struct Case {

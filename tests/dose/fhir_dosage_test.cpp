@@ -2,6 +2,8 @@
 
 #include <doctest/doctest.h>
 
+#include "medload/dose/dose_unit.h"
+
 namespace medload {
 namespace {
 
@@ -20,7 +22,7 @@ json Dosage(double value, const char* unit, int frequency, double period,
 
 }  // namespace
 
-TEST_SUITE("fhir_dosage") {
+TEST_SUITE("dose/fhir_dosage") {
 
 TEST_CASE("a dose quantity times the frequency per period gives units per day") {
   // Source: HL7 FHIR R4 Timing.repeat: frequency events per period of periodUnit.
@@ -156,6 +158,42 @@ TEST_CASE("structured as-needed survives a fallback to text without an as-needed
   CHECK(reading.as_needed);
   REQUIRE(reading.units_per_day);
   CHECK(*reading.units_per_day == doctest::Approx(12));
+}
+
+TEST_CASE("a frequency without a dose gives administrations a day when the text gives nothing") {
+  // Source: HL7 FHIR R4 Dosage.timing (Timing.code BID; Timing.repeat) with no
+  // Dosage.doseAndRate: how much each time is left to the supply calculation.
+  struct Case {
+    const char* dosage;
+    double per_day;
+  };
+  const Case cases[] = {
+      {R"({"timing": {"code": {"coding": [{"code": "BID"}]}}})", 2},
+      {R"({"timing": {"repeat": {"frequency": 1, "period": 8, "periodUnit": "h"}}})", 3},
+      {R"({"timing": {"repeat": {"when": ["MORN", "HS"]}}, "text": "as directed"})", 2},
+      {R"({"asNeededBoolean": true, "timing": {"repeat": {"frequency": 4, "period": 1, "periodUnit": "d"}}})", 4},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.dosage);
+    const DosageReading reading = ReadFhirDosage(json::parse(c.dosage));
+    REQUIRE(reading.units_per_day);
+    CHECK(*reading.units_per_day == doctest::Approx(c.per_day));
+    CHECK(reading.unit == kAdministrationUnit);
+    CHECK(reading.understanding == Understanding::kPartial);
+  }
+  // A text that gives a dose wins over the bare frequency.
+  const DosageReading text = ReadFhirDosage(
+      json::parse(R"({"text": "two tablets twice a day", "timing": {"code": {"coding": [{"code": "BID"}]}}})"));
+  REQUIRE(text.units_per_day);
+  CHECK(*text.units_per_day == doctest::Approx(4));
+  CHECK(text.unit == "tablet");
+}
+
+TEST_CASE("a dose unit that is not known stays as written, never taken for the quantity's") {
+  const DosageReading reading = ReadFhirDosage(Dosage(2, "mmol", 1, 1, "d"));
+  REQUIRE(reading.units_per_day);
+  CHECK(reading.unit == "mmol");
+  CHECK(reading.note == "/doseAndRate/0/doseQuantity/unit \"mmol\" is not a known dose unit");
 }
 
 TEST_CASE("values of the wrong type are named by pointer and never throw") {

@@ -2,6 +2,8 @@
 
 #include <doctest/doctest.h>
 
+#include "medload/dose/dose_unit.h"
+
 namespace medload {
 namespace {
 
@@ -18,7 +20,7 @@ const SupplyOptions kDefaults{};
 
 }  // namespace
 
-TEST_SUITE("supply") {
+TEST_SUITE("dose/supply") {
 
 TEST_CASE("supply rule names are the spelled names used in outputs") {
   CHECK(SupplyRuleName(SupplyRule::kRecordDaysSupply) == "days_supply");
@@ -36,7 +38,7 @@ TEST_CASE("the record's days supply comes first even when the dosage gives a rat
 }
 
 TEST_CASE("the dosage rate comes second and is rounded up to whole days") {
-  // 28 tablets at 1.5 a day last 18.67 days: 19 (spec section 5: ceil).
+  // 28 tablets at 1.5 a day last 18.67 days: 19 (docs/dosage-text.md: ceil).
   const Supply supply = ComputeSupply(28, std::nullopt, PerDay(1.5), 90, kDefaults);
   CHECK(supply.days == 19);
   CHECK(supply.rule == SupplyRule::kDosageText);
@@ -151,6 +153,52 @@ TEST_CASE("units that do not relate fall through and ones used as the same dose 
   const Supply grams = ComputeSupply(30, std::nullopt, PerDay(2000, "mg"), std::nullopt,
                                      kDefaults, QuantityUnit{"g", std::nullopt});
   CHECK(grams.days == 15);  // 30 g at 2 g a day
+}
+
+TEST_CASE("administrations a day count one unit each only for single-unit forms") {
+  // Common practice: "twice a day" of tablets, capsules, patches or suppositories means
+  // one each time; of a liquid, an inhaler or a cream it says nothing about the amount.
+  DosageReading twice;
+  twice.units_per_day = 2;
+  twice.unit = std::string(kAdministrationUnit);
+  struct Case {
+    const char* unit;
+    std::optional<double> per_day;
+  };
+  const Case cases[] = {{"tablet", 2},         {"capsules", 2},     {"{tbl}", 2},  {"patch", 2},
+                        {"suppository", 2},    {"sachet", 2},       {"ml", std::nullopt},
+                        {"puff", std::nullopt}, {"g", std::nullopt}, {"", std::nullopt},
+                        {"5ml spoonful", std::nullopt}};
+  for (const Case& c : cases) {
+    CAPTURE(c.unit);
+    CHECK(UnitsPerDayOfQuantity(twice, QuantityUnit{c.unit, 10.0}) == c.per_day);
+  }
+  std::string why;
+  CHECK_FALSE(UnitsPerDayOfQuantity(twice, QuantityUnit{"mL", std::nullopt}, &why));
+  CHECK(why ==
+        "the dosage gives a frequency without a dose, and the quantity is not counted in tablets, capsules or "
+        "other single units (it is in \"mL\")");
+}
+
+TEST_CASE("a structured dose in mg, g or micrograms reaches the strength through its unit") {
+  // 600 mg every 8 hours of 600 mg tablets: 3 tablets a day, 90 tablets last 30 days.
+  DispensingRecord record;
+  record.structured_units_per_day = 1800;
+  record.structured_unit = "mg";
+  const DosageReading mg = ReadRecordDosage(record);
+  CHECK(mg.unit == "mg");
+  const Supply supply = ComputeSupply(90, std::nullopt, mg, std::nullopt, kDefaults, QuantityUnit{"tablet", 600.0});
+  CHECK(supply.days == 30);
+  REQUIRE(supply.units_per_day);
+  CHECK(*supply.units_per_day == doctest::Approx(3));
+  // Without the strength the amount a day stays unknown, and says why.
+  const Supply unknown = ComputeSupply(90, std::nullopt, mg, std::nullopt, kDefaults, QuantityUnit{"tablet", {}});
+  CHECK_FALSE(unknown.units_per_day);
+  CHECK(unknown.note == "the dosage is in mg and the strength per unit is not known");
+  // An empty unit is the quantity's own (a dose stated without a unit).
+  record.structured_unit.clear();
+  record.structured_units_per_day = 2;
+  CHECK(*UnitsPerDayOfQuantity(ReadRecordDosage(record), QuantityUnit{"tablet", 600.0}) == doctest::Approx(2));
 }
 
 TEST_CASE("a record's structured dosage is preferred over its text") {

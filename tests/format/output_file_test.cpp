@@ -44,7 +44,7 @@ class UmaskScope {
 
 }  // namespace
 
-TEST_SUITE("output_file") {
+TEST_SUITE("format/output_file") {
 
 TEST_CASE("the target holds the old content until the commit, then the new content whole") {
   TempFolder folder;

@@ -6,7 +6,7 @@
 
 namespace medload {
 
-TEST_SUITE("shown_text") {
+TEST_SUITE("format/shown_text") {
 
 TEST_CASE("control characters, bidi controls and bad bytes are shown as escapes") {
   // Bidi controls: Unicode Standard Annex #9 (explicit formatting characters and marks).

@@ -31,7 +31,7 @@ void ExpectFault(const std::string& file, const std::string& content, const std:
   CHECK_FALSE(LoadFormulary(folder.path()).ok());
 }
 
-TEST_SUITE("formulary.check") {
+TEST_SUITE("formulary/check") {
 
 TEST_CASE("the bundled formulary has no faults") {
   const FormularyCheck check = CheckFormulary(MEDLOAD_SOURCE_FORMULARY);
@@ -52,6 +52,15 @@ TEST_CASE("a minimal formulary is clean and counted") {
   CHECK(check.scale_rows == 1);
   CHECK(check.dbi_rows == 1);
   CHECK(check.checksum.size() == 64);
+}
+
+TEST_CASE("a DBI class that no ingredient has, or named twice, is a fault") {
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nsleepers,sedative,test\n",
+              "dbi_classes.csv:3: no ingredient has the class \"sleepers\"");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nnsaid,both,test\n",
+              "dbi_classes.csv:3: duplicate class \"nsaid\" (first on line 2)");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,drowsy,test\n",
+              "dbi_classes.csv:2: effect: \"drowsy\" is not anticholinergic, sedative or both");
 }
 
 TEST_CASE("a row with the wrong number of fields is a fault") {

@@ -35,7 +35,7 @@ void CheckScale(const std::string& scale, int score, const std::string& list) {
   }
 }
 
-TEST_SUITE("formulary.formulary") {
+TEST_SUITE("formulary/formulary") {
 
 TEST_CASE("the ACB table holds every published score-3 entry with score 3") {
   // Source: Boustani et al. 2008 Aging Health 4(3):311-320, 2012 update (Campbell et al.

@@ -8,7 +8,7 @@
 namespace medload::formulary_internal {
 namespace {
 
-TEST_SUITE("formulary.name_index") {
+TEST_SUITE("formulary/name_index") {
 
 TEST_CASE("words are runs of letters and digits with their offsets") {
   const std::string text = "co-codamol 30mg/500mg";

@@ -8,7 +8,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("formulary.normalise") {
+TEST_SUITE("formulary/normalise") {
 
 TEST_CASE("text is case-folded with accents removed and everything else kept") {
   CHECK(NormaliseText("Co-Codamol 30MG/500MG") == "co-codamol 30mg/500mg");

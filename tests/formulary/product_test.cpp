@@ -5,7 +5,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("formulary.product") {
+TEST_SUITE("formulary/product") {
 
 TEST_CASE("route names round-trip and unknown names are refused") {
   for (const Route route : {Route::kUnknown, Route::kOral, Route::kSublingualBuccal, Route::kSkin,
@@ -16,7 +16,7 @@ TEST_CASE("route names round-trip and unknown names are refused") {
     CHECK(RouteFromName(name) == route);
   }
   CHECK(RouteName(Route::kInhaled) == "inhaled");
-  // The product specification's route names.
+  // The route names of docs/formulary.md.
   CHECK(RouteName(Route::kSublingualBuccal) == "sublingual/buccal");
   CHECK(RouteName(Route::kSkin) == "skin");
   CHECK(RouteName(Route::kEye) == "eye");

@@ -8,7 +8,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("formulary.resolution_json") {
+TEST_SUITE("formulary/resolution_json") {
 
 TEST_CASE("a resolution survives a round trip through its JSON string") {
   for (const char* text : {"Co-codamol 30mg/500mg tablets", "Fentanyl 25micrograms/hour transdermal patches",

@@ -46,7 +46,7 @@ void CheckIngredients(const ResolvedProduct& product, const std::vector<Expected
   }
 }
 
-TEST_SUITE("formulary.resolver") {
+TEST_SUITE("formulary/resolver") {
 
 // Expected values are the arithmetic of the strength as written (common practice).
 TEST_CASE("product descriptions resolve to ingredients, strengths, route and dose unit") {

@@ -14,7 +14,7 @@ std::vector<Rule> Parse(const std::string& text, std::vector<std::string>& fault
   return ParseRules(text, "rules.json", faults);
 }
 
-TEST_SUITE("formulary.rules") {
+TEST_SUITE("formulary/rules") {
 
 TEST_CASE("the documented example rule parses with every field") {
   const std::string text = R"({"rules": [

@@ -15,7 +15,7 @@ struct Case {
   std::vector<std::optional<double>> mg_per_day;
 };
 
-TEST_SUITE("formulary.strength") {
+TEST_SUITE("formulary/strength") {
 
 // Expected values are the arithmetic of the units as written (common practice:
 // 1 g = 1000 mg, 1 mg = 1000 micrograms, 1% = 1 g per 100 g or ml = 10 mg per g or ml).

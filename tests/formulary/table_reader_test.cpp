@@ -8,7 +8,7 @@
 namespace medload::formulary_internal {
 namespace {
 
-TEST_SUITE("formulary.table_reader") {
+TEST_SUITE("formulary/table_reader") {
 
 TEST_CASE("columns are returned in the asked order whatever the header order") {
   std::vector<std::string> faults;

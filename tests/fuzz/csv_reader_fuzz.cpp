@@ -1,5 +1,5 @@
-// libFuzzer target: the streaming CSV reader (io/csv_reader.h) and the row checks of the
-// four tabular inputs (io/csv_records.h). The input is one CSV file.
+// libFuzzer target: the streaming CSV reader (input/csv_reader.h) and the row checks of the
+// four tabular inputs (input/csv_records.h). The input is one CSV file.
 //
 // Invariants:
 // - with no limits in the way, a record has either fields or a fault (invalid UTF-8, or an
@@ -21,8 +21,8 @@
 #include <vector>
 
 #include "fuzz/fuzz_check.h"
-#include "medload/io/csv_reader.h"
-#include "medload/io/csv_records.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/csv_records.h"
 
 namespace medload {
 namespace {

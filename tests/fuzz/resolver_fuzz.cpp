@@ -22,7 +22,7 @@
 #include "fuzz/fuzz_check.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
-#include "medload/io/csv_reader.h"
+#include "medload/input/csv_reader.h"
 
 namespace medload {
 namespace {

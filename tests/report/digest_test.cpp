@@ -40,7 +40,7 @@ Digest SampleDigest() {
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/digest") {
 
 TEST_CASE("the Date header is the census date at midnight UTC with its weekday") {
   // 2026-10-31 is a Saturday; 1970-01-01 a Thursday (common practice: calendar).

@@ -4,7 +4,7 @@
 
 namespace medload {
 
-TEST_SUITE("report") {
+TEST_SUITE("report/funnel") {
 
 // Worked values. Source: Spiegelhalter 2005, Stat Med 24:1185 (exact binomial limits with
 // interpolation), as listed in the project's references.md.

@@ -14,7 +14,7 @@ size_t Count(const std::string& text, const std::string& needle) {
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_charts") {
 
 TEST_CASE("a funnel plot has a title, axis labels, the network line, four limit curves and a point per practice") {
   testing::ReportPopulation population;

@@ -13,7 +13,7 @@ const char* kMinimal = R"({"title": "T", "network": "N", "criteria": ["items>=10
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_config") {
 
 TEST_CASE("a minimal config takes the documented defaults") {
   auto config = Read(kMinimal);

@@ -9,7 +9,7 @@
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/report/report_config.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
@@ -37,7 +37,7 @@ inline constexpr const char* kOddPractice = "B/../<b>";
 // has ramipril and furosemide from 2024-01 to 2024-06.
 struct ReportPopulation {
   Store store = std::move(Store::Open(":memory:").value());
-  Analysis analysis = std::move(Analysis::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+  RunContext analysis = std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
 
   ReportPopulation() {
     ImportCsv(store, InputKind::kPractices,

@@ -17,7 +17,7 @@ std::map<std::string, PracticeFiles> Files(const ReportModel& model) {
 
 }  // namespace
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report_pages") {
 
 TEST_CASE("the overview has a table, a trend chart and a funnel plot per criterion and any") {
   testing::ReportPopulation population;
@@ -32,9 +32,11 @@ TEST_CASE("the overview has a table, a trend chart and a funnel plot per criteri
     ++funnels;
   }
   CHECK(funnels == 3);
-  // A1 on 2024-06-30: 6 patients with acb>=3, 750 per 1000, up 6 since the previous month.
+  // A1 on 2024-06-30 (after its latest dispensing, 2024-06-01: beyond the data): 6 patients
+  // with acb>=3, 750 per 1000, up 6 since the previous month.
   CHECK(html.find("<td>A1</td><td>Alder &lt;script&gt;alert(1)&lt;/script&gt; Surgery</td><td class=\"num\">8</td>"
-                  "<td class=\"num\">6</td><td class=\"num\">750</td><td class=\"num\">+6</td>") != std::string::npos);
+                  "<td>beyond-data</td><td class=\"num\">6</td><td class=\"num\">750</td><td class=\"num\">+6</td>") !=
+        std::string::npos);
   CHECK(html.find("<script") == std::string::npos);
   CHECK(html.find("class=\"caution\"") != std::string::npos);
   CHECK(html.find("href=\"digests/x.eml\"") != std::string::npos);
@@ -75,17 +77,28 @@ TEST_CASE("a practice page withholds a meeting count below the suppression thres
   CHECK(PracticeHtml(*plain, 0, files.at("A1")).find("8 of 8 registered patients meet") != std::string::npos);
 }
 
-TEST_CASE("report warnings name a census date after the latest dispensing loaded") {
-  testing::ReportPopulation population;  // the latest dispensing is 2024-06-01
+TEST_CASE("report warnings name each practice's dates in short history and beyond its data") {
+  testing::ReportPopulation population;  // dispensings from 2024-01-01 to 2024-06-01
   auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {}, {});
   REQUIRE(model.ok());
-  REQUIRE(ReportWarnings(*model).size() == 1);
-  CHECK(ReportWarnings(*model)[0].rfind("the census date 2024-06-30 is 29 days after", 0) == 0);
+  // Census dates 2024-01-31 .. 2024-06-30: the first two are in the first 84 days of the
+  // data; 2024-06-30 is after the latest dispensing. One note of each per practice.
+  const std::vector<std::string> warnings = ReportWarnings(*model);
+  REQUIRE(warnings.size() == 4);
+  CHECK(warnings[0] == "practice A1: 2024-01-31 to 2024-02-29 (2 dates) within the first 84 days of its data (from "
+                       "2024-01-01), marked short-history: supplies dispensed before then are missing, so figures may "
+                       "be too low and changes are not computed against them");
+  CHECK(warnings[1] == "practice A1: 2024-06-30 after its latest dispensing loaded (2024-06-01), marked beyond-data: "
+                       "supplies and tails running then count, refills collected since are not loaded");
+  CHECK(warnings[2].rfind("practice B/../<b>: 2024-01-31 to 2024-02-29", 0) == 0);
   const std::string index = IndexHtml(*model, Files(*model), {});
-  CHECK(index.find("<strong>Warning:</strong> the census date 2024-06-30") != std::string::npos);
-  CHECK(ReportWorklist(*model, "A1").notes == ReportWarnings(*model));
-  model->on = Date::FromCivil(2024, 6, 1);
-  CHECK(ReportWarnings(*model).empty());
+  CHECK(index.find("<strong>Warning:</strong> practice A1: 2024-06-30 after its latest dispensing") != std::string::npos);
+  const std::string code = "A1";
+  CHECK(ReportWorklist(*model, code).notes == ReportWarnings(*model, &code));
+  CHECK(ReportWorklist(*model, code).notes.size() == 2);
+  CHECK(model->practices[0].data.front() == DataState::kShortHistory);
+  CHECK(model->practices[0].data[2] == DataState::kFull);
+  CHECK(model->practices[0].data.back() == DataState::kBeyondData);
 }
 
 }

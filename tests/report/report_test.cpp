@@ -6,7 +6,7 @@
 
 namespace medload {
 
-TEST_SUITE("report") {
+TEST_SUITE("report/report") {
 
 TEST_CASE("the latest census date is the last month end covered by the data") {
   StoreSummary summary;
@@ -61,7 +61,7 @@ TEST_CASE("each practice's worklist is ranked, limited and made from the same pa
   CHECK(a1.patients_considered == 8);
   REQUIRE(a1.patients.size() == 3);
   CHECK(a1.patients[0].rank == 1);
-  CHECK(a1.patients[0].acb >= 3);  // the ACB patients rank first (spec section 6)
+  CHECK(a1.patients[0].acb >= 3);  // the ACB patients rank first (docs/measures.md)
   CHECK(a1.patients[0].patient == "ZQ7102");
   CHECK(model->worklists.at(testing::kOddPractice).patients_meeting == 6);
 }

@@ -6,7 +6,7 @@
 
 namespace medload {
 
-TEST_SUITE("importer") {
+TEST_SUITE("store/control_characters") {
 
 TEST_CASE("control characters in a record are found as bytes, and in JSON also as escapes") {
   struct Case {

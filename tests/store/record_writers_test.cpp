@@ -34,7 +34,7 @@ DispensingRecord Dispense(const char* id, const char* status) {
 
 }  // namespace
 
-TEST_SUITE("record_writers") {
+TEST_SUITE("store/record_writers") {
 
 TEST_CASE("a dispensing is new once, then a duplicate") {
   Fixture fixture;

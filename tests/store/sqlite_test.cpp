@@ -24,7 +24,7 @@ struct Db {
 
 }  // namespace
 
-TEST_SUITE("sqlite") {
+TEST_SUITE("store/sqlite") {
 
 TEST_CASE("bound values round-trip, including text with quotes and NULLs") {
   Db db;

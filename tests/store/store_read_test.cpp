@@ -1,11 +1,13 @@
 #include <doctest/doctest.h>
 #include <sqlite3.h>
 
+#include <algorithm>
 #include <optional>
 #include <sstream>
 
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
+#include "store/read_patients.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -64,7 +66,7 @@ std::vector<std::string> Pass(const Store& store, const PatientIdRange& range = 
               "|" + std::to_string(r.quantity) + "|" + r.unit + "|" +
               (r.days_supply ? std::to_string(*r.days_supply) : "-") + "|" + r.dosage + "|" +
               (r.structured_units_per_day ? std::to_string(*r.structured_units_per_day) : "-") +
-              "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
+              "|" + r.structured_unit + "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
     }
     seen.push_back(line);
   }
@@ -100,7 +102,7 @@ void Exec(Store& store, const std::string& sql) {
 
 }  // namespace
 
-TEST_SUITE("store_read") {
+TEST_SUITE("store/store_read") {
 
 TEST_CASE("the packed copy gives the same pass as the dispensings, whole and by range") {
   Store store = Loaded();
@@ -284,7 +286,7 @@ TEST_CASE("a patient's registry row reads back with a birth year as 1 July") {
   Result<std::optional<PatientRecord>> patient = store.PatientOf("P1");
   REQUIRE(patient.ok());
   REQUIRE(patient->has_value());
-  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // spec section 5
+  CHECK((*patient)->birth_date->ToIso() == "1940-07-01");  // docs/input-formats.md
   CHECK((*patient)->birth_year_only);
   CHECK((*patient)->sex == "female");
   CHECK((*patient)->registered_from->ToIso() == "2010-01-01");
@@ -297,7 +299,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
   std::vector<std::string> ids;
   std::vector<size_t> counts;
   std::vector<bool> registered;
-  Status status = store.ForEachPatient([&](const PatientHistory& history) {
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
     ids.push_back(history.patient_id);
     counts.push_back(history.dispensings.size());
     registered.push_back(history.registry.has_value());
@@ -305,9 +307,7 @@ TEST_CASE("every patient is visited once in id order with registry row and dispe
       CHECK(history.dispensings[i - 1].dispensed_on <= history.dispensings[i].dispensed_on);
     }
     for (const DispensingRecord& record : history.dispensings) CHECK(record.patient_id == history.patient_id);
-    return true;
-  });
-  REQUIRE(status.ok());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3", "P4"});
   CHECK(counts == std::vector<size_t>{3, 1, 0, 1});
   CHECK(registered == std::vector<bool>{true, true, true, false});
@@ -318,19 +318,11 @@ TEST_CASE("a patient whose only dispensings do not count is visited only through
   SetStatus(store, "d5", "cancelled");  // P4 has no registry row and nothing counting
   SetStatus(store, "d1", "cancelled");  // P2 keeps the registry row
   std::vector<std::string> ids;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory& history) {
-                 ids.push_back(history.patient_id);
-                 if (history.patient_id == "P2") CHECK(history.dispensings.empty());
-                 return true;
-               }).ok());
+  for (const PatientHistory& history : testing::ReadPatients(store)) {
+    ids.push_back(history.patient_id);
+    if (history.patient_id == "P2") CHECK(history.dispensings.empty());
+  }
   CHECK(ids == std::vector<std::string>{"P1", "P2", "P3"});
-}
-
-TEST_CASE("the visit stops when the callback returns false") {
-  Store store = Loaded();
-  int visits = 0;
-  REQUIRE(store.ForEachPatient([&](const PatientHistory&) { return ++visits < 2; }).ok());
-  CHECK(visits == 2);
 }
 
 TEST_CASE("a cursor reusing one history gives each patient exactly their own records") {
@@ -453,7 +445,12 @@ TEST_CASE("the summary gives the date span of counting dispensings and every tab
   REQUIRE(summary.ok());
   CHECK(summary->earliest_dispensed->ToIso() == "2024-01-01");
   CHECK(summary->latest_dispensed->ToIso() == "2024-02-01");  // d1 (March) no longer counts
-  CHECK(store.LatestDispensed().value() == summary->latest_dispensed);
+  // Data coverage per practice: the same span, under the practice the records name.
+  const PracticeSpans spans = store.PracticeDataSpans().value();
+  REQUIRE_FALSE(spans.empty());
+  Date latest = spans.begin()->second.latest;
+  for (const auto& [practice, span] : spans) latest = std::max(latest, span.latest);
+  CHECK(latest == summary->latest_dispensed);
   CHECK(summary->dispensings == 5);
   CHECK(summary->counting_dispensings == 4);
   CHECK(summary->patients == 3);
@@ -473,10 +470,20 @@ TEST_CASE("an empty store has no date span") {
   REQUIRE(summary.ok());
   CHECK_FALSE(summary->earliest_dispensed.has_value());
   CHECK(summary->dispensings == 0);
-  CHECK_FALSE(store->LatestDispensed().value().has_value());
-  int visits = 0;
-  REQUIRE(store->ForEachPatient([&](const PatientHistory&) { return ++visits > 0; }).ok());
-  CHECK(visits == 0);
+  CHECK(store->PracticeDataSpans().value().empty());
+  CHECK(testing::ReadPatients(*store).empty());
+}
+
+TEST_CASE("a patient's dispensings that do not count are counted by status up to a date") {
+  Store store = Loaded();
+  SetStatus(store, "d2", "stopped");        // 2024-02-01
+  SetStatus(store, "d3", "entered-in-error");  // 2024-01-01
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-03-01")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}, {"stopped", 1}});
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-01-15")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}});
+  CHECK(store.NotCountingOf("P2", *ParseDate("2024-03-01")).value().empty());
+  CHECK(store.NotCountingOf("nobody", *ParseDate("2024-03-01")).value().empty());
 }
 
 }  // TEST_SUITE

@@ -37,7 +37,7 @@ void ExecRaw(const std::string& path, const char* sql) {
 
 }  // namespace
 
-TEST_SUITE("store") {
+TEST_SUITE("store/store") {
 
 TEST_CASE("opening a new store creates the schema at the current version in WAL mode") {
   TempFolder folder;
@@ -51,7 +51,8 @@ TEST_CASE("opening a new store creates the schema at the current version in WAL 
   }
   CHECK(QueryText(path, "PRAGMA journal_mode") == "wal");
   for (const char* table : {"practices", "patients", "dispensings", "reviews", "import_runs",
-                            "rejected_rows", "product_resolutions", "runs"}) {
+                            "rejected_rows", "product_resolutions", "runs", "patient_identifiers",
+                            "fhir_medications"}) {
     CAPTURE(table);
     const std::string sql =
         std::string("SELECT name FROM sqlite_schema WHERE type = 'table' AND name = '") + table + "'";
@@ -352,6 +353,82 @@ TEST_CASE("a store of schema version 1 migrates to the current version and keeps
   CHECK(QueryText(path, "SELECT patient_id FROM packed_histories") == "P1");
   CHECK(QueryText(path, "SELECT i.file || ':' || d.source_line FROM dispensings d JOIN import_runs i"
                         " ON i.id = d.run_id") == "old.csv:2");
+  CHECK(QueryText(path, "SELECT '[' || structured_unit || ']' FROM dispensings") == "[]");
+}
+
+TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHIR link tables are added") {
+  TempFolder folder;
+  const std::string path = folder.File("v3.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  // Take the store back to what version 3 held, with a packed copy in the old layout.
+  ExecRaw(path,
+          "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
+          "ALTER TABLE packed_histories DROP COLUMN dropped;"
+          "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
+          "ALTER TABLE dispensings DROP COLUMN structured_unit;"
+          "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
+          "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "PRAGMA user_version=3;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == 5);
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM patient_identifiers") == "0");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM fhir_medications") == "0");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('rejected_rows') WHERE name = 'row_key'") == "1");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('packed_histories') WHERE name = 'dropped'") == "1");
+}
+
+TEST_CASE("a store of schema version 4 migrates: rejected rows get a key, packed histories a count left out") {
+  TempFolder folder;
+  const std::string path = folder.File("v4.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  // Version 4 as released: no row_key, no dropped; a rejected row and a packed copy of
+  // that layout that claims to be current.
+  ExecRaw(path,
+          "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
+          "ALTER TABLE packed_histories DROP COLUMN dropped;"
+          "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'old.csv', 'then');"
+          "INSERT INTO rejected_rows (run_id, line, reason, message, original_row)"
+          " VALUES (1, 2, 'bad_date', 'old.csv:2: dispensed_on: bad', 'x');"
+          "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
+          "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "PRAGMA user_version=4;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == 5);
+  // The old rejected row is kept as it was, without a key.
+  CHECK(QueryText(path, "SELECT reason || ':' || IFNULL(row_key, 'none') FROM rejected_rows") == "bad_date:none");
+  // The packed copy is dropped and stale, so that it is packed again with the bound.
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('packed_histories') WHERE name = 'dropped'") == "1");
+}
+
+TEST_CASE("a version 4 of a development build, with keyed rejected rows, is refused and left unchanged") {
+  TempFolder folder;
+  const std::string path = folder.File("dev4.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  ExecRaw(path,
+          "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
+          "ALTER TABLE dispensings DROP COLUMN structured_unit; PRAGMA user_version=4;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().code() == StatusCode::kInput);
+  CHECK(store.status().message() == "the store \"" + path +
+                                        "\" has a schema version 4 of a development build of medload, which this "
+                                        "medload cannot migrate; import its files into a new store");
+  CHECK(QueryText(path, "PRAGMA user_version") == "4");
 }
 
 TEST_CASE("a peer connection reads the same snapshot, and is refused when it could not") {

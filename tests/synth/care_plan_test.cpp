@@ -30,7 +30,7 @@ Load LoadAt(int age, bool female, int count) {
 
 }  // namespace
 
-TEST_SUITE("synth_care_plan") {
+TEST_SUITE("synth/care_plan") {
 
 TEST_CASE("every product a care plan or course names is in the catalogue") {
   for (const CareCondition& condition : SynthConditions()) {

@@ -27,7 +27,7 @@ bool HasDigit(std::string_view text) {
 
 }  // namespace
 
-TEST_SUITE("synth_catalogue") {
+TEST_SUITE("synth/catalogue") {
 
 TEST_CASE("every catalogue product has a unique key, a quantity, a unit and a dosage") {
   std::set<std::string_view> keys;
@@ -74,7 +74,7 @@ TEST_CASE("non-medicines are appliances with no days supply and a few are in the
 }
 
 TEST_CASE("units per day use the top of a range and the stated maximum when required") {
-  // Spec section 5: a dose range uses its upper value; as-needed uses the stated maximum.
+  // docs/dosage-text.md: a dose range uses its upper value; as-needed uses the stated maximum.
   CHECK(UnitsPerDay(*Product("paracetamol-prn").dosage) == doctest::Approx(8));
   CHECK(UnitsPerDay(*Product("amlodipine-5").dosage) == doctest::Approx(1));
   CHECK(UnitsPerDay(*Product("metformin-500").dosage) == doctest::Approx(4));
@@ -84,7 +84,7 @@ TEST_CASE("units per day use the top of a range and the stated maximum when requ
 }
 
 TEST_CASE("days covered round the quantity over the daily use up") {
-  // Spec section 5: s = ceil(quantity / units_per_day).
+  // docs/dosage-text.md: s = ceil(quantity / units_per_day).
   CHECK(DaysCovered(Product("amlodipine-5"), 28) == 28);
   CHECK(DaysCovered(Product("amlodipine-5"), 56) == 56);
   CHECK(DaysCovered(Product("paracetamol-prn"), 100) == 13);

@@ -48,7 +48,7 @@ void ForGeneratedPatients(uint64_t count, Visit visit) {
 
 }  // namespace
 
-TEST_SUITE("synth_history") {
+TEST_SUITE("synth/history") {
 
 TEST_CASE("a regular medicine is refilled about every 28 days through the window") {
   const CarePlan plan = PlanOf({"amlodipine-5"});

@@ -49,7 +49,7 @@ const SynthWindow kWindow = MakeWindow(Date::FromCivil(2026, 10, 31), 15);
 
 }  // namespace
 
-TEST_SUITE("synth_population") {
+TEST_SUITE("synth/population") {
 
 TEST_CASE("a network has one practice per about 7500 patients and never fewer than three") {
   CHECK(MakeNetwork(1, 1).practices.size() == 3);

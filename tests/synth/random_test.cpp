@@ -8,7 +8,7 @@
 
 namespace medload {
 
-TEST_SUITE("synth_random") {
+TEST_SUITE("synth/random") {
 
 TEST_CASE("splitmix64 gives the published first outputs for state zero") {
   // Source: the reference splitmix64.c of Vigna (prng.di.unimi.it), seeded with 0; from

@@ -40,7 +40,7 @@ SynthDispensing Line(std::string_view key, int text) {
 
 }  // namespace
 
-TEST_SUITE("synth_record_writer") {
+TEST_SUITE("synth/record_writer") {
 
 TEST_CASE("csv fields are quoted only when they hold a comma, quote or line break") {
   // Source: RFC 4180, section 2 (rules 5-7).

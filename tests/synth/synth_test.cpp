@@ -10,9 +10,9 @@
 #include <set>
 #include <sstream>
 
-#include "medload/io/csv_reader.h"
-#include "medload/io/csv_records.h"
-#include "medload/io/fhir_reader.h"
+#include "medload/input/csv_reader.h"
+#include "medload/input/csv_records.h"
+#include "medload/input/fhir_reader.h"
 
 namespace medload {
 
@@ -112,7 +112,7 @@ SynthOptions SmallOptions(uint64_t seed) {
 
 }  // namespace
 
-TEST_SUITE("synth") {
+TEST_SUITE("synth/synth") {
 
 TEST_CASE("the same options give identical bytes and another seed different ones") {
   TempFolder first("same_a");
@@ -174,7 +174,7 @@ TEST_CASE("every dispensing row passes the import checks of the spec") {
     CHECK(record_ids.insert(f[0]).second);
     CHECK_FALSE(f[1].empty());
     practices.insert(f[2]);
-    // Spec section 4: a real calendar date; quantity > 0; days supply whole days > 0.
+    // docs/input-formats.md: a real calendar date; quantity > 0; days supply whole days > 0.
     const std::optional<Date> on = ParseDate(f[3]);
     REQUIRE(on.has_value());
     CHECK(*on >= from);
@@ -310,10 +310,10 @@ TEST_CASE("options out of range are usage errors naming the option") {
   options.patients = 0;
   Status status = CheckSynthOptions(options);
   CHECK(status.code() == StatusCode::kUsage);
-  CHECK(status.message() == "--patients 0 is out of range: give 1 to 50000000");
+  CHECK(status.message() == "patients 0 is out of range: give 1 to 50000000");
   options = SmallOptions(1);
   options.months = 0;
-  CHECK(CheckSynthOptions(options).message() == "--months 0 is out of range: give 1 to 240");
+  CHECK(CheckSynthOptions(options).message() == "months 0 is out of range: give 1 to 240");
   options.months = 241;
   CHECK(CheckSynthOptions(options).code() == StatusCode::kUsage);
   CHECK(CheckSynthOptions(SmallOptions(1)).ok());

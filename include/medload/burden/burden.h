@@ -18,7 +18,11 @@ namespace medload {
 struct ActiveMedicine {
   size_t medicine = 0;     // index into Timeline::medicines
   Date since;              // episode start (lookback: first dispensing in the window)
-  Date until;              // episode end (lookback: end of the latest supply)
+  // The last day the supplies dispensed on or before D count, tail included (lookback:
+  // end of the latest supply). Later dispensings may extend it; they never shorten it.
+  Date until;
+  Date supply_end;         // the last day those supplies cover, without the tail
+  bool in_tail = false;    // D is after every supply ran out: only a tail covers it
   size_t latest_use = 0;   // index into Medicine::uses: the latest dispensing on or before D
   int score = 0;           // scale points attributed to this medicine (each ingredient once)
   double dbi = 0;          // DBI attributed to this medicine
@@ -36,13 +40,27 @@ enum class DoseBasis {
   kQuantity,       // strength x quantity / days of supply
 };
 
+// One product's daily dose within an ingredient's DBI dose.
+struct DoseSource {
+  size_t medicine = 0;          // index into Timeline::medicines
+  size_t use = 0;               // index into Medicine::uses: the product's latest dispensing
+  double dose_mg_per_day = 0;
+  DoseBasis basis = DoseBasis::kDosage;
+  bool as_needed_max = false;   // the units per day are an as-needed instruction's maximum
+  bool supply_assumed = false;  // the days of supply came from a default, not the record
+};
+
 struct DbiContribution {
   std::string ingredient;
-  double dose_mg_per_day = 0;
+  double dose_mg_per_day = 0;  // the sum over `sources`
   double min_daily_dose_mg = 0;
   double value = 0;            // dose / (dose + delta)
-  DoseBasis basis = DoseBasis::kDosage;
-  bool supply_assumed = false; // the days of supply came from a default, not the record
+  DoseBasis basis = DoseBasis::kDosage;  // of the most recently dispensed product
+  bool supply_assumed = false; // some source's days of supply came from a default
+  bool as_needed_max = false;  // some source's dose is an as-needed maximum
+  // The products taken together: the most recently dispensed first, then every other
+  // active product of the ingredient dispensed again since that product's run began.
+  std::vector<DoseSource> sources;
 };
 
 struct FiredRule {
@@ -58,12 +76,19 @@ struct Burden {
   std::vector<ActiveMedicine> active;  // sorted by medicine key
   std::vector<ScoreContribution> score_contributions;  // ingredients scoring > 0, highest first
   std::vector<DbiContribution> dbi_contributions;      // by ingredient
-  std::vector<std::string> dbi_incomplete;  // DBI ingredients with no known dose
+  // DBI ingredients whose contribution is unknown: no known dose, or (also listed in
+  // dbi_no_minimum) in a class the DBI counts but without a minimum dose in the table.
+  std::vector<std::string> dbi_incomplete;
+  std::vector<std::string> dbi_no_minimum;
   std::vector<FiredRule> rules;             // in table order
   bool age_unknown_for_rules = false;       // a rule with an age limit could not be judged
 };
 
 std::string_view DoseBasisName(DoseBasis basis);
+
+// What a reader must know about how a DBI dose was reached, as a bracketed phrase to
+// append (" (as-needed maximum)", " (2 products summed)"), or "" when nothing needs saying.
+std::string DoseBasisMark(const DbiContribution& contribution);
 
 // Which medicines meet which rule requirements: one flag per medicine of `timeline` and
 // requirement of `tables.rules` (rules in order, then their requirements), medicine-major.

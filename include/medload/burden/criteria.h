@@ -1,6 +1,6 @@
 // Selection criteria shared by the worklist, the cohort counts and the report config:
 // "at least N items / ACB points / DBI" and "rule ID fired", with the fixed output keys
-// `items>=10`, `acb>=3`, `dbi>=1`, `rule:ID` (spec section 4).
+// `items>=10`, `acb>=3`, `dbi>=1`, `rule:ID` (docs/measures.md).
 #pragma once
 
 #include <string>

@@ -1,8 +1,8 @@
-// The options that change how medicines are counted and scored on a date (spec section
-// 4, "Measure options"), shared by meds, review, cohort and the report config. Each
+// The options that change how medicines are counted and scored on a date (docs/measures.md), shared by meds, review, cohort and the report config. Each
 // field's comment is the text of its --help line.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -31,7 +31,13 @@ struct MeasureOptions {
   bool exclude_prn = false;                // --exclude-prn: leave out as-needed dispensings
   std::vector<Route> exclude_routes;       // --exclude-route ROUTE (repeatable)
   std::string scale = "acb";               // --scale NAME: anticholinergic scale (default acb)
+  // --history-days N: a date in the first N days of a practice's data is marked
+  // short-history (default max(84, grace days)). Changes no figure, only its marking.
+  std::optional<int> history_days;
 };
+
+// The short-history window in force: history_days, or max(84, grace days).
+int HistoryDays(const MeasureOptions& options);
 
 std::string_view MeasureName(Measure measure);
 std::string_view CountByName(CountBy count_by);

@@ -10,7 +10,8 @@
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
+#include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
 #include "medload/store/store.h"
 
@@ -21,7 +22,7 @@ namespace medload {
 class PassPatient {
  public:
   PassPatient(const PatientHistory& history, const Timeline& timeline,
-              const std::vector<bool>& matches, const Analysis& analysis)
+              const std::vector<bool>& matches, const RunContext& analysis)
       : history_(history), timeline_(timeline), matches_(matches), analysis_(analysis) {}
 
   const PatientHistory& history() const { return history_; }
@@ -35,16 +36,21 @@ class PassPatient {
   const PatientHistory& history_;
   const Timeline& timeline_;
   const std::vector<bool>& matches_;
-  const Analysis& analysis_;
+  const RunContext& analysis_;
 };
 
 // What the pass saw besides what it showed the visitor.
 struct PassFacts {
   // The latest counting dispensing among the patients read (every patient, unless the
-  // visitor stopped the pass early): Store::LatestDispensed without a walk of the table.
+  // visitor stopped the pass early), without a walk of the table.
   std::optional<Date> latest_dispensed;
-  // Patients whose oldest dispensings were left out (PatientHistory::dropped > 0), and
-  // the bound that cut them (Store::history_bound).
+  // Each practice's first and latest counting dispensing among them (data coverage). A
+  // dispensing belongs to the practice it names, else to the patient's registry practice,
+  // else to "" (PracticeOfDispensing). A history cut by the store's bound adds only the
+  // dispensings it kept.
+  PracticeSpans practice_spans;
+  // Patients whose oldest dispensings were left out (PatientHistory::dropped > 0), among
+  // every patient read, and the bound that cut them (Store::history_bound).
   long capped_patients = 0;
   size_t history_bound = kMaxDispensingsPerPatient;
 };
@@ -53,18 +59,26 @@ struct PassFacts {
 // dispensings; nullopt when none were.
 std::optional<std::string> CappedHistoriesNote(long patients, size_t bound);
 
+// The practice whose data a dispensing is part of: the one it names, else the patient's
+// registry practice, else "".
+const std::string& PracticeOfDispensing(const DispensingRecord& record,
+                                        const std::optional<PatientRecord>& registry);
+
+// Adds every dispensing of `history` to `spans` (PracticeOfDispensing).
+void AddHistoryToSpans(const PatientHistory& history, PracticeSpans& spans);
+
 // Returns false to stop the pass early.
 using PassVisit = std::function<bool(PassPatient&)>;
 
-// Calls `visit` for every patient of Store::ForEachPatient, in the same order, all on the
+// Calls `visit` for every patient of Store::Patients, in the same order, all on the
 // calling thread, so `visit` may update state of its own without locks. `analysis` must
 // not be used by anyone else during the pass. The pass reads one snapshot: the caller's
 // if one is open on `store`, else its own; resolutions made inside it are saved in the
-// store afterwards (Analysis::SaveResolutions) when no snapshot of the caller's is open.
+// store afterwards (RunContext::SaveResolutions) when no snapshot of the caller's is open.
 // Memory holds a bounded number of patients. Returns the store's error, if any; stopping
 // early is Ok. A store in memory, or one an import has just committed to, is read on
 // its own connection by one reader thread. `facts` (may be null) is filled on success.
-Status ForEachPatientTimeline(const Store& store, Analysis& analysis, const PassVisit& visit,
+Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const PassVisit& visit,
                               PassFacts* facts = nullptr);
 
 }  // namespace medload

@@ -25,6 +25,9 @@ struct BurdenTables {
   // Scale name -> canonical ingredient name -> score (absent = 0).
   std::map<std::string, std::unordered_map<std::string, int>> scales;
   std::unordered_map<std::string, DbiEntry> dbi;
+  // Classes whose members the Drug Burden Index expects (dbi_classes.csv): a member with
+  // no minimum dose in `dbi` is listed as incomplete, never a silent 0.
+  std::vector<std::string> dbi_classes;
   std::vector<Rule> rules;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
@@ -32,6 +35,8 @@ struct BurdenTables {
   int Score(const std::string& ingredient) const { return Score(ingredient, scale); }
   bool HasClass(const std::string& ingredient, const std::string& class_name) const;
   const DbiEntry* Dbi(const std::string& ingredient) const;
+  // Whether the ingredient is in a class of dbi_classes (whatever `dbi` holds for it).
+  bool InDbiClass(const std::string& ingredient) const;
   const Rule* FindRule(const std::string& id) const;
 };
 

@@ -5,6 +5,7 @@
 
 #include <functional>
 #include <memory>
+#include <optional>
 #include <span>
 #include <string>
 #include <vector>
@@ -50,8 +51,11 @@ struct Medicine {
 struct UnmatchedProduct {
   std::string product;
   std::string code;
-  int items = 0;
-  Date last_dispensed;
+  std::vector<Date> dispensed;  // the day of each of its dispensings, oldest first
+
+  // Its dispensings on or before `on` (what was known then), and the latest of them.
+  int ItemsBy(Date on) const;
+  std::optional<Date> LastBy(Date on) const;
 };
 
 struct Timeline {

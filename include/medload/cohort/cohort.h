@@ -17,12 +17,13 @@
 #include "medload/cohort/groups.h"
 #include "medload/cohort/shard.h"
 #include "medload/cohort/standard_population.h"
+#include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
 #include "medload/store/store.h"
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 struct CohortOptions {
   std::vector<Date> dates;               // census dates, oldest first (series.h)
@@ -40,6 +41,16 @@ struct CohortCell {
   std::vector<std::array<long, kEspBands>> counts_by_band;  // per criterion, then "any"
 };
 
+// Adds `from`'s counts into `into` (the same date and criteria; counts beyond the shorter
+// of the two lists are left as they are).
+void AddCell(CohortCell& into, const CohortCell& from);
+// Patients counted as registered on a date who had no dispensing on or before it: what a
+// practice whose data have not begun adds to a group that also holds other practices.
+struct UnseenCell {
+  long registered = 0;
+  std::array<long, kEspBands> registered_by_band{};
+};
+
 // Everything a cohort run counted; exact, so tallies of disjoint shards add up.
 struct CohortTally {
   std::vector<std::string> criteria;  // criterion keys, in option order ("any" not included)
@@ -50,13 +61,21 @@ struct CohortTally {
   std::set<uint32_t> shards;          // which of the N shards it covers
   long patients = 0;                  // patients in these shards, registered or not
   std::map<std::string, std::vector<CohortCell>> groups;  // group -> one cell per date
-  // The latest counting dispensing in the store RunCohort read (every patient, whatever
-  // the shard), for the census-date warning. Not saved with the tally nor merged.
-  std::optional<Date> latest_dispensed;
-  // Patients whose oldest dispensings the pass left out (PassFacts::capped_patients). Not
-  // saved with the tally nor merged.
+  // Data coverage: each practice's first and latest counting dispensing among every
+  // patient read, whatever the shard (PracticeOfDispensing); merged by widening.
+  PracticeSpans spans;
+  // The practices whose registered patients each group holds (registered practice codes,
+  // "" when not known), to judge a group's coverage on a date.
+  std::map<std::string, std::set<std::string>> practices;
+  // group -> practice -> per date: patients without any dispensing by then (UnseenCell),
+  // kept only for practices whose data may begin after the first census date, so that a
+  // group leaves out the practices without figures on a date.
+  std::map<std::string, std::map<std::string, std::vector<UnseenCell>>> unseen;
+  // Patients whose oldest dispensings the pass left out (PassFacts::capped_patients), among
+  // every patient read whatever the shard, and the bound. Not saved with the tally nor
+  // merged: the run that reads the store warns of them.
   long capped_patients = 0;
-  size_t history_bound = 0;  // PassFacts::history_bound
+  size_t history_bound = 0;
 
   // True when every one of the N shards is covered.
   bool complete() const { return shards.size() == shard_count; }
@@ -73,28 +92,35 @@ class CohortCounter {
   CohortCounter(const CohortOptions& options, std::map<std::string, std::string> networks,
                 std::string measure);
 
+  // Notes the patient's dispensings in the data coverage; call for EVERY patient read,
+  // in or out of the shard, before Add.
+  void See(const PatientHistory& history);
   // True when the patient belongs to the counter's shard.
   bool Wants(const PatientHistory& history) const;
-  // Counts the patient on every census date on which they are registered (registration.h),
+  // Counts the patient on every census date on which they are registered (burden/patient_facts.h),
   // calling `burden` once for each such date and never for others. Patients outside the
   // shard are ignored.
   void Add(const PatientHistory& history, const BurdenOnDate& burden);
 
   const CohortTally& tally() const { return tally_; }
-  CohortTally Take() { return std::move(tally_); }
+  // The tally, with the unseen cells of practices that turned out to have data on every
+  // census date dropped.
+  CohortTally Take();
 
  private:
   CohortCell& CellOf(const std::string& group, size_t date_index);
+  // Whether the practice's data are known to begin on or before the first census date.
+  bool Settled(const std::string& practice) const;
 
   CohortOptions options_;
   std::map<std::string, std::string> networks_;
   CohortTally tally_;
 };
 
-// One pass over the store (Store::ForEachPatient): each patient of the shard has their
+// One pass over the store (ForEachPatientTimeline): each patient of the shard has their
 // timeline built once and evaluated on every census date on which they are registered.
 // Fails with the store's Status.
-Result<CohortTally> RunCohort(const Store& store, Analysis& analysis,
+Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options);
 
 // Adds tallies of disjoint shards of the same run. Fails with Input (naming `names[i]`)

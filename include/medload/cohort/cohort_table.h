@@ -4,6 +4,7 @@
 #pragma once
 
 #include <optional>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -23,7 +24,15 @@ struct CohortRow {
   std::string group;
   long registered = 0;
   long registered_known_age = 0;    // the population the standardised rate rests on
-  std::vector<CohortValue> values;  // per key of CohortTable::keys
+  std::vector<CohortValue> values;  // per key of CohortTable::keys; all null without data
+  // The group's data coverage that day (data_coverage.h): kNoData when none of its
+  // practices' data have begun (no figures: null, never 0); else kShortHistory when any of
+  // those with figures is in its first days, kBeyondData when any is past its latest
+  // dispensing, kFull otherwise.
+  DataState data = DataState::kFull;
+  // Practices of the group left out that day because their data had not begun (their
+  // registered patients are not in `registered`). Always 0 for --by practice.
+  long practices_without_data = 0;
 };
 
 struct CohortTable {
@@ -34,6 +43,7 @@ struct CohortTable {
   GroupBy group_by = GroupBy::kPractice;
   std::string measure;
   long suppress_below = 0;
+  int history_days = 84;              // the short-history window (DataStateOn)
   bool complete = true;               // false when a merge lacked some shards
   std::string shards;                 // e.g. "1/1", "3 of 4 shards"
   std::vector<CohortRow> rows;        // by date, then group
@@ -42,12 +52,14 @@ struct CohortTable {
   std::vector<std::string> notes;
 };
 
-// Small-number suppression: a count c with 0 < c < suppress_below is withheld (null), and
-// so are its crude and standardised rates. Zero is shown. Registered counts (list sizes)
-// are shown. suppress_below <= 1 suppresses nothing.
-bool IsSuppressed(long count, long suppress_below);
+// Builds the table from a tally: rows for every date and every group seen on any date,
+// each with its data coverage on that date (`history_days`: the short-history window), and
+// one note per practice whose coverage is not full on some date.
+CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below, int history_days);
 
-// Builds the table from a tally: rows for every date and every group seen on any date.
-CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below);
+// The notes on a set of practices' data coverage over `dates`: for each practice, the
+// dates without figures, in its short-history window and beyond its data, in words.
+std::vector<std::string> CoverageNotes(const PracticeSpans& spans, const std::set<std::string>& practices,
+                                       const std::vector<Date>& dates, int history_days);
 
 }  // namespace medload

@@ -1,5 +1,5 @@
 // Writers of a finished cohort table: text (a terminal table), CSV (one line per date,
-// group and criterion, the caution first), JSON (the spec's shape plus standardised rates
+// group and criterion, the caution first), JSON (the fixed shape of docs/cohort.md plus standardised rates
 // and, when nothing is suppressed, the raw tally that `cohort --merge` adds up) and HTML
 // (an SVG trend chart per criterion and the table). They run no queries.
 #pragma once
@@ -14,7 +14,7 @@
 
 namespace medload {
 
-// The JSON document (spec section 6): {"criteria","rows":[{"date","group","registered",
+// The JSON document (docs/cohort.md, "Outputs"): {"criteria","rows":[{"date","group","registered",
 // "counts","rates_per_1000","standardised_per_1000"}],...,"caution"}; suppressed values are
 // null. `raw`, when given, is written as "tally" (TallyJson) so the output can be merged;
 // callers pass it only when nothing is suppressed, since the raw counts would undo it.
@@ -34,8 +34,5 @@ void WriteCohortHtml(std::ostream& out, const CohortTable& table);
 // census dates, with a title, axis labels and each line labelled with its group at its
 // end (so it reads without colour). Suppressed points leave a gap.
 std::string CohortTrendSvg(const CohortTable& table, size_t key);
-
-// The suppression rule and the note on secondary disclosure, in words (for every format).
-std::string SuppressionNote(long suppress_below);
 
 }  // namespace medload

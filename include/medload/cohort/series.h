@@ -22,7 +22,7 @@ std::string_view SeriesStepName(SeriesStep step);
 Date PeriodEnd(Date date, SeriesStep step);
 
 // The period ends from the period containing `from` to the period containing `to`, both
-// included, oldest first (spec section 5: each date is normalised to its period end).
+// included, oldest first (docs/cohort.md, "Census dates": each date is normalised to its period end).
 // Fails with Usage when `to` is before `from` or the series would exceed `max_dates`.
 Result<std::vector<Date>> SeriesDates(Date from, Date to, SeriesStep step,
                                       size_t max_dates = 1200);

@@ -1,5 +1,5 @@
-// The clinical-review caution that every output of the tool carries (product spec,
-// section 6), in one place so that every writer prints the same words.
+// The clinical-review caution that every output of the tool carries (docs/clinical-safety.md),
+// in one place so that every writer prints the same words.
 #pragma once
 
 #include <string_view>

@@ -44,6 +44,16 @@ enum class DateOrder { kIso, kDmy, kMdy };
 // leap years by the Gregorian rule) and 1800 <= year <= 2200.
 bool IsValidCivil(int year, int month, int day);
 
+// A date's calendar fields.
+struct CivilDate {
+  int year;
+  int month;
+  int day;
+};
+
+// The calendar fields of `date` in one step (what year(), month() and day() give).
+CivilDate ToCivil(Date date);
+
 // Parses `text` in the given order. ISO accepts YYYY-MM-DD (and YYYYMMDD); dmy and mdy
 // accept '/', '-' or '.' separators and a four-digit year. A trailing time of day in an
 // ISO date-time (`2024-03-01T10:00:00Z`) is ignored. Returns nullopt for anything that is

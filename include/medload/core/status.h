@@ -1,6 +1,7 @@
 // Status and Result<T>: expected failures (a bad row, a missing file, a bad table) as
 // values. Exceptions are for programming errors only; adapters catch library exceptions
-// and return a Status with context. `main` maps a Status's code to the exit code.
+// and return a Status with context. A code says what kind of failure it is; the command
+// line, not the library, decides the exit code for it.
 #pragma once
 
 #include <string>
@@ -9,12 +10,12 @@
 
 namespace medload {
 
-// What kind of failure; the command line maps each to an exit code (spec section 4).
+// What kind of failure (src/cli/main.cpp maps each to an exit code).
 enum class StatusCode {
-  kOk = 0,
-  kUsage = 1,         // a bad option or argument
-  kInput = 2,         // a file missing, unreadable or malformed; a bad config or table
-  kRejected = 3,      // too many rows rejected: the import was rolled back
+  kOk,
+  kUsage,     // a bad option, argument or setting
+  kInput,     // a file missing, unreadable or malformed; a bad config or table
+  kRejected,  // too many rows rejected: the import was rolled back
 };
 
 class [[nodiscard]] Status {
@@ -30,8 +31,6 @@ class [[nodiscard]] Status {
   bool ok() const { return code_ == StatusCode::kOk; }
   StatusCode code() const { return code_; }
   const std::string& message() const { return message_; }
-  // The exit code of the command line for this status (0, 1, 2 or 3).
-  int exit_code() const { return static_cast<int>(code_); }
 
  private:
   Status(StatusCode code, std::string message) : code_(code), message_(std::move(message)) {}

@@ -16,7 +16,10 @@ namespace medload {
 // repeat.when / repeat.timeOfDay entries per day, else a timing.code (BID, TID, ...).
 // As needed: asNeededBoolean true or an asNeededCodeableConcept; then maxDosePerPeriod
 // (numerator / denominator, per day) is the units per day when given. When the
-// structure lacks a dose or a frequency, `text` is read with ReadDosageText instead.
+// structure lacks a dose or a frequency, `text` is read with ReadDosageText instead;
+// when that gives no units per day either and the timing gives a frequency but there is
+// no dose, the result is that many administrations a day in unit kAdministrationUnit
+// (understanding kPartial). A dose unit this module does not know stays as written.
 // Never throws: a value of the wrong JSON type is ignored and named in `note`; a reading
 // with nothing usable has understanding kUnknown (kEmpty for an empty object).
 DosageReading ReadFhirDosage(const nlohmann::json& dosage);

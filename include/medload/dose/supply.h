@@ -1,4 +1,4 @@
-// Days of supply of one dispensing, by the first rule that applies (spec section 5):
+// Days of supply of one dispensing, by the first rule that applies (docs/dosage-text.md):
 // the record's days supply, the dosage's units per day, the product default, the
 // default; then the cap. It does not build coverages or episodes from the result.
 #pragma once
@@ -42,13 +42,16 @@ struct Supply {
 
 // The dosage's units per day in units of the quantity: the same unit (or one side not
 // stated): as is; units that convert (5ml spoonful -> ml, g -> mg, tablet ~ capsule):
-// converted; a dosage in mg with mg_per_unit: mg per day / mg_per_unit. Otherwise, or
-// when the dosage has no units per day > 0, nullopt, with the reason in `*why` if given.
+// converted; a dosage in mg (or g, micrograms) with mg_per_unit: mg per day /
+// mg_per_unit; administrations a day (kAdministrationUnit, a frequency without a dose):
+// one unit each when the quantity's unit is a single-unit form (IsSingleUnitForm).
+// Otherwise, or when the dosage has no units per day > 0, nullopt, with the reason in
+// `*why` if given.
 std::optional<double> UnitsPerDayOfQuantity(const DosageReading& dosage,
                                             const QuantityUnit& quantity_unit,
                                             std::string* why = nullptr);
 
-// Spec section 5, first rule that applies: the record's days supply (> 0);
+// docs/dosage-text.md, first rule that applies: the record's days supply (> 0);
 // ceil(quantity / units per day) where the dosage gives units per day > 0 in a unit
 // that relates to the quantity's (see UnitsPerDayOfQuantity) and quantity > 0; the
 // product default (> 0); options.default_supply_days. Then min(days, max_supply_days).
@@ -57,9 +60,9 @@ Supply ComputeSupply(double quantity, std::optional<int> record_days_supply,
                      const DosageReading& dosage, std::optional<int> product_default_days,
                      const SupplyOptions& options, const QuantityUnit& quantity_unit = {});
 
-// The dosage of a dispensing record: its structured FHIR units per day when the reader
-// kept one (unit: the record's), else ReadDosageText of its text (through `cache` when
-// given); as-needed when either says so.
+// The dosage of a dispensing record: its structured FHIR amount a day when the reader
+// kept one (unit: structured_unit, empty meaning the record's own unit), else
+// ReadDosageText of its text (through `cache` when given); as-needed when either says so.
 DosageReading ReadRecordDosage(const DispensingRecord& record, DosageTextCache* cache = nullptr);
 
 }  // namespace medload

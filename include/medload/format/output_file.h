@@ -11,7 +11,7 @@
 #include <string_view>
 
 #include "medload/core/status.h"
-#include "medload/io/private_file.h"
+#include "medload/format/private_file.h"
 
 namespace medload {
 

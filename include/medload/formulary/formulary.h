@@ -53,6 +53,16 @@ struct DbiDose {
   int line = 0;
 };
 
+// One row of dbi_classes.csv: a class whose members have the sedative or anticholinergic
+// effects the Drug Burden Index counts, so that a member without a dbi.csv row is listed
+// as incomplete rather than adding a silent 0.
+struct DbiClass {
+  std::string class_name;
+  DbiEffect effect = DbiEffect::kBoth;
+  std::string source;
+  int line = 0;
+};
+
 // One row of products.csv: a named product the ingredient words cannot resolve alone
 // (British compound names, brands, packs that imply a supply).
 struct NamedProduct {
@@ -90,6 +100,7 @@ struct FormularyTables {
   std::vector<Ingredient> ingredients;
   std::vector<Scale> scales;               // sorted by name
   std::vector<DbiDose> dbi;
+  std::vector<DbiClass> dbi_classes;
   std::vector<NamedProduct> products;
   std::vector<ProductCode> codes;
   std::vector<NonMedicineTerm> non_medicines;
@@ -118,8 +129,6 @@ class Formulary {
   bool HasClass(std::string_view ingredient, std::string_view class_name) const;
   // True if some ingredient carries the class.
   bool IsKnownClass(std::string_view class_name) const;
-  // Every class carried by some ingredient, sorted.
-  std::vector<std::string> ClassNames() const;
   // Canonical names of the ingredients in a class, in table order.
   std::vector<std::string> IngredientsInClass(std::string_view class_name) const;
 

@@ -10,7 +10,7 @@
 
 namespace medload {
 
-// The route a product is given by. Names as in the product specification's list (oral,
+// The route a product is given by. Names as in docs/formulary.md (oral,
 // transdermal, injection, rectal, sublingual/buccal, inhaled, nasal, eye, ear, skin,
 // vaginal, other); kUnknown when neither the product table nor the description says.
 enum class Route {

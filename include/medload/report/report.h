@@ -1,4 +1,4 @@
-// The batch report of a care network (spec section 8): one pass over the store builds a
+// The batch report of a care network (docs/report.md): one pass over the store builds a
 // finished model (monthly counts per practice and for the network, every practice's
 // worklist on the census date, the previous report's counts), and writers turn it into the
 // report folder. It does not parse the config (report_config.h) or format pages itself
@@ -12,13 +12,14 @@
 #include <vector>
 
 #include "medload/cohort/cohort.h"
+#include "medload/core/data_coverage.h"
 #include "medload/report/report_config.h"
 #include "medload/review/worklist.h"
 #include "medload/store/store.h"
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 
 // One practice (or the network total) over the census dates.
 struct ReportSeries {
@@ -27,12 +28,21 @@ struct ReportSeries {
   std::optional<long> list_size;          // from the practices table, if given
   std::vector<long> registered;           // per census date
   std::vector<std::vector<long>> counts;  // [key][date]: criteria in config order, then "any"
+  // Data coverage per census date (data_coverage.h). A practice without figures on a date
+  // adds nothing to the network total that day; the total's own state is kNoData when no
+  // practice has figures, else kShortHistory / kBeyondData when any practice counted is.
+  std::vector<DataState> data;
+  // Practices left out of the network total on each date for want of data (total only).
+  std::vector<long> practices_without_data;
 };
 
 // The counts of the previous report run (dated before this census date), per practice.
 struct PreviousReport {
   Date on;
   std::map<std::string, std::vector<long>> counts;  // practice -> per key
+  // practice -> its data coverage then; practices missing here (reports saved before
+  // coverage was kept) count as comparable.
+  std::map<std::string, DataState> data;
 };
 
 struct ReportModel {
@@ -48,9 +58,12 @@ struct ReportModel {
   StoreSummary data;                        // provenance
   std::string formulary_checksum;
   std::string measure;                      // the measure options in words
+  int history_days = 84;                    // the short-history window (HistoryDays)
   long patients_seen = 0;                   // patients visited in the pass
-  long capped_patients = 0;                 // of them, histories cut to their latest
-  size_t history_bound = 0;                 // Store::history_bound dispensings
+  // Of them, by registered practice ("" when none), those whose histories were cut to
+  // their latest `history_bound` dispensings (Store::history_bound).
+  std::map<std::string, long> capped_patients;
+  size_t history_bound = 0;
 };
 
 // Called every so many patients with the number visited so far (progress on stderr).
@@ -66,7 +79,7 @@ Result<Date> LatestCensusDate(const StoreSummary& summary);
 // practice in config.practices that the store does not know, or an unknown rule id.
 // `pseudonymise` (may be empty) replaces patient identifiers in the worklists after
 // ranking (review/pseudonym.h).
-Result<ReportModel> BuildReportModel(const Store& store, Analysis& analysis,
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis,
                                      const ReportConfig& config,
                                      const std::function<std::string(const std::string&)>& pseudonymise,
                                      const ReportProgress& progress);
@@ -79,11 +92,18 @@ nlohmann::json ReportRunPayload(const ReportModel& model);
 // Reads the previous report's payload (as saved above). nullopt when malformed.
 std::optional<PreviousReport> ParsePreviousReport(const std::string& payload);
 
-// The change of `now` against `before`, when both are known.
+// A change in patients between two dates.
 struct Change {
   std::optional<long> patients;  // now - before
   std::optional<double> percent; // 100 * (now - before) / before; absent when before = 0
 };
+
+// The change of a series' count for `key` on the last census date against `back` dates
+// earlier: empty when that date is outside the series, or either date is not Comparable
+// (no figures, or short history), or either count is withheld (below `suppress_below`).
+Change SeriesChange(const ReportSeries& series, size_t key, size_t back, long suppress_below);
+
+// The change of `now` against `before`, when both are known.
 Change ChangeOf(std::optional<long> now, std::optional<long> before);
 
 }  // namespace medload

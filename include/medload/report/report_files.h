@@ -18,9 +18,6 @@ namespace medload {
 // Returns Status::Input naming the text when the result would be empty, "." or "..".
 Result<std::string> SafeFileStem(std::string_view text);
 
-// The first `digits` hex digits of the SHA-256 (FIPS 180-4) of `text` (at most 64).
-std::string HashHex(std::string_view text, size_t digits);
-
 // The report's output folder: private to the user running medload. Practice pages and
 // worklists name patients, so the whole folder is: created with mode 0700 whatever the
 // umask, every file in it 0600.

@@ -23,12 +23,15 @@ struct PracticeFiles {
   std::string digest;    // "digests/<stem>.eml"
 };
 
-// Warnings about the whole report, plain sentences: a census date after the latest
-// dispensing loaded (CensusBeyondDataNote). Empty when there is nothing to warn of.
-std::vector<std::string> ReportWarnings(const ReportModel& model);
+// Warnings about the report, plain sentences: each practice's census dates without figures,
+// in its short-history window or beyond its data (CoverageNotes), and the patients whose
+// histories the store's bound cut (CappedHistoriesNote); of practice `*only` when given.
+// Empty when there is nothing to warn of.
+std::vector<std::string> ReportWarnings(const ReportModel& model, const std::string* only = nullptr);
 
 // The worklist of practice `code` as the report writes it (page and CSV): the model's
-// list with config.suppress_below applied to its meeting count and ReportWarnings as notes.
+// list with config.suppress_below applied to its meeting count and the practice's
+// ReportWarnings as notes.
 // REQUIRES: model.worklists has `code`.
 Worklist ReportWorklist(const ReportModel& model, const std::string& code);
 

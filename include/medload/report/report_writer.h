@@ -14,7 +14,7 @@
 
 namespace medload {
 
-class Analysis;
+class RunContext;
 class Store;
 
 struct ReportOutcome {
@@ -46,10 +46,7 @@ struct ReportRunOptions {
 // The whole report: builds the model (one pass), writes the folder, and saves this run's
 // counts in the store so that the next report can say what changed "since the last
 // report" (a re-run on the same census date replaces it).
-Result<ReportOutcome> RunReport(Store& store, Analysis& analysis, const ReportConfig& config,
+Result<ReportOutcome> RunReport(Store& store, RunContext& analysis, const ReportConfig& config,
                                 const ReportRunOptions& options);
-
-// The current UTC time as "YYYY-MM-DDTHH:MM:SSZ".
-std::string UtcNow();
 
 }  // namespace medload

@@ -27,7 +27,4 @@ class Pseudonymiser {
   std::string key_;
 };
 
-// The full HMAC-SHA-256 of `message` under `key`, as 64 lower-case hex digits.
-std::string HmacSha256Hex(std::string_view key, std::string_view message);
-
 }  // namespace medload

@@ -3,12 +3,14 @@
 // readable reasons. It streams the store once; it does not write any output format.
 #pragma once
 
+#include <map>
 #include <optional>
 #include <string>
 #include <vector>
 
-#include "medload/burden/analysis.h"
+#include "medload/burden/run_context.h"
 #include "medload/burden/criteria.h"
+#include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
 
 namespace medload {
@@ -55,11 +57,11 @@ struct Worklist {
   long excluded_age_unknown = 0;
   long excluded_age_unknown_meeting = 0;
   bool has_previous_run = false;          // "new" flags compare with an earlier run
-  // The latest counting dispensing in the store (BuildWorklist's pass reads every patient),
-  // for CensusBeyondDataNote; none when the store holds no dispensing.
-  std::optional<Date> latest_dispensed;
-  // Warnings about the whole list, set by the caller (e.g. a census date after the latest
-  // dispensing loaded, CensusBeyondDataNote); every writer prints them.
+  // The data coverage on the census date of each practice with patients registered that
+  // day (after the practice filter), from the pass over every patient (data_coverage.h).
+  std::map<std::string, DataState> practice_data;
+  // Warnings about the whole list: BuildWorklist adds one per practice whose data are not
+  // full on the date (DataStateNote); callers may add more. Every writer prints them.
   std::vector<std::string> notes;
   // The report's small-number threshold: when above 1, a meeting count from 1 to N-1 is
   // written "fewer than N" in the summary and notes (the rows still name the patients:
@@ -67,7 +69,7 @@ struct Worklist {
   long suppress_below = 0;
 };
 
-// The fixed review order (spec section 6): more rules fired first, then higher acb, more
+// The fixed review order (docs/measures.md, "Review worklist"): more rules fired first, then higher acb, more
 // items, higher dbi, older age (unknown last), then patient id ascending.
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 
@@ -78,7 +80,7 @@ std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& b
 
 // Streams the store once and builds the ranked list. Status::Usage when no criterion is
 // given; Status::Input for a rule id the tables do not have or a storage error.
-Result<Worklist> BuildWorklist(Store& store, Analysis& analysis, const WorklistOptions& options);
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options);
 
 // Marks `is_new` against the previous saved run (dated before this one) with the same
 // criteria and filters, and saves this one (the store keeps runs; a re-run on the same

@@ -1,7 +1,7 @@
 // The import contract: one file (CSV or FHIR NDJSON) into the store in one transaction,
 // every row imported, recognised as a duplicate or rejected with its line and reason, and
 // the whole file rolled back when too many rows are rejected. It does not print anything;
-// the summary it returns is written by io/import_summary.h.
+// the summary it returns is written by store/import_summary.h.
 #pragma once
 
 #include <functional>
@@ -11,8 +11,8 @@
 
 #include "medload/core/date.h"
 #include "medload/core/status.h"
-#include "medload/io/csv_records.h"
-#include "medload/io/import_summary.h"
+#include "medload/input/csv_records.h"
+#include "medload/store/import_summary.h"
 #include "medload/store/store.h"
 
 namespace medload {

@@ -5,6 +5,7 @@
 #pragma once
 
 #include <functional>
+#include <map>
 #include <memory>
 #include <optional>
 #include <string>
@@ -12,6 +13,7 @@
 #include <utility>
 #include <vector>
 
+#include "medload/core/data_coverage.h"
 #include "medload/core/records.h"
 #include "medload/core/status.h"
 
@@ -20,7 +22,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 4;
+inline constexpr int kStoreSchemaVersion = 5;
 
 // The most counting dispensings of one patient that reads hold (the latest ones): memory
 // stays bounded whatever one id's history holds (a feed that gives every item one id, a
@@ -50,15 +52,6 @@ struct PatientHistory {
   std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
                                                // (the latest max_dispensings_per_patient)
   long dropped = 0;  // older counting dispensings left out by that bound
-};
-
-// One distinct product as dispensed, with how often and to how many patients.
-struct ProductCount {
-  std::string product;
-  std::string code;
-  std::string code_system;
-  long items = 0;     // counting dispensings
-  long patients = 0;  // distinct patients among them
 };
 
 // Provenance figures for a run: the span of the data and the size of each table.
@@ -110,7 +103,7 @@ class StoreSnapshot {
   sqlite3* db_ = nullptr;
 };
 
-// Reads every patient in turn, in the order and with the content ForEachPatient gives,
+// Reads every patient in turn, in the order and with the content Store::Patients gives,
 // into a history the caller owns: its string and vector buffers are reused from one
 // patient to the next. The Store must outlive the cursor.
 class PatientCursor {
@@ -167,16 +160,16 @@ class Store {
   // the same bound (the latest ones); `dropped` (may be null) as above.
   Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id,
                                                          long* dropped = nullptr) const;
+  // How many of the patient's dispensings up to and including `on` have a status that
+  // does not count (anything but "completed"), by status; empty when there are none.
+  Result<std::map<std::string, long>> NotCountingOf(std::string_view patient_id, Date on) const;
   // The patient's registry row, or nullopt when none was imported.
   Result<std::optional<PatientRecord>> PatientOf(std::string_view patient_id) const;
 
-  // Calls `visit` once for every patient that has a registry row or a counting dispensing,
-  // in patient_id order (bytewise), with the registry row and all counting dispensings in
-  // date order. One ordered pass over the tables; memory holds one patient at a time. The
-  // history passed to `visit` is valid during the call only. `visit` returns false to stop
-  // early (the result is then Ok). Fails with Input on a storage error.
-  Status ForEachPatient(const std::function<bool(const PatientHistory&)>& visit) const;
-  // The same pass as a cursor (see PatientCursor). Fails with Input on a storage error.
+  // Every patient that has a registry row or a counting dispensing, in patient_id order
+  // (bytewise), with the registry row and all counting dispensings in date order, as a
+  // cursor (see PatientCursor): one ordered pass over the tables, memory for one patient
+  // at a time. Fails with Input on a storage error.
   Result<PatientCursor> Patients() const;
   // The same pass over the patients of one range only. Records a history no longer needs
   // wait in `spare` (the cursor's own pool if null) with their string buffers, for reuse:
@@ -216,9 +209,10 @@ class Store {
   Result<std::vector<ProductCount>> ProductCounts() const;
   // Date span and row counts, for run provenance.
   Result<StoreSummary> Summary() const;
-  // The date of the latest counting dispensing (Summary().latest_dispensed alone, without
-  // counting every table), or nullopt when there is none.
-  Result<std::optional<Date>> LatestDispensed() const;
+  // Each practice's first and latest counting dispensing (data coverage): a dispensing
+  // belongs to the practice it names, else to its patient's registry practice, else to ""
+  // (as the patient pass gathers them, PassFacts::practice_spans). One walk of the table.
+  Result<PracticeSpans> PracticeDataSpans() const;
   // Every import run, oldest first.
   Result<std::vector<ImportRunRecord>> ImportRuns() const;
 

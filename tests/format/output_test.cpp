@@ -1,0 +1,91 @@
+#include "medload/format/output.h"
+
+#include <doctest/doctest.h>
+
+#include <sstream>
+
+#include "medload/core/caution.h"
+
+namespace medload {
+
+TEST_SUITE("format/output") {
+
+TEST_CASE("CSV cells are quoted when they hold separators, quotes or line breaks") {
+  // Source: RFC 4180, section 2 (fields with commas, quotes or line breaks are quoted,
+  // and a quote inside is doubled).
+  CHECK(CsvCell("plain") == "plain");
+  CHECK(CsvCell("a,b") == "\"a,b\"");
+  CHECK(CsvCell("say \"hi\"") == "\"say \"\"hi\"\"\"");
+  CHECK(CsvCell("two\nlines") == "\"two\nlines\"");
+  CHECK(CsvRow({"a", "b,c", ""}) == "a,\"b,c\",\n");
+}
+
+TEST_CASE("CSV cells that a spreadsheet would run as a formula are neutralised") {
+  // Source: OWASP, "CSV Injection": prefix cells starting with = + - @ tab or CR.
+  CHECK(CsvCell("=HYPERLINK(\"x\")") == "\"'=HYPERLINK(\"\"x\"\")\"");
+  CHECK(CsvCell("+1+2") == "'+1+2");
+  CHECK(CsvCell("@SUM(A1)") == "'@SUM(A1)");
+  CHECK(CsvCell("-cmd") == "'-cmd");
+  CHECK(CsvCell("-1.5") == "-1.5");  // a plain number stays a number
+  CHECK(CsvCell("12") == "12");
+}
+
+TEST_CASE("HTML escaping covers text and attribute contexts") {
+  CHECK(EscapeHtml("<script>alert('x')</script> & \"q\"") ==
+        "&lt;script&gt;alert(&#39;x&#39;)&lt;/script&gt; &amp; &quot;q&quot;");
+}
+
+TEST_CASE("HTML escaping shows control characters and bidi controls as visible escapes") {
+  CHECK(EscapeHtml("Invented \x1b[31m<Net>") == "Invented \\x1b[31m&lt;Net&gt;");
+  CHECK(EscapeHtml("P\xE2\x80\xAE" "1") == "P\\u202E1");  // U+202E (Unicode Standard Annex #9)
+  CHECK(EscapeHtml("two\nlines") == "two\nlines");
+}
+
+TEST_CASE("an HTML page opens with the caution as a banner and escapes its title") {
+  std::ostringstream out;
+  WriteHtmlStart(out, "List <A&B>");
+  WriteHtmlTable(out, {"name", "n"}, {{"<b>", "3"}});
+  WriteHtmlEnd(out);
+  const std::string html = out.str();
+  CHECK(html.find("<title>List &lt;A&amp;B&gt;</title>") != std::string::npos);
+  CHECK(html.find("class=\"caution\"") < html.find("<h1>"));
+  CHECK(html.find("<td>&lt;b&gt;</td>") != std::string::npos);
+  CHECK(html.find("<td class=\"num\">3</td>") != std::string::npos);
+  CHECK(html.find("<b>") == std::string::npos);
+  CHECK(html.find("http") == std::string::npos);  // self-contained: nothing fetched
+}
+
+TEST_CASE("text tables pad columns and right-align numbers") {
+  std::ostringstream out;
+  WriteTextTable(out, {"name", "items"}, {{"amlodipine", "1"}, {"é", "12"}});
+  CHECK(out.str() ==
+        "name        items\n"
+        "----------  -----\n"
+        "amlodipine      1\n"
+        "é              12\n");
+}
+
+TEST_CASE("the text caution footer is wrapped and complete") {
+  std::ostringstream out;
+  WriteTextCaution(out);
+  std::string joined;
+  std::istringstream lines(out.str());
+  for (std::string line; std::getline(lines, line);) {
+    CHECK(line.size() <= 78);
+    if (line.empty()) continue;
+    if (!joined.empty()) joined += ' ';
+    joined += line;
+  }
+  CHECK(joined == kCaution);
+}
+
+TEST_CASE("numbers print with trailing zeros removed") {
+  CHECK(FormatNumber(1.5) == "1.5");
+  CHECK(FormatNumber(2.0) == "2");
+  CHECK(FormatNumber(0.90909, 2) == "0.91");
+  CHECK(FormatNumber(-0.0001, 2) == "0");
+}
+
+}  // TEST_SUITE
+
+}  // namespace medload
