@@ -2,7 +2,7 @@
 // characters (C0, DEL, C1) and the Unicode characters that change the direction of text
 // (bidi controls such as U+202E) are written as visible escapes (\x1b, \u202E), so that
 // no escape sequence, carriage return or reordering reaches the reader. It does not
-// escape for HTML, CSV or JSON (see io/output.h and io/json_text.h).
+// escape for HTML, CSV or JSON (see format/output.h and format/json_text.h).
 #pragma once
 
 #include <cstddef>
