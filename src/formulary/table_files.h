@@ -12,7 +12,7 @@
 namespace medload::formulary_internal {
 
 // The files every formulary folder must have, relative to it (further scales in
-// anticholinergic/ are optional).
+// anticholinergic/, routes.csv and dictionary.csv are optional).
 const std::vector<std::string_view>& RequiredTableFiles();
 
 // Every fault goes to `faults` as "file:line: fault" with file relative to `dir`; a

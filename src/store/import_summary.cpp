@@ -2,8 +2,10 @@
 
 #include <optional>
 #include <ostream>
+#include <utility>
 
 #include "medload/core/caution.h"
+#include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"
 
@@ -32,6 +34,21 @@ std::string JoinLines(const std::vector<std::string>& lines) {
   return text;
 }
 
+// "3 item(s) not recognised (not counted), 1 recognised only in part": the flagged
+// products' items by match kind, in that fixed order.
+std::string ProductFlagText(const std::map<std::string, long>& flags) {
+  static const std::pair<const char*, const char*> kKinds[] = {
+      {"unmatched", " not recognised (not counted)"},
+      {"partial", " recognised only in part"},
+      {"approximate", " read from a close spelling"}};
+  std::vector<std::string> parts;
+  for (const auto& [kind, said] : kKinds) {
+    const auto it = flags.find(kind);
+    if (it != flags.end() && it->second > 0) parts.push_back(std::to_string(it->second) + " item(s)" + said);
+  }
+  return Join(parts, ", ");
+}
+
 nlohmann::ordered_json FileJson(const ImportSummary& summary) {
   nlohmann::ordered_json json = {
       {"file", summary.file},
@@ -58,6 +75,7 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
     json["not_in_registry"] = summary.not_in_registry;
     json["not_in_registry_patients"] = summary.not_in_registry_patients;
     json["not_in_registry_examples"] = summary.not_in_registry_examples;
+    json["product_flags"] = summary.product_flags;
   }
   if (summary.kind == "dispensing" && summary.format == "fhir") {
     json["patients"] = summary.patients;
@@ -118,6 +136,10 @@ std::vector<std::string> DetailLines(const ImportSummary& summary) {
     lines.push_back(summary.file + ": stored but not counted in measures (status): " +
                     JoinCounts(summary.not_counted, " ", ", "));
   }
+  if (!summary.product_flags.empty()) {
+    lines.push_back(summary.file + ": products to check (medload formulary unmatched lists them): " +
+                    ProductFlagText(summary.product_flags));
+  }
   if (summary.patients > 0) {
     lines.push_back(summary.file + ": " + std::to_string(summary.patients) +
                     " of the rows read were Patient resources (registry rows)");
@@ -166,6 +188,7 @@ void ImportSummary::Add(const ImportSummary& other) {
   not_in_registry_patients += other.not_in_registry_patients;
   for (const auto& [key, count] : other.reasons) reasons[key] += count;
   for (const auto& [key, count] : other.not_counted) not_counted[key] += count;
+  for (const auto& [key, count] : other.product_flags) product_flags[key] += count;
   rolled_back = rolled_back || other.rolled_back;
 }
 
@@ -206,6 +229,7 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"updated", total.updated},
       {"not_counted", total.not_counted},
       {"not_in_registry", total.not_in_registry},
+      {"product_flags", total.product_flags},
       {"rolled_back", total.rolled_back},
   };
   if (files.size() == 1) json["file"] = files.front().file;
@@ -239,7 +263,7 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
   WriteCsvCaution(out);
   out << CsvRow({"file", "kind", "format", "lines", "blank_lines", "row_lines", "read", "imported",
                  "duplicates", "rejected", "stored", "updated", "rolled_back", "reasons", "not_counted",
-                 "not_in_registry", "not_in_registry_examples"});
+                 "not_in_registry", "not_in_registry_examples", "product_flags"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
@@ -250,7 +274,7 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
                    std::to_string(Stored(file)), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
                    JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
-                   JoinLines(file.not_in_registry_examples)});
+                   JoinLines(file.not_in_registry_examples), JoinCounts(file.product_flags, "=", ";")});
   }
 }
 

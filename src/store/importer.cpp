@@ -218,6 +218,7 @@ class Session : public RowSink {
     }
     Count(outcome);
     if (outcome == WriteOutcome::kDuplicate) return Status::Ok();
+    if (options_.stored_dispensing) options_.stored_dispensing(record);
     return registry_.Note(record.patient_id, line);
   }
 

@@ -312,6 +312,31 @@ TEST_CASE("non-medicines never count and unmatched products are reported") {
   CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80).items == 0);
 }
 
+TEST_CASE("a product recognised in part or from a close spelling counts its known ingredients and is listed") {
+  Fixture f;
+  ResolvedProduct partial = Product({{"codeine", 30.0, {}}});
+  partial.match = MatchKind::kPartial;
+  partial.unknown = {"frobazine"};
+  f.products["frobazine and codeine 10mg/30mg tablets"] = partial;
+  ResolvedProduct approximate = Product({{"oxybutynin", 5.0, {}}});
+  approximate.match = MatchKind::kApproximate;
+  approximate.spellings = {{"oxybutinin", "oxybutynin"}};
+  f.products["oxybutinin 5mg tabs"] = approximate;
+  const Timeline timeline = f.Build({Rx("frobazine and codeine 10mg/30mg tablets", D(2024, 1, 1), 28, 28),
+                                     Rx("oxybutinin 5mg tabs", D(2024, 1, 2), 28, 28)});
+  CHECK(timeline.unmatched.empty());
+  REQUIRE(timeline.flagged.size() == 2);
+  CHECK(timeline.flagged[0].product == "frobazine and codeine 10mg/30mg tablets");
+  CHECK(timeline.flagged[0].match == MatchKind::kPartial);
+  CHECK(timeline.flagged[0].detail == "not in the formulary: frobazine");
+  CHECK(timeline.flagged[1].match == MatchKind::kApproximate);
+  CHECK(timeline.flagged[1].detail == "\"oxybutinin\" read as oxybutynin");
+  // Both count: codeine (ACB 1) and oxybutynin (ACB 3; Boustani et al. 2008).
+  const Burden burden = EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80);
+  CHECK(burden.items == 2);
+  CHECK(burden.acb == 4);
+}
+
 TEST_CASE("dispenses whose status does not count are kept out") {
   Fixture f;
   auto record = Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28);

@@ -23,6 +23,14 @@ Timeline LateRefill() {
 }
 
 
+// A product nothing recognised, dispensed `items` times on `on`.
+UnmatchedProduct Unrecognised(const std::string& name, size_t items, Date on) {
+  UnmatchedProduct product;
+  product.product = name;
+  product.dispensed.assign(items, on);
+  return product;
+}
+
 // A timeline of one medicine and products nothing recognised: 10,000 dispensings of one,
 // and 25 more products of two dispensings each.
 Timeline WithUnrecognised() {
@@ -35,9 +43,9 @@ Timeline WithUnrecognised() {
   episode.end = Date::FromCivil(2024, 2, 27);
   medicine.episodes.push_back(episode);
   timeline.medicines.push_back(medicine);
-  timeline.unmatched.push_back({"Zelquorin 5mg tablets", "", std::vector<Date>(10000, Date::FromCivil(2024, 2, 1))});
+  timeline.unmatched.push_back(Unrecognised("Zelquorin 5mg tablets", 10000, Date::FromCivil(2024, 2, 1)));
   for (int i = 0; i < 25; ++i) {
-    timeline.unmatched.push_back({"Invented product " + std::to_string(i), "", std::vector<Date>(2, Date::FromCivil(2024, 1, 5))});
+    timeline.unmatched.push_back(Unrecognised("Invented product " + std::to_string(i), 2, Date::FromCivil(2024, 1, 5)));
   }
   timeline.non_medicine_items = 3;
   return timeline;

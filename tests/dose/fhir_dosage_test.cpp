@@ -222,7 +222,7 @@ TEST_CASE("odd JSON values give an empty or unknown reading") {
   CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"maxDosePerPeriod": {"numerator": 5}})")));
 }
 
-TEST_CASE("concurrent Dosage elements add up and sequential ones take the highest") {
+TEST_CASE("concurrent Dosage elements add up and sequential ones are stages in order") {
   // Source: HL7 FHIR R4 Dosage.sequence: the same sequence number means concurrent.
   json morning = Dosage(2, "tablet", 1, 1, "d");
   json night = Dosage(1, "tablet", 1, 1, "d");
@@ -234,10 +234,33 @@ TEST_CASE("concurrent Dosage elements add up and sequential ones take the highes
   night["sequence"] = 2;
   const DosageReading sequential = ReadFhirDosageList(json::array({night, morning}));
   REQUIRE(sequential.units_per_day);
-  CHECK(*sequential.units_per_day == doctest::Approx(2));
-  CHECK(sequential.note == "the dose changes: the highest daily amount is used");
+  CHECK(*sequential.units_per_day == doctest::Approx(2));  // sequence 1 comes first
+  CHECK(sequential.stages.empty());
+  CHECK(sequential.note == "a sequence has no boundsDuration: its dose is taken to continue");
   CHECK(ReadFhirDosageList(json::array()).understanding == Understanding::kEmpty);
   CHECK(ReadFhirDosageList(json("text")).understanding == Understanding::kEmpty);
+}
+
+TEST_CASE("sequences with a bounds duration are the stages of a taper, never its highest") {
+  // Source: HL7 FHIR R4 Timing.repeat.boundsDuration: how long the sequence lasts.
+  json first = Dosage(3, "tablet", 1, 1, "d");
+  json second = Dosage(2, "tablet", 1, 1, "d");
+  json third = Dosage(1, "tablet", 1, 1, "d");
+  first["sequence"] = 1;
+  second["sequence"] = 2;
+  third["sequence"] = 3;
+  first["timing"]["repeat"]["boundsDuration"] = {{"value", 1}, {"unit", "week"}, {"code", "wk"}};
+  second["timing"]["repeat"]["boundsDuration"] = {{"value", 7}, {"code", "d"}};
+  const DosageReading taper = ReadFhirDosageList(json::array({third, second, first}));
+  REQUIRE(taper.units_per_day);
+  CHECK(*taper.units_per_day == doctest::Approx(3));
+  REQUIRE(taper.stages.size() == 3);
+  CHECK(taper.stages[0].days == 7);
+  CHECK(taper.stages[1].days == 7);
+  CHECK_FALSE(taper.stages[2].days);
+  CHECK(UnitsPerDayOnDay(taper, 7) == doctest::Approx(2));
+  CHECK(UnitsPerDayOnDay(taper, 14) == doctest::Approx(1));
+  CHECK(taper.note == "the dose changes: read in 3 stages, the first one's units per day shown");
 }
 
 TEST_CASE("a dose and frequency too large for a finite daily amount give no units per day") {

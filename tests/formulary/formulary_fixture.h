@@ -59,6 +59,7 @@ inline void WriteMinimalFormulary(const TempFolder& folder) {
   folder.Write("codes.csv", "code_system,code,product_or_ingredient,source\n");
   folder.Write("non_medicines.csv", "term,category,source\n");
   folder.Write("dbi_classes.csv", "class,effect,source\n");
+  folder.Write("brands.csv", "brand,ingredients,source\n");
   folder.Write("rules.json", "{\"rules\": []}\n");
   folder.Write("ingredients.csv",
                "ingredient,synonyms,atc,classes,source\n"

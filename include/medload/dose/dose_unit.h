@@ -32,8 +32,9 @@ inline constexpr std::string_view kAdministrationUnit = "administration";
 bool IsSingleUnitForm(std::string_view canonical);
 
 // True when amounts in the two canonical units can be divided one by the other: equal
-// names, or the pairs treated as one dose unit in practice (tablet/capsule, puff/dose).
-// Common practice: a prescriber's "tablet" for a capsule product means one dose unit.
+// names, or the pairs treated as one dose unit in practice (tablet/capsule, puff/dose,
+// spray/dose). Common practice: a prescriber's "tablet" for a capsule product means one
+// dose unit, and one spray of a metered nasal or oromucosal spray is one of its doses.
 bool SameDoseUnit(std::string_view canonical_a, std::string_view canonical_b);
 
 }  // namespace medload

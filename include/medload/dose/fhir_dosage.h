@@ -26,8 +26,10 @@ DosageReading ReadFhirDosage(const nlohmann::json& dosage);
 
 // A whole dosageInstruction array. Elements with the same `sequence` (absent counts as
 // one group) are concurrent and their units per day add up; different sequences follow
-// one another and the highest daily amount of any sequence is used (a changing dose).
-// An empty or non-array value gives understanding kEmpty.
+// one another in sequence order as the stages of a changing dose, each lasting its
+// timing.repeat.boundsDuration (a sequence without one continues and ends the stages),
+// with the first stage's units per day, as ReadDosageText does for text. An empty or
+// non-array value gives understanding kEmpty.
 DosageReading ReadFhirDosageList(const nlohmann::json& dosage_instructions);
 
 }  // namespace medload

@@ -41,6 +41,10 @@ struct ImportSummary {
   std::vector<std::string> not_in_registry_examples;
   std::map<std::string, long> reasons;      // reason key -> rejected rows
   std::map<std::string, long> not_counted;  // status -> stored dispenses that do not count
+  // Match kind ("unmatched", "partial", "approximate") -> stored counting dispensings whose
+  // product the formulary recognised so; empty when no formulary was consulted. Filled by
+  // the caller (import dispensing), which resolves the products.
+  std::map<std::string, long> product_flags;
   std::vector<std::string> examples;        // the messages of the first rejected rows
   bool rolled_back = false;  // rejected/read was above the rate: nothing was stored
   double max_reject_rate = 0.05;
