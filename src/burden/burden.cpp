@@ -141,6 +141,8 @@ std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string&
     dose.basis = DoseBasis::kQuantity;
     dose.supply_assumed = use.supply.rule == SupplyRule::kDefaultDays;
   }
+  // A dose that cannot be worked out (none, or beyond any number) is unknown: the
+  // ingredient is listed as incomplete, never a blank or infinite contribution.
   if (!(dose.dose_mg_per_day > 0) || !std::isfinite(dose.dose_mg_per_day)) return std::nullopt;
   return dose;
 }

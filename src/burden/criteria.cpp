@@ -6,6 +6,13 @@
 #include "medload/format/output.h"
 
 namespace medload {
+namespace {
+
+// The largest thresholds a criterion takes: items and acb, and dbi.
+constexpr double kMaxCountThreshold = 1000;
+constexpr double kMaxDbiThreshold = 100;
+
+}  // namespace
 
 std::string Criterion::Key() const {
   switch (kind) {
@@ -68,9 +75,14 @@ Result<Criterion> ParseCriterion(std::string_view text) {
   if (error != std::errc() || end != number.data() + number.size() || !(value >= 0)) {
     return bad("has a threshold that is not a number >= 0");
   }
-  if (criterion.kind != CriterionKind::kDbi && value != static_cast<double>(static_cast<long>(value))) {
-    return bad("needs a whole number");
+  // Past these no patient can qualify (a DBI adds under 1 a medicine; Hilmer et al. 2007),
+  // so a larger threshold (inf, 1e300) is a typing slip, not a wish for an empty list.
+  const bool dbi = criterion.kind == CriterionKind::kDbi;
+  const double most = dbi ? kMaxDbiThreshold : kMaxCountThreshold;
+  if (!(value <= most)) {
+    return bad("has a threshold above " + FormatNumber(most, 0) + ", which no patient can reach");
   }
+  if (!dbi && value != static_cast<double>(static_cast<long>(value))) return bad("needs a whole number");
   criterion.threshold = value;
   return criterion;
 }

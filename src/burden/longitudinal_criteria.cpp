@@ -34,6 +34,13 @@ Result<Criterion> ParseAtLeast(std::string_view text, std::string_view name, Cri
   else return Bad(text, "has an unknown comparison; use " + std::string(name) + "=N");
   const std::optional<double> value = Number(number);
   if (!value || !(*value >= 0)) return Bad(text, "has a threshold that is not a number >= 0");
+  // Past these no patient can qualify (a falls count is of distinct medicines; ten years of
+  // TSDDs from ten anticholinergics at ten times their minimum dose is 365,250), so a larger
+  // threshold (inf, 1e300) is a typing slip, not a wish for an empty list.
+  const double most = kind == CriterionKind::kFalls ? 1000 : 1000000;
+  if (!(*value <= most)) {
+    return Bad(text, "has a threshold above " + FormatNumber(most, 0) + ", which no patient can reach");
+  }
   if (kind == CriterionKind::kFalls && *value != static_cast<double>(static_cast<long>(*value))) {
     return Bad(text, "needs a whole number");
   }

@@ -129,6 +129,7 @@ struct Reader {
   std::vector<DispensingRecord> spare;  // records kept for reuse across its ranges
   std::optional<Date> latest_dispensed;  // among the records it read
   PracticeSpans practice_spans;          // likewise, per practice
+  long capped_patients = 0;              // histories cut by the store's bound
   std::vector<Batch> batches = std::vector<Batch>(kBatchesPerReader);
   Handover free;    // batches the visitor has finished with
   Handover filled;  // batches ready to visit, in range order
@@ -171,6 +172,7 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
         for (size_t i = 0; i < records.size(); ++i) slot.products[i] = resolutions.Resolve(records[i]);
         slot.timeline = reader.analysis->BuildTimeline(records, slot.products, reader.dosages);
         slot.matches = MatchRuleRequirements(slot.timeline, reader.analysis->tables());
+        if (slot.history.dropped > 0) ++reader.capped_patients;
         if (!slot.history.dispensings.empty()) {
           // In date order: the last is the patient's latest.
           const Date last = slot.history.dispensings.back().dispensed_on;
@@ -319,11 +321,15 @@ void StopReaders(ReaderPool& pool, Visiting& visiting) {
   for (std::thread& thread : pool.threads) thread.join();
 }
 
-// What every reader saw: the latest dispensing, each practice's span of data.
-void CollectFacts(const ReaderPool& pool, PassFacts& facts) {
+// What every reader saw: the latest dispensing, each practice's span of data, the
+// histories cut by the store's bound.
+void CollectFacts(const Store& store, const ReaderPool& pool, PassFacts& facts) {
   facts.latest_dispensed.reset();
   facts.practice_spans.clear();
+  facts.capped_patients = 0;
+  facts.history_bound = store.history_bound();
   for (const Reader& reader : pool.readers) {
+    facts.capped_patients += reader.capped_patients;
     MergeSpans(facts.practice_spans, reader.practice_spans);
     if (reader.latest_dispensed && (!facts.latest_dispensed || *facts.latest_dispensed < *reader.latest_dispensed)) {
       facts.latest_dispensed = reader.latest_dispensed;
@@ -351,8 +357,16 @@ Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const Pa
   own_snapshot->reset();
   analysis.SaveResolutions();
   if (visiting.failure) std::rethrow_exception(visiting.failure);
-  if (visiting.status.ok() && facts != nullptr) CollectFacts(pool, *facts);
+  if (visiting.status.ok() && facts != nullptr) CollectFacts(store, pool, *facts);
   return visiting.status;
+}
+
+std::optional<std::string> CappedHistoriesNote(long patients, size_t bound) {
+  if (patients <= 0) return std::nullopt;
+  return std::to_string(patients) + (patients == 1 ? " patient has" : " patients have") + " more than " +
+         std::to_string(bound) +
+         " counting dispensings: only the latest of each are read, so figures for dates before them may miss "
+         "medicines (check the source of such histories)";
 }
 
 }  // namespace medload

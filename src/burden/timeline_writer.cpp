@@ -96,7 +96,66 @@ void WriteCounts(std::ostream& out, const TimelineModel& model, const Scale& sca
   out << "\"><title>number of medicines with an episode on each day</title></polyline>\n";
 }
 
+// Products listed by name in the notes; the rest are counted.
+constexpr size_t kNotesListed = 20;
+
+long Items(const UnmatchedProduct& product) { return static_cast<long>(product.dispensed.size()); }
+
+std::string Dispensings(long count) {
+  return std::to_string(count) + (count == 1 ? " dispensing" : " dispensings");
+}
+
+void WriteSvgNotes(std::ostream& out, const std::vector<std::string>& notes, int top) {
+  for (size_t i = 0; i < notes.size(); ++i) {
+    out << "<text x=\"10\" y=\"" << top + static_cast<int>(i) * 14 << "\" font-size=\"11\" fill=\"#900\">"
+        << EscapeHtml(notes[i]) << "</text>\n";
+  }
+}
+
 }  // namespace
+
+std::vector<std::string> NotDrawnNotes(const Timeline& timeline, long dropped, size_t kept) {
+  std::vector<std::string> notes;
+  if (dropped > 0) {
+    notes.push_back("Not drawn: the oldest " + Dispensings(dropped) + " of the patient; a history is read up to its latest " +
+                    std::to_string(kept) + " dispensings.");
+  }
+  long unmatched = 0;
+  for (const UnmatchedProduct& product : timeline.unmatched) unmatched += Items(product);
+  if (unmatched > 0) {
+    notes.push_back("Not drawn: " + Dispensings(unmatched) + " of " + std::to_string(timeline.unmatched.size()) +
+                    (timeline.unmatched.size() == 1 ? " product" : " products") +
+                    " that nothing in the formulary recognises; each may be a medicine, so check them:");
+  }
+  long rest = 0;
+  for (size_t i = 0; i < timeline.unmatched.size(); ++i) {
+    const UnmatchedProduct& product = timeline.unmatched[i];
+    if (i >= kNotesListed) {
+      rest += Items(product);
+      continue;
+    }
+    const std::string name = product.product.empty() ? "code " + product.code : "\"" + product.product + "\"";
+    notes.push_back("  " + name + ": " + Dispensings(Items(product)) + ", the last on " +
+                    (product.dispensed.empty() ? std::string("?") : product.dispensed.back().ToIso()));
+  }
+  if (timeline.unmatched.size() > kNotesListed) {
+    notes.push_back("  and " + std::to_string(timeline.unmatched.size() - kNotesListed) + " more products: " +
+                    Dispensings(rest));
+  }
+  if (timeline.non_medicine_items > 0) {
+    notes.push_back("Not drawn: " + Dispensings(timeline.non_medicine_items) +
+                    " of non-medicines (dressings, appliances, test strips...).");
+  }
+  if (timeline.excluded_items > 0) {
+    notes.push_back("Not drawn: " + Dispensings(timeline.excluded_items) +
+                    " left out by --exclude-prn or --exclude-route.");
+  }
+  if (timeline.not_dispensed_items > 0) {
+    notes.push_back("Not drawn: " + Dispensings(timeline.not_dispensed_items) +
+                    " whose status does not count (cancelled, entered in error...).");
+  }
+  return notes;
+}
 
 std::vector<std::pair<Date, Date>> SuppliedSpans(const Episode& episode) {
   std::vector<std::pair<Date, Date>> spans;
@@ -130,7 +189,9 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
   const int rows = static_cast<int>(model.timeline->medicines.size());
   const int plot_top = 40;
   const int rows_bottom = plot_top + rows * kRowHeight;
-  const int height = rows_bottom + 30 + kCountHeight + 40;
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
+  const int notes_top = rows_bottom + 30 + kCountHeight + 10;
+  const int height = notes_top + static_cast<int>(notes.size()) * 14 + 30;
   const std::string title = "Medication episodes of patient " + model.patient + ", " + model.from.ToIso() +
                             " to " + model.to.ToIso();
   out << "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 " << kLabelWidth + kPlotWidth + 20 << " "
@@ -145,6 +206,7 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
     WriteRow(out, model, model.timeline->medicines[static_cast<size_t>(r)], scale, plot_top + r * kRowHeight);
   }
   WriteCounts(out, model, scale, rows_bottom + 30);
+  WriteSvgNotes(out, notes, notes_top);
   if (model.census && *model.census >= model.from && *model.census <= model.to) {
     const double x = scale.X(*model.census);
     out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << plot_top - 6 << "\" x2=\"" << FormatNumber(x, 1)
@@ -161,6 +223,12 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model) {
   WriteHtmlStart(out, "Medication timeline of patient " + model.patient);
   WriteTimelineSvg(out, model);
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
+  if (!notes.empty()) {
+    out << "<ul class=\"notes\">\n";
+    for (const std::string& note : notes) out << "<li>" << EscapeHtml(note) << "</li>\n";
+    out << "</ul>\n";
+  }
   WriteHtmlEnd(out);
 }
 
@@ -189,11 +257,18 @@ void WriteTimelineText(std::ostream& out, const TimelineModel& model) {
       << model.to.ToIso() << "\n\n";
   WriteTextTable(out, {"medicine", "start", "end", "days", "supplied", "tail or gap", "dispensings"},
                  EpisodeRows(model));
+  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
+  if (!notes.empty()) out << "\n";
+  for (const std::string& note : notes) out << note << "\n";
   WriteTextCaution(out);
 }
 
 void WriteTimelineCsv(std::ostream& out, const TimelineModel& model) {
   WriteCsvCaution(out);
+  // What is not drawn: comment lines after the caution, before the header.
+  for (const std::string& note : NotDrawnNotes(*model.timeline, model.dropped, model.records.size())) {
+    out << CsvRow({"# " + note});
+  }
   out << CsvRow({"patient", "medicine", "start", "end", "days", "supplied_days", "tail_days", "dispensings"});
   for (auto& row : EpisodeRows(model)) {
     row.insert(row.begin(), model.patient);

@@ -4,6 +4,7 @@
 #include <ostream>
 
 #include "cli/measure_flags.h"
+#include "medload/burden/patient_pass.h"
 #include "medload/burden/run_context.h"
 #include "medload/cohort/cohort.h"
 #include "medload/cohort/cohort_table.h"
@@ -85,7 +86,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   auto measure = ReadMeasureFlags(vm);
   if (!measure.ok()) return measure.status();
   AddPdcGroups(options->criteria, *measure);
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return store.status();
   auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return analysis.status();
@@ -144,7 +145,10 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   auto tally = merge ? MergeFiles((*vm)["file"].as<std::vector<std::string>>())
                      : CountFromStore(context, *vm);
   if (!tally.ok()) return fail(tally.status());
-  const CohortTable table = BuildCohortTable(*tally, suppress_below, HistoryDays(*measure));
+  CohortTable table = BuildCohortTable(*tally, suppress_below, HistoryDays(*measure));
+  if (auto capped = CappedHistoriesNote(tally->capped_patients, tally->history_bound)) {
+    table.notes.push_back(std::move(*capped));
+  }
   for (const std::string& note : table.notes) Warn(context, note);
   if (!table.complete && !context.quiet) {
     *context.err << "medload: note: only " << table.shards << " are in this result\n";

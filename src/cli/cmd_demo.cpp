@@ -70,18 +70,16 @@ Status WriteNetworkWorklist(Store& store, RunContext& analysis, const ReportConf
   options.remember_run = false;
   auto worklist = BuildWorklist(store, analysis, options);
   if (!worklist.ok()) return worklist.status();
-  // Through the report folder's writer: never through a symbolic link, and owner-only,
-  // as the worklist names patients.
+  // Through the report folder's writer: never through a symbolic link, whole, and
+  // owner-only, as the worklist names patients.
   auto folder = ReportFolder::Open(dir.string());
   if (!folder.ok()) return folder.status();
   std::ostringstream csv;
   WriteWorklistCsv(csv, *worklist);
   std::ostringstream html;
   WriteWorklistHtml(html, *worklist, config.network + ": review worklist on " + on.ToIso());
-  if (Status status = folder->WriteFile("network-worklist.csv", csv.str(), FileAccess::kOwnerOnly); !status.ok()) {
-    return status;
-  }
-  return folder->WriteFile("network-worklist.html", html.str(), FileAccess::kOwnerOnly);
+  if (Status status = folder->WriteFile("network-worklist.csv", csv.str()); !status.ok()) return status;
+  return folder->WriteFile("network-worklist.html", html.str());
 }
 
 }  // namespace

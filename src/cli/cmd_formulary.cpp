@@ -99,7 +99,7 @@ int UnmatchedCommand(Context& context, const std::vector<std::string>& args) {
   if (limit < 0) return Fail(context, Status::Usage("--limit must be 0 or more"));
   auto formulary = LoadFormulary(context.formulary_dir);
   if (!formulary.ok()) return Fail(context, formulary.status());
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return Fail(context, store.status());
   auto counts = store->ProductCounts();
   if (!counts.ok()) return Fail(context, counts.status());

@@ -4,16 +4,16 @@
 // a product the formulary does not fully recognise.
 #include <charconv>
 #include <cmath>
-#include <fstream>
 #include <map>
 #include <memory>
+#include <optional>
 #include <ostream>
 #include <set>
 #include <sys/stat.h>
 #include <unordered_map>
 
 #include "cli/options.h"
-#include "medload/format/private_file.h"
+#include "medload/format/output_file.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
 #include "medload/input/fhir_reader.h"
@@ -181,19 +181,20 @@ int RunImport(Context& context, const std::vector<std::string>& args, InputKind 
   store_options.busy_timeout_ms = kImportWaitMs;
   Result<Store> store = Store::Open(context.db_path, store_options);
   if (!store.ok()) return Fail(context, store.status());
-  std::ofstream rejects;
+  // Rejected rows are the original rows, patient identifiers and all: owner-only. The file
+  // appears (or replaces the previous one) only once every file has been imported, so
+  // that a killed import leaves no rejects file that looks complete.
+  std::optional<OutputFile> rejects;
   if (vm->count("rejects") != 0U) {
-    const std::string path = (*vm)["rejects"].as<std::string>();
-    // Rejected rows are the original rows, patient identifiers and all.
-    if (Status status = PreparePrivateFile(path); !status.ok()) return Fail(context, status);
-    rejects.open(path, std::ios::binary | std::ios::trunc);
-    if (!rejects) return Fail(context, Status::Input(path + ": cannot write the rejects file"));
-    WriteRejectsHeader(rejects);
-    options->rejects = &rejects;
+    Result<OutputFile> opened = OutputFile::Open((*vm)["rejects"].as<std::string>(), FileAccess::kOwnerOnly);
+    if (!opened.ok()) return Fail(context, opened.status());
+    rejects.emplace(std::move(opened.value()));
+    WriteRejectsHeader(rejects->stream());
+    options->rejects = &rejects->stream();
   }
   exit_code = ImportAll(context, *store, kind, files, *options);
-  if (rejects.is_open() && !rejects.flush()) {
-    return Fail(context, Status::Input((*vm)["rejects"].as<std::string>() + ": writing failed"));
+  if (rejects) {
+    if (Status status = rejects->Commit(); !status.ok()) return Fail(context, status);
   }
   return exit_code;
 }

@@ -28,11 +28,12 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
 
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
-  auto records = store->DispensingsOf(patient);
+  long dropped = 0;
+  auto records = store->DispensingsOf(patient, &dropped);
   if (!records.ok()) return fail(records.status());
   auto registry = store->PatientOf(patient);
   if (!registry.ok()) return fail(registry.status());
@@ -63,6 +64,12 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   const int history_days = HistoryDays(*measure);
   const DataState data = DataStateOn(span, *on, history_days);
   std::optional<std::string> data_note = DataStateNote(practice, data, span, *on, history_days);
+  if (dropped > 0) {  // a history past the bound on one patient's dispensings
+    const std::string capped = "only the latest " + std::to_string(records->size()) + " of the patient's " +
+                               std::to_string(static_cast<long>(records->size()) + dropped) +
+                               " counting dispensings are read: medicines dispensed only before them are missing";
+    data_note = data_note ? *data_note + "; " + capped : capped;
+  }
   if (data_note) Warn(context, *data_note);
 
   const Timeline timeline = analysis->BuildTimeline(*records);

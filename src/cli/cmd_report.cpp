@@ -32,6 +32,20 @@ std::function<void(long)> ReportProgressLine(const Context& context) {
   return [err](long patients) { *err << "medload: report: " << patients << " patients read\n"; };
 }
 
+namespace {
+
+// The one Usage fault of RunContext::Open, an unknown scale, came from the config: it is
+// a config fault (exit 2) naming the file and the key, `FILE: /scale: "x" is not a scale
+// in ...`, like every other config fault.
+Status ConfigSettingFault(const std::string& config_path, const Status& status) {
+  if (status.code() != StatusCode::kUsage) return status;
+  std::string_view fault = status.message();
+  if (fault.substr(0, 6) == "scale ") fault.remove_prefix(6);
+  return Status::Input(config_path + ": /scale: " + std::string(fault) + "; set \"scale\" to one of them");
+}
+
+}  // namespace
+
 int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   po::options_description options("report options");
   options.add_options()("config", po::value<std::string>(), "the report's JSON config (docs/report.md)")(
@@ -45,11 +59,10 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   const std::string config_path = (*vm)["config"].as<std::string>();
   auto config = LoadReportConfig(config_path);
   if (!config.ok()) return fail(config.status());
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
-  // The config's settings (an unknown scale) are named as the config's keys, after its file.
-  if (!analysis.ok()) return fail(Status::Usage(config_path + ": " + analysis.status().message()));
+  if (!analysis.ok()) return fail(ConfigSettingFault(config_path, analysis.status()));
   ReportRunOptions run;
   run.out_dir = (*vm)["out"].as<std::string>();
   run.config_dir = std::filesystem::path(config_path).parent_path().string();

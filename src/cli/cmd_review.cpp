@@ -62,7 +62,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
     if (!loaded.ok()) return fail(loaded.status());
     pseudonymiser = std::move(loaded).value();
   }
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());

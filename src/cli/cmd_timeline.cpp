@@ -40,11 +40,12 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
-  auto store = Store::Open(context.db_path, StoreOptions{30000, true});
+  auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
   auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
-  auto records = store->DispensingsOf(patient);
+  long dropped = 0;
+  auto records = store->DispensingsOf(patient, &dropped);
   if (!records.ok()) return fail(records.status());
   if (records->empty()) return fail(Status::Input("patient \"" + patient + "\" has no dispensings in " + context.db_path));
   std::optional<Date> from, to, census;
@@ -64,6 +65,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   model.patient = patient;
   model.timeline = &timeline;
   model.records = *records;
+  model.dropped = dropped;
   model.from = records->front().dispensed_on;
   model.to = model.from;
   DefaultRange(timeline, model.from, model.to);

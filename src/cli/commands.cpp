@@ -20,6 +20,7 @@ int RunFormularyLookup(Context& context, const std::vector<std::string>& args);
 int RunFormularyUnmatched(Context& context, const std::vector<std::string>& args);
 int RunFormularyLoadDictionary(Context& context, const std::vector<std::string>& args);
 int RunFormularyRules(Context& context, const std::vector<std::string>& args);
+int RunStorePack(Context& context, const std::vector<std::string>& args);
 
 const std::vector<Command>& Commands() {
   static const std::vector<Command> kCommands = {
@@ -39,6 +40,7 @@ const std::vector<Command>& Commands() {
        RunFormularyLoadDictionary},
       {"formulary rules", "the combination rules: classes, routes, minimum age and source of each",
        RunFormularyRules},
+      {"store pack", "pack every patient's history once, for readers that may not write the store", RunStorePack},
       {"report", "the batch report of a care network into a folder (--config, --out)", RunReportCommand},
       {"demo", "the bundled invented network: worklist, cohort table and report into a folder", RunDemo},
       {"synth", "write a synthetic, deterministic data set (invented network)", RunSynth},

@@ -3,15 +3,17 @@
 #include <csignal>
 
 #include <algorithm>
-#include <fstream>
 #include <iostream>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
 
 #include "cli/context.h"
 #include "medload/core/caution.h"
+#include "medload/format/output_file.h"
 #include "medload/format/private_file.h"
+#include "medload/format/shown_text.h"
 
 namespace medload::cli {
 namespace {
@@ -126,6 +128,52 @@ const Command* FindCommand(const std::vector<std::string>& args, size_t& words_u
   return best;
 }
 
+// Puts --output in place once the command has written its result; a command that wrote
+// nothing (it failed first) leaves the previous file as it was.
+int FinishOutput(OutputFile& file, const Context& context, int code, std::ostream& err) {
+  if (file.bytes_written() == 0) {
+    if (code != 0) err << "medload: " << context.output_path << " was left as it was\n";
+    file.Discard();
+    return code;
+  }
+  if (Status status = file.Commit(); !status.ok()) {
+    err << "medload: " << status.message() << "\n";
+    return kExitInput;
+  }
+  return code;
+}
+
+// Runs `command` with diagnostics, and results in the text format, shown through
+// ShownTextBuffer (control characters and bidi controls from data or file names are
+// escaped, never sent to the terminal), and with --output written to a temporary file
+// beside it (OutputFile), so that a failed or killed command leaves the previous file.
+int RunWithOutput(const Command& command, Context& context, const std::vector<std::string>& args) {
+  ShownTextBuffer err_filter(std::cerr.rdbuf());
+  std::ostream err(&err_filter);
+  context.err = &err;
+  std::optional<OutputFile> file;
+  if (!context.output_path.empty() && context.output_path != "-") {
+    Result<OutputFile> opened = OutputFile::Open(context.output_path, OutputAccess(command));
+    if (!opened.ok()) {
+      err << "medload: " << opened.status().message() << "\n";
+      return kExitInput;
+    }
+    file.emplace(std::move(opened.value()));
+  }
+  std::ostream& target = file ? file->stream() : std::cout;
+  int code = 0;
+  {
+    ShownTextBuffer text_filter(target.rdbuf());
+    std::ostream text(&text_filter);
+    context.out = context.format == Format::kText ? &text : &target;
+    code = command.run(context, args);
+    context.out->flush();
+  }  // the filter passes on its last bytes here
+  context.out = &target;
+  target.flush();
+  return file ? FinishOutput(*file, context, code, err) : code;
+}
+
 int Main(int argc, char** argv) {
   // Past a file size limit (RLIMIT_FSIZE) a write should fail with EFBIG, which the store
   // reports as a full disk and rolls back, rather than kill the process.
@@ -139,7 +187,7 @@ int Main(int argc, char** argv) {
   bool help = false;
   bool version = false;
   if (!TakeGlobalOptions(args, context, error, help, version)) {
-    std::cerr << "medload: " << error << "\n";
+    std::cerr << "medload: " << ShownText(error) << "\n";
     return kExitUsage;
   }
   if (version) {
@@ -153,30 +201,11 @@ int Main(int argc, char** argv) {
   size_t words_used = 0;
   const Command* command = FindCommand(args, words_used);
   if (command == nullptr) {
-    std::cerr << "medload: unknown command \"" << args[0] << "\"; 'medload --help' lists them\n";
+    std::cerr << "medload: unknown command \"" << ShownText(args[0]) << "\"; 'medload --help' lists them\n";
     return kExitUsage;
   }
-  std::ofstream file;
-  if (!context.output_path.empty() && context.output_path != "-") {
-    if (Status status = PrepareOutputFile(context.output_path, OutputAccess(*command)); !status.ok()) {
-      std::cerr << "medload: " << status.message() << "\n";
-      return kExitInput;
-    }
-    file.open(context.output_path, std::ios::binary | std::ios::trunc);
-    if (!file) {
-      std::cerr << "medload: cannot write " << context.output_path << "\n";
-      return kExitInput;
-    }
-    context.out = &file;
-  }
   const std::vector<std::string> rest(args.begin() + static_cast<long>(words_used), args.end());
-  const int code = command->run(context, rest);
-  context.out->flush();
-  if (file.is_open() && !file) {
-    std::cerr << "medload: writing " << context.output_path << " failed\n";
-    return kExitInput;
-  }
-  return code;
+  return RunWithOutput(*command, context, rest);
 }
 
 }  // namespace

@@ -96,6 +96,7 @@ Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
+  PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     counter.See(patient.history());
     if (!counter.Wants(patient.history())) return true;
@@ -104,9 +105,12 @@ Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
       return patient.Evaluate(on, age);
     });
     return true;
-  });
+  }, &facts);
   if (!status.ok()) return status;
-  return counter.Take();
+  CohortTally tally = counter.Take();
+  tally.capped_patients = facts.capped_patients;
+  tally.history_bound = facts.history_bound;
+  return tally;
 }
 
 namespace {

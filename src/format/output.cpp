@@ -6,6 +6,7 @@
 #include <ostream>
 
 #include "medload/core/caution.h"
+#include "medload/format/shown_text.h"
 
 namespace medload {
 namespace {
@@ -69,6 +70,13 @@ std::string CsvRow(const std::vector<std::string>& cells) {
 void WriteCsvCaution(std::ostream& out) { out << "# " << kCaution << "\n"; }
 
 std::string EscapeHtml(std::string_view value) {
+  // Control characters and bidi controls from data (an escape in a title, U+202E in a
+  // name) are shown as visible escapes, as on the terminal.
+  std::string shown;
+  if (NeedsShowing(value)) {
+    shown = ShownText(value, true);
+    value = shown;
+  }
   std::string escaped;
   escaped.reserve(value.size());
   for (char c : value) {

@@ -3,6 +3,7 @@
 #include <nlohmann/json.hpp>
 
 #include <algorithm>
+#include <cmath>
 #include <set>
 #include <string>
 #include <vector>
@@ -107,8 +108,10 @@ class RuleReader {
     measures.items = Whole(value, pointer, "items", 0, 1000);
     measures.acb = Whole(value, pointer, "acb", 0, 1000);
     if (value.contains("dbi")) {
-      if (!value.at("dbi").is_number() || value.at("dbi").get<double>() < 0) {
-        Fault(pointer + "/dbi", "not a number >= 0");
+      // A Drug Burden Index is a sum of terms below 1 each: above 100 no patient reaches it.
+      if (!value.at("dbi").is_number() || !std::isfinite(value.at("dbi").get<double>()) ||
+          value.at("dbi").get<double>() < 0 || value.at("dbi").get<double>() > 100) {
+        Fault(pointer + "/dbi", "not a number from 0 to 100");
       } else {
         measures.dbi = value.at("dbi").get<double>();
       }
@@ -229,6 +232,9 @@ std::vector<Rule> ParseRules(std::string_view json_text, std::string_view file_n
     const size_t byte = error.byte > 0 ? error.byte - 1 : 0;
     faults.push_back(std::string(file_name) + ":" + std::to_string(LineOf(json_text, byte)) +
                      ": not valid JSON (byte " + std::to_string(error.byte) + ")");
+    return rules;
+  } catch (const json::exception&) {  // a number too large for a double (1e400)
+    faults.push_back(std::string(file_name) + ": not valid JSON (a number is out of range)");
     return rules;
   }
   RuleReader reader(file_name, faults);

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <charconv>
+#include <cmath>
 #include <filesystem>
 #include <fstream>
 #include <memory>
@@ -123,6 +124,13 @@ std::optional<double> ParseNumber(std::string_view text) {
   return value;
 }
 
+// Bounds of a minimum daily dose (DBI delta), in mg: below a microgram a day or above ten
+// grams a day no medicine in a Drug Burden Index table has one (Hilmer et al. 2007 list
+// doses from micrograms to a few grams); a value outside is a typing slip, and would make
+// dose / (dose + delta) read 0 or 1 whatever the dose.
+constexpr double kMinDbiDoseMg = 0.001;
+constexpr double kMaxDbiDoseMg = 10000;
+
 std::optional<int> ParseWhole(std::string_view text) {
   int value = 0;
   const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
@@ -176,6 +184,11 @@ void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::strin
     }
     if (!(*dose > 0)) {
       faults.push_back(Fault(table.name, row.line, "min_daily_dose_mg: " + row.fields[1] + " must be greater than 0"));
+      continue;
+    }
+    if (!std::isfinite(*dose) || *dose < kMinDbiDoseMg || *dose > kMaxDbiDoseMg) {
+      faults.push_back(Fault(table.name, row.line,
+                             "min_daily_dose_mg: " + row.fields[1] + " is outside 0.001 to 10000 mg a day"));
       continue;
     }
     const auto effect = EffectFromName(row.fields[2]);
@@ -365,7 +378,19 @@ std::string Checksum(FileContents files) {
 
 }  // namespace
 
+const std::vector<std::string_view>& RequiredTableFiles() {
+  static const std::vector<std::string_view> kRequired = {
+      "ingredients.csv", "anticholinergic/acb.csv", "dbi.csv",           "dbi_classes.csv",
+      "products.csv",    "brands.csv",              "codes.csv",         "non_medicines.csv",
+      "rules.json"};
+  return kRequired;
+}
+
 FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::string>& faults) {
+  // Every table is required (RequiredTableFiles) but routes.csv (the built-in route policy
+  // otherwise) and dictionary.csv: a missing one would make its measure read 0, or its
+  // products unresolved, without a word.
+  constexpr bool kRequired = true;
   FormularyTables tables;
   const fs::path dir(dir_name);
   std::error_code error;
@@ -387,25 +412,26 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
                   faults, [&](const Table& t) { ReadScale(t, scale, faults); }, {"routes"});
     tables.scales.push_back(std::move(scale));
   }
-  ReadTableFile(dir, "dbi.csv", false, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
+  ReadTableFile(dir, "dbi.csv", kRequired, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
                 [&](const Table& t) { ReadDbi(t, tables, faults); }, {"routes"});
-  ReadTableFile(dir, "dbi_classes.csv", false, {"class", "effect", "source"}, files, faults,
+  ReadTableFile(dir, "dbi_classes.csv", kRequired, {"class", "effect", "source"}, files, faults,
                 [&](const Table& t) { ReadDbiClasses(t, tables, faults); });
   ReadTableFile(dir, "routes.csv", false, {"route", "systemic", "source"}, files, faults,
                 [&](const Table& t) { ReadRoutes(t, tables, faults); });
-  ReadTableFile(dir, "products.csv", false,
+  ReadTableFile(dir, "products.csv", kRequired,
                 {"product", "requires", "ingredients", "form", "route", "dose_unit", "supply_days_per_unit",
                  "source"},
                 files, faults, [&](const Table& t) { ReadProducts(t, tables, faults); });
-  ReadTableFile(dir, "codes.csv", false, {"code_system", "code", "product_or_ingredient", "source"}, files,
+  ReadTableFile(dir, "codes.csv", kRequired, {"code_system", "code", "product_or_ingredient", "source"}, files,
                 faults, [&](const Table& t) { ReadCodes(t, tables, faults); });
-  ReadTableFile(dir, "non_medicines.csv", false, {"term", "category", "source"}, files, faults,
+  ReadTableFile(dir, "non_medicines.csv", kRequired, {"term", "category", "source"}, files, faults,
                 [&](const Table& t) { ReadNonMedicines(t, tables, faults); });
-  ReadTableFile(dir, "brands.csv", false, {"brand", "ingredients", "source"}, files, faults,
+  ReadTableFile(dir, "brands.csv", kRequired, {"brand", "ingredients", "source"}, files, faults,
                 [&](const Table& t) { ReadBrands(t, tables, faults); });
+  // Optional: a national dictionary is a site's choice.
   ReadTableFile(dir, "dictionary.csv", false, {"code_system", "code", "name", "brand", "ingredients", "source"},
                 files, faults, [&](const Table& t) { ReadDictionary(t, tables, faults); });
-  if (const auto rules = ReadFile(dir, "rules.json", false, files, faults)) {
+  if (const auto rules = ReadFile(dir, "rules.json", kRequired, files, faults)) {
     tables.rules = ParseRules(*rules, "rules.json", faults);
   }
   ReadTableFile(dir, kTsddFile, false, {"ingredient", "min_effective_daily_dose_mg", "source"}, files, faults,

@@ -242,7 +242,8 @@ std::optional<RowFault> CheckRecordShape(const CsvRow& row, const HeaderLayout& 
                    "has too many fields, the header has " + std::to_string(layout.field_count()));
     case CsvFault::kUnclosedQuote:
       return Fault("unclosed_quote", file, row.line, "row",
-                   "a quoted field is still open at the end of the file");
+                   "a quoted field opened on this line never closes into a valid row; only this "
+                   "line is rejected, the next line is read as a new row");
   }
   if (row.fields.size() != layout.field_count()) {
     return Fault("field_count", file, row.line, "row",
@@ -261,6 +262,10 @@ std::optional<RowFault> ParseQuantity(std::string_view text, std::string_view fi
     return Fault("bad_quantity", file, line, field, Quoted(text) + " is not a number");
   }
   if (value <= 0) return Fault("bad_quantity", file, line, field, Quoted(text) + " is not above zero");
+  if (value > kMaxQuantity) {
+    return Fault("bad_quantity", file, line, field,
+                 Quoted(text) + " is above 1000000, the largest plausible quantity (check the unit)");
+  }
   quantity = value;
   return std::nullopt;
 }
@@ -278,6 +283,9 @@ std::optional<RowFault> ParseDaysSupply(std::string_view text, std::string_view 
     return Fault("bad_days_supply", file, line, field, Quoted(text) + " is not a whole number of days");
   }
   if (value <= 0) return Fault("bad_days_supply", file, line, field, Quoted(text) + " is not above zero");
+  if (value > kMaxDaysSupply) {
+    return Fault("bad_days_supply", file, line, field, Quoted(text) + " is above 3650 days (ten years)");
+  }
   days = static_cast<int>(value);
   return std::nullopt;
 }

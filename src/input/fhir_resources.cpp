@@ -8,6 +8,7 @@
 
 #include "input/fhir_medication.h"
 #include "input/fhir_reference.h"
+#include "medload/input/csv_records.h"
 #include "medload/dose/dose_unit.h"
 #include "medload/dose/fhir_dosage.h"
 
@@ -188,6 +189,10 @@ std::optional<RowFault> ReadQuantity(const json& resource, const FhirFaults& fau
     out.quantity *= 1000;
     out.unit = "ml";
   }
+  if (out.quantity > kMaxQuantity) {  // the bound of CSV input (csv_records.h)
+    return fault("bad_quantity", "/quantity/value",
+                 Shown(*value) + " is above 1000000, the largest plausible quantity (check the unit)");
+  }
   return std::nullopt;
 }
 
@@ -223,7 +228,12 @@ std::optional<RowFault> ReadDaysSupply(const json& resource, const FhirFaults& f
     return fault("bad_days_supply", "/daysSupply/value", Shown(*value) + " is not a whole number of days");
   }
   const double days = std::ceil(amount * *factor - 1e-9);
-  if (days >= 1e9) return fault("bad_days_supply", "/daysSupply/value", Shown(*value) + " is too many days");
+  if (days > kMaxDaysSupply) {  // the bound of CSV input (csv_records.h)
+    std::string as_days;  // a value in another unit: the unit, and the days when countable
+    if (*factor != 1) as_days = " " + unit + (days < 1e9 ? " (" + std::to_string(static_cast<long>(days)) + " days)" : "");
+    return fault("bad_days_supply", "/daysSupply/value",
+                 Shown(*value) + as_days + " is above 3650 days (ten years)");
+  }
   out.days_supply = std::max(1, static_cast<int>(days));
   return std::nullopt;
 }

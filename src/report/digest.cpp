@@ -6,6 +6,7 @@
 #include "medload/core/caution.h"
 #include "medload/core/hash.h"
 #include "medload/format/output.h"
+#include "medload/format/shown_text.h"
 #include "medload/format/suppression.h"
 #include "medload/report/funnel.h"
 #include "medload/report/report_files.h"
@@ -218,7 +219,9 @@ std::string FormatDigest(const Digest& digest) {
   body.push_back(std::string(kCaution));
   for (const std::string& paragraph : body) {
     const bool item = paragraph.rfind("- ", 0) == 0;
-    for (const std::string& line : WrapText(paragraph, kLineWidth, item ? 2 : 0)) text += line + "\r\n";
+    // Names and titles come from the data and the config: a control character or bidi
+    // control is shown as an escape, never sent to the reader's mail program.
+    for (const std::string& line : WrapText(ShownText(paragraph), kLineWidth, item ? 2 : 0)) text += line + "\r\n";
   }
   return text;
 }

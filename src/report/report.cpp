@@ -150,6 +150,9 @@ struct Pass {
   std::map<std::string, std::vector<WorklistEntry>> entries;  // practice -> rows
   std::map<std::string, long> considered;                     // practice -> registered on `on`
   long patients = 0;
+  // practice (the registry's; "" when none) -> patients whose oldest dispensings the
+  // store's bound left out
+  std::map<std::string, long> capped;
 };
 
 Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& config, Date on,
@@ -157,6 +160,7 @@ Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& con
   return ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     const PatientHistory& history = patient.history();
     ++pass.patients;
+    if (history.dropped > 0) ++pass.capped[history.registry ? history.registry->practice : ""];
     pass.counter.See(history);
     if (progress && pass.patients % kProgressEvery == 0) progress(pass.patients);
     std::optional<Burden> census;
@@ -239,10 +243,12 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   cohort.dates = model.dates;
   cohort.group_by = GroupBy::kPractice;
   cohort.criteria = config.criteria;
-  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0};
+  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0, {}};
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;
+  model.capped_patients = std::move(pass.capped);
+  model.history_bound = store.history_bound();
   model.tally = pass.counter.Take();
   model.history_days = HistoryDays(analysis.options());
   auto chosen = ChoosePractices(*known, config, model.tally);

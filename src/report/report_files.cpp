@@ -1,10 +1,13 @@
 #include "medload/report/report_files.h"
 
+#include <sys/stat.h>
 
+#include <cerrno>
+#include <cstring>
 #include <filesystem>
-#include <fstream>
 
 #include "medload/core/hash.h"
+#include "medload/format/output_file.h"
 
 namespace medload {
 namespace fs = std::filesystem;
@@ -46,14 +49,39 @@ Result<std::string> SafeFileStem(std::string_view text) {
   return stem;
 }
 
+namespace {
+
+// Creates the folder `path` with mode exactly 0700, or checks the one that is there: a
+// folder (not a link to one when `no_link`) of this user.
+Status PrivateFolder(const fs::path& path, bool no_link) {
+  const std::string shown = path.string();
+  if (no_link && IsSymlink(path)) return Status::Input(shown + ": is a symbolic link; refusing to write through it");
+  std::error_code error;
+  if (fs::exists(path, error)) {
+    if (!fs::is_directory(path, error)) return Status::Input(shown + ": exists and is not a folder");
+    return CheckOwnedByUser(shown);
+  }
+  if (::mkdir(shown.c_str(), 0700) != 0 && errno != EEXIST) {
+    return Status::Input(shown + ": cannot be created (" + std::strerror(errno) + ")");
+  }
+  if (::chmod(shown.c_str(), 0700) != 0) {  // exactly 0700, whatever the umask
+    return Status::Input(shown + ": cannot be made private (" + std::strerror(errno) + ")");
+  }
+  return CheckOwnedByUser(shown);
+}
+
+}  // namespace
+
 Result<ReportFolder> ReportFolder::Open(const std::string& path) {
   std::error_code error;
   if (path.empty()) return Status::Usage("the report folder has no name (an empty path)");
-  if (fs::exists(path, error) && !fs::is_directory(path, error)) {
-    return Status::Input(path + ": exists and is not a folder");
+  const fs::path folder(path);
+  if (folder.has_parent_path() && !fs::exists(folder.parent_path(), error)) {
+    fs::create_directories(folder.parent_path(), error);
+    if (error) return Status::Input(path + ": cannot be created (" + error.message() + ")");
   }
-  fs::create_directories(path, error);
-  if (error) return Status::Input(path + ": cannot be created (" + error.message() + ")");
+  // The folder the user named may be a link the user made: followed (not `no_link`).
+  if (Status status = PrivateFolder(folder, false); !status.ok()) return status;
   return ReportFolder(path);
 }
 
@@ -61,19 +89,10 @@ Status ReportFolder::MakeSubfolder(std::string_view name) const {
   if (!IsPlainRelative(name) || name.find('/') != std::string_view::npos) {
     return Status::Input("\"" + std::string(name) + "\" is not a plain folder name");
   }
-  const fs::path sub = fs::path(path_) / std::string(name);
-  if (IsSymlink(sub)) return Status::Input(sub.string() + ": is a symbolic link; refusing to write through it");
-  std::error_code error;
-  if (fs::exists(sub, error) && !fs::is_directory(sub, error)) {
-    return Status::Input(sub.string() + ": exists and is not a folder");
-  }
-  fs::create_directory(sub, error);
-  if (error) return Status::Input(sub.string() + ": cannot be created (" + error.message() + ")");
-  return Status::Ok();
+  return PrivateFolder(fs::path(path_) / std::string(name), true);
 }
 
-Status ReportFolder::WriteFile(std::string_view relative, std::string_view content,
-                               FileAccess access) const {
+Status ReportFolder::WriteFile(std::string_view relative, std::string_view content) const {
   if (!IsPlainRelative(relative)) {
     return Status::Input("\"" + std::string(relative) + "\" is not a file name inside the report folder");
   }
@@ -85,12 +104,7 @@ Status ReportFolder::WriteFile(std::string_view relative, std::string_view conte
       return Status::Input(step.string() + ": is a symbolic link; refusing to write through it");
     }
   }
-  if (Status status = PrepareOutputFile(target.string(), access); !status.ok()) return status;
-  std::ofstream out(target, std::ios::binary | std::ios::trunc);
-  out.write(content.data(), static_cast<std::streamsize>(content.size()));
-  out.close();
-  if (!out) return Status::Input(target.string() + ": cannot be written");
-  return Status::Ok();
+  return WriteWholeFile(target.string(), content, FileAccess::kOwnerOnly);
 }
 
 Status ReportFolder::RemoveFiles(std::string_view name, std::string_view suffix) const {

@@ -4,6 +4,7 @@
 #include <set>
 #include <sstream>
 
+#include "medload/burden/patient_pass.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/format/output.h"
@@ -99,7 +100,13 @@ std::vector<std::string> ReportWarnings(const ReportModel& model, const std::str
   for (const ReportSeries& s : model.practices) {
     if (only == nullptr || *only == s.code) practices.insert(s.code);
   }
-  return CoverageNotes(model.tally.spans, practices, model.dates, model.history_days);
+  std::vector<std::string> warnings = CoverageNotes(model.tally.spans, practices, model.dates, model.history_days);
+  long capped = 0;
+  for (const auto& [practice, patients] : model.capped_patients) {
+    if (only == nullptr || *only == practice) capped += patients;
+  }
+  if (auto note = CappedHistoriesNote(capped, model.history_bound)) warnings.push_back(std::move(*note));
+  return warnings;
 }
 
 Worklist ReportWorklist(const ReportModel& model, const std::string& code) {

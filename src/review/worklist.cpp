@@ -190,6 +190,7 @@ Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const Worklis
   if (!status.ok()) return status;
   NoteCoverage(facts.practice_spans, HistoryDays(analysis.options()), worklist);
   MarkTrajectories(facts.practice_spans, HistoryDays(analysis.options()), worklist);
+  if (auto note = CappedHistoriesNote(facts.capped_patients, facts.history_bound)) worklist.notes.push_back(std::move(*note));
   std::sort(worklist.patients.begin(), worklist.patients.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(worklist.patients.size());
   if (options.remember_run) {

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "store/control_characters.h"
+#include "store/record_checks.h"
 
 namespace medload {
 namespace {
@@ -272,17 +273,26 @@ Status FhirImport::Settle(FhirItem& item, std::string_view text, bool final) {
                   QuoteForMessage("Medication/" + item.medication_reference) +
                       " names no Medication loaded (in this file or before), and there is no display");
   }
+  // The whole record, its patient and product now known: identifiers and strengths.
+  if (std::optional<RowFault> fault = RecordFault(item.dispense, summary_.file, item.line, FieldNames::kFhir)) {
+    return sink_.Reject(item.line, *fault, text);
+  }
   Result<WriteOutcome> outcome = dispensings_.Write(item.dispense, item.line, true);
   if (!outcome.ok()) return outcome.status();
-  if (*outcome != WriteOutcome::kDuplicate && !StatusCounts(item.dispense.status)) {
+  if (*outcome != WriteOutcome::kDuplicate && *outcome != WriteOutcome::kConflict &&
+      !StatusCounts(item.dispense.status)) {
     ++summary_.not_counted[item.dispense.status];
   }
-  return sink_.CountDispensing(item.dispense, item.line, *outcome);
+  return sink_.CountDispensing(item.dispense, item.line, *outcome, dispensings_, text);
 }
 
 Status FhirImport::Add(FhirItem& item) {
   if (item.kind != FhirItemKind::kRejected) {
-    if (std::optional<RowFault> fault = ControlCharacterFault(summary_.file, item.line, item.text, true)) {
+    std::optional<RowFault> fault = ControlCharacterFault(summary_.file, item.line, item.text, true);
+    if (!fault && item.kind == FhirItemKind::kPatient) {
+      fault = RecordFault(item.patient, summary_.file, item.line, FieldNames::kFhir);
+    }
+    if (fault) {
       item.kind = FhirItemKind::kRejected;
       item.fault = std::move(*fault);
     }
@@ -321,7 +331,7 @@ Status ImportFhirItems(InputKind kind, FhirReader& reader, sqlite3* db, WriteSou
   if (Status status = import.Prepare(); !status.ok()) return status;
   FhirItem item;
   while (reader.Next(item)) {
-    sink.Tick();
+    sink.Tick(1);  // one resource a line
     if (Status status = import.Add(item); !status.ok()) return status;
   }
   return import.Finish();

@@ -20,13 +20,15 @@ namespace medload {
 class RowSink {
  public:
   virtual ~RowSink() = default;
-  // One more row read.
-  virtual void Tick() = 0;
+  // One more row read, spanning `lines` physical lines.
+  virtual void Tick(size_t lines) = 0;
   virtual Status Reject(size_t line, const RowFault& fault, std::string_view original) = 0;
   // A registry, Medication or review row written.
   virtual void Count(WriteOutcome outcome) = 0;
-  // A dispensing written from `line`.
-  virtual Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome) = 0;
+  // A dispensing written from `line` (`text`, as read) by `writer`: counted, or rejected
+  // as record_id_conflict when the outcome is WriteOutcome::kConflict.
+  virtual Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome,
+                                 const DispensingWriter& writer, std::string_view text) = 0;
 };
 
 // Imports every item of `reader` into `db` for an import of `kind` (dispensing or

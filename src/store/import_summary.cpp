@@ -1,5 +1,6 @@
 #include "medload/store/import_summary.h"
 
+#include <optional>
 #include <ostream>
 #include <utility>
 
@@ -24,6 +25,8 @@ std::string JoinCounts(const std::map<std::string, long>& counts, std::string_vi
   return text;
 }
 
+// Rows stored: none when the file was rolled back.
+long Stored(const ImportSummary& summary) { return summary.rolled_back ? 0 : summary.imported; }
 // "a; b" for one CSV cell.
 std::string JoinLines(const std::vector<std::string>& lines) {
   std::string text;
@@ -56,8 +59,13 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
       {"imported", summary.imported},
       {"duplicates", summary.duplicates},
       {"rejected", summary.rejected},
+      {"stored", Stored(summary)},
       {"updated", summary.updated},
+      {"lines", summary.lines},
+      {"header_lines", summary.header_lines},
       {"blank_lines", summary.blank_lines},
+      {"row_lines", summary.row_lines},
+      {"multiline_rows", summary.multiline_rows},
       {"reasons", summary.reasons},
       {"not_counted", summary.not_counted},
       {"rolled_back", summary.rolled_back},
@@ -76,19 +84,47 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
   return json;
 }
 
+// A rolled-back file stored nothing: its valid rows are shown as not stored, never as
+// imported ("0 (50 valid)").
+std::string ImportedCell(const ImportSummary& summary) {
+  if (!summary.rolled_back || summary.imported == 0) return std::to_string(summary.imported);
+  return "0 (" + std::to_string(summary.imported) + " valid, not stored)";
+}
+
 std::vector<std::string> CountCells(const ImportSummary& summary) {
   return {summary.file,
           summary.kind,
+          std::to_string(summary.lines),
           std::to_string(summary.read),
-          std::to_string(summary.imported),
+          ImportedCell(summary),
           std::to_string(summary.duplicates),
           std::to_string(summary.rejected),
           summary.rolled_back ? "rolled back" : "committed"};
 }
 
+// "d.csv: 103 lines = 1 header + 2 blank + 100 in the 98 rows read (2 rows span several
+// lines)", when the lines are not simply a header and one line per row.
+std::optional<std::string> LinesLine(const ImportSummary& summary) {
+  if (summary.blank_lines == 0 && summary.multiline_rows == 0 &&
+      summary.lines == summary.header_lines + summary.read) {
+    return std::nullopt;
+  }
+  std::string line = summary.file + ": " + std::to_string(summary.lines) + " lines = " +
+                     std::to_string(summary.header_lines) + " header + " +
+                     std::to_string(summary.blank_lines) + " blank + " +
+                     std::to_string(summary.row_lines) + " in the " + std::to_string(summary.read) +
+                     " rows read";
+  if (summary.multiline_rows > 0) {
+    line += " (" + std::to_string(summary.multiline_rows) +
+            (summary.multiline_rows == 1 ? " row spans" : " rows span") + " several lines)";
+  }
+  return line;
+}
+
 // The lines under the table that explain one file: reasons, statuses, examples.
 std::vector<std::string> DetailLines(const ImportSummary& summary) {
   std::vector<std::string> lines;
+  if (std::optional<std::string> counted = LinesLine(summary)) lines.push_back(std::move(*counted));
   if (!summary.reasons.empty()) {
     lines.push_back(summary.file + ": rejected by reason: " + JoinCounts(summary.reasons, " ", ", "));
   }
@@ -130,8 +166,8 @@ std::vector<std::string> DetailLines(const ImportSummary& summary) {
   return lines;
 }
 
-const std::vector<std::string> kHeader = {"file", "kind", "read", "imported", "duplicates",
-                                          "rejected", "outcome"};
+const std::vector<std::string> kHeader = {"file",       "kind",     "lines",   "read",
+                                          "imported",   "duplicates", "rejected", "outcome"};
 
 }  // namespace
 
@@ -144,6 +180,10 @@ void ImportSummary::Add(const ImportSummary& other) {
   patients += other.patients;
   medications += other.medications;
   blank_lines += other.blank_lines;
+  lines += other.lines;
+  header_lines += other.header_lines;
+  row_lines += other.row_lines;
+  multiline_rows += other.multiline_rows;
   not_in_registry += other.not_in_registry;
   not_in_registry_patients += other.not_in_registry_patients;
   for (const auto& [key, count] : other.reasons) reasons[key] += count;
@@ -180,6 +220,12 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"duplicates", total.duplicates},
       {"rejected", total.rejected},
       {"reasons", total.reasons},
+      {"stored", Stored(total)},
+      {"lines", total.lines},
+      {"header_lines", total.header_lines},
+      {"blank_lines", total.blank_lines},
+      {"row_lines", total.row_lines},
+      {"multiline_rows", total.multiline_rows},
       {"updated", total.updated},
       {"not_counted", total.not_counted},
       {"not_in_registry", total.not_in_registry},
@@ -198,7 +244,7 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
   for (const ImportSummary& file : files) rows.push_back(CountCells(file));
   if (files.size() > 1) {
     std::vector<std::string> total = CountCells(TotalOf(files));
-    total[6].clear();
+    total.back().clear();
     rows.push_back(std::move(total));
   }
   WriteTextTable(out, kHeader, rows);
@@ -215,14 +261,17 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
 
 void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) {
   WriteCsvCaution(out);
-  out << CsvRow({"file", "kind", "format", "read", "imported", "duplicates", "rejected", "updated",
-                 "rolled_back", "reasons", "not_counted", "not_in_registry", "not_in_registry_examples", "product_flags"});
+  out << CsvRow({"file", "kind", "format", "lines", "blank_lines", "row_lines", "read", "imported",
+                 "duplicates", "rejected", "stored", "updated", "rolled_back", "reasons", "not_counted",
+                 "not_in_registry", "not_in_registry_examples", "product_flags"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
-    out << CsvRow({file.file, file.kind, file.format, std::to_string(file.read),
-                   std::to_string(file.imported), std::to_string(file.duplicates),
-                   std::to_string(file.rejected), std::to_string(file.updated),
+    out << CsvRow({file.file, file.kind, file.format, std::to_string(file.lines),
+                   std::to_string(file.blank_lines), std::to_string(file.row_lines),
+                   std::to_string(file.read), std::to_string(file.imported),
+                   std::to_string(file.duplicates), std::to_string(file.rejected),
+                   std::to_string(Stored(file)), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
                    JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
                    JoinLines(file.not_in_registry_examples), JoinCounts(file.product_flags, "=", ";")});

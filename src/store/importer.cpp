@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <array>
 #include <charconv>
+#include <cstring>
 #include <ctime>
 #include <filesystem>
 #include <fstream>
@@ -17,6 +18,7 @@
 #include "medload/input/csv_reader.h"
 #include "medload/input/fhir_reader.h"
 #include "store/control_characters.h"
+#include "store/record_checks.h"
 #include "store/fhir_import.h"
 #include "store/record_writers.h"
 #include "store/registry_check.h"
@@ -31,44 +33,63 @@ constexpr uint64_t kDeferMinRows = 20000;
 constexpr uint64_t kCsvBytesPerRow = 80;
 constexpr uint64_t kNdjsonBytesPerRow = 600;
 
-// True when the first line of `head` ends in a CR alone (classic Mac OS line ends).
-bool HasCrOnlyLineEnds(std::string_view head) {
-  const size_t end = head.find_first_of("\r\n");
-  return end != std::string_view::npos && head[end] == '\r' && end + 1 < head.size() &&
-         head[end + 1] != '\n';
-}
-
 // Serves bytes already read (to look at the start of the input) and then the rest of
-// the stream, so that the readers see the input whole. For input whose line ends are CR
-// alone, every CR is served as LF, so that the readers see its lines (and number them).
+// the stream, so that the readers see the input whole. With `lone_cr_ends_line` (NDJSON,
+// whose reader ends lines at LF), a CR not followed by LF is served as LF, so that a
+// file with CR-only line ends, or a block of them inside an LF file, is read line by line.
+// (The CSV reader ends lines at a CR alone itself.)
 class PrefixedBuffer : public std::streambuf {
  public:
-  PrefixedBuffer(std::string head, std::istream& rest)
-      : head_(std::move(head)), rest_(rest), cr_to_lf_(HasCrOnlyLineEnds(head_)) {
-    Translate(head_.data(), head_.size());
-    setg(head_.data(), head_.data(), head_.data() + head_.size());
-  }
+  PrefixedBuffer(std::string head, std::istream& rest, bool lone_cr_ends_line)
+      : head_(std::move(head)), rest_(rest), lone_cr_ends_line_(lone_cr_ends_line) {}
   bool failed() const { return rest_.bad(); }
 
  protected:
   int_type underflow() override {
     if (gptr() < egptr()) return traits_type::to_int_type(*gptr());
-    rest_.read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
-    const std::streamsize got = rest_.gcount();
-    if (got <= 0) return traits_type::eof();
-    Translate(buffer_.data(), static_cast<size_t>(got));
-    setg(buffer_.data(), buffer_.data(), buffer_.data() + got);
-    return traits_type::to_int_type(*gptr());
+    for (;;) {
+      size_t size = 0;
+      if (carried_cr_) buffer_[size++] = '\r';
+      carried_cr_ = false;
+      const size_t got = Read(buffer_.data() + size, buffer_.size() - size);
+      size += got;
+      if (size == 0) return traits_type::eof();
+      // A CR at the end of what was read may be the first half of a CRLF: held back until
+      // the next byte is known.
+      if (lone_cr_ends_line_ && got > 0 && buffer_[size - 1] == '\r') {
+        carried_cr_ = true;
+        --size;
+      }
+      if (size == 0) continue;
+      if (lone_cr_ends_line_) TranslateLoneCr(size);
+      setg(buffer_.data(), buffer_.data(), buffer_.data() + size);
+      return traits_type::to_int_type(*gptr());
+    }
   }
 
  private:
-  void Translate(char* data, size_t size) const {
-    if (cr_to_lf_) std::replace(data, data + size, '\r', '\n');
+  size_t Read(char* into, size_t room) {
+    if (head_used_ < head_.size()) {
+      const size_t take = std::min(room, head_.size() - head_used_);
+      std::memcpy(into, head_.data() + head_used_, take);
+      head_used_ += take;
+      return take;
+    }
+    rest_.read(into, static_cast<std::streamsize>(room));
+    return static_cast<size_t>(std::max<std::streamsize>(0, rest_.gcount()));
+  }
+
+  void TranslateLoneCr(size_t size) {
+    for (size_t i = 0; i < size; ++i) {
+      if (buffer_[i] == '\r' && (i + 1 == size || buffer_[i + 1] != '\n')) buffer_[i] = '\n';
+    }
   }
 
   std::string head_;
+  size_t head_used_ = 0;
   std::istream& rest_;
-  bool cr_to_lf_;
+  bool lone_cr_ends_line_;
+  bool carried_cr_ = false;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -77,6 +98,17 @@ bool LooksLikeNdjson(std::string_view head) {
   if (head.substr(0, 3) == "\xEF\xBB\xBF") head.remove_prefix(3);
   const size_t first = head.find_first_not_of(" \t\r\n");
   return first != std::string_view::npos && head[first] == '{';
+}
+
+// The identity of a rejected row across imports: the same row as written, on the same
+// line of an input of the same kind (the first 128 bits of a SHA-256, in hex).
+std::string RejectedRowKey(std::string_view kind, size_t line, std::string_view original) {
+  std::string text(kind);
+  text += '\x1f';
+  text += std::to_string(line);
+  text += '\x1f';
+  text += original;
+  return Sha256Hex(text).substr(0, 32);
 }
 
 // Counts, the --rejects output, the rejected_rows table, the registry check and the run
@@ -101,10 +133,12 @@ class Session : public RowSink {
     if (!transaction.ok()) return transaction.status();
     transaction_.emplace(std::move(transaction.value()));
     if (Status status = InsertRun("running"); !status.ok()) return status;
+    // A row rejected again by a re-import of its file is kept once, under the new run.
     Result<Statement> reject = Statement::Prepare(
         db_,
-        "INSERT INTO rejected_rows (run_id, line, reason, message, original_row)"
-        " VALUES (?1, ?2, ?3, ?4, ?5)");
+        "INSERT INTO rejected_rows (run_id, line, reason, message, original_row, row_key)"
+        " VALUES (?1, ?2, ?3, ?4, ?5, ?6) ON CONFLICT (row_key) DO UPDATE SET"
+        " run_id = excluded.run_id, reason = excluded.reason, message = excluded.message");
     if (!reject.ok()) return reject.status();
     insert_reject_ = std::move(reject.value());
     return registry_.Prepare(db_, summary_.format == "fhir");
@@ -132,9 +166,11 @@ class Session : public RowSink {
   bool patient_index_live() const { return !patient_index_deferred_; }
   sqlite3* db() const { return db_; }
 
-  // One more row read; reports progress.
-  void Tick() override {
+  // One more row read, spanning `lines` physical lines; reports progress.
+  void Tick(size_t lines) override {
     ++summary_.read;
+    summary_.row_lines += static_cast<long>(lines);
+    if (lines > 1) ++summary_.multiline_rows;
     if (options_.progress_every > 0 && options_.progress &&
         summary_.read % options_.progress_every == 0) {
       options_.progress(summary_.read);
@@ -153,6 +189,8 @@ class Session : public RowSink {
     insert_reject_.BindText(3, fault.reason);
     insert_reject_.BindText(4, fault.message);
     insert_reject_.BindText(5, original);
+    reject_key_ = RejectedRowKey(summary_.kind, line, original);  // bound without a copy
+    insert_reject_.BindText(6, reject_key_);
     return insert_reject_.Run();
   }
 
@@ -165,7 +203,19 @@ class Session : public RowSink {
     if (outcome == WriteOutcome::kUpdated) ++summary_.updated;
   }
 
-  Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome) override {
+  // A record id conflict is a rejected row, named by the record id's field ("record_id",
+  // or "/id" in FHIR); any other outcome is counted.
+  Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome,
+                         const DispensingWriter& writer, std::string_view text) override {
+    if (outcome == WriteOutcome::kConflict) {
+      const std::string_view field = summary_.format == "fhir" ? "/id" : "record_id";
+      const RowFault fault{"record_id_conflict",
+                           FaultMessage(summary_.file, line, field,
+                                        QuoteForMessage(record.record_id) +
+                                            " is already stored for a different dispensing (read from " +
+                                            writer.conflict() + "); a record id must name one dispensing only")};
+      return Reject(line, fault, text);
+    }
     Count(outcome);
     if (outcome == WriteOutcome::kDuplicate) return Status::Ok();
     if (options_.stored_dispensing) options_.stored_dispensing(record);
@@ -237,6 +287,7 @@ class Session : public RowSink {
   const ImportOptions& options_;
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
+  std::string reject_key_;
   RegistryCheck registry_;
   bool patient_index_deferred_ = false;
 };
@@ -248,16 +299,17 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
   Record record;
   CsvRow row;
   while (reader.Next(row)) {
-    session.Tick();
+    session.Tick(row.line_count);
     std::optional<RowFault> fault;
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
     if (!fault) fault = parse(row, layout, context, record);
+    if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv);
     if (fault) {
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
     }
-    if (Status status = store(record, row.line); !status.ok()) return status;
+    if (Status status = store(record, row.line, row.text); !status.ok()) return status;
   }
   return Status::Ok();
 }
@@ -268,7 +320,7 @@ Status ImportCsvWith(CsvReader& reader, const HeaderLayout& layout, const RowCon
   Writer writer;
   if (Status status = writer.Prepare(session.db(), session.source()); !status.ok()) return status;
   return ImportCsvRows<Record>(reader, layout, context, session, parse,
-                               [&](const Record& record, size_t) -> Status {
+                               [&](const Record& record, size_t, std::string_view) -> Status {
                                  Result<WriteOutcome> outcome = writer.Write(record);
                                  if (!outcome.ok()) return outcome.status();
                                  session.Count(*outcome);
@@ -285,10 +337,11 @@ class DispensingBatch {
 
   DispensingBatch(DispensingWriter& writer, Session& session) : writer_(writer), session_(session) {}
 
-  Status Add(const DispensingRecord& record, size_t line) {
+  Status Add(const DispensingRecord& record, size_t line, std::string_view text) {
     if (size_ == records_.size()) records_.emplace_back();
     records_[size_].record = record;  // reuses the slot's string capacity
     records_[size_].line = line;
+    records_[size_].text.assign(text);  // for a rejected row, should the record id clash
     ++size_;
     return size_ == kRows ? Flush() : Status::Ok();
   }
@@ -305,9 +358,8 @@ class DispensingBatch {
     for (const Slot* slot : order_) {
       Result<WriteOutcome> outcome = writer_.Write(slot->record, slot->line, false);
       if (!outcome.ok()) return outcome.status();
-      if (Status status = session_.CountDispensing(slot->record, slot->line, *outcome); !status.ok()) {
-        return status;
-      }
+      Status status = session_.CountDispensing(slot->record, slot->line, *outcome, writer_, slot->text);
+      if (!status.ok()) return status;
     }
     return Status::Ok();
   }
@@ -316,6 +368,7 @@ class DispensingBatch {
   struct Slot {
     DispensingRecord record;
     size_t line = 0;
+    std::string text;
   };
   DispensingWriter& writer_;
   Session& session_;
@@ -333,16 +386,18 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
       if (!session.patient_index_live()) {  // rows go in file order: record ids ascend
         return ImportCsvRows<DispensingRecord>(
             reader, layout, context, session, ParseDispensingRow,
-            [&](const DispensingRecord& record, size_t line) -> Status {
+            [&](const DispensingRecord& record, size_t line, std::string_view text) -> Status {
               Result<WriteOutcome> outcome = writer.Write(record, line, false);
               if (!outcome.ok()) return outcome.status();
-              return session.CountDispensing(record, line, *outcome);
+              return session.CountDispensing(record, line, *outcome, writer, text);
             });
       }
       DispensingBatch batch(writer, session);
       Status status = ImportCsvRows<DispensingRecord>(
           reader, layout, context, session, ParseDispensingRow,
-          [&](const DispensingRecord& record, size_t line) { return batch.Add(record, line); });
+          [&](const DispensingRecord& record, size_t line, std::string_view text) {
+            return batch.Add(record, line, text);
+          });
       return status.ok() ? batch.Flush() : status;
     }
     case InputKind::kPatients:
@@ -368,6 +423,8 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   }
   Result<HeaderLayout> layout = HeaderLayout::Find(kind, header, options.columns, summary.file);
   if (!layout.ok()) return layout.status();
+  reader.ExpectFields(layout->field_count());
+  summary.header_lines = static_cast<long>(header.line_count);
   if (Status status = session.Begin(); !status.ok()) return status;
   if (kind == InputKind::kDispensing) {
     Status status = session.DeferPatientIndexIfLarge(size_bytes / kCsvBytesPerRow);
@@ -376,6 +433,7 @@ Status ImportCsvInput(InputKind kind, std::istream& in, const ImportOptions& opt
   const RowContext context{summary.file, options.date_order};
   Status status = ImportCsv(kind, reader, *layout, context, session);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
+  summary.lines = static_cast<long>(reader.lines());
   read_failed = reader.read_failed();
   return status;
 }
@@ -394,6 +452,7 @@ Status ImportFhirInput(InputKind kind, std::istream& in, uint64_t size_bytes, Se
   FhirReader reader(in, summary.file);
   Status status = ImportFhirItems(kind, reader, session.db(), session.source(), session, summary);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
+  summary.lines = summary.row_lines + summary.blank_lines;  // one resource a line
   read_failed = reader.read_failed();
   return status;
 }
@@ -417,10 +476,8 @@ void AppendNormalised(std::string& key, std::string_view text) {
 
 }  // namespace
 
-std::string DispensingKey(const DispensingRecord& record) {
-  if (!record.record_id.empty()) return "r:" + record.record_id;
-  std::string content;
-  content.reserve(256);
+void DispensingContent(const DispensingRecord& record, std::string& content) {
+  content.clear();
   AppendNormalised(content, record.patient_id);
   content += record.dispensed_on.ToIso();
   content += '\x1f';
@@ -435,6 +492,13 @@ std::string DispensingKey(const DispensingRecord& record) {
   content += '\x1f';
   AppendNormalised(content, record.dosage);
   AppendNormalised(content, record.practice);
+}
+
+std::string DispensingKey(const DispensingRecord& record) {
+  if (!record.record_id.empty()) return "r:" + record.record_id;
+  std::string content;
+  content.reserve(256);
+  DispensingContent(record, content);
   // The first 16 bytes of the digest (32 hex digits).
   return "h:" + Sha256Hex(content).substr(0, 32);
 }
@@ -462,7 +526,7 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   head.resize(static_cast<size_t>(in.gcount()));
   const bool ndjson = LooksLikeNdjson(head);
   summary.format = ndjson ? "fhir" : "csv";
-  PrefixedBuffer buffer(std::move(head), in);
+  PrefixedBuffer buffer(std::move(head), in, ndjson);
   std::istream whole(&buffer);
   Session session(store, summary, options);
   bool read_failed = false;

@@ -58,8 +58,44 @@ Status DispensingWriter::Prepare(sqlite3* db, WriteSource source) {
       " WHERE dedup_key = ?1 AND status <> ?2");
   if (!update.ok()) return update.status();
   update_status_ = std::move(update.value());
+  Result<Statement> select = Statement::Prepare(
+      db,
+      "SELECT d.patient_id, d.dispensed_on, d.product, d.code, d.code_system, d.quantity,"
+      " d.days_supply, d.dosage, d.practice, COALESCE(r.file, ''), d.source_line"
+      " FROM dispensings d LEFT JOIN import_runs r ON r.id = d.run_id WHERE d.dedup_key = ?1");
+  if (!select.ok()) return select.status();
+  select_stored_ = std::move(select.value());
   insert_.BindInt(17, source_.run_id);
   return Status::Ok();
+}
+
+// Whether the dispensing stored under key_ has the record's content; if not, conflict_
+// says where it came from.
+Result<bool> DispensingWriter::SameAsStored(const DispensingRecord& record) {
+  select_stored_.BindText(1, key_);
+  Result<bool> found = select_stored_.Step();
+  if (!found.ok()) return found.status();
+  if (!*found) {
+    select_stored_.Reset();
+    return true;
+  }
+  stored_.patient_id.assign(select_stored_.ColumnText(0));
+  const std::optional<Date> on = ParseDate(select_stored_.ColumnText(1), DateOrder::kIso);
+  stored_.dispensed_on = on.value_or(Date());
+  stored_.product.assign(select_stored_.ColumnText(2));
+  stored_.code.assign(select_stored_.ColumnText(3));
+  stored_.code_system.assign(select_stored_.ColumnText(4));
+  stored_.quantity = select_stored_.ColumnDouble(5);
+  stored_.days_supply.reset();
+  if (!select_stored_.ColumnIsNull(6)) stored_.days_supply = static_cast<int>(select_stored_.ColumnInt(6));
+  stored_.dosage.assign(select_stored_.ColumnText(7));
+  stored_.practice.assign(select_stored_.ColumnText(8));
+  conflict_ = "\"" + std::string(select_stored_.ColumnText(9)) + "\" line " +
+              std::to_string(select_stored_.ColumnInt(10));
+  select_stored_.Reset();
+  DispensingContent(record, content_);
+  DispensingContent(stored_, stored_content_);
+  return content_ == stored_content_;
 }
 
 Result<WriteOutcome> DispensingWriter::Write(const DispensingRecord& record, size_t line,
@@ -85,7 +121,11 @@ Result<WriteOutcome> DispensingWriter::Write(const DispensingRecord& record, siz
   insert_.BindText(18, record.structured_unit);
   if (Status status = insert_.Run(); !status.ok()) return status;
   if (ChangedRows(db_) == 1) return WriteOutcome::kImported;
-  if (!update_status || record.record_id.empty()) return WriteOutcome::kDuplicate;
+  if (record.record_id.empty()) return WriteOutcome::kDuplicate;
+  Result<bool> same = SameAsStored(record);
+  if (!same.ok()) return same.status();
+  if (!*same) return WriteOutcome::kConflict;
+  if (!update_status) return WriteOutcome::kDuplicate;
   update_status_.BindText(1, key_);
   update_status_.BindText(2, record.status);
   update_status_.BindInt(3, source_.run_id);

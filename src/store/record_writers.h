@@ -16,6 +16,7 @@ enum class WriteOutcome {
   kImported,   // a new row
   kUpdated,    // an existing row changed (registry rows; a dispense's FHIR status)
   kDuplicate,  // already stored, nothing changed
+  kConflict,   // the record id is stored for a dispensing with other content: not stored
 };
 
 // Where the rows being written came from.
@@ -29,17 +30,30 @@ class DispensingWriter {
   // Prepares the statements. REQUIRES: `db` outlives the writer.
   Status Prepare(sqlite3* db, WriteSource source);
   // Stores the dispensing under DispensingKey(record) unless that key is stored already.
-  // With `update_status` (FHIR), a stored dispense with the same record id whose status
-  // differs takes the new status (kUpdated).
+  // A stored row with the same record id is the same dispensing only when its content
+  // (DispensingContent) is the same: otherwise the result is kConflict and nothing
+  // changes (conflict() says where the stored one came from). With `update_status`
+  // (FHIR), a stored dispense with the same record id and content whose status differs
+  // takes the new status (kUpdated).
   Result<WriteOutcome> Write(const DispensingRecord& record, size_t line, bool update_status);
 
+  // After kConflict: where the stored dispensing was read, `"FILE" line N`.
+  const std::string& conflict() const { return conflict_; }
+
  private:
+  Result<bool> SameAsStored(const DispensingRecord& record);
+
   sqlite3* db_ = nullptr;
   WriteSource source_;
   Statement insert_;
   Statement update_status_;
+  Statement select_stored_;
   std::string key_;
   std::string date_;
+  std::string content_;
+  std::string stored_content_;
+  DispensingRecord stored_;
+  std::string conflict_;
 };
 
 // Registry rows: inserted, or updated when any field differs (re-imports are upserts).

@@ -4,7 +4,9 @@
 
 #include <sqlite3.h>
 #include <sys/stat.h>
+#include <unistd.h>
 
+#include <algorithm>
 #include <array>
 #include <chrono>
 #include <thread>
@@ -150,7 +152,30 @@ CREATE TABLE fhir_medications (
   run_id INTEGER REFERENCES import_runs(id)
 ) WITHOUT ROWID;
 )sql",
+    // 4 -> 5: a rejected row is kept once, whichever import rejected it last: row_key is
+    // a hash of the input kind, the line and the row as written (rows stored before this
+    // version have none, and stay as they were). A packed history holds at most the
+    // latest kMaxDispensingsPerPatient dispensings and says how many older ones it left
+    // out; the copy is packed again.
+    R"sql(
+ALTER TABLE rejected_rows ADD COLUMN row_key TEXT;
+CREATE UNIQUE INDEX rejected_rows_by_key ON rejected_rows(row_key);
+ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
+DELETE FROM packed_histories;
+DELETE FROM packed_histories_state;
+)sql",
 };
+
+// Whether `table` has a column `column` (names are this file's constants, not data).
+Result<bool> HasColumn(sqlite3* db, const char* table, const char* column) {
+  Result<Statement> stmt = Statement::Prepare(db, "SELECT COUNT(*) FROM pragma_table_info(?1) WHERE name = ?2");
+  if (!stmt.ok()) return stmt.status();
+  stmt->BindText(1, table);
+  stmt->BindText(2, column);
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  return *row && stmt->ColumnInt(0) > 0;
+}
 
 bool FileExists(const std::string& path) {
   struct stat info {};
@@ -177,6 +202,13 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   if (options.must_exist && !in_memory && !FileExists(path)) {
     return Status::Input("no store at \"" + path + "\": import data first, or give --db PATH");
   }
+  if (!in_memory) {
+    if (Status status = CheckStoreFile(path, options.must_exist); !status.ok()) return status;
+  }
+  // A store this user may not write: read-only for commands that only read.
+  if (options.read_only_allowed && !in_memory && ::access(path.c_str(), W_OK) != 0) {
+    return OpenReadOnly(path, options);
+  }
   if (!in_memory && !path.empty() && !FileExists(path)) {
     // A new store holds patient-level data: created owner-only, so that SQLite, which
     // gives its -wal and -shm files the mode of the database file, creates them so too.
@@ -193,9 +225,25 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
   }
   Store store(db, path);
   if (sqlite3_db_readonly(db, "main") == 1) {
-    return Status::Input("cannot open the store \"" + path + "\": the file is read-only");
+    if (options.read_only_allowed) return OpenReadOnly(path, options);
+    return Status::Input("cannot write the store \"" + path +
+                         "\": the file is read-only; run this command as a user who may write it, or give --db a "
+                         "store that can be written");
   }
-  if (Status status = store.Configure(options); !status.ok()) return status;
+  sqlite3_busy_timeout(db, options.busy_timeout_ms);
+  // Before anything is written: another program's database is never turned into a store.
+  if (Status status = store.CheckIdentity(options.must_exist); !status.ok()) {
+    const int error = sqlite3_errcode(db) & 0xff;
+    if (options.read_only_allowed && (error == SQLITE_CANTOPEN || error == SQLITE_READONLY)) {
+      return OpenReadOnly(path, options);
+    }
+    return status;
+  }
+  if (Status status = store.Configure(options); !status.ok()) {
+    // The folder cannot take the -wal and -shm files: read-only for commands that read.
+    if (options.read_only_allowed && !in_memory) return OpenReadOnly(path, options);
+    return status;
+  }
   if (Status status = store.Migrate(); !status.ok()) return status;
   return store;
 }
@@ -203,7 +251,9 @@ Result<Store> Store::Open(const std::string& path, const StoreOptions& options) 
 Store::Store(Store&& other) noexcept
     : db_(std::exchange(other.db_, nullptr)),
       path_(std::move(other.path_)),
-      busy_timeout_ms_(other.busy_timeout_ms_) {}
+      busy_timeout_ms_(other.busy_timeout_ms_),
+      read_only_(other.read_only_),
+      max_dispensings_(other.max_dispensings_) {}
 
 Store& Store::operator=(Store&& other) noexcept {
   if (this != &other) {
@@ -211,6 +261,8 @@ Store& Store::operator=(Store&& other) noexcept {
     db_ = std::exchange(other.db_, nullptr);
     path_ = std::move(other.path_);
     busy_timeout_ms_ = other.busy_timeout_ms_;
+    read_only_ = other.read_only_;
+    max_dispensings_ = other.max_dispensings_;
   }
   return *this;
 }
@@ -220,6 +272,7 @@ Store::~Store() { sqlite3_close(db_); }
 Status Store::Configure(const StoreOptions& options) {
   sqlite3_busy_timeout(db_, options.busy_timeout_ms);
   busy_timeout_ms_ = options.busy_timeout_ms;
+  max_dispensings_ = std::max<size_t>(1, options.max_dispensings_per_patient);
   // The page size applies only when the file is new (before WAL is set): 16 KiB pages
   // make bulk imports cheaper (fewer pages and writes). WAL lets readers run beside one
   // writer and survives a killed writer; synchronous=NORMAL is durable across process
@@ -278,6 +331,16 @@ Status Store::Migrate() {
                          std::to_string(kStoreSchemaVersion) + "); use a newer medload");
   }
   if (*version == kStoreSchemaVersion) return Status::Ok();  // another process migrated it
+  if (*version == 4) {
+    // A version 4 written by a development build that numbered its own changes 4 (rejected
+    // rows with a key, no FHIR dose units) is not the released 4: refused, not damaged.
+    Result<bool> keyed = HasColumn(db_, "rejected_rows", "row_key");
+    if (!keyed.ok()) return keyed.status();
+    if (*keyed) {
+      return Status::Input("the store \"" + path_ + "\" has a schema version 4 of a development build of medload, "
+                           "which this medload cannot migrate; import its files into a new store");
+    }
+  }
   for (int step = *version; step < kStoreSchemaVersion; ++step) {
     if (Status status = ExecSql(db_, kMigrations[static_cast<size_t>(step)]); !status.ok()) {
       return Status::Input("migrating the store \"" + path_ + "\" to version " +
@@ -345,7 +408,9 @@ Result<Store> Store::OpenPeer() const {
   if (!mine.ok()) return mine.status();
   StoreOptions options;
   options.must_exist = true;
-  Result<Store> peer = Store::Open(path_, options);
+  options.read_only_allowed = read_only_;
+  options.max_dispensings_per_patient = max_dispensings_;
+  Result<Store> peer = read_only_ ? OpenReadOnly(path_, options) : Store::Open(path_, options);
   if (!peer.ok()) return peer.status();
   // A smaller memory map (176 MiB) and page cache (8 MiB) than a store's own connection
   // (256 and 16): mapped file pages count in the process's resident size once per
@@ -370,7 +435,7 @@ StoreSnapshot::~StoreSnapshot() {
 Status Store::SaveResolution(std::string_view product, std::string_view code,
                              std::string_view code_system, std::string_view checksum,
                              std::string_view resolution_json) {
-  if (sqlite3_get_autocommit(db_) == 0) return Status::Ok();  // inside a snapshot
+  if (sqlite3_get_autocommit(db_) == 0 || read_only_) return Status::Ok();  // inside a snapshot, or read-only
   Result<Statement> stmt = Statement::Prepare(
       db_,
       "INSERT INTO product_resolutions (product, code, code_system, formulary_checksum,"
@@ -387,6 +452,7 @@ Status Store::SaveResolution(std::string_view product, std::string_view code,
 
 Status Store::SaveRun(std::string_view kind, std::string_view key, std::string_view date_iso,
                       std::string_view payload_json) {
+  if (read_only_) return Status::Ok();  // a store read where it cannot be written keeps no runs
   Result<Statement> stmt = Statement::Prepare(
       db_,
       "INSERT INTO runs (kind, criteria_key, run_date, payload) VALUES (?1, ?2, ?3, ?4)"

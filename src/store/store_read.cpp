@@ -67,8 +67,29 @@ PatientRecord ReadPatient(const Statement& stmt) {
   return patient;
 }
 
+// Reading a patient's records in order while holding only the latest `cap` of them: once
+// the buffer holds twice that many, its older half is dropped (at most 2 x cap records
+// are ever held). `used` records of `records` are live; `dropped` counts the ones let go.
+void SlideIfFull(std::vector<DispensingRecord>& records, size_t& used, size_t cap, long& dropped) {
+  if (used < 2 * cap) return;
+  std::move(records.begin() + static_cast<std::ptrdiff_t>(cap),
+            records.begin() + static_cast<std::ptrdiff_t>(used), records.begin());
+  used = cap;
+  dropped += static_cast<long>(cap);
+}
+
+// After the last record: only the latest `cap` stay live.
+void KeepLatest(std::vector<DispensingRecord>& records, size_t& used, size_t cap, long& dropped) {
+  if (used <= cap) return;
+  const size_t extra = used - cap;
+  std::move(records.begin() + static_cast<std::ptrdiff_t>(extra),
+            records.begin() + static_cast<std::ptrdiff_t>(used), records.begin());
+  used = cap;
+  dropped += static_cast<long>(extra);
+}
+
 Result<std::vector<DispensingRecord>> SelectDispensings(sqlite3* db, std::string_view patient_id,
-                                                        bool counting_only) {
+                                                        bool counting_only, size_t cap, long* dropped_out) {
   std::string sql = std::string("SELECT ") + kDispensingColumns +
                     " FROM dispensings WHERE patient_id = ?1";
   if (counting_only) sql += std::string(" AND ") + kCounting;
@@ -77,14 +98,19 @@ Result<std::vector<DispensingRecord>> SelectDispensings(sqlite3* db, std::string
   if (!stmt.ok()) return stmt.status();
   stmt->BindText(1, patient_id);
   std::vector<DispensingRecord> records;
+  size_t used = 0;
+  long dropped = 0;
   for (;;) {
     Result<bool> row = stmt->Step();
     if (!row.ok()) return row.status();
     if (!*row) break;
-    if (Status status = ReadDispensing(*stmt, records.emplace_back()); !status.ok()) {
-      return status;
-    }
+    SlideIfFull(records, used, cap, dropped);
+    if (used == records.size()) records.emplace_back();
+    if (Status status = ReadDispensing(*stmt, records[used++]); !status.ok()) return status;
   }
+  KeepLatest(records, used, cap, dropped);
+  records.resize(used);
+  if (dropped_out != nullptr) *dropped_out = dropped;
   return records;
 }
 
@@ -118,12 +144,12 @@ Result<std::vector<ReviewRecord>> SelectReviews(sqlite3* db, std::optional<std::
 
 }  // namespace
 
-Result<std::vector<DispensingRecord>> Store::DispensingsOf(std::string_view patient_id) const {
-  return SelectDispensings(db_, patient_id, true);
+Result<std::vector<DispensingRecord>> Store::DispensingsOf(std::string_view patient_id, long* dropped) const {
+  return SelectDispensings(db_, patient_id, true, max_dispensings_, dropped);
 }
 
-Result<std::vector<DispensingRecord>> Store::AllDispensingsOf(std::string_view patient_id) const {
-  return SelectDispensings(db_, patient_id, false);
+Result<std::vector<DispensingRecord>> Store::AllDispensingsOf(std::string_view patient_id, long* dropped) const {
+  return SelectDispensings(db_, patient_id, false, max_dispensings_, dropped);
 }
 
 Result<std::map<std::string, long>> Store::NotCountingOf(std::string_view patient_id, Date on) const {
@@ -161,7 +187,8 @@ Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_i
 struct PatientCursor::State {
   Statement patients;
   Statement dispensings;
-  bool packed = false;  // `dispensings` reads packed_histories (patient_id, packed)
+  bool packed = false;  // `dispensings` reads packed_histories (patient_id, packed, dropped)
+  size_t cap = kMaxDispensingsPerPatient;  // the most dispensings a history holds
   PatientIdRange range;  // the bounds the statements are bound to (they must outlive it)
   Result<bool> patient_row = false;
   Result<bool> dispensing_row = false;
@@ -188,6 +215,7 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   else if (!*s.dispensing_row) into.patient_id.assign(registry_id);
   else into.patient_id.assign(std::min(registry_id, dispensed_id));
   into.registry.reset();
+  into.dropped = 0;
   if (*s.patient_row && registry_id == into.patient_id) {
     into.registry = ReadPatient(s.patients);
     s.patient_row = s.patients.Step();
@@ -199,6 +227,10 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
           !status.ok()) {
         return status;
       }
+      into.dropped = static_cast<long>(s.dispensings.ColumnInt(2));
+      size_t used = into.dispensings.size();  // a copy packed with a larger bound
+      KeepLatest(into.dispensings, used, s.cap, into.dropped);
+      into.dispensings.resize(used);
       s.dispensing_row = s.dispensings.Step();
     } else {
       while (!into.dispensings.empty()) {
@@ -211,6 +243,7 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
   }
   size_t used = 0;
   while (s.dispensing_row.ok() && *s.dispensing_row && s.dispensings.ColumnText(1) == into.patient_id) {
+    SlideIfFull(into.dispensings, used, s.cap, into.dropped);
     if (used == into.dispensings.size()) {
       into.dispensings.emplace_back();
       if (!s.spare->empty()) {
@@ -221,6 +254,7 @@ Result<bool> PatientCursor::Next(PatientHistory& into) {
     if (Status status = ReadDispensing(s.dispensings, into.dispensings[used++]); !status.ok()) return status;
     s.dispensing_row = s.dispensings.Step();
   }
+  KeepLatest(into.dispensings, used, s.cap, into.dropped);
   while (into.dispensings.size() > used) {
     s.spare->push_back(std::move(into.dispensings.back()));
     into.dispensings.pop_back();
@@ -235,6 +269,7 @@ Result<PatientCursor> Store::Patients(const PatientIdRange& range,
                                      std::vector<DispensingRecord>* spare) const {
   auto state = std::make_unique<PatientCursor::State>();
   state->range = range;
+  state->cap = max_dispensings_;
   if (spare != nullptr) state->spare = spare;
   // Bounds only where the range has them, so that SQLite stops the index walk at `to`.
   std::string bounds;
@@ -253,7 +288,7 @@ Result<PatientCursor> Store::Patients(const PatientIdRange& range,
   }
   Result<Statement> dispensings =
       state->packed
-          ? Statement::Prepare(db_, "SELECT patient_id, packed FROM packed_histories WHERE 1" +
+          ? Statement::Prepare(db_, "SELECT patient_id, packed, dropped FROM packed_histories WHERE 1" +
                                         bounds + " ORDER BY patient_id")
           : Statement::Prepare(db_, std::string("SELECT ") + kDispensingColumns +
                                         " FROM dispensings WHERE " + kCounting + bounds +
@@ -280,7 +315,7 @@ Result<bool> Store::PackedHistoriesCurrent() const {
 }
 
 Status Store::RefreshPackedHistories() const {
-  if (InSnapshot()) return Status::Ok();
+  if (InSnapshot() || read_only_) return Status::Ok();
   Result<bool> current = PackedHistoriesCurrent();
   if (!current.ok()) return current.status();
   if (*current) return Status::Ok();
@@ -300,18 +335,22 @@ Status Store::PackHistories() const {
       db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
                " ORDER BY patient_id, dispensed_on, id");
   if (!read.ok()) return read.status();
-  Result<Statement> insert =
-      Statement::Prepare(db_, "INSERT INTO packed_histories (patient_id, packed) VALUES (?1, ?2)");
+  Result<Statement> insert = Statement::Prepare(
+      db_, "INSERT INTO packed_histories (patient_id, packed, dropped) VALUES (?1, ?2, ?3)");
   if (!insert.ok()) return insert.status();
   std::vector<DispensingRecord> records;
   size_t used = 0;
+  long dropped = 0;
   std::string packed;
   const auto flush = [&]() -> Status {
     if (used == 0) return Status::Ok();
+    KeepLatest(records, used, max_dispensings_, dropped);
     packed = PackHistory(std::span<const DispensingRecord>(records.data(), used));
     insert->BindText(1, records[0].patient_id);
     insert->BindBlob(2, packed);
+    insert->BindInt(3, dropped);
     used = 0;
+    dropped = 0;
     return insert->Run();
   };
   for (;;) {
@@ -321,6 +360,7 @@ Status Store::PackHistories() const {
     if (used > 0 && read->ColumnText(1) != records[0].patient_id) {
       if (Status status = flush(); !status.ok()) return status;
     }
+    SlideIfFull(records, used, max_dispensings_, dropped);
     if (used == records.size()) records.emplace_back();
     if (Status status = ReadDispensing(*read, records[used++]); !status.ok()) return status;
   }

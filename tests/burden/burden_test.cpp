@@ -283,6 +283,18 @@ TEST_CASE("an ingredient with a minimum dose but no known strength is listed as 
   CHECK(b.dbi_incomplete[0] == "diazepam");
 }
 
+TEST_CASE("a dose too large for a number is unknown: the ingredient is listed as incomplete") {
+  // A quantity stored before the import's plausible bound (or any product of strength and
+  // quantity past the largest double) gives an infinite daily dose: never a blank DBI.
+  Fixture f;
+  auto b = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 1e308, 28)}, D(2024, 1, 10));
+  CHECK(b.dbi == 0);
+  CHECK(std::isfinite(b.dbi));
+  REQUIRE(b.dbi_incomplete.size() == 1);
+  CHECK(b.dbi_incomplete[0] == "diazepam");
+  CHECK(b.dbi_contributions.empty());
+}
+
 TEST_CASE("non-medicines never count and unmatched products are reported") {
   Fixture f;
   std::vector<DispensingRecord> records = {Rx("foam dressing 10cm", D(2024, 1, 1), 10, 28),

@@ -22,6 +22,44 @@ Timeline LateRefill() {
   return timeline;
 }
 
+
+// A product nothing recognised, dispensed `items` times on `on`.
+UnmatchedProduct Unrecognised(const std::string& name, size_t items, Date on) {
+  UnmatchedProduct product;
+  product.product = name;
+  product.dispensed.assign(items, on);
+  return product;
+}
+
+// A timeline of one medicine and products nothing recognised: 10,000 dispensings of one,
+// and 25 more products of two dispensings each.
+Timeline WithUnrecognised() {
+  Timeline timeline;
+  Medicine medicine;
+  medicine.key = "amlodipine";
+  medicine.ingredients = {"amlodipine"};
+  Episode episode;
+  episode.start = Date::FromCivil(2024, 1, 1);
+  episode.end = Date::FromCivil(2024, 2, 27);
+  medicine.episodes.push_back(episode);
+  timeline.medicines.push_back(medicine);
+  timeline.unmatched.push_back(Unrecognised("Zelquorin 5mg tablets", 10000, Date::FromCivil(2024, 2, 1)));
+  for (int i = 0; i < 25; ++i) {
+    timeline.unmatched.push_back(Unrecognised("Invented product " + std::to_string(i), 2, Date::FromCivil(2024, 1, 5)));
+  }
+  timeline.non_medicine_items = 3;
+  return timeline;
+}
+
+TimelineModel Model(const Timeline& timeline) {
+  TimelineModel model;
+  model.patient = "T1";
+  model.from = Date::FromCivil(2024, 1, 1);
+  model.to = Date::FromCivil(2024, 3, 1);
+  model.timeline = &timeline;
+  return model;
+}
+
 }  // namespace
 
 TEST_SUITE("burden/timeline_writer") {
@@ -51,6 +89,51 @@ TEST_CASE("an episode's supplied days and its tail days are told apart") {
   WriteTimelineSvg(svg, model);
   CHECK(svg.str().find("pale days are tail days") != std::string::npos);
   CHECK(svg.str().find("supplied 2024-03-08 to 2024-04-04") != std::string::npos);
+}
+
+TEST_CASE("every timeline format says how many dispensings of which unrecognised products are not drawn") {
+  const Timeline timeline = WithUnrecognised();
+  const std::vector<std::string> notes = NotDrawnNotes(timeline);
+  REQUIRE(notes.size() == 23);
+  CHECK(notes[0] ==
+        "Not drawn: 10050 dispensings of 26 products that nothing in the formulary recognises; each may be a "
+        "medicine, so check them:");
+  CHECK(notes[1] == "  \"Zelquorin 5mg tablets\": 10000 dispensings, the last on 2024-02-01");
+  CHECK(notes[21] == "  and 6 more products: 12 dispensings");
+  CHECK(notes[22] == "Not drawn: 3 dispensings of non-medicines (dressings, appliances, test strips...).");
+  using Writer = void (*)(std::ostream&, const TimelineModel&);
+  for (const Writer write : {Writer{WriteTimelineText}, Writer{WriteTimelineCsv}, Writer{WriteTimelineSvg},
+                             Writer{WriteTimelineHtml}}) {
+    std::ostringstream out;
+    write(out, Model(timeline));
+    CHECK(out.str().find("Not drawn: 10050 dispensings of 26 products") != std::string::npos);
+    CHECK(out.str().find("Zelquorin 5mg tablets") != std::string::npos);
+  }
+}
+
+TEST_CASE("a timeline of a history cut by the store's bound says how many older dispensings it left out") {
+  Timeline timeline = WithUnrecognised();
+  timeline.unmatched.clear();
+  timeline.non_medicine_items = 0;
+  const std::vector<std::string> notes = NotDrawnNotes(timeline, 280000, 20000);
+  REQUIRE(notes.size() == 1);
+  CHECK(notes[0] == "Not drawn: the oldest 280000 dispensings of the patient; a history is read up to its latest "
+                    "20000 dispensings.");
+  TimelineModel model = Model(timeline);
+  model.dropped = 1;
+  std::ostringstream out;
+  WriteTimelineCsv(out, model);
+  CHECK(out.str().find("# Not drawn: the oldest 1 dispensing of the patient;") != std::string::npos);
+}
+
+TEST_CASE("a timeline that leaves nothing out has no notes") {
+  Timeline timeline = WithUnrecognised();
+  timeline.unmatched.clear();
+  timeline.non_medicine_items = 0;
+  CHECK(NotDrawnNotes(timeline).empty());
+  std::ostringstream out;
+  WriteTimelineText(out, Model(timeline));
+  CHECK(out.str().find("Not drawn") == std::string::npos);
 }
 
 }  // TEST_SUITE

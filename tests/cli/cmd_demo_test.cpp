@@ -11,17 +11,19 @@ namespace medload {
 
 TEST_SUITE("cli/cmd_demo") {
 
-TEST_CASE("the demo's network worklist is owner-only and its cohort table follows the umask") {
+TEST_CASE("the demo's folder is private like a report folder: 0700, every file 0600") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
-  const mode_t old_mask = ::umask(022);
+  const mode_t old_mask = ::umask(0);
   const ProcessResult result = RunMedload({"--quiet", "demo", "--out", "demo"}, run);
   ::umask(old_mask);
   REQUIRE_MESSAGE(result.exit_code == 0, result.err);
-  const std::pair<const char*, mode_t> files[] = {{"demo/network-worklist.csv", 0600},
+  const std::pair<const char*, mode_t> files[] = {{"demo", 0700},
+                                                  {"demo/digests", 0700},
+                                                  {"demo/network-worklist.csv", 0600},
                                                   {"demo/network-worklist.html", 0600},
-                                                  {"demo/cohort.csv", 0644},
-                                                  {"demo/index.html", 0644}};
+                                                  {"demo/cohort.csv", 0600},
+                                                  {"demo/index.html", 0600}};
   for (const auto& [name, mode] : files) {
     CAPTURE(name);
     struct stat info {};

@@ -207,36 +207,102 @@ TEST_CASE("network-level outputs carry no patient identifier") {
   }
 }
 
-TEST_CASE("report pages and worklists that name patients are owner-only, the overview is not") {
+TEST_CASE("control characters and bidi controls in the report title reach no output raw") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
   BuildNetwork(folder, run);
-  const mode_t old_mask = ::umask(022);
-  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
-  ::umask(old_mask);
+  // An escape sequence and U+202E RIGHT-TO-LEFT OVERRIDE (Unicode Standard Annex #9).
+  folder.Write("hostile.json",
+               "{\"title\":\"Invented \\u001b]0;owned\\u0007 \\u202e Net\",\"network\":\"Invented Net\","
+               "\"on\":\"2024-03-10\",\"months\":2,\"criteria\":[\"items>=1\"],"
+               "\"digests\":{\"to\":[\"team@example.invalid\"],\"triggers\":{\"rise_patients\":1}}}");
+  const ProcessResult report = RunMedload({"report", "--config", "hostile.json", "--out", "out"}, run);
   REQUIRE_MESSAGE(report.exit_code == 0, report.err);
-  size_t private_files = 0;
-  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
-    const std::string name = entry.path().filename().string();
-    CAPTURE(name);
-    if (name.rfind("practice-", 0) == 0 || name.rfind("worklist-", 0) == 0) {
-      CHECK(ModeOf(entry.path().string()) == 0600);
-      ++private_files;
-    } else if (entry.is_regular_file()) {
-      CHECK(ModeOf(entry.path().string()) == 0644);
-    }
+  std::vector<std::pair<std::string, std::string>> outputs = {{"stdout", report.out}, {"stderr", report.err}};
+  for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File("out"))) {
+    if (entry.is_regular_file()) outputs.emplace_back(entry.path().string(), ReadWholeFile(entry.path().string()));
   }
-  CHECK(private_files == 4);
-  // A re-run narrows a worklist that was made readable by others in the meantime.
+  size_t shown = 0;
+  for (const auto& [name, text] : outputs) {
+    CAPTURE(name);
+    CHECK(text.find('\x1b') == std::string::npos);
+    CHECK(text.find('\x07') == std::string::npos);
+    CHECK(text.find("\xE2\x80\xAE") == std::string::npos);
+    if (text.find("\\x1b]0;owned") != std::string::npos || text.find("\\u001b]0;owned") != std::string::npos) ++shown;
+  }
+  CHECK(shown >= 4);  // stdout, the overview, a practice page and a digest at least
+}
+
+TEST_CASE("a report folder is private whatever the umask: the folder 0700, every file 0600") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  for (const mode_t mask : {mode_t{0}, mode_t{022}}) {
+    CAPTURE(mask);
+    const std::string out = "out" + std::to_string(mask);
+    const mode_t old_mask = ::umask(mask);
+    ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", out}, run);
+    ::umask(old_mask);
+    REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+    CHECK(ModeOf(folder.File(out)) == 0700);
+    CHECK(ModeOf(folder.File(out + "/digests")) == 0700);
+    size_t files = 0;
+    for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File(out))) {
+      const std::string name = entry.path().filename().string();
+      CAPTURE(name);
+      if (!entry.is_regular_file()) continue;
+      CHECK(ModeOf(entry.path().string()) == 0600);
+      CHECK(name.find(".medload-") == std::string::npos);  // no temporary file left
+      ++files;
+    }
+    CHECK(files >= 9);  // index, cohort csv and json, run.json, two pages, two worklists, digests
+  }
+  // A re-run replaces a worklist that was made readable by others in the meantime.
   const std::string worklist = [&] {
-    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out0"))) {
       if (entry.path().filename().string().rfind("worklist-", 0) == 0) return entry.path().string();
     }
     return std::string();
   }();
   REQUIRE(::chmod(worklist.c_str(), 0644) == 0);
-  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run).exit_code == 0);
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out0"}, run).exit_code == 0);
   CHECK(ModeOf(worklist) == 0600);
+}
+
+TEST_CASE("a report folder or file of another user is refused with exit 2 and left unchanged") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  constexpr uid_t kNobody = 65534;
+  if (geteuid() != 0) {
+    MESSAGE("skipped: only the superuser can give a file to another user");
+    return;
+  }
+  fs::create_directories(folder.File("theirs"));
+  REQUIRE(::chown(folder.File("theirs").c_str(), kNobody, kNobody) == 0);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "theirs"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err.find("theirs: belongs to another user (uid 65534); medload writes patient-level data only") !=
+        std::string::npos);
+  CHECK(fs::is_empty(folder.File("theirs")));
+  // A file of another user inside the user's own report folder.
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "mine"}, run).exit_code == 0);
+  REQUIRE(::chown(folder.File("mine/index.html").c_str(), kNobody, kNobody) == 0);
+  report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "mine"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err.find("index.html: belongs to another user") != std::string::npos);
+}
+
+TEST_CASE("an unknown scale in the config is a config fault: exit 2, naming the file and the key") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  BuildNetwork(folder, run);
+  folder.Write("scale.json", R"({"title":"T","network":"Invented Net","criteria":["items>=1"],"scale":"nosuch"})");
+  const ProcessResult report = RunMedload({"--quiet", "report", "--config", "scale.json", "--out", "out"}, run);
+  CHECK(report.exit_code == 2);
+  CHECK(report.err == "medload: scale.json: /scale: \"nosuch\" is not a scale in " MEDLOAD_SOURCE_FORMULARY
+                      "/anticholinergic/ (known: acb, ars); set \"scale\" to one of them\n");
+  CHECK_FALSE(fs::exists(folder.File("out")));
 }
 
 }  // TEST_SUITE

@@ -35,6 +35,12 @@ TEST_CASE("HTML escaping covers text and attribute contexts") {
         "&lt;script&gt;alert(&#39;x&#39;)&lt;/script&gt; &amp; &quot;q&quot;");
 }
 
+TEST_CASE("HTML escaping shows control characters and bidi controls as visible escapes") {
+  CHECK(EscapeHtml("Invented \x1b[31m<Net>") == "Invented \\x1b[31m&lt;Net&gt;");
+  CHECK(EscapeHtml("P\xE2\x80\xAE" "1") == "P\\u202E1");  // U+202E (Unicode Standard Annex #9)
+  CHECK(EscapeHtml("two\nlines") == "two\nlines");
+}
+
 TEST_CASE("an HTML page opens with the caution as a banner and escapes its title") {
   std::ostringstream out;
   WriteHtmlStart(out, "List <A&B>");

@@ -51,8 +51,16 @@ class TempFolder {
   std::filesystem::path path_;
 };
 
-// A small valid formulary: three ingredients, an ACB scale, one DBI row.
+// A small valid formulary: three ingredients, an ACB scale, one DBI row, and every other
+// required table with its header only (no rules).
 inline void WriteMinimalFormulary(const TempFolder& folder) {
+  folder.Write("products.csv",
+               "product,requires,ingredients,form,route,dose_unit,supply_days_per_unit,source\n");
+  folder.Write("codes.csv", "code_system,code,product_or_ingredient,source\n");
+  folder.Write("non_medicines.csv", "term,category,source\n");
+  folder.Write("dbi_classes.csv", "class,effect,source\n");
+  folder.Write("brands.csv", "brand,ingredients,source\n");
+  folder.Write("rules.json", "{\"rules\": []}\n");
   folder.Write("ingredients.csv",
                "ingredient,synonyms,atc,classes,source\n"
                "chlorphenamine,chlorpheniramine,R06AB04,antihistamine-sedating,test\n"

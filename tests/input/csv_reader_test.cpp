@@ -2,6 +2,7 @@
 
 #include <doctest/doctest.h>
 
+#include <optional>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -14,20 +15,33 @@ struct ReadRow {
   std::vector<std::string> fields;
   std::string text;
   CsvFault fault;
+  size_t line_count = 1;
 };
 
+// Every record of `input`; with `expected_fields`, set as the header's width once the
+// first record is read (as the importer does).
 std::vector<ReadRow> ReadAll(const std::string& input, CsvLimits limits = {},
-                             size_t* blank_lines = nullptr) {
+                             size_t* blank_lines = nullptr, size_t expected_fields = 0,
+                             size_t* lines = nullptr) {
   std::istringstream in(input);
   CsvReader reader(in, limits);
   std::vector<ReadRow> rows;
   CsvRow row;
   while (reader.Next(row)) {
     rows.push_back({row.line, std::vector<std::string>(row.fields.begin(), row.fields.end()),
-                    std::string(row.text), row.fault});
+                    std::string(row.text), row.fault, row.line_count});
+    reader.ExpectFields(expected_fields);
   }
   if (blank_lines != nullptr) *blank_lines = reader.blank_lines();
+  if (lines != nullptr) *lines = reader.lines();
   return rows;
+}
+
+// "1,2,3" for each line from `first` to `last`, each on its own line.
+std::string NumberedRows(int first, int last) {
+  std::string text;
+  for (int i = first; i <= last; ++i) text += "r" + std::to_string(i) + ",x,y\n";
+  return text;
 }
 
 }  // namespace
@@ -176,11 +190,148 @@ TEST_CASE("too many fields in one record is a fault") {
   CHECK(rows[1].fault == CsvFault::kTooManyFields);
 }
 
-TEST_CASE("a quote still open at the end of the input is a fault") {
+TEST_CASE("a quote still open at the end of the input is a fault of its own line only") {
   const std::vector<ReadRow> rows = ReadAll("a,b\n\"never closed,x\nmore\n");
-  REQUIRE(rows.size() == 2);
+  REQUIRE(rows.size() == 3);
   CHECK(rows[1].fault == CsvFault::kUnclosedQuote);
   CHECK(rows[1].line == 2);
+  CHECK(rows[1].text == "\"never closed,x");
+  CHECK(rows[2].line == 3);
+  CHECK(rows[2].fields == std::vector<std::string>{"more"});
+  const std::vector<ReadRow> last = ReadAll("a,b\n\"never closed,x");
+  REQUIRE(last.size() == 2);
+  CHECK(last[1].fault == CsvFault::kUnclosedQuote);
+}
+
+TEST_CASE("a stray quote costs its own line and the records after it are read as written") {
+  // A quote opening a field on line 3, then: no quote at all; a quote closing it a few
+  // lines later (into a record of the right width); one closing it past the line limit;
+  // one closing it on the next line into a record of the wrong width.
+  struct Case {
+    std::string name;
+    std::string after;  // lines 4 onwards
+    size_t records;     // after the header and line 2
+  };
+  const Case cases[] = {
+      {"never closed", NumberedRows(4, 40), 38},
+      {"closed three lines later", NumberedRows(4, 5) + "r6,\"x\",y\n" + NumberedRows(7, 40), 38},
+      {"closed forty lines later", NumberedRows(4, 43) + "r44,\"x\",y\n" + NumberedRows(45, 50), 48},
+      {"closed on the next line into a record of the wrong width", "r4\",x,extra\nr5,x,y\n", 3},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.name);
+    const std::string input = "id,a,b\nr2,x,y\nr3,\"stray,y\n" + c.after;
+    size_t lines = 0;
+    const std::vector<ReadRow> rows = ReadAll(input, {}, nullptr, 3, &lines);
+    REQUIRE(rows.size() == 2 + c.records);
+    CHECK(rows[2].line == 3);
+    CHECK(rows[2].fault == CsvFault::kUnclosedQuote);
+    CHECK(rows[2].text == "r3,\"stray,y");
+    CHECK(rows[2].line_count == 1);
+    size_t counted = 0;
+    for (size_t i = 0; i < rows.size(); ++i) {
+      CAPTURE(i);
+      if (i > 2) {
+        CHECK(rows[i].line == rows[i - 1].line + rows[i - 1].line_count);  // no line skipped
+      }
+      counted += rows[i].line_count;
+    }
+    CHECK(counted == lines);
+  }
+}
+
+TEST_CASE("a quoted field may hold line breaks when the record has the header's width") {
+  // Source: RFC 4180 section 2, rule 6 (line breaks inside double quotes).
+  const std::string input =
+      "id,dosage,quantity\n"
+      "1,\"take one\ndaily\",28\n"
+      "\"2\nb\",x,56\n"
+      "3,\"one\r\ntwo\rthree\",7\n"
+      "4,plain,1\n";
+  size_t lines = 0;
+  const std::vector<ReadRow> rows = ReadAll(input, {}, nullptr, 3, &lines);
+  REQUIRE(rows.size() == 5);
+  CHECK(rows[1].fields == std::vector<std::string>{"1", "take one\ndaily", "28"});
+  CHECK(rows[1].line_count == 2);
+  CHECK(rows[2].fields == std::vector<std::string>{"2\nb", "x", "56"});
+  CHECK(rows[3].fields == std::vector<std::string>{"3", "one\r\ntwo\rthree", "7"});
+  CHECK(rows[3].line_count == 3);
+  CHECK(rows[4].line == 9);
+  CHECK(lines == 9);
+}
+
+TEST_CASE("a record spanning more lines or bytes than its limits ends at its first line") {
+  CsvLimits limits;
+  limits.max_record_lines = 3;
+  const std::vector<ReadRow> long_span = ReadAll("a,b\n\"1\n2\n3\n4\",x\nz,y\n", limits);
+  REQUIRE(long_span.size() == 6);
+  CHECK(long_span[1].fault == CsvFault::kUnclosedQuote);
+  CHECK(long_span[2].fields == std::vector<std::string>{"2"});
+  CHECK(long_span[4].line == 5);
+  CHECK(long_span[4].fields == std::vector<std::string>{"4\"", "x"});  // a quote inside is data
+  CsvLimits bytes;
+  bytes.max_record_bytes = 12;
+  const std::vector<ReadRow> wide = ReadAll("a,b\n\"1\n23456789012345\",x\nz,y\n", bytes);
+  REQUIRE(wide.size() == 4);
+  CHECK(wide[1].fault == CsvFault::kUnclosedQuote);
+  CHECK(wide[2].fault == CsvFault::kRecordTooLong);
+  CHECK(wide[2].line == 3);
+  CHECK(wide[3].fields == std::vector<std::string>{"z", "y"});
+  // A first line over the limit that opens a quote: that line is the record.
+  const std::vector<ReadRow> cut = ReadAll("a,b\n\"1234567890123456\nz,y\n", bytes);
+  REQUIRE(cut.size() == 3);
+  CHECK(cut[1].fault == CsvFault::kRecordTooLong);
+  CHECK(cut[1].text.size() == 12);
+  CHECK(cut[2].line == 3);
+  CHECK(cut[2].fields == std::vector<std::string>{"z", "y"});
+}
+
+TEST_CASE("a CR alone ends a line, also among LF and CRLF lines") {
+  size_t lines = 0;
+  size_t blanks = 0;
+  const std::vector<ReadRow> rows =
+      ReadAll("a,b\n1,x\r2,y\r3,z\r\n\r4,w\n5,v", {}, &blanks, 2, &lines);
+  REQUIRE(rows.size() == 6);
+  for (size_t i = 1; i < rows.size(); ++i) {
+    CAPTURE(i);
+    CHECK(rows[i].fault == CsvFault::kNone);
+    CHECK(rows[i].fields[0] == std::to_string(i));
+  }
+  CHECK(rows[4].line == 6);  // line 5 is the blank CR
+  CHECK(blanks == 1);
+  CHECK(lines == 7);
+}
+
+TEST_CASE("the lines counted are every line end plus a last line without one") {
+  struct Case {
+    std::string input;
+    size_t lines;
+  };
+  const Case cases[] = {{"", 0},          {"a", 1},        {"a\n", 1},        {"a\r\n", 1},
+                        {"a\r", 1},       {"a\n\n", 2},    {"a\r\r\n", 2},    {"\"x\ny\"\nz", 3},
+                        {"\n\n\n", 3},   {"a\rb", 2}};
+  for (const Case& c : cases) {
+    CAPTURE(c.input);
+    size_t lines = 0;
+    ReadAll(c.input, {}, nullptr, 0, &lines);
+    CHECK(lines == c.lines);
+  }
+}
+
+TEST_CASE("a line is a well-formed record on its own only when its quotes open and close fields") {
+  struct Case {
+    std::string line;
+    std::optional<size_t> fields;
+  };
+  const Case cases[] = {
+      {"", 1},           {"a", 1},          {"a,b,c", 3},       {"a,", 2},
+      {"\"a,b\",c", 2}, {"\"a\"\"b\",c", 2}, {"\"\"", 1},       {"a\"b,c", std::nullopt},
+      {"\"a", std::nullopt}, {"\"a\"b,c", std::nullopt}, {"daily\",28", std::nullopt},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.line);
+    CHECK(WellFormedFieldCount(c.line) == c.fields);
+  }
 }
 
 TEST_CASE("empty input and blank-only input give no records") {

@@ -92,6 +92,12 @@ TEST_CASE("each fault of a dispensing row has its reason and exact message") {
        "dispensing.csv:2: quantity: \"2,5\" is not a number"},
       {"R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,nan,,,", "bad_quantity",
        "dispensing.csv:2: quantity: \"nan\" is not a number"},
+      {"R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,1e308,,,", "bad_quantity",
+       "dispensing.csv:2: quantity: \"1e308\" is above 1000000, the largest plausible quantity (check the unit)"},
+      {"R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,1000001,,,", "bad_quantity",
+       "dispensing.csv:2: quantity: \"1000001\" is above 1000000, the largest plausible quantity (check the unit)"},
+      {"R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,28,,3651,", "bad_days_supply",
+       "dispensing.csv:2: days_supply: \"3651\" is above 3650 days (ten years)"},
       {"R1,P1,A1,2024-03-01,Amlodipine 5mg tablets,,,,,,", "missing_quantity",
        "dispensing.csv:2: quantity: is empty"},
       {"R1,P1,A1,2024-02-30,Amlodipine 5mg tablets,,,28,,,", "bad_date",
@@ -115,7 +121,8 @@ TEST_CASE("each fault of a dispensing row has its reason and exact message") {
       {"R1,P1,A1,2024-03-01,Amlodipine\xFF,,,28,,,", "invalid_utf8",
        "dispensing.csv:2: row: is not valid UTF-8 (save the file as UTF-8)"},
       {"R1,P1,A1,2024-03-01,\"Amlodipine,,,28,,,", "unclosed_quote",
-       "dispensing.csv:2: row: a quoted field is still open at the end of the file"},
+       "dispensing.csv:2: row: a quoted field opened on this line never closes into a valid row; only this "
+       "line is rejected, the next line is read as a new row"},
   };
   for (const Case& c : cases) {
     CAPTURE(c.line);

@@ -92,6 +92,17 @@ TEST_CASE("header values cannot inject headers or carry non-ASCII bytes") {
   for (const char c : headers) CHECK(static_cast<unsigned char>(c) < 0x80);
 }
 
+TEST_CASE("control characters and bidi controls in a title or names reach the body as visible escapes") {
+  Digest digest = SampleDigest();
+  digest.title = "Invented \x1b[2Jreport";
+  digest.practice_name = "Invented \xE2\x80\xAE" "Surgery";  // U+202E RIGHT-TO-LEFT OVERRIDE
+  const std::string text = FormatDigest(digest);
+  CHECK(text.find('\x1b') == std::string::npos);
+  CHECK(text.find("\xE2\x80\xAE") == std::string::npos);
+  CHECK(text.find("Invented \\x1b[2Jreport\r\n") != std::string::npos);
+  CHECK(text.find("Practice: WV001 Invented \\u202ESurgery\r\n") != std::string::npos);
+}
+
 TEST_CASE("long header values are folded and long words split to keep 78 columns") {
   Digest digest = SampleDigest();
   digest.to.assign(6, "a-rather-long-address-for-folding@example.invalid");

@@ -37,6 +37,34 @@ TEST_CASE("a key file readable by others is refused") {
   CHECK_FALSE(Pseudonymiser::FromKeyFile(path.string()).ok());
 }
 
+TEST_CASE("a folder, a device or a named pipe given as the key file is refused as what it is") {
+  const auto folder = std::filesystem::temp_directory_path() / "medload_pseudonym_key_folder";
+  std::filesystem::create_directories(folder);
+  ::chmod(folder.c_str(), 0700);
+  const auto fifo = std::filesystem::temp_directory_path() / "medload_pseudonym_key_fifo";
+  std::filesystem::remove(fifo);
+  REQUIRE(::mkfifo(fifo.c_str(), 0600) == 0);
+  const struct {
+    std::string path;
+    std::string kind;
+  } cases[] = {{folder.string(), "a folder"}, {"/dev/null", "a device"}, {fifo.string(), "a named pipe (FIFO)"}};
+  for (const auto& c : cases) {
+    CAPTURE(c.path);
+    auto open = Pseudonymiser::FromKeyFile(c.path);  // a FIFO without a writer must not block
+    REQUIRE_FALSE(open.ok());
+    CHECK(open.status().code() == StatusCode::kInput);
+    CHECK(open.status().message() ==
+          c.path + ": is " + c.kind + ", not a key file; give the path of a regular file holding the key");
+  }
+  std::filesystem::remove(folder);
+  std::filesystem::remove(fifo);
+  auto missing = Pseudonymiser::FromKeyFile(folder.string());
+  REQUIRE_FALSE(missing.ok());
+  CHECK(missing.status().message() == folder.string() +
+                                          ": the pseudonymisation key file cannot be opened (No such file or "
+                                          "directory); give the path of a file holding the key");
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

@@ -215,6 +215,36 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   CHECK(later.practice_data.at("PA") == DataState::kBeyondData);
 }
 
+TEST_CASE("a worklist says how many patients' histories the store's bound cut, and ranks on the latest dispensings") {
+  StoreOptions bounded;
+  bounded.max_dispensings_per_patient = 3;
+  Store store = std::move(Store::Open(":memory:", bounded).value());
+  RunContext analysis = std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+  // Five daily dispensings of H: the two oldest (amitriptyline) are past the bound of three.
+  Import(store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\n"
+         "H,2024-01-01,Amitriptyline 10mg tablets,28,28\n"
+         "H,2024-01-02,Amitriptyline 10mg tablets,28,28\n"
+         "H,2024-01-03,Ramipril 5mg capsules,28,28\n"
+         "H,2024-01-04,Ramipril 5mg capsules,28,28\n"
+         "H,2024-01-05,Ramipril 5mg capsules,28,28\n"
+         "J,2024-01-05,Ramipril 5mg capsules,28,28\n");
+  WorklistOptions options = On(D(2024, 1, 10), {AtLeast("items=1")});
+  options.remember_run = false;
+  auto list = BuildWorklist(store, analysis, options);
+  REQUIRE(list.ok());
+  const std::string capped =
+      "1 patient has more than 3 counting dispensings: only the latest of each are read, so figures for dates "
+      "before them may miss medicines (check the source of such histories)";
+  CAPTURE(list->notes);
+  CHECK(std::count(list->notes.begin(), list->notes.end(), capped) == 1);
+  REQUIRE(list->patients.size() == 2);
+  for (const auto& entry : list->patients) {
+    CAPTURE(entry.patient);
+    CHECK(entry.items == 1);  // H's amitriptyline is left out with the older dispensings
+  }
+}
+
 TEST_CASE("a row warns of recent products recognised only in part or read from a close spelling") {
   Population p;
   Import(p.store, InputKind::kDispensing,

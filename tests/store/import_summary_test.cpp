@@ -16,6 +16,10 @@ ImportSummary Example(const std::string& file) {
   summary.kind = "dispensing";
   summary.format = "csv";
   summary.read = 10;
+  summary.lines = 12;
+  summary.header_lines = 1;
+  summary.blank_lines = 1;
+  summary.row_lines = 10;
   summary.imported = 6;
   summary.duplicates = 2;
   summary.rejected = 2;
@@ -61,9 +65,10 @@ TEST_CASE("the CSV summary starts with the caution line") {
   WriteImportCsv({Example("a.csv")}, out);
   const std::string text = out.str();
   CHECK(text.rfind("# CAUTION:", 0) == 0);
-  CHECK(text.find("\nfile,kind,format,read,imported,duplicates,rejected,updated,rolled_back,reasons,"
-                  "not_counted,not_in_registry,not_in_registry_examples,product_flags\n") != std::string::npos);
-  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,0,,\n") !=
+  CHECK(text.find("\nfile,kind,format,lines,blank_lines,row_lines,read,imported,duplicates,rejected,"
+                  "stored,updated,rolled_back,reasons,not_counted,not_in_registry,not_in_registry_examples,"
+                  "product_flags\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,12,1,10,10,6,2,2,6,0,false,bad_date=1;bad_quantity=1,,0,,\n") !=
         std::string::npos);
 }
 
@@ -86,6 +91,39 @@ TEST_CASE("a rolled-back file says so with its rate and the limit") {
   std::ostringstream out;
   WriteImportText({summary}, out);
   CHECK(out.str().find("rolled back") != std::string::npos);
+}
+
+TEST_CASE("a rolled-back file shows its valid rows as not stored, never as imported") {
+  ImportSummary summary = Example("a.csv");
+  summary.rolled_back = true;
+  std::ostringstream text;
+  WriteImportText({summary}, text);
+  CHECK(text.str().find("0 (6 valid, not stored)") != std::string::npos);
+  const nlohmann::ordered_json json = ImportJson({summary});
+  CHECK(json.at("imported") == 6);  // what the file held: the counts still add up to read
+  CHECK(json.at("stored") == 0);
+  CHECK(json.at("files").at(0).at("stored") == 0);
+  CHECK(ImportJson({Example("a.csv")}).at("stored") == 6);
+}
+
+TEST_CASE("the summary accounts for every physical line: header, blank and the lines of rows") {
+  ImportSummary summary = Example("a.csv");
+  std::ostringstream text;
+  WriteImportText({summary}, text);
+  CHECK(text.str().find("a.csv: 12 lines = 1 header + 1 blank + 10 in the 10 rows read\n") !=
+        std::string::npos);
+  summary.blank_lines = 0;
+  summary.row_lines = 11;
+  summary.multiline_rows = 1;
+  std::ostringstream spans;
+  WriteImportText({summary}, spans);
+  CHECK(spans.str().find("a.csv: 12 lines = 1 header + 0 blank + 11 in the 10 rows read (1 row spans "
+                         "several lines)\n") != std::string::npos);
+  const nlohmann::ordered_json json = ImportJson({summary});
+  CHECK(json.at("lines") == 12);
+  CHECK(json.at("header_lines") == 1);
+  CHECK(json.at("row_lines") == 11);
+  CHECK(json.at("files").at(0).at("multiline_rows") == 1);
 }
 
 TEST_CASE("the rejects file quotes the original row and guards against formulas") {
@@ -161,7 +199,7 @@ TEST_CASE("dispensings with no registry row are a warning in every format") {
   WriteImportHtml({summary}, html);
   CHECK(text.str().find(warning + "\n  d.ndjson:4: patient \"pt-x\"\n  d.ndjson:9: patient \"pt-z\"\n") !=
         std::string::npos);
-  CHECK(csv.str().find("d.ndjson,dispensing,fhir,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,3,"
+  CHECK(csv.str().find("d.ndjson,dispensing,fhir,12,1,10,10,6,2,2,6,0,false,bad_date=1;bad_quantity=1,,3,"
                        "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\",\n") != std::string::npos);
   CHECK(html.str().find("<li>" + warning + "</li>") != std::string::npos);
 }

@@ -281,6 +281,190 @@ TEST_CASE("line ends of a CR alone are line ends, and rows keep their line numbe
   CHECK(Count(store, "SELECT source_line FROM dispensings WHERE patient_id = 'P3'") == 4);
 }
 
+TEST_CASE("a record id reused for another patient's dispensing is a conflict, not a duplicate") {
+  const auto file = [](const std::string& patient, const std::string& product) {
+    std::string text = "record_id,patient_id,dispensed_on,product,quantity\n";
+    for (int i = 1; i <= 200; ++i) {
+      text += std::to_string(i) + "," + patient + ",2024-01-05," + product + "," + std::to_string(i) + "\n";
+    }
+    return text;
+  };
+  Store store = Memory();
+  REQUIRE(Import(store, InputKind::kDispensing, file("PA", "Amlodipine 5mg tablets")).ok());
+  // The same ids for another patient: rejected, and over the reject rate the file is
+  // rolled back.
+  Result<ImportSummary> other = Import(store, InputKind::kDispensing, file("PB", "Amlodipine 5mg tablets"));
+  REQUIRE(other.ok());
+  CheckAddsUp(*other);
+  CHECK(other->duplicates == 0);
+  CHECK(other->rejected == 200);
+  CHECK(other->reasons == std::map<std::string, long>{{"record_id_conflict", 200}});
+  CHECK(other->rolled_back);
+  CHECK(other->examples.front() ==
+        "dispensing.csv:2: record_id: \"1\" is already stored for a different dispensing (read from "
+        "\"dispensing.csv\" line 2); a record id must name one dispensing only");
+  // The same ids and content, written differently: duplicates.
+  Result<ImportSummary> again = Import(store, InputKind::kDispensing, file("PA", " AMLODIPINE  5mg tablets"));
+  REQUIRE(again.ok());
+  CHECK(again->duplicates == 200);
+  CHECK(again->rejected == 0);
+  CHECK(Count(store, "SELECT COUNT(*) FROM dispensings WHERE patient_id = 'PB'") == 0);
+  // FHIR: a dispense id already stored for another patient.
+  ImportOptions keep;
+  keep.max_reject_rate = 1;
+  Result<ImportSummary> fhir = Import(
+      store, InputKind::kDispensing,
+      R"({"resourceType":"MedicationDispense","id":"1","status":"completed","subject":{"reference":"Patient/PC"},)"
+      R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      keep);
+  REQUIRE(fhir.ok());
+  CHECK(fhir->reasons == std::map<std::string, long>{{"record_id_conflict", 1}});
+  CHECK(fhir->examples.front().rfind("dispensing.csv:1: /id: \"1\" is already stored", 0) == 0);
+}
+
+TEST_CASE("re-importing a file keeps each of its rejected rows once in the store") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  for (int run = 0; run < 3; ++run) {
+    REQUIRE(Import(store, InputKind::kDispensing, kMixed, options).ok());
+  }
+  CHECK(Count(store, "SELECT COUNT(*) FROM rejected_rows") == 4);
+  CHECK(Count(store, "SELECT COUNT(DISTINCT run_id) FROM rejected_rows") == 1);
+  CHECK(Count(store, "SELECT MIN(run_id) FROM rejected_rows") == 3);  // the latest run
+}
+
+TEST_CASE("a stray quote rejects its own line only, and every physical line is counted") {
+  // 2,000 rows; a quote opens a field on row 1,000 and, in the second file, a later row
+  // holds a quoted field that would close it.
+  for (const bool closed_later : {false, true}) {
+    CAPTURE(closed_later);
+    std::string text = "record_id,patient_id,dispensed_on,product,quantity,days_supply\n";
+    for (int i = 1; i <= 2000; ++i) {
+      const std::string product = i == 1000                    ? "\"Amlodipine 5mg tablets"
+                                  : closed_later && i == 1010 ? "\"Amlodipine, 5mg\""
+                                                              : "Amlodipine 5mg tablets";
+      text += "S" + std::to_string(i) + ",P" + std::to_string(i % 97) + ",2024-01-05," + product + ",28,28\n";
+    }
+    Store store = Memory();
+    Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text);
+    REQUIRE(summary.ok());
+    CheckAddsUp(*summary);
+    CHECK(summary->read == 2000);
+    CHECK(summary->imported == 1999);
+    CHECK(summary->reasons == std::map<std::string, long>{{"unclosed_quote", 1}});
+    CHECK(summary->examples.front().rfind("dispensing.csv:1001: row: a quoted field opened on this line", 0) == 0);
+    CHECK(summary->lines == 2001);
+    CHECK(summary->lines == summary->header_lines + summary->blank_lines + summary->row_lines);
+    CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'S1001'") == 1002);
+  }
+}
+
+TEST_CASE("a block of CR-only lines inside an LF file is read line by line, in CSV and in FHIR") {
+  std::string csv = "record_id,patient_id,dispensed_on,product,quantity\n";
+  std::string fhir;
+  for (int i = 1; i <= 100; ++i) {
+    const char* end = i >= 30 && i < 69 ? "\r" : "\n";
+    csv += "M" + std::to_string(i) + ",P1,2024-01-05,X," + std::to_string(i) + end;
+    fhir += R"({"resourceType":"MedicationDispense","id":"f)" + std::to_string(i) +
+            R"(","status":"completed","subject":{"reference":"Patient/P1"},"medicationCodeableConcept":{"text":"X"},)"
+            R"("quantity":{"value":1},"whenHandedOver":"2024-01-02"})" + end;
+  }
+  Store store = Memory();
+  for (const std::string& text : {csv, fhir}) {
+    Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text);
+    REQUIRE(summary.ok());
+    CHECK(summary->read == 100);
+    CHECK(summary->imported == 100);
+    CHECK(summary->rejected == 0);
+    CHECK(summary->lines == summary->header_lines + 100);
+  }
+  CHECK(Count(store, "SELECT source_line FROM dispensings WHERE record_id = 'M69'") == 70);
+}
+
+TEST_CASE("a quoted line break inside a row is one row of two lines in the line count") {
+  Store store = Memory();
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing,
+                                         "patient_id,dispensed_on,product,quantity,dosage\n"
+                                         "P1,2024-01-05,X,28,\"take one\ndaily\"\n\nP2,2024-01-05,X,28,\n");
+  REQUIRE(summary.ok());
+  CHECK(summary->read == 2);
+  CHECK(summary->imported == 2);
+  CHECK(summary->lines == 5);
+  CHECK(summary->header_lines == 1);
+  CHECK(summary->blank_lines == 1);
+  CHECK(summary->row_lines == 3);
+  CHECK(summary->multiline_rows == 1);
+}
+
+TEST_CASE("identifiers holding a line break, tab or bidi control are rejected, in CSV and in FHIR") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  // U+202E RIGHT-TO-LEFT OVERRIDE; source: Unicode Standard Annex #9, table 4.
+  Result<ImportSummary> csv = Import(store, InputKind::kDispensing,
+                                     "record_id,patient_id,practice,dispensed_on,product,quantity\n"
+                                     "R1,\"P1\nP2\",A1,2024-01-05,X,1\n"
+                                     "R2,P\xE2\x80\xAE" "3,A1,2024-01-05,X,1\n"
+                                     "R3,P4,\"A\t1\",2024-01-05,X,1\n"
+                                     "R\xE2\x81\xA6" "4,P5,A1,2024-01-05,X,1\n"
+                                     "R5,P6,A1,2024-01-05,X,1\n",
+                                     options);
+  REQUIRE(csv.ok());
+  CHECK(csv->read == 5);
+  CHECK(csv->imported == 1);
+  CHECK(csv->reasons == std::map<std::string, long>{{"bad_identifier", 4}});
+  CHECK(csv->examples == std::vector<std::string>{
+                             "dispensing.csv:2: patient_id: holds the character \\x0a; identifiers must be plain text (it "
+                             "would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:4: patient_id: holds the character \\u202E; identifiers must be plain text "
+                             "(it would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:5: practice: holds the character \\x09; identifiers must be plain text (it "
+                             "would reorder or break the lines of every output naming it)",
+                             "dispensing.csv:6: record_id: holds the character \\u2066; identifiers must be plain text "
+                             "(it would reorder or break the lines of every output naming it)"});
+  Result<ImportSummary> patients = Import(store, InputKind::kPatients,
+                                          "patient_id,birth_date\nP\xE2\x80\x8F" "7,1950\n", options);
+  REQUIRE(patients.ok());
+  CHECK(patients->reasons == std::map<std::string, long>{{"bad_identifier", 1}});
+  Result<ImportSummary> fhir = Import(
+      store, InputKind::kDispensing,
+      R"({"resourceType":"MedicationDispense","id":"m8","status":"completed","subject":{"reference":"Patient/P\u202e8"},)"
+      R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
+      options);
+  REQUIRE(fhir.ok());
+  // In FHIR the reader refuses it first: a reference's id is a FHIR id (FHIR R4, 2.24.0.1 "id").
+  CHECK(fhir->reasons == std::map<std::string, long>{{"bad_reference", 1}});
+  CHECK(fhir->examples.front() == "dispensing.csv:1: /subject/reference: \"Patient/P\xE2\x80\xAE" "8\" has an id that "
+                                  "is not a FHIR id (1 to 64 of A-Z a-z 0-9 - .)");
+}
+
+TEST_CASE("a quantity, days supply or strength beyond plausible bounds is rejected with its reason") {
+  Store store = Memory();
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing,
+                                         "patient_id,dispensed_on,product,quantity,days_supply\n"
+                                         "P1,2024-01-05,Amlodipine 5mg tablets,1e308,28\n"
+                                         "P2,2024-01-05,Amlodipine 5mg tablets,28,10000\n"
+                                         "P3,2024-01-05,Amlodipine 5000000mg tablets,28,28\n"
+                                         "P4,2024-01-05,Benzathine benzylpenicillin 2400000 units injection,1,28\n"
+                                         "P5,2024-01-05,Hydrocortisone 150% cream,1,28\n"
+                                         "P6,2024-01-05,Glucose 75g sachets,1,\n",
+                                         options);
+  REQUIRE(summary.ok());
+  CheckAddsUp(*summary);
+  CHECK(summary->imported == 2);
+  CHECK(summary->reasons == std::map<std::string, long>{
+                                {"bad_days_supply", 1}, {"bad_quantity", 1}, {"implausible_strength", 2}});
+  CHECK(summary->examples[2] ==
+        "dispensing.csv:4: product: \"Amlodipine 5000000mg tablets\": a strength of 5000000 mg is above the "
+        "plausible 1000000 mg; check the description");
+  CHECK(summary->examples[3] ==
+        "dispensing.csv:6: product: \"Hydrocortisone 150% cream\": a strength of 150 % is above the plausible "
+        "100 %; check the description");
+}
+
 TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
   Store store = Memory();
   ImportOptions options;

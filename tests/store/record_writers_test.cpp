@@ -46,6 +46,36 @@ TEST_CASE("a dispensing is new once, then a duplicate") {
   CHECK(fixture.store->Summary()->dispensings == 2);
 }
 
+TEST_CASE("a record id stored with other content is a conflict and changes nothing") {
+  Fixture fixture;
+  DispensingWriter writer;
+  REQUIRE(writer.Prepare(fixture.store->handle(), fixture.source).ok());
+  REQUIRE(*writer.Write(Dispense("R1", ""), 2, false) == WriteOutcome::kImported);
+  struct Case {
+    const char* change;
+    void (*apply)(DispensingRecord&);
+  };
+  const Case cases[] = {
+      {"patient", [](DispensingRecord& r) { r.patient_id = "P2"; }},
+      {"date", [](DispensingRecord& r) { r.dispensed_on = Date::FromCivil(2024, 1, 3); }},
+      {"product", [](DispensingRecord& r) { r.product = "Sertraline 50mg tablets"; }},
+      {"quantity", [](DispensingRecord& r) { r.quantity = 56; }},
+      {"days supply", [](DispensingRecord& r) { r.days_supply = 28; }},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.change);
+    DispensingRecord record = Dispense("R1", "");
+    c.apply(record);
+    CHECK(*writer.Write(record, 5, true) == WriteOutcome::kConflict);
+    CHECK(writer.conflict() == "\"f\" line 2");
+  }
+  DispensingRecord spelled = Dispense("R1", "");
+  spelled.product = "  AMLODIPINE 5mg  Tablets ";
+  CHECK(*writer.Write(spelled, 6, false) == WriteOutcome::kDuplicate);
+  CHECK(fixture.store->DispensingsOf("P1")->size() == 1);
+  CHECK(fixture.store->DispensingsOf("P2")->empty());
+}
+
 TEST_CASE("a re-sent dispense with a new status updates only when asked to") {
   Fixture fixture;
   DispensingWriter writer;

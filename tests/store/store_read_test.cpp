@@ -2,6 +2,7 @@
 #include <sqlite3.h>
 
 #include <algorithm>
+#include <optional>
 #include <sstream>
 
 #include "medload/store/importer.h"
@@ -124,6 +125,48 @@ TEST_CASE("the packed copy gives the same pass as the dispensings, whole and by 
     joined.insert(joined.end(), part.begin(), part.end());
   }
   CHECK(joined == table);
+}
+
+TEST_CASE("a history holds only the latest dispensings up to the bound, and says how many it left out") {
+  StoreOptions options;
+  options.max_dispensings_per_patient = 5;
+  Result<Store> opened = Store::Open(":memory:", options);
+  REQUIRE(opened.ok());
+  Store& store = *opened;
+  std::string text = "record_id,patient_id,dispensed_on,product,quantity\n";
+  for (int day = 1; day <= 23; ++day) {
+    text += "L" + std::to_string(day) + ",P1,2024-01-" + (day < 10 ? "0" : "") + std::to_string(day) + ",X,1\n";
+  }
+  text += "M1,P2,2024-01-01,X,1\nM2,P2,2024-01-02,X,1\n";
+  Load(store, InputKind::kDispensing, text);
+  long dropped = -1;
+  Result<std::vector<DispensingRecord>> one = store.DispensingsOf("P1", &dropped);
+  REQUIRE(one.ok());
+  REQUIRE(one->size() == 5);
+  CHECK(dropped == 18);
+  CHECK(one->front().record_id == "L19");
+  CHECK(one->back().record_id == "L23");
+  // The pass over the table and over the packed copy: the same five, the same count left out.
+  for (const bool packed : {false, true}) {
+    CAPTURE(packed);
+    std::optional<StoreSnapshot> snapshot;
+    if (packed) {
+      REQUIRE(store.RefreshPackedHistories().ok());
+      snapshot.emplace(std::move(store.BeginSnapshot().value()));
+    }
+    Result<PatientCursor> cursor = store.Patients();
+    REQUIRE(cursor.ok());
+    PatientHistory history;
+    REQUIRE(cursor->Next(history).value());
+    CHECK(history.patient_id == "P1");
+    REQUIRE(history.dispensings.size() == 5);
+    CHECK(history.dispensings.front().record_id == "L19");
+    CHECK(history.dropped == 18);
+    REQUIRE(cursor->Next(history).value());
+    CHECK(history.patient_id == "P2");
+    CHECK(history.dispensings.size() == 2);
+    CHECK(history.dropped == 0);
+  }
 }
 
 TEST_CASE("an import, an update or a delete of a dispensing leaves the packed copy stale until packed again") {

@@ -7,6 +7,7 @@
 
 #include <thread>
 
+#include "store/sqlite.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -107,6 +108,94 @@ TEST_CASE("a file that is not a SQLite database is an input error naming the pat
   REQUIRE_FALSE(store.ok());
   CHECK(store.status().code() == StatusCode::kInput);
   CHECK(store.status().message().find(path) != std::string::npos);
+}
+
+TEST_CASE("a file that is not a medload store is refused for reading, saying what it is") {
+  TempFolder folder;
+  folder.Write("empty.db", "");
+  folder.Write("notes.db", "plain text notes, not a database\n");
+  ExecRaw(folder.File("other.db"), "CREATE TABLE contacts (name TEXT); INSERT INTO contacts VALUES ('x');");
+  ExecRaw(folder.File("blank.db"), "CREATE TABLE t (x); DROP TABLE t;");
+  struct Case {
+    std::string file;
+    std::string message;
+  };
+  const Case cases[] = {
+      {"empty.db", "\"" + folder.File("empty.db") +
+                       "\" is an empty file, not a medload store: import data into it first, or give --db the path of a store"},
+      {"notes.db", "\"" + folder.File("notes.db") +
+                       "\" is not a medload store: it is not a SQLite database (give --db the path of a store made by "
+                       "'medload import')"},
+      {"other.db", "\"" + folder.File("other.db") +
+                       "\" is a SQLite database without medload's tables (another program's file?); give --db the path "
+                       "of a store made by 'medload import'"},
+      {"blank.db", "\"" + folder.File("blank.db") +
+                       "\" is an empty SQLite database, not a medload store: import data into it first, or give --db "
+                       "the path of a store"},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.file);
+    const std::string before = QueryText(folder.File(c.file), "PRAGMA journal_mode");
+    Result<Store> store = Store::Open(folder.File(c.file), StoreOptions{30000, true, true});
+    REQUIRE_FALSE(store.ok());
+    CHECK(store.status().code() == StatusCode::kInput);
+    CHECK(store.status().message() == c.message);
+    CHECK(QueryText(folder.File(c.file), "PRAGMA journal_mode") == before);  // not switched to WAL
+  }
+  // An import never turns another program's database into a store; an empty file it may.
+  Result<Store> other = Store::Open(folder.File("other.db"));
+  REQUIRE_FALSE(other.ok());
+  CHECK(other.status().message() == cases[2].message);
+  CHECK(QueryText(folder.File("other.db"), "SELECT COUNT(*) FROM sqlite_master") == "1");
+  CHECK(Store::Open(folder.File("empty.db")).ok());
+}
+
+TEST_CASE("a store that may only be read is opened read-only and writes nothing") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+    REQUIRE(ExecSql(store->handle(),
+                    "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'f', 'now');"
+                    "INSERT INTO dispensings (dedup_key, patient_id, dispensed_on, product, quantity, source_line,"
+                    " run_id) VALUES ('r:1', 'P1', '2024-01-05', 'X', 28, 2, 1)")
+                .ok());
+  }
+  Result<Store> store = Store::Open(path, StoreOptions{30000, true, true});
+  REQUIRE(store.ok());
+  CHECK_FALSE(store->read_only());  // this user may write it: opened as usual
+  REQUIRE(::chmod(path.c_str(), 0444) == 0);
+  if (geteuid() == 0) {
+    MESSAGE("the superuser may write any file: the rest needs another user");
+    return;
+  }
+  Result<Store> read_only = Store::Open(path, StoreOptions{30000, true, true});
+  REQUIRE(read_only.ok());
+  CHECK(read_only->read_only());
+  CHECK(read_only->DispensingsOf("P1")->size() == 1);
+  CHECK(read_only->RefreshPackedHistories().ok());
+  CHECK_FALSE(read_only->PackedHistoriesCurrent().value());
+  CHECK(read_only->SaveRun("review", "k", "2024-01-31", "{}").ok());
+  CHECK_FALSE(read_only->LatestRun("review", "k", "2025-01-01")->has_value());
+  CHECK_FALSE(read_only->PackHistoriesNow().ok());
+}
+
+TEST_CASE("packing now packs once, then finds the copy current") {
+  TempFolder folder;
+  const std::string path = folder.File("medload.db");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  REQUIRE(ExecSql(store->handle(),
+                  "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'f', 'now');"
+                  "INSERT INTO dispensings (dedup_key, patient_id, dispensed_on, product, quantity, source_line,"
+                  " run_id) VALUES ('r:1', 'P1', '2024-01-05', 'X', 28, 2, 1), ('r:2', 'P2', '2024-01-05', 'X', 28,"
+                  " 3, 1)")
+              .ok());
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  CHECK(store->PackHistoriesNow().value() == 2);
+  CHECK(store->PackedHistoriesCurrent().value());
+  CHECK(store->PackHistoriesNow().value() == 0);
 }
 
 TEST_CASE("a store from a newer medload is refused rather than damaged") {
@@ -238,6 +327,9 @@ TEST_CASE("a store of schema version 1 migrates to the current version and keeps
           " status TEXT NOT NULL DEFAULT '', source_file TEXT NOT NULL,"
           " source_line INTEGER NOT NULL, run_id INTEGER NOT NULL REFERENCES import_runs(id));"
           "CREATE INDEX dispensings_by_patient ON dispensings(patient_id, dispensed_on);"
+          "CREATE TABLE rejected_rows (id INTEGER PRIMARY KEY, run_id INTEGER NOT NULL REFERENCES"
+          " import_runs(id), line INTEGER NOT NULL, reason TEXT NOT NULL, message TEXT NOT NULL,"
+          " original_row TEXT NOT NULL);"
           "INSERT INTO import_runs (kind, file, started, outcome) VALUES"
           " ('dispensing', 'old.csv', '2024-01-01T00:00:00Z', 'committed');"
           "INSERT INTO dispensings (dedup_key, record_id, patient_id, dispensed_on, product,"
@@ -273,6 +365,8 @@ TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHI
   }
   // Take the store back to what version 3 held, with a packed copy in the old layout.
   ExecRaw(path,
+          "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
+          "ALTER TABLE packed_histories DROP COLUMN dropped;"
           "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
           "ALTER TABLE dispensings DROP COLUMN structured_unit;"
           "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
@@ -280,11 +374,61 @@ TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHI
           "PRAGMA user_version=3;");
   Result<Store> store = Store::Open(path);
   REQUIRE(store.ok());
-  CHECK(store->SchemaVersion().value() == 4);
+  CHECK(store->SchemaVersion().value() == 5);
   CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
   CHECK_FALSE(store->PackedHistoriesCurrent().value());
   CHECK(QueryText(path, "SELECT COUNT(*) FROM patient_identifiers") == "0");
   CHECK(QueryText(path, "SELECT COUNT(*) FROM fhir_medications") == "0");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('rejected_rows') WHERE name = 'row_key'") == "1");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('packed_histories') WHERE name = 'dropped'") == "1");
+}
+
+TEST_CASE("a store of schema version 4 migrates: rejected rows get a key, packed histories a count left out") {
+  TempFolder folder;
+  const std::string path = folder.File("v4.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  // Version 4 as released: no row_key, no dropped; a rejected row and a packed copy of
+  // that layout that claims to be current.
+  ExecRaw(path,
+          "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
+          "ALTER TABLE packed_histories DROP COLUMN dropped;"
+          "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'old.csv', 'then');"
+          "INSERT INTO rejected_rows (run_id, line, reason, message, original_row)"
+          " VALUES (1, 2, 'bad_date', 'old.csv:2: dispensed_on: bad', 'x');"
+          "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
+          "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "PRAGMA user_version=4;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == 5);
+  // The old rejected row is kept as it was, without a key.
+  CHECK(QueryText(path, "SELECT reason || ':' || IFNULL(row_key, 'none') FROM rejected_rows") == "bad_date:none");
+  // The packed copy is dropped and stale, so that it is packed again with the bound.
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('packed_histories') WHERE name = 'dropped'") == "1");
+}
+
+TEST_CASE("a version 4 of a development build, with keyed rejected rows, is refused and left unchanged") {
+  TempFolder folder;
+  const std::string path = folder.File("dev4.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  ExecRaw(path,
+          "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
+          "ALTER TABLE dispensings DROP COLUMN structured_unit; PRAGMA user_version=4;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE_FALSE(store.ok());
+  CHECK(store.status().code() == StatusCode::kInput);
+  CHECK(store.status().message() == "the store \"" + path +
+                                        "\" has a schema version 4 of a development build of medload, which this "
+                                        "medload cannot migrate; import its files into a new store");
+  CHECK(QueryText(path, "PRAGMA user_version") == "4");
 }
 
 TEST_CASE("a peer connection reads the same snapshot, and is refused when it could not") {

@@ -32,7 +32,9 @@ struct Criterion {
 
 // Parses "items=10", "items>=10", "acb=3", "dbi=1.0", "falls=3", "tsdd=1095" (as given to
 // --at-least or found in a config), "pdc<0.8" or "pdc<0.8:CLASS|CLASS" (a config), or
-// "rule:ID" / "rule=ID". Errors name the text and what is accepted.
+// "rule:ID" / "rule=ID". Thresholds are numbers from 0: items, acb and falls whole numbers
+// up to 1000, tsdd up to 1,000,000, dbi up to 100, pdc above 0 and at most 1 (inf, nan and
+// 1e400 are refused). Errors (Status::Usage) name the text, the fault and what is accepted.
 Result<Criterion> ParseCriterion(std::string_view text);
 // Parses the value of --below: "pdc=0.8" or "pdc=0.8:CLASS|CLASS" (the only measure
 // selected below a threshold).

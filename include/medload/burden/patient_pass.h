@@ -7,6 +7,7 @@
 #include <functional>
 #include <optional>
 #include <span>
+#include <string>
 #include <vector>
 
 #include "medload/burden/run_context.h"
@@ -45,9 +46,18 @@ struct PassFacts {
   std::optional<Date> latest_dispensed;
   // Each practice's first and latest counting dispensing among them (data coverage). A
   // dispensing belongs to the practice it names, else to the patient's registry practice,
-  // else to "" (PracticeOfDispensing).
+  // else to "" (PracticeOfDispensing). A history cut by the store's bound adds only the
+  // dispensings it kept.
   PracticeSpans practice_spans;
+  // Patients whose oldest dispensings were left out (PatientHistory::dropped > 0), among
+  // every patient read, and the bound that cut them (Store::history_bound).
+  long capped_patients = 0;
+  size_t history_bound = kMaxDispensingsPerPatient;
 };
+
+// The note outputs carry when `patients` histories were cut to their latest `bound`
+// dispensings; nullopt when none were.
+std::optional<std::string> CappedHistoriesNote(long patients, size_t bound);
 
 // The practice whose data a dispensing is part of: the one it names, else the patient's
 // registry practice, else "".

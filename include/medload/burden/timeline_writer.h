@@ -22,6 +22,7 @@ struct TimelineModel {
   std::optional<Date> census; // drawn as a vertical line when inside the range
   const Timeline* timeline = nullptr;  // REQUIRES: non-null
   std::span<const DispensingRecord> records;  // the records the timeline was built from
+  long dropped = 0;           // older dispensings the store left out (PatientHistory::dropped)
 };
 
 // The days an episode's supplies cover (merged where they meet), by start; the episode's
@@ -30,6 +31,13 @@ std::vector<std::pair<Date, Date>> SuppliedSpans(const Episode& episode);
 
 // Number of medicines with an episode containing each day from `from` to `to`.
 std::vector<int> ConcurrentCounts(const Timeline& timeline, Date from, Date to);
+
+// What the chart leaves out, one sentence each, in every format: the dispensings of each
+// product nothing in the formulary recognises (by name, at most 20, then how many more),
+// of non-medicines, those left out by --exclude-prn or --exclude-route, and those whose
+// status does not count, and the `dropped` older dispensings left out by the store's bound
+// on one patient's history (the latest `kept` were read). Empty when nothing is left out.
+std::vector<std::string> NotDrawnNotes(const Timeline& timeline, long dropped = 0, size_t kept = 0);
 
 void WriteTimelineSvg(std::ostream& out, const TimelineModel& model);
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model);

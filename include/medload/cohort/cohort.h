@@ -71,6 +71,11 @@ struct CohortTally {
   // kept only for practices whose data may begin after the first census date, so that a
   // group leaves out the practices without figures on a date.
   std::map<std::string, std::map<std::string, std::vector<UnseenCell>>> unseen;
+  // Patients whose oldest dispensings the pass left out (PassFacts::capped_patients), among
+  // every patient read whatever the shard, and the bound. Not saved with the tally nor
+  // merged: the run that reads the store warns of them.
+  long capped_patients = 0;
+  size_t history_bound = 0;
 
   // True when every one of the N shards is covered.
   bool complete() const { return shards.size() == shard_count; }

@@ -9,7 +9,8 @@
 namespace medload {
 
 // `value` as text, indented by `indent` spaces (-1: one line). Bytes that are not valid
-// UTF-8 inside strings are replaced by U+FFFD.
+// UTF-8 inside strings are replaced by U+FFFD; C1 controls and bidi controls (U+202E...)
+// are written as \u escapes, so that the text shows as stored wherever it is displayed.
 std::string JsonText(const nlohmann::json& value, int indent = 2);
 
 }  // namespace medload

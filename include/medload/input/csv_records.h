@@ -99,8 +99,16 @@ std::optional<RowFault> ParseReviewRow(const CsvRow& row, const HeaderLayout& la
 std::optional<RowFault> CheckRecordShape(const CsvRow& row, const HeaderLayout& layout,
                                          std::string_view file);
 
+// Plausible bounds (docs/input-formats.md, "Plausible values"): a quantity above a
+// million units (a thousand litres in ml, a year of two litres of feed a day) or a supply
+// of more than ten years is a slip or a unit error, and would make doses meaningless.
+inline constexpr double kMaxQuantity = 1e6;
+inline constexpr int kMaxDaysSupply = 3650;
+
 // Shared value checks, also used by the FHIR reader. Each returns nullopt and sets the
-// value, or returns the fault for `field` at `file:line`.
+// value, or returns the fault for `field` at `file:line`: a quantity must be a finite
+// number above 0 and at most kMaxQuantity, a days supply a whole number from 1 to
+// kMaxDaysSupply.
 std::optional<RowFault> ParseQuantity(std::string_view text, std::string_view file, size_t line,
                                       std::string_view field, double& quantity);
 std::optional<RowFault> ParseDaysSupply(std::string_view text, std::string_view file,

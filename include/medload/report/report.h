@@ -60,6 +60,10 @@ struct ReportModel {
   std::string measure;                      // the measure options in words
   int history_days = 84;                    // the short-history window (HistoryDays)
   long patients_seen = 0;                   // patients visited in the pass
+  // Of them, by registered practice ("" when none), those whose histories were cut to
+  // their latest `history_bound` dispensings (Store::history_bound).
+  std::map<std::string, long> capped_patients;
+  size_t history_bound = 0;
 };
 
 // Called every so many patients with the number visited so far (progress on stderr).

@@ -24,8 +24,9 @@ struct PracticeFiles {
 };
 
 // Warnings about the report, plain sentences: each practice's census dates without figures,
-// in its short-history window or beyond its data (CoverageNotes); of practice `*only` when
-// given. Empty when there is nothing to warn of.
+// in its short-history window or beyond its data (CoverageNotes), and the patients whose
+// histories the store's bound cut (CappedHistoriesNote); of practice `*only` when given.
+// Empty when there is nothing to warn of.
 std::vector<std::string> ReportWarnings(const ReportModel& model, const std::string* only = nullptr);
 
 // The worklist of practice `code` as the report writes it (page and CSV): the model's

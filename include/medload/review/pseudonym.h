@@ -13,8 +13,9 @@ namespace medload {
 class Pseudonymiser {
  public:
   // Reads the key from `path` (its bytes, a trailing newline removed). Refused with
-  // Status::Input when the file is missing, shorter than 16 bytes, or readable or writable
-  // by the group or others (it must be chmod 600 or stricter).
+  // Status::Input when the file is missing, not a regular file (a folder, device, FIFO or
+  // socket: each named as such), shorter than 16 bytes, or readable or writable by the
+  // group or others (it must be chmod 600 or stricter).
   static Result<Pseudonymiser> FromKeyFile(const std::string& path);
   // REQUIRES: a non-empty key (tests build one directly).
   explicit Pseudonymiser(std::string key) : key_(std::move(key)) {}

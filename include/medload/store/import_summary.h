@@ -13,8 +13,9 @@
 
 namespace medload {
 
-// One file's import. Invariant (the "nothing lost" contract): read == imported +
-// duplicates + rejected.
+// One file's import. Invariants (the "nothing lost" contract): read == imported +
+// duplicates + rejected, and every physical line is counted once:
+// lines == header_lines + blank_lines + row_lines.
 struct ImportSummary {
   std::string file;          // as named on the command line ("<stdin>" for "-")
   std::string kind;          // "dispensing", "patients", "practices" or "reviews"
@@ -28,6 +29,10 @@ struct ImportSummary {
   long patients = 0;         // part of `read`: FHIR Patient resources in a dispensing file
   long medications = 0;      // part of `read`: FHIR Medication resources (dispensing file)
   long blank_lines = 0;      // skipped, not rows
+  long lines = 0;            // physical lines of the file (LF, CRLF or CR alone end one)
+  long header_lines = 0;     // lines of the CSV header (1, unless a quoted name spans lines)
+  long row_lines = 0;        // lines of the rows read (a quoted line break adds one)
+  long multiline_rows = 0;   // part of `read`: rows spanning more than one line
   // Imported dispensings whose patient has no row in the registry when the file ends (a
   // warning: they are stored), the distinct such patients, and the first few as
   // `FILE:LINE: patient "ID"`.

@@ -34,11 +34,12 @@ struct ImportOptions {
 
 // Imports `in` as input of `kind`, naming it `file` in messages and in the store. The
 // format is found from the content: a first non-blank character '{' is FHIR NDJSON
-// (dispensing and patients only), anything else CSV. Line ends are LF or CRLF, or CR alone
-// when the first line ends so (every CR is then a line end).
+// (dispensing and patients only), anything else CSV. LF, CRLF and a CR alone each end a
+// line, in any mix.
 //
 // On success the file's rows are committed in one transaction and the summary says how
-// many were read, imported, duplicates and rejected (they always add up). When rejected
+// many were read, imported, duplicates and rejected (they always add up), and how many
+// physical lines the file has: header + blank + the lines of the rows read. When rejected
 // / read is above options.max_reject_rate, the transaction is rolled back, the run is
 // recorded with outcome "rolled_back" and summary.rolled_back is true (still a success
 // value: the caller maps it to exit code 3).
@@ -58,5 +59,11 @@ Result<ImportSummary> ImportFile(Store& store, InputKind kind, const std::string
 // system, quantity, days supply, dosage and practice (text trimmed, ASCII lower case,
 // runs of spaces as one).
 std::string DispensingKey(const DispensingRecord& record);
+
+// The normalised content that DispensingKey hashes for a row without a record id (patient,
+// date, product, code, code system, quantity, days supply, dosage and practice), into
+// `out`. Two rows with the same record id are the same dispensing only when this is the
+// same for both.
+void DispensingContent(const DispensingRecord& record, std::string& out);
 
 }  // namespace medload

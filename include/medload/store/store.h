@@ -22,13 +22,27 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 4;
+inline constexpr int kStoreSchemaVersion = 5;
+
+// The most counting dispensings of one patient that reads hold (the latest ones): memory
+// stays bounded whatever one id's history holds (a feed that gives every item one id, a
+// test id). 20,000 is over a century of a patient on fifteen monthly medicines; past it the
+// older dispensings are left out of every figure, and outputs say so
+// (docs/reliability.md, "Bounded memory").
+inline constexpr size_t kMaxDispensingsPerPatient = 20000;
 
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
   int busy_timeout_ms = 30000;
-  // True: fail with Input when the file does not exist yet (commands that only read).
+  // True: fail with Input when the file does not exist yet, is empty, or is an empty
+  // SQLite database (commands that only read).
   bool must_exist = false;
+  // True (commands that only read): a store this user may not write, or whose folder
+  // cannot take its -wal and -shm files, is opened read-only instead of refused. The
+  // store then writes nothing: no packed copy, no cached resolutions, no saved runs.
+  bool read_only_allowed = false;
+  // The most counting dispensings of one patient that reads hold (the latest ones).
+  size_t max_dispensings_per_patient = kMaxDispensingsPerPatient;
 };
 
 // Everything the store keeps about one patient, in the order cohort runs need it.
@@ -36,6 +50,8 @@ struct PatientHistory {
   std::string patient_id;
   std::optional<PatientRecord> registry;       // the registry row, if imported
   std::vector<DispensingRecord> dispensings;   // counting dispensings, by date then id
+                                               // (the latest max_dispensings_per_patient)
+  long dropped = 0;  // older counting dispensings left out by that bound
 };
 
 // Provenance figures for a run: the span of the data and the size of each table.
@@ -112,8 +128,12 @@ class Store {
   // Creates or opens the store at `path` (":memory:" for a private in-memory store), in WAL
   // mode with foreign keys on, and migrates its schema to kStoreSchemaVersion in one
   // transaction. A new store file (and so its -wal and -shm files) is created readable by
-  // its owner only (mode 0600). Fails with Input naming the path when the folder is
-  // missing, the file is read-only, not a SQLite database, or from a newer medload.
+  // its owner only (mode 0600). Fails with Input naming the path and saying what the file
+  // is when it is not a medload store: not a SQLite database, a SQLite database of another
+  // program (tables, but not medload's), or (with must_exist) an empty file or an empty
+  // database; also when the folder is missing, the file is read-only (unless
+  // read_only_allowed), or the store is from a newer medload. A read-only store must
+  // already have the current schema.
   static Result<Store> Open(const std::string& path, const StoreOptions& options = {});
 
   Store(Store&& other) noexcept;
@@ -123,14 +143,23 @@ class Store {
   ~Store();
 
   const std::string& path() const { return path_; }
+  // True when opened read-only (StoreOptions::read_only_allowed): writes are skipped.
+  bool read_only() const { return read_only_; }
+  // The most counting dispensings of one patient that reads hold (StoreOptions).
+  size_t history_bound() const { return max_dispensings_; }
   // The schema version recorded in the file (kStoreSchemaVersion after a successful Open).
   Result<int> SchemaVersion() const;
 
   // One patient's counting dispensings (status empty or "completed"), in dispensed_on
-  // order, then in import order. Empty when the patient is unknown.
-  Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id) const;
-  // Every stored dispensing of the patient, whatever its status, in the same order.
-  Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id) const;
+  // order, then in import order: the latest max_dispensings_per_patient of them, and
+  // `dropped` (may be null) says how many older ones were left out. Empty when the
+  // patient is unknown.
+  Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id,
+                                                      long* dropped = nullptr) const;
+  // Every stored dispensing of the patient, whatever its status, in the same order, up to
+  // the same bound (the latest ones); `dropped` (may be null) as above.
+  Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id,
+                                                         long* dropped = nullptr) const;
   // How many of the patient's dispensings up to and including `on` have a status that
   // does not count (anything but "completed"), by status; empty when there are none.
   Result<std::map<std::string, long>> NotCountingOf(std::string_view patient_id, Date on) const;
@@ -157,6 +186,12 @@ class Store {
   Status RefreshPackedHistories() const;
   // Whether the packed copy matches the dispensings as this connection sees them.
   Result<bool> PackedHistoriesCurrent() const;
+  // Brings the packed copy up to date now, waiting for the write lock as an import does
+  // (the busy timeout), for `medload store pack`: once after an import, so that readers
+  // of a store they may not write (shared storage, batch arrays) read the copy. Returns
+  // the number of patients packed, or 0 when the copy was current. Fails with Input when
+  // the store is read-only, on a storage error, or when the lock did not come in time.
+  Result<long> PackHistoriesNow();
   // Consecutive ranges that together hold every patient id once, in order, each with
   // about `patients_per_range` patients of the registry (of the dispensings when the
   // registry has fewer than two ranges' worth), so that the pass can be shared out by
@@ -209,13 +244,15 @@ class Store {
                                                       std::string_view code,
                                                       std::string_view code_system,
                                                       std::string_view checksum) const;
-  // Saves (or replaces) the resolution for the key above (nothing inside a snapshot).
+  // Saves (or replaces) the resolution for the key above (nothing inside a snapshot or in
+  // a read-only store).
   Status SaveResolution(std::string_view product, std::string_view code,
                         std::string_view code_system, std::string_view checksum,
                         std::string_view resolution_json);
 
   // Saves a run's JSON payload under (kind, key, date); a second save for the same three
-  // replaces the first, so re-running a report is idempotent. REQUIRES: ISO date.
+  // replaces the first, so re-running a report is idempotent; nothing in a read-only
+  // store. REQUIRES: ISO date.
   Status SaveRun(std::string_view kind, std::string_view key, std::string_view date_iso,
                  std::string_view payload_json);
   // The payload of the latest run of (kind, key) dated strictly before `before_date_iso`,
@@ -229,6 +266,15 @@ class Store {
 
  private:
   Store(sqlite3* db, std::string path) : db_(db), path_(std::move(path)) {}
+  // Opens `path` read-only (read_only_allowed), immutable when its folder cannot take the
+  // -shm file SQLite needs and no -wal file holds changes.
+  static Result<Store> OpenReadOnly(const std::string& path, const StoreOptions& options);
+  // Fails with Input when the file at `path` is not a SQLite database or (with
+  // `must_exist`) is empty, saying so. A missing file passes.
+  static Status CheckStoreFile(const std::string& path, bool must_exist);
+  // Fails with Input unless the database is a medload store (or, unless `must_exist`, a
+  // new empty one), saying what it is instead.
+  Status CheckIdentity(bool must_exist) const;
   // Packs every patient's counting dispensings into packed_histories, inside `db_`'s
   // write transaction.
   Status PackHistories() const;
@@ -238,6 +284,8 @@ class Store {
   sqlite3* db_ = nullptr;
   std::string path_;
   int busy_timeout_ms_ = 0;  // as opened (StoreOptions), for waits set back after a try
+  bool read_only_ = false;
+  size_t max_dispensings_ = kMaxDispensingsPerPatient;  // StoreOptions::max_dispensings_per_patient
 };
 
 }  // namespace medload
