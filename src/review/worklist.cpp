@@ -34,7 +34,9 @@ std::string RunKey(const WorklistOptions& options, const std::string& scale) {
 }  // namespace
 
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b) {
-  if (a.rule_ids.size() != b.rule_ids.size()) return a.rule_ids.size() > b.rule_ids.size();
+  // Only what was asked for orders the list: rules fired that no criterion names are
+  // shown on the row and do not move it (docs/measures.md, "Review worklist").
+  if (a.criteria_met.size() != b.criteria_met.size()) return a.criteria_met.size() > b.criteria_met.size();
   if (a.acb != b.acb) return a.acb > b.acb;
   if (a.items != b.items) return a.items > b.items;
   if (a.dbi != b.dbi) return a.dbi > b.dbi;

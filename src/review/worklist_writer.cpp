@@ -36,8 +36,9 @@ nlohmann::json PracticeData(const Worklist& worklist) {
 }  // namespace
 
 const char* const kRankIsSortingOrder =
-    "the rank is a sorting order (more rules fired, then higher score, more items, higher DBI, "
-    "older age), not a clinical priority: every rule weighs the same, so judge each patient's need";
+    "the rank is a sorting order (more of the requested criteria met, then higher score, more items, "
+    "higher DBI, older age), not a clinical priority: every criterion weighs the same, and rules that "
+    "were not requested are shown but do not change the order, so judge each patient's need";
 
 std::vector<std::string> WorklistNotes(const Worklist& worklist) {
   std::vector<std::string> notes = worklist.notes;

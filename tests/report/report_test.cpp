@@ -66,6 +66,32 @@ TEST_CASE("each practice's worklist is ranked, limited and made from the same pa
   CHECK(model->worklists.at(testing::kOddPractice).patients_meeting == 6);
 }
 
+TEST_CASE("a practice page's worklist is ordered by the requested criteria, not by rules nobody asked for") {
+  testing::ReportPopulation population;
+  // One more A1 patient with five medicines that fire several rules (NSAID with an
+  // anticoagulant, two NSAIDs, the diuretic-RAS-NSAID triple) but no anticholinergic load:
+  // of the requested criteria (acb>=3, items>=2) it meets one.
+  std::string rows = "patient_id,practice,dispensed_on,product,quantity,days_supply\n";
+  for (const char* product : {"Ibuprofen 400mg tablets", "Naproxen 250mg tablets", "Warfarin 1mg tablets",
+                              "Ramipril 5mg capsules", "Furosemide 40mg tablets"}) {
+    rows += std::string("ZQ7199,A1,2024-06-01,") + product + ",28,31\n";
+  }
+  testing::ImportCsv(population.store, InputKind::kPatients,
+                     "patient_id,birth_date,sex,practice,registered_from,registered_to\nZQ7199,1930,male,A1,,\n");
+  testing::ImportCsv(population.store, InputKind::kDispensing, rows);
+  auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(), {}, {});
+  REQUIRE(model.ok());
+  const Worklist& a1 = model->worklists.at("A1");
+  REQUIRE(a1.patients.size() == 9);
+  for (size_t i = 0; i < 6; ++i) {
+    CAPTURE(i);
+    CHECK(a1.patients[i].criteria_met.size() == 2);  // the six patients with ACB >= 3 first
+  }
+  CHECK(a1.patients[6].patient == "ZQ7199");  // then the most items among those meeting one
+  CHECK(a1.patients[6].rule_ids.size() >= 2);
+  CHECK(a1.patients[6].criteria_met == std::vector<std::string>{"items>=2"});
+}
+
 TEST_CASE("worklist identifiers are replaced when a pseudonymiser is given") {
   testing::ReportPopulation population;
   auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(),

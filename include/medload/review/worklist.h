@@ -1,5 +1,5 @@
 // The review worklist: patients who meet any selection criterion on a census date,
-// ranked by the fixed order (rules fired, ACB, items, DBI, age, identifier), each with
+// ranked by the fixed order (requested criteria met, ACB, items, DBI, age, identifier), each with
 // readable reasons. It streams the store once; it does not write any output format.
 #pragma once
 
@@ -37,8 +37,8 @@ struct WorklistEntry {
   int items = 0;
   int acb = 0;
   double dbi = 0;
-  std::vector<std::string> rule_ids;      // rules fired (all, not only selected ones)
-  std::vector<std::string> criteria_met;  // keys of the criteria met ("items>=10", ...)
+  std::vector<std::string> rule_ids;      // rules fired (all, not only requested ones): information
+  std::vector<std::string> criteria_met;  // keys of the requested criteria met: the first sort key
   std::vector<std::string> reasons;       // readable, for the pharmacist
   std::vector<std::string> warnings;      // unmatched products, unknown doses, ...
   bool is_new = false;                    // not on the previous run's list (same criteria)
@@ -69,8 +69,10 @@ struct Worklist {
   long suppress_below = 0;
 };
 
-// The fixed review order (docs/measures.md, "Review worklist"): more rules fired first, then higher acb, more
-// items, higher dbi, older age (unknown last), then patient id ascending.
+// The fixed review order (docs/measures.md, "Review worklist"): more of the requested
+// criteria met first (criteria_met: each --at-least and each --rule is one), then higher
+// acb, more items, higher dbi, older age (unknown last), then patient id ascending. Rules
+// fired that were not requested (rule_ids) do not change the order.
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 
 // The readable reasons of one patient: "11 medicines", "ACB 7: amitriptyline 3, ...",
