@@ -64,9 +64,9 @@ Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
 void AddCriteriaFlags(po::options_description& options) {
   options.add_options()
       ("at-least", po::value<std::vector<std::string>>()->composing(),
-       "a threshold (repeatable): items=N, acb=N or dbi=X")
+       "a threshold (repeatable): items=N, acb=N or dbi=X (also items>=N, as outputs print it)")
       ("rule", po::value<std::vector<std::string>>()->composing(),
-       "a combination rule by its id (repeatable)");
+       "a combination rule, ID or rule:ID (repeatable); 'medload formulary check' lists the ids");
 }
 
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
@@ -80,7 +80,11 @@ Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
     }
   }
   if (vm.count("rule") != 0U) {
-    for (const std::string& id : vm["rule"].as<std::vector<std::string>>()) criteria.push_back(RuleCriterion(id));
+    for (const std::string& text : vm["rule"].as<std::vector<std::string>>()) {
+      auto criterion = ParseRuleCriterion(text);
+      if (!criterion.ok()) return AsFlagFault(criterion.status());
+      criteria.push_back(*criterion);
+    }
   }
   return criteria;
 }

@@ -188,6 +188,7 @@ FormularyCheck CheckFormulary(const std::string& dir) {
   check.codes = tables.codes.size();
   check.non_medicine_terms = tables.non_medicines.size();
   check.rules = tables.rules.size();
+  for (const Rule& rule : tables.rules) check.rule_ids.emplace_back(rule.id, rule.title);
   return check;
 }
 

@@ -33,6 +33,12 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"checksum", check.checksum}};
 }
 
+std::vector<std::vector<std::string>> RuleRows(const FormularyCheck& check) {
+  std::vector<std::vector<std::string>> rows;
+  for (const auto& [id, title] : check.rule_ids) rows.push_back({id, title});
+  return rows;
+}
+
 std::string CheckVerdict(const FormularyCheck& check) {
   return check.ok()                  ? "no faults"
          : check.faults.size() == 1 ? "1 fault"
@@ -117,8 +123,10 @@ long ItemsOf(const std::vector<ProductCount>& products) {
 json FormularyCheckJson(const std::string& dir, const FormularyCheck& check) {
   json counts_json = json::object();
   for (const auto& [name, value] : CheckCounts(check)) counts_json[name] = value;
+  json rules = json::array();
+  for (const auto& [id, title] : check.rule_ids) rules.push_back({{"id", id}, {"title", title}});
   return json{{"formulary", dir}, {"ok", check.ok()}, {"faults", check.faults},
-              {"counts", counts_json}, {"caution", std::string(kCaution)}};
+              {"counts", counts_json}, {"rules", rules}, {"caution", std::string(kCaution)}};
 }
 
 void WriteFormularyCheckCsv(std::ostream& out, const FormularyCheck& check) {
@@ -126,6 +134,7 @@ void WriteFormularyCheckCsv(std::ostream& out, const FormularyCheck& check) {
   out << CsvRow({"what", "value"});
   for (const std::string& fault : check.faults) out << CsvRow({"fault", fault});
   for (const auto& [name, value] : CheckCounts(check)) out << CsvRow({name, value});
+  for (const auto& [id, title] : check.rule_ids) out << CsvRow({"rule:" + id, title});
 }
 
 void WriteFormularyCheckHtml(std::ostream& out, const std::string& dir, const FormularyCheck& check) {
@@ -137,6 +146,10 @@ void WriteFormularyCheckHtml(std::ostream& out, const std::string& dir, const Fo
   rows.clear();
   for (const auto& [name, value] : CheckCounts(check)) rows.push_back({name, value});
   WriteHtmlTable(out, {"table", "rows"}, rows);
+  if (!check.rule_ids.empty()) {
+    out << "<h2>Rules (--rule ID)</h2>\n";
+    WriteHtmlTable(out, {"id", "title"}, RuleRows(check));
+  }
   WriteHtmlEnd(out);
 }
 
@@ -147,6 +160,10 @@ void WriteFormularyCheckText(std::ostream& out, const std::string& dir, const Fo
     std::vector<std::vector<std::string>> rows;
     for (const auto& [name, value] : CheckCounts(check)) rows.push_back({name, value});
     WriteTextTable(out, {"table", "rows"}, rows);
+    if (!check.rule_ids.empty()) {
+      out << "\nrules: --rule ID (or rule:ID in a criterion) asks for one\n";
+      WriteTextTable(out, {"id", "title"}, RuleRows(check));
+    }
   }
   WriteTextCaution(out);
 }

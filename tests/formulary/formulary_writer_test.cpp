@@ -67,6 +67,26 @@ TEST_CASE("the check CSV starts with the caution and lists each fault before the
   CHECK(fault < ingredients);
 }
 
+TEST_CASE("the check lists each rule id with its title in every format") {
+  FormularyCheck check;
+  check.rules = 2;
+  check.rule_ids = {{"aki-triple", "Diuretic, RAS blocker and NSAID together"}, {"duplicate-nsaid", "Two NSAIDs"}};
+  std::ostringstream text;
+  WriteFormularyCheckText(text, "formulary", check);
+  CHECK(text.str().find("rules: --rule ID (or rule:ID in a criterion) asks for one\n") != std::string::npos);
+  CHECK(text.str().find("aki-triple       Diuretic, RAS blocker and NSAID together\n") != std::string::npos);
+  CHECK(text.str().find("duplicate-nsaid  Two NSAIDs\n") != std::string::npos);
+  std::ostringstream csv;
+  WriteFormularyCheckCsv(csv, check);
+  CHECK(csv.str().find("rule:aki-triple,\"Diuretic, RAS blocker and NSAID together\"\n") != std::string::npos);
+  const nlohmann::json json = FormularyCheckJson("formulary", check);
+  REQUIRE(json.at("rules").size() == 2);
+  CHECK(json.at("rules")[1] == nlohmann::json{{"id", "duplicate-nsaid"}, {"title", "Two NSAIDs"}});
+  std::ostringstream html;
+  WriteFormularyCheckHtml(html, "formulary", check);
+  CHECK(html.str().find("<td>duplicate-nsaid</td>") != std::string::npos);
+}
+
 TEST_CASE("the lookup JSON adds each ingredient's classes, scores and DBI dose from the tables") {
   LookupModel model;
   model.description = "Amitriptyline 10mg tablets";

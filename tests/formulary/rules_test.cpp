@@ -82,6 +82,9 @@ TEST_CASE("each malformed element is reported with its JSON pointer") {
       {R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s", "measures": {"dbi": "high"},
            "require": [{"classes": ["x"]}]}]})",
        "rules.json: /rules/0/measures/dbi: not a number >= 0"},
+      {R"({"rules": [{"id": "two words", "title": "t", "explanation": "e", "source": "s",
+           "require": [{"classes": ["x"]}]}]})",
+       "rules.json: /rules/0/id: \"two words\" may hold only letters, digits, '-', '_' and '.' (--rule names it)"},
   };
   for (const Case& c : cases) {
     const std::string expected = c.fault;

@@ -283,7 +283,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==
-        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary check' lists them");
+        "rule \"no-such-rule\" is not in the formulary's rules.json ('medload formulary check' lists the rule ids)");
 }
 
 }  // TEST_SUITE

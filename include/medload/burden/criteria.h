@@ -27,12 +27,21 @@ struct Criterion {
 };
 
 // Parses "items=10", "items>=10", "acb=3", "dbi=1.0" (as given to --at-least or found in a
-// config) or "rule:ID" / "rule=ID". Errors name the text and what is accepted.
+// config), "rule:ID" / "rule=ID", or a bare rule id "ID" (letters, digits, '-', '_', '.';
+// not items, acb or dbi). Usage error naming the text and what is accepted.
 Result<Criterion> ParseCriterion(std::string_view text);
 // The criterion of `--rule ID`.
 Criterion RuleCriterion(std::string id);
+// The criterion of a rule as written by a user: "ID", or "rule:ID" / "rule=ID" (the form
+// outputs and configs print). Usage error naming the text when what is left is not a rule
+// id (letters, digits, '-', '_', '.').
+Result<Criterion> ParseRuleCriterion(std::string_view text);
 
-// Status::Input if a rule criterion names a rule the tables do not have.
+// Status::Input if a rule criterion names a rule the tables do not have; the message
+// suggests a close id (same words, some left out or added) and points at
+// `medload formulary check`, which lists the rule ids:
+//   rule "nsaid-with-anticoagulant" is not in the formulary's rules.json; did you mean
+//   "nsaid-anticoagulant"? ('medload formulary check' lists the rule ids)
 Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTables& tables);
 
 }  // namespace medload

@@ -10,6 +10,7 @@
 #include <string>
 #include <string_view>
 #include <unordered_map>
+#include <utility>
 #include <vector>
 
 #include "medload/core/status.h"
@@ -161,6 +162,9 @@ struct FormularyCheck {
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
          products = 0, codes = 0, non_medicine_terms = 0, rules = 0;
   std::string checksum;
+  // Each rule read without a fault, in file order: its id (what --rule and a criterion
+  // name) and its title, so that the check lists the ids a user can ask for.
+  std::vector<std::pair<std::string, std::string>> rule_ids;
   bool ok() const { return faults.empty(); }
 };
 
