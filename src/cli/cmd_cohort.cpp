@@ -10,6 +10,7 @@
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
 #include "medload/format/json_text.h"
+#include "medload/store/practice_codes.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -17,34 +18,59 @@ namespace {
 
 constexpr const char* kUsage =
     "medload cohort --from D --to D [--every month|quarter|year] [--on D] [--by GROUP]\n"
-    "       [--suppress-below N] [--shard K/N] [criteria] [measure options]\n"
+    "       [--practice CODE]... [--suppress-below N] [--shard K/N] [criteria] [measure options]\n"
     "       medload cohort --merge FILE... [--suppress-below N]";
 
-Result<std::vector<Date>> ReadDates(const po::variables_map& vm) {
+// The census dates as written: --on alone, or --from, --to and --every. "latest" (in --on
+// or --to) is nullopt until the store is open (ResolveDates).
+struct DateFlags {
+  bool single = false;           // --on
+  std::optional<Date> on_or_from;
+  std::optional<Date> to;
+  SeriesStep step = SeriesStep::kMonth;
+};
+
+Result<DateFlags> ReadDateFlags(const po::variables_map& vm) {
+  DateFlags flags;
   if (vm.count("on") != 0U) {
     if (vm.count("from") != 0U || vm.count("to") != 0U) {
       return Status::Usage("give either --on DATE or --from and --to, not both");
     }
-    auto on = ReadDateFlag(vm, "on");
+    auto on = ReadCensusDateFlag(vm, "on");
     if (!on.ok()) return on.status();
-    return std::vector<Date>{*on};
+    flags.single = true;
+    flags.on_or_from = *on;
+    return flags;
   }
   auto from = ReadDateFlag(vm, "from");
   if (!from.ok()) return from.status();
-  auto to = ReadDateFlag(vm, "to");
+  auto to = ReadCensusDateFlag(vm, "to");
   if (!to.ok()) return to.status();
   const std::string every = vm["every"].as<std::string>();
   const std::optional<SeriesStep> step = ParseSeriesStep(every);
   if (!step) return Status::Usage("--every \"" + every + "\" is not month, quarter or year");
-  if (*to < *from) return Status::Usage("--to " + to->ToIso() + " is before --from " + from->ToIso());
-  return SeriesDates(*from, *to, *step);
+  flags.on_or_from = *from;
+  flags.to = *to;
+  flags.step = *step;
+  return flags;
 }
 
+Result<std::vector<Date>> ResolveDates(const Context& context, const DateFlags& flags, const Store& store) {
+  if (flags.single) {
+    auto on = ResolveCensusDate(context, flags.on_or_from, store);
+    if (!on.ok()) return on.status();
+    return std::vector<Date>{*on};
+  }
+  auto to = ResolveCensusDate(context, flags.to, store);
+  if (!to.ok()) return to.status();
+  const Date from = *flags.on_or_from;
+  if (*to < from) return Status::Usage("--to " + to->ToIso() + " is before --from " + from.ToIso());
+  return SeriesDates(from, *to, flags.step);
+}
+
+// The options except the dates (ResolveDates, once the store is open).
 Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
   CohortOptions options;
-  auto dates = ReadDates(vm);
-  if (!dates.ok()) return dates.status();
-  options.dates = std::move(*dates);
   const std::string by = vm["by"].as<std::string>();
   const std::optional<GroupBy> group_by = ParseGroupBy(by);
   if (!group_by) {
@@ -61,6 +87,7 @@ Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
     if (!shard.ok()) return AsFlagFault(shard.status());
     options.shard = *shard;
   }
+  if (vm.count("practice") != 0U) options.practices = vm["practice"].as<std::vector<std::string>>();
   return options;
 }
 
@@ -80,12 +107,18 @@ Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
 
 // Counts from the store.
 Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm) {
+  auto date_flags = ReadDateFlags(vm);
+  if (!date_flags.ok()) return date_flags.status();
   auto options = ReadCohortOptions(vm);
   if (!options.ok()) return options.status();
   auto measure = ReadMeasureFlags(vm);
   if (!measure.ok()) return measure.status();
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return store.status();
+  auto dates = ResolveDates(context, *date_flags, *store);
+  if (!dates.ok()) return dates.status();
+  options->dates = std::move(*dates);
+  if (Status known = CheckPracticeCodes(*store, options->practices); !known.ok()) return AsFlagFault(known);
   auto analysis = OpenRunContext(context, *measure, &*store);
   if (!analysis.ok()) return analysis.status();
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
@@ -115,10 +148,13 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   po::options_description options("cohort options");
   options.add_options()
       ("from", po::value<std::string>(), "first date of the series (YYYY-MM-DD)")
-      ("to", po::value<std::string>(), "last date of the series (YYYY-MM-DD)")
+      ("to", po::value<std::string>(),
+       "last date of the series (YYYY-MM-DD), or latest: the last month end on or before the latest dispensing")
       ("every", po::value<std::string>()->default_value("month"),
        "month, quarter or year: census dates are the period ends from --from to --to")
-      ("on", po::value<std::string>(), "one census date instead of a series")
+      ("on", po::value<std::string>(), "one census date instead of a series (or latest)")
+      ("practice", po::value<std::vector<std::string>>()->composing(),
+       "count only patients registered at this practice (repeatable)")
       ("by", po::value<std::string>()->default_value("practice"),
        "groups: practice, network, age-band (0-17, 18-49, 50-64, 65-74, 75-84, 85+), sex, none")
       ("suppress-below", po::value<long>()->default_value(0),

@@ -1,5 +1,9 @@
 #include "cli/measure_flags.h"
 
+#include <ostream>
+
+#include "medload/report/report.h"
+
 namespace medload::cli {
 
 void AddMeasureFlags(po::options_description& options) {
@@ -95,6 +99,33 @@ Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name) {
   auto date = ParseDate(text);
   if (!date) return Status::Usage(std::string("--") + name + " \"" + text + "\" is not a date (YYYY-MM-DD)");
   return *date;
+}
+
+Result<std::optional<Date>> ReadCensusDateFlag(const po::variables_map& vm, const char* name) {
+  if (vm.count(name) == 0U) return Status::Usage(std::string("--") + name + " DATE is required (YYYY-MM-DD or latest)");
+  const std::string text = vm[name].as<std::string>();
+  if (text == "latest") return std::optional<Date>();
+  auto date = ParseDate(text);
+  if (!date) {
+    return Status::Usage(std::string("--") + name + " \"" + text + "\" is not a date (YYYY-MM-DD) or latest");
+  }
+  return std::optional<Date>(*date);
+}
+
+Result<Date> ResolveCensusDate(const Context& context, std::optional<Date> date, const Store& store) {
+  if (date) return *date;
+  auto summary = store.Summary();
+  if (!summary.ok()) return summary.status();
+  auto latest = LatestCensusDate(*summary);
+  if (!latest.ok()) {
+    return Status::Input("latest needs dispensing records: the store " + store.path() + " holds none");
+  }
+  if (!context.quiet) {
+    *context.err << "medload: note: latest is " << latest->ToIso()
+                 << ", the last month end on or before the latest dispensing (" << summary->latest_dispensed->ToIso()
+                 << ")\n";
+  }
+  return *latest;
 }
 
 Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store) {

@@ -51,6 +51,7 @@ std::vector<std::string> Preamble(const CohortTable& table) {
   lines.push_back("Cohort counts by " + std::string(GroupByName(table.group_by)) +
                   "; criteria: " + criteria + " (any = at least one)");
   lines.push_back("Measure: " + table.measure);
+  if (!table.population.empty()) lines.push_back("Patients: " + table.population);
   lines.push_back("Rates per 1000 registered; standardised: European Standard Population 2013 "
                   "(patients of known age), 95% limits by Dobson et al. 1991.");
   if (!table.complete) {
@@ -92,6 +93,7 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
+  if (!table.population.empty()) out << "# patients: " << table.population << "\n";
   for (const std::string& note : table.notes) out << "# note: " << note << "\n";
   out << CsvRow({"date", "group", "registered", "data", "practices_without_data", "criterion", "count",
                  "rate_per_1000", "standardised_per_1000", "standardised_lower", "standardised_upper",

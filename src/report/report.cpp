@@ -9,6 +9,7 @@
 #include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/format/suppression.h"
+#include "medload/store/practice_codes.h"
 
 namespace medload {
 namespace {
@@ -76,7 +77,13 @@ Result<std::vector<PracticeRecord>> ChoosePractices(const std::vector<PracticeRe
     for (const std::string& code : config.practices) {
       const auto it = by_code.find(code);
       if (it == by_code.end() && tally.groups.count(code) == 0) {
-        return Status::Input("practice \"" + code + "\" of the config's /practices is not in the store");
+        std::set<std::string> codes;  // the practices table and every practice the counts saw
+        for (const auto& [known_code, record] : by_code) codes.insert(known_code);
+        for (const auto& [group, cells] : tally.groups) {
+          if (!group.empty() && group != kUnknownGroup) codes.insert(group);
+        }
+        return Status::Input("the config's /practices: " +
+                             UnknownPracticeMessage(code, std::vector<std::string>(codes.begin(), codes.end())));
       }
       chosen.push_back(it != by_code.end() ? it->second : PracticeRecord{code, "", "", std::nullopt});
     }
@@ -214,6 +221,10 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   }
   model.dates = CensusDates(model.on, config.months);
   if (Status status = CheckRulesExist(config.criteria, analysis.tables()); !status.ok()) return status;
+  // Before the pass, so that a typing slip does not cost a whole run.
+  if (Status known = CheckPracticeCodes(store, config.practices); !known.ok()) {
+    return known.code() == StatusCode::kInput ? Status::Input("the config's /practices: " + known.message()) : known;
+  }
   for (const Criterion& criterion : config.criteria) model.keys.push_back(criterion.Key());
   model.keys.push_back("any");
   auto known = store.Practices();

@@ -111,7 +111,13 @@ TEST_CASE("the configured practices restrict the report and an unknown one is re
   config.practices = {"ZZ9"};
   auto refused = BuildReportModel(population.store, population.analysis, config, {}, {});
   REQUIRE_FALSE(refused.ok());
-  CHECK(refused.status().message() == "practice \"ZZ9\" of the config's /practices is not in the store");
+  CHECK(refused.status().message() ==
+        "the config's /practices: practice \"ZZ9\" is not in the store (known: A1, B/../<b>)");
+  config.practices = {"a1"};
+  auto lower = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE_FALSE(lower.ok());
+  CHECK(lower.status().message() == "the config's /practices: practice \"a1\" is not in the store; codes are "
+                                    "case-sensitive: did you mean \"A1\"? (known: A1, B/../<b>)");
 }
 
 TEST_CASE("a saved run payload reads back as the previous report") {
