@@ -95,7 +95,8 @@ class Reader {
 const std::set<std::string> kTopKeys = {
     "title", "network", "on", "months", "criteria", "suppress_below", "practices", "measure",
     "window", "grace_days", "carryover", "default_supply_days", "max_supply_days", "count_by",
-    "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests"};
+    "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests",
+    "age_min", "reviewed_within"};
 
 Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
   std::string measure = std::string(MeasureName(m.measure));
@@ -200,6 +201,21 @@ Status ReadCriteria(const Reader& r, const json& doc, std::vector<Criterion>& cr
   return Status::Ok();
 }
 
+// "age_min" and "reviewed_within", as review's --age-min and --reviewed-within.
+Status ReadPopulation(const Reader& r, const json& doc, ReportConfig& config) {
+  if (doc.contains("age_min")) {
+    long age = 0;
+    MEDLOAD_TRY(r.Integer(doc, "age_min", "", 0, 150, age));
+    config.age_min = static_cast<int>(age);
+  }
+  if (doc.contains("reviewed_within")) {
+    long days = 0;
+    MEDLOAD_TRY(r.Integer(doc, "reviewed_within", "", 1, 3660, days));
+    config.reviewed_within_days = static_cast<int>(days);
+  }
+  return Status::Ok();
+}
+
 Status ReadRequired(const Reader& r, const json& doc, ReportConfig& config) {
   for (const char* key : {"title", "network"}) {
     if (!doc.contains(key)) return r.Fault(std::string("/") + key, "is required");
@@ -239,6 +255,7 @@ Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) 
   config.suppress_below = suppress;
   config.worklist_limit = static_cast<size_t>(limit);
   MEDLOAD_TRY(ReadCriteria(r, doc, config.criteria));
+  MEDLOAD_TRY(ReadPopulation(r, doc, config));
   MEDLOAD_TRY(r.Strings(doc, "practices", "", config.practices));
   std::set<std::string> seen;
   for (size_t i = 0; i < config.practices.size(); ++i) {
@@ -282,6 +299,8 @@ json ConfigParameters(const ReportConfig& config) {
           {"criteria", criteria},
           {"suppress_below", config.suppress_below},
           {"practices", config.practices},
+          {"age_min", config.age_min ? json(*config.age_min) : json(nullptr)},
+          {"reviewed_within", config.reviewed_within_days ? json(*config.reviewed_within_days) : json(nullptr)},
           {"measure", std::string(MeasureName(m.measure))},
           {"window", m.window_days},
           {"grace_days", m.episodes.grace_days},

@@ -11,6 +11,7 @@ namespace medload {
 namespace {
 
 std::string Age(const WorklistEntry& e) { return e.age ? std::to_string(*e.age) : ""; }
+std::string LastReviewed(const WorklistEntry& e) { return e.last_reviewed ? e.last_reviewed->ToIso() : ""; }
 
 std::vector<std::string> CriteriaKeys(const Worklist& worklist) {
   std::vector<std::string> keys;
@@ -66,7 +67,7 @@ std::string WorklistSummary(const Worklist& w) {
     summary += "; " + std::to_string(w.excluded_recent_review) + " left out after a recent review";
   }
   if (w.excluded_age_unknown > 0) {
-    summary += "; " + std::to_string(w.excluded_age_unknown) + " left out by --age-min because their age is unknown (" +
+    summary += "; " + std::to_string(w.excluded_age_unknown) + " left out by " + w.age_min_setting + " because their age is unknown (" +
                std::to_string(w.excluded_age_unknown_meeting) + " of them meet a criterion)";
   }
   return summary;
@@ -79,7 +80,8 @@ nlohmann::json WorklistJson(const Worklist& worklist) {
                         {"age", e.age ? nlohmann::json(*e.age) : nlohmann::json(nullptr)},
                         {"items", e.items}, {"acb", e.acb}, {"dbi", e.dbi}, {"reasons", e.reasons},
                         {"rules", e.rule_ids}, {"criteria_met", e.criteria_met}, {"warnings", e.warnings},
-                        {"new", e.is_new}});
+                        {"new", e.is_new},
+                        {"last_reviewed", e.last_reviewed ? nlohmann::json(e.last_reviewed->ToIso()) : nlohmann::json(nullptr)}});
   }
   return {{"on", worklist.on.ToIso()}, {"criteria", CriteriaKeys(worklist)}, {"scale", worklist.scale},
           {"patients", patients}, {"patients_considered", worklist.patients_considered},
@@ -100,9 +102,10 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " *" : ""), e.practice, Age(e),
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
-                    std::to_string(e.rule_ids.size())});
+                    std::to_string(e.rule_ids.size()), e.last_reviewed ? e.last_reviewed->ToIso() : "-"});
   }
-  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "rules"}, rows);
+  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "rules", "last review"},
+                 rows);
   if (!worklist.patients.empty()) out << "\nReasons:\n";
   for (const WorklistEntry& e : worklist.patients) {
     out << std::to_string(e.rank) << ". " << e.patient << ": " << Join(e.reasons, "; ") << "\n";
@@ -118,11 +121,11 @@ void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   out << "# summary: " << WorklistSummary(worklist) << "\n";
   for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "dbi", "rules", "criteria_met", "new",
-                 "reasons", "warnings"});
+                 "last_reviewed", "reasons", "warnings"});
   for (const WorklistEntry& e : worklist.patients) {
     out << CsvRow({std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
                    std::to_string(e.acb), FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"), Join(e.criteria_met, "|"),
-                   e.is_new ? "yes" : "no", Join(e.reasons, "; "), Join(e.warnings, "; ")});
+                   e.is_new ? "yes" : "no", LastReviewed(e), Join(e.reasons, "; "), Join(e.warnings, "; ")});
   }
 }
 
@@ -130,10 +133,11 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
   std::vector<std::vector<std::string>> rows;
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " (new)" : ""), e.practice, Age(e),
-                    std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
+                    std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2), LastReviewed(e),
                     Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; "))});
   }
-  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "reasons"}, rows);
+  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "last review", "reasons"},
+                 rows);
 }
 
 void WriteWorklistHtmlNotes(std::ostream& out, const Worklist& worklist) {

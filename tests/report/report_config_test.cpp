@@ -23,6 +23,8 @@ TEST_CASE("a minimal config takes the documented defaults") {
   CHECK(config->suppress_below == 0);
   CHECK(config->practices.empty());
   CHECK(config->worklist_limit == 50);
+  CHECK_FALSE(config->age_min.has_value());
+  CHECK_FALSE(config->reviewed_within_days.has_value());
   CHECK(config->measure.episodes.grace_days == 30);
   CHECK(config->measure.scale == "acb");
   CHECK_FALSE(config->digests.enabled);
@@ -36,7 +38,7 @@ TEST_CASE("every key of the schema is read") {
     "suppress_below": 5, "practices": ["WV001"], "measure": "lookback", "window": 60,
     "grace_days": 10, "carryover": true, "default_supply_days": 30, "max_supply_days": 90,
     "count_by": "ingredient", "exclude_prn": true, "exclude_route": ["skin"], "scale": "acb",
-    "worklist_limit": 10, "pseudonymise_key": "key.txt",
+    "worklist_limit": 10, "pseudonymise_key": "key.txt", "age_min": 65, "reviewed_within": 180,
     "digests": {"from": "a@b.invalid", "to": ["c@d.invalid"], "practice_to": {"WV001": ["e@f.invalid"]},
                 "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false}}})");
   REQUIRE(config.ok());
@@ -52,6 +54,10 @@ TEST_CASE("every key of the schema is read") {
   CHECK(config->measure.exclude_routes.size() == 1);
   CHECK(config->worklist_limit == 10);
   CHECK(config->pseudonymise_key == "key.txt");
+  CHECK(config->age_min == 65);
+  CHECK(config->reviewed_within_days == 180);
+  CHECK(ConfigParameters(*config).at("age_min") == 65);
+  CHECK(ConfigParameters(*config).at("reviewed_within") == 180);
   CHECK(config->digests.enabled);
   CHECK(config->digests.practice_to.at("WV001").at(0) == "e@f.invalid");
   CHECK(*config->digests.triggers.rise_patients == 3);
@@ -88,6 +94,10 @@ TEST_CASE("config faults name the file, the JSON pointer of the key and the faul
        "network.json: /exclude_route/1: \"nasal-ish\" is not a known route"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "carryover": "yes"})",
        "network.json: /carryover: must be true or false"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "age_min": -1})",
+       "network.json: /age_min: -1 is outside 0 to 150"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "reviewed_within": "6 months"})",
+       "network.json: /reviewed_within: must be a whole number"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "practices": ["A", "A"]})",
        "network.json: /practices/1: \"A\" is listed twice"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"rise_percent": -2}}})",

@@ -92,6 +92,66 @@ TEST_CASE("a practice page's worklist is ordered by the requested criteria, not 
   CHECK(a1.patients[6].criteria_met == std::vector<std::string>{"items>=2"});
 }
 
+TEST_CASE("age_min narrows both the counts and the worklists, and reviewed_within only the worklists") {
+  // Everybody has the birth year 1940, read as 1 July 1940: 83 on 2024-06-30.
+  testing::ReportPopulation population;
+  testing::ImportCsv(population.store, InputKind::kReviews, "patient_id,reviewed_on\nZQ7102,2024-05-15\n");
+  ReportConfig config = testing::TestConfig();
+  config.reviewed_within_days = 90;
+  auto reviewed = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(reviewed.ok());
+  const Worklist& a1 = reviewed->worklists.at("A1");
+  CHECK(a1.patients_meeting == 7);
+  CHECK(a1.excluded_recent_review == 1);
+  CHECK(reviewed->practices[0].counts[2].back() == 8);  // "any" still counts the reviewed patient
+  config.reviewed_within_days = 30;                        // the review is 46 days before
+  auto older = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(older.ok());
+  CHECK(older->worklists.at("A1").patients[0].patient == "ZQ7102");
+  CHECK(older->worklists.at("A1").patients[0].last_reviewed == Date::FromCivil(2024, 5, 15));
+
+  ReportConfig aged = testing::TestConfig();
+  aged.age_min = 84;
+  auto none = BuildReportModel(population.store, population.analysis, aged, {}, {});
+  REQUIRE(none.ok());
+  CHECK(none->practices[0].registered.back() == 0);
+  CHECK(none->worklists.at("A1").patients.empty());
+  CHECK(none->worklists.at("A1").patients_considered == 0);
+  aged.age_min = 83;
+  auto all = BuildReportModel(population.store, population.analysis, aged, {}, {});
+  REQUIRE(all.ok());
+  CHECK(all->practices[0].registered.back() == 8);
+  CHECK(all->worklists.at("A1").patients_meeting == 8);
+  CHECK(ReportRunKey(*all).find("|age_min=83") != std::string::npos);
+}
+
+TEST_CASE("a practice page marks the patients who were not on its list in the previous report") {
+  testing::ReportPopulation population;
+  ReportConfig config = testing::TestConfig();
+  config.criteria = {*ParseCriterion("acb>=3")};
+  config.on = Date::FromCivil(2024, 6, 30);
+  auto june = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(june.ok());
+  CHECK_FALSE(june->worklists.at("A1").has_previous_run);
+  CHECK(june->listed.at("A1").size() == 6);
+  // Saved as if it were May's report, listing only ZQ7102 and ZQ7103.
+  nlohmann::json payload = ReportRunPayload(*june);
+  payload["on"] = "2024-05-31";
+  payload["listed"]["A1"] = {"ZQ7102", "ZQ7103"};
+  REQUIRE(population.store.SaveRun("report", ReportRunKey(*june), "2024-05-31", payload.dump()).ok());
+  auto again = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(again.ok());
+  const Worklist& a1 = again->worklists.at("A1");
+  CHECK(a1.has_previous_run);
+  long marked = 0;
+  for (const WorklistEntry& row : a1.patients) {
+    CAPTURE(row.patient);
+    CHECK(row.is_new == (row.patient != "ZQ7102" && row.patient != "ZQ7103"));
+    marked += row.is_new ? 1 : 0;
+  }
+  CHECK(marked == 4);
+}
+
 TEST_CASE("worklist identifiers are replaced when a pseudonymiser is given") {
   testing::ReportPopulation population;
   auto model = BuildReportModel(population.store, population.analysis, testing::TestConfig(),

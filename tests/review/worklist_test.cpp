@@ -179,6 +179,18 @@ TEST_CASE("patients reviewed within the given days are left out") {
   CHECK(list.excluded_recent_review == 1);
 }
 
+TEST_CASE("each row gives the patient's latest review on or before the census date") {
+  Population p;
+  Import(p.store, InputKind::kReviews, "patient_id,reviewed_on\nA,2022-03-01\nA,2023-08-14\nA,2024-02-01\n");
+  auto list = p.Build(On(D(2024, 1, 10), {AtLeast("items=3")}));
+  REQUIRE(list.patients.size() == 2);
+  CHECK(list.patients[0].patient == "A");
+  CHECK(list.patients[0].last_reviewed == D(2023, 8, 14));  // the February review is not known yet
+  CHECK_FALSE(list.patients[1].last_reviewed.has_value());
+  CHECK(LastReviewOn({D(2024, 2, 1), D(2022, 3, 1)}, D(2024, 2, 1)) == D(2024, 2, 1));
+  CHECK_FALSE(LastReviewOn({D(2024, 2, 1)}, D(2024, 1, 31)).has_value());
+}
+
 TEST_CASE("patients are marked new against the previous run with the same criteria") {
   Population p;
   // The first run has nothing to compare with: nobody is new.

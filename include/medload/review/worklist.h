@@ -6,6 +6,7 @@
 #include <map>
 #include <optional>
 #include <string>
+#include <unordered_map>
 #include <vector>
 
 #include "medload/burden/run_context.h"
@@ -42,6 +43,7 @@ struct WorklistEntry {
   std::vector<std::string> reasons;       // readable, for the pharmacist
   std::vector<std::string> warnings;      // unmatched products, unknown doses, ...
   bool is_new = false;                    // not on the previous run's list (same criteria)
+  std::optional<Date> last_reviewed;      // latest completed review on or before the date
 };
 
 struct Worklist {
@@ -56,6 +58,9 @@ struct Worklist {
   // unknown; and how many of those would have met a criterion.
   long excluded_age_unknown = 0;
   long excluded_age_unknown_meeting = 0;
+  // How the summary names the minimum age setting: "--age-min" in review, "age_min" in
+  // the report (its config key).
+  std::string age_min_setting = "--age-min";
   bool has_previous_run = false;          // "new" flags compare with an earlier run
   // The data coverage on the census date of each practice with patients registered that
   // day (after the practice filter), from the pass over every patient (data_coverage.h).
@@ -79,6 +84,21 @@ bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 // "DBI 1.25: ...", "rule: <title> (<medicines>)".
 std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& burden,
                                        const BurdenTables& tables);
+
+// Fills a row's identity and figures (patient, practice, age, items, acb, dbi, the rules
+// fired and the readable reasons) from the burden on the census date; the caller sets
+// the criteria met, warnings and review facts.
+void FillFigures(WorklistEntry& entry, const std::string& patient, const std::string& practice,
+                 std::optional<int> age, const Timeline& timeline, const Burden& burden, const BurdenTables& tables);
+
+// Completed review dates per patient, each patient's oldest first (Store::Reviews).
+using ReviewDates = std::unordered_map<std::string, std::vector<Date>>;
+Result<ReviewDates> ReadReviewDates(const Store& store);
+// The latest of `reviews` on or before `on`; nullopt when there is none (a review after
+// the census date is not known on it).
+std::optional<Date> LastReviewOn(const std::vector<Date>& reviews, Date on);
+// Whether a review falls in the `days` days ending on `on` (--reviewed-within).
+bool ReviewedWithin(const std::vector<Date>& reviews, Date on, int days);
 
 // Streams the store once and builds the ranked list. Status::Usage when no criterion is
 // given; Status::Input for a rule id the tables do not have or a storage error.
