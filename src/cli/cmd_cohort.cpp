@@ -10,6 +10,7 @@
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
 #include "medload/format/json_text.h"
+#include "medload/input/json_file.h"
 #include "medload/store/practice_codes.h"
 #include "medload/store/store.h"
 
@@ -94,11 +95,9 @@ Result<CohortOptions> ReadCohortOptions(const po::variables_map& vm) {
 Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
   std::vector<CohortTally> tallies;
   for (const std::string& file : files) {
-    std::ifstream in(file);
-    if (!in) return Status::Input(file + ": cannot be read");
-    nlohmann::json document = nlohmann::json::parse(in, nullptr, false);
-    if (document.is_discarded()) return Status::Input(file + ": not a JSON document");
-    auto tally = TallyFromJson(document, file);
+    auto document = ReadJsonFile(file);
+    if (!document.ok()) return document.status();
+    auto tally = TallyFromJson(*document, file);
     if (!tally.ok()) return tally.status();
     tallies.push_back(std::move(*tally));
   }

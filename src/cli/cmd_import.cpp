@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cmath>
 #include <fstream>
+#include <iostream>
 #include <ostream>
 #include <set>
 #include <sys/stat.h>
@@ -31,7 +32,8 @@ po::options_description ImportOptionsDescription(InputKind kind) {
       ("date-format", po::value<std::string>()->default_value("iso"),
        "order of CSV dates: iso (YYYY-MM-DD), dmy (DD/MM/YYYY) or mdy (MM/DD/YYYY)")
       ("rejects", po::value<std::string>(),
-       "FILE: write every rejected row (file, line, reason, message, original row) as CSV")
+       "FILE: write every rejected row (file, line, reason, message, original row) as CSV; - for standard "
+       "output (with --output FILE for the summary)")
       ("max-reject-rate", po::value<std::string>()->default_value("0.05"),
        "R: roll a file back (exit 3) when rejected/read is above R, 0 to 1");
   return options;
@@ -130,7 +132,15 @@ int RunImport(Context& context, const std::vector<std::string>& args, InputKind 
   Result<Store> store = Store::Open(context.db_path, store_options);
   if (!store.ok()) return Fail(context, store.status());
   std::ofstream rejects;
-  if (vm->count("rejects") != 0U) {
+  if (vm->count("rejects") != 0U && (*vm)["rejects"].as<std::string>() == "-") {
+    // "-" is standard output, as for input files; the summary must then go elsewhere.
+    if (context.output_path.empty() || context.output_path == "-") {
+      return Fail(context, Status::Usage("--rejects - would mix the rejected rows with the import summary on standard "
+                                         "output: give --rejects FILE, or --output FILE for the summary"));
+    }
+    WriteRejectsHeader(std::cout);
+    options->rejects = &std::cout;
+  } else if (vm->count("rejects") != 0U) {
     const std::string path = (*vm)["rejects"].as<std::string>();
     // Rejected rows are the original rows, patient identifiers and all.
     if (Status status = PreparePrivateFile(path); !status.ok()) return Fail(context, status);

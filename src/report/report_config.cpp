@@ -6,6 +6,8 @@
 #include <utility>
 #include <vector>
 
+#include "medload/input/json_file.h"
+
 namespace medload {
 namespace {
 
@@ -268,11 +270,9 @@ Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) 
 }
 
 Result<ReportConfig> LoadReportConfig(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return Status::Input(path + ": cannot be read");
-  json doc = json::parse(in, nullptr, false);
-  if (doc.is_discarded()) return Status::Input(path + ": not a JSON document");
-  return ReadReportConfig(doc, path);
+  auto doc = ReadJsonFile(path);
+  if (!doc.ok()) return doc.status();
+  return ReadReportConfig(*doc, path);
 }
 
 json ConfigParameters(const ReportConfig& config) {

@@ -16,6 +16,7 @@
 #include "medload/core/hash.h"
 #include "medload/input/csv_reader.h"
 #include "medload/input/fhir_reader.h"
+#include "medload/input/input_hints.h"
 #include "store/control_characters.h"
 #include "store/record_writers.h"
 #include "store/sqlite.h"
@@ -487,6 +488,9 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   std::string head(4096, '\0');
   in.read(head.data(), static_cast<std::streamsize>(head.size()));
   head.resize(static_cast<size_t>(in.gcount()));
+  if (const auto compressed = CompressedFormat(head)) {
+    return Status::Input(CompressedInputMessage(file, *compressed, InputKindName(kind)));
+  }
   const bool ndjson = LooksLikeNdjson(head);
   summary.format = ndjson ? "fhir" : "csv";
   PrefixedBuffer buffer(std::move(head), in);

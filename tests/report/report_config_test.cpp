@@ -127,7 +127,7 @@ TEST_CASE("a bad criterion is reported at its index with the criterion parser's 
 TEST_CASE("a missing config file is an input error naming the path") {
   auto config = LoadReportConfig("/nonexistent/network.json");
   REQUIRE_FALSE(config.ok());
-  CHECK(config.status().message() == "/nonexistent/network.json: cannot be read");
+  CHECK(config.status().message() == "/nonexistent/network.json: no such file");
 }
 
 TEST_CASE("the normalised parameters fill in every default and hide the key file") {
