@@ -118,7 +118,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   if (!dates.ok()) return dates.status();
   options->dates = std::move(*dates);
   if (Status known = CheckPracticeCodes(*store, options->practices); !known.ok()) return AsFlagFault(known);
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store, "cohort");
   if (!analysis.ok()) return analysis.status();
   if (Status status = CheckRulesExist(options->criteria, analysis->tables()); !status.ok()) {
     return status;

@@ -8,6 +8,7 @@
 
 #include "cli/measure_flags.h"
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/clock.h"
 #include "medload/report/report_config.h"
@@ -22,7 +23,6 @@ namespace medload::cli {
 
 void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportConfig& config,
                         const ReportOutcome& outcome);
-std::function<void(long)> ReportProgressLine(const Context& context);
 void PrintCautionFooter(std::ostream& out);
 
 namespace {
@@ -108,11 +108,11 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   if (Status status = ImportDemo(*store, data); !status.ok()) return fail(status);
   auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
+  analysis->set_pass_progress(PassProgressPrinter(context, "demo"));
   ReportRunOptions run;
   run.out_dir = out;
   run.config_dir = data.string();
   run.generated_at = UtcNow();
-  run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
   if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   if (Status status = WriteNetworkWorklist(*store, *analysis, *config, outcome->on, out); !status.ok()) {

@@ -5,11 +5,13 @@
 #include <cmath>
 #include <fstream>
 #include <iostream>
+#include <optional>
 #include <ostream>
 #include <set>
 #include <sys/stat.h>
 
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/format/private_file.h"
 #include "medload/store/import_summary.h"
 #include "medload/store/importer.h"
@@ -18,7 +20,8 @@
 namespace medload::cli {
 namespace {
 
-constexpr long kProgressEvery = 1000000;
+// Rows between progress calls (cli/progress.h prints at most one line every 2 seconds).
+constexpr long kProgressEvery = 20000;
 // How long an import waits for the store's write lock (another import, a migration): an
 // hour, so that imports started together by a scheduler run one after the other.
 constexpr int kImportWaitMs = 3600 * 1000;
@@ -90,10 +93,12 @@ int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<
   std::vector<ImportSummary> summaries;
   int exit_code = 0;
   for (const std::string& file : files) {
-    if (!context.quiet) {
+    std::optional<ProgressLine> line;
+    if (ShowsProgress(context)) {
+      line.emplace(*context.err, "import " + file);
       options.progress_every = kProgressEvery;
-      options.progress = [&context, &file](long rows) {
-        *context.err << "medload: " << file << ": " << rows << " rows read\n";
+      options.progress = [&line](long rows, uint64_t bytes_read, uint64_t bytes_total) {
+        line->Update(ImportProgressText(rows, bytes_read, bytes_total, line->Elapsed()));
       };
     }
     Result<ImportSummary> summary = ImportFile(store, kind, file, options);

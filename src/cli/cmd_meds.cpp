@@ -32,7 +32,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return fail(store.status());
   auto on = ResolveCensusDate(context, *on_flag, *store);
   if (!on.ok()) return fail(on.status());
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store, "meds");
   if (!analysis.ok()) return fail(analysis.status());
   auto records = store->DispensingsOf(patient);
   if (!records.ok()) return fail(records.status());

@@ -4,6 +4,7 @@
 
 #include "cli/measure_flags.h"
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/clock.h"
 #include "medload/format/output.h"
@@ -25,13 +26,6 @@ void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportC
 // The caution as a text footer (demo cannot include format/output.h beside the importer).
 void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
 
-// A progress line on standard error every few thousand patients (none with --quiet).
-std::function<void(long)> ReportProgressLine(const Context& context) {
-  if (context.quiet) return {};
-  std::ostream* err = context.err;
-  return [err](long patients) { *err << "medload: report: " << patients << " patients read\n"; };
-}
-
 int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   po::options_description options("report options");
   options.add_options()("config", po::value<std::string>(), "the report's JSON config (docs/report.md)")(
@@ -50,11 +44,11 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
   // The config's settings (an unknown scale) are named as the config's keys, after its file.
   if (!analysis.ok()) return fail(Status::Usage(config_path + ": " + analysis.status().message()));
+  analysis->set_pass_progress(PassProgressPrinter(context, "report"));
   ReportRunOptions run;
   run.out_dir = (*vm)["out"].as<std::string>();
   run.config_dir = std::filesystem::path(config_path).parent_path().string();
   run.generated_at = UtcNow();
-  run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
   if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   for (const std::string& warning : outcome->warnings) Warn(context, warning);

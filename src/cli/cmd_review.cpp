@@ -70,7 +70,7 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   if (Status known = CheckPracticeCodes(*store, worklist_options->practices); !known.ok()) {
     return fail(AsFlagFault(known));
   }
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store, "review");
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) {

@@ -42,7 +42,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   if (!measure.ok()) return fail(measure.status());
   auto store = Store::Open(context.db_path, StoreOptions{30000, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store, "timeline");
   if (!analysis.ok()) return fail(analysis.status());
   auto records = store->DispensingsOf(patient);
   if (!records.ok()) return fail(records.status());

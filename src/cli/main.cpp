@@ -1,5 +1,7 @@
 // medload's entry point: splits the global options from the command and its own
 // options, opens the output, runs the command and returns its exit code.
+#include <unistd.h>
+
 #include <csignal>
 
 #include <algorithm>
@@ -135,6 +137,7 @@ int Main(int argc, char** argv) {
   context.formulary_dir = MEDLOAD_SOURCE_FORMULARY;
   context.out = &std::cout;
   context.err = &std::cerr;
+  context.err_is_terminal = ::isatty(STDERR_FILENO) == 1;
   std::string error;
   bool help = false;
   bool version = false;

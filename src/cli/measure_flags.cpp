@@ -2,6 +2,7 @@
 
 #include <ostream>
 
+#include "cli/progress.h"
 #include "medload/report/report.h"
 
 namespace medload::cli {
@@ -128,10 +129,12 @@ Result<Date> ResolveCensusDate(const Context& context, std::optional<Date> date,
   return *latest;
 }
 
-Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store) {
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store,
+                                  const std::string& label) {
   Result<RunContext> run = RunContext::Open(context.formulary_dir, options, store);
   // Open's only usage fault is an unknown scale, which came from --scale here.
   if (!run.ok() && run.status().code() == StatusCode::kUsage) return AsFlagFault(run.status());
+  if (run.ok()) run->set_pass_progress(PassProgressPrinter(context, label));
   return run;
 }
 

@@ -27,8 +27,10 @@ void AddCriteriaFlags(po::options_description& options);
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm);
 
 // RunContext::Open for a command whose measure options came from its flags: an unknown
-// scale is named as the flag (`--scale "NAME" is not a scale in ...`).
-Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store);
+// scale is named as the flag (`--scale "NAME" is not a scale in ...`). Its patient passes
+// print progress lines labelled `label` (cli/progress.h: terminals only, not --quiet).
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store,
+                                  const std::string& label);
 
 // A report's fault as the command line names it: the report folder's usage fault, when
 // --out was empty, names the flag ("--out needs a folder").

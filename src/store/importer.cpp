@@ -43,11 +43,13 @@ bool HasCrOnlyLineEnds(std::string_view head) {
 class PrefixedBuffer : public std::streambuf {
  public:
   PrefixedBuffer(std::string head, std::istream& rest)
-      : head_(std::move(head)), rest_(rest), cr_to_lf_(HasCrOnlyLineEnds(head_)) {
+      : head_(std::move(head)), rest_(rest), cr_to_lf_(HasCrOnlyLineEnds(head_)), bytes_read_(head_.size()) {
     Translate(head_.data(), head_.size());
     setg(head_.data(), head_.data(), head_.data() + head_.size());
   }
   bool failed() const { return rest_.bad(); }
+  // Bytes taken from the input so far (read ahead of the rows parsed by up to a buffer).
+  uint64_t bytes_read() const { return bytes_read_; }
 
  protected:
   int_type underflow() override {
@@ -55,6 +57,7 @@ class PrefixedBuffer : public std::streambuf {
     rest_.read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
     const std::streamsize got = rest_.gcount();
     if (got <= 0) return traits_type::eof();
+    bytes_read_ += static_cast<uint64_t>(got);
     Translate(buffer_.data(), static_cast<size_t>(got));
     setg(buffer_.data(), buffer_.data(), buffer_.data() + got);
     return traits_type::to_int_type(*gptr());
@@ -68,6 +71,7 @@ class PrefixedBuffer : public std::streambuf {
   std::string head_;
   std::istream& rest_;
   bool cr_to_lf_;
+  uint64_t bytes_read_;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -131,12 +135,18 @@ class Session {
   bool patient_index_live() const { return !patient_index_deferred_; }
   sqlite3* db() const { return db_; }
 
+  // Progress tells how far through `source` (of `size_bytes`, 0 if unknown) the file is.
+  void ReportBytesOf(const PrefixedBuffer* source, uint64_t size_bytes) {
+    source_ = source;
+    size_bytes_ = size_bytes;
+  }
+
   // One more row read; reports progress.
   void Tick() {
     ++summary_.read;
     if (options_.progress_every > 0 && options_.progress &&
         summary_.read % options_.progress_every == 0) {
-      options_.progress(summary_.read);
+      options_.progress(summary_.read, source_ != nullptr ? source_->bytes_read() : 0, size_bytes_);
     }
   }
 
@@ -227,6 +237,8 @@ class Session {
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
   bool patient_index_deferred_ = false;
+  const PrefixedBuffer* source_ = nullptr;
+  uint64_t size_bytes_ = 0;
 };
 
 // Reads every CSV row after the header: `parse` checks it, `store` stores it (and counts).
@@ -496,6 +508,7 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   PrefixedBuffer buffer(std::move(head), in);
   std::istream whole(&buffer);
   Session session(store, summary, options);
+  session.ReportBytesOf(&buffer, size_bytes);
   bool read_failed = false;
   Status status =
       ndjson ? ImportFhirInput(kind, whole, size_bytes, session, summary, read_failed)
