@@ -36,7 +36,7 @@ void PrintHelp(std::ostream& out) {
     words.resize(std::max<size_t>(words.size(), 22), ' ');
     out << "  " << words << " " << command.summary << "\n";
   }
-  out << "\n'medload COMMAND --help' shows a command's options.\n\n" << kCaution << "\n";
+  out << "\n'medload COMMAND --help' shows a command's options.\n\n" << kCautionLine << "\n";
 }
 
 bool ParseFormat(std::string_view text, Format& format) {
