@@ -143,7 +143,7 @@ Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTable
     std::string message = "rule \"" + criterion.rule_id + "\" is not in the formulary's rules.json";
     const std::string close = CloseRuleId(criterion.rule_id, tables.rules);
     if (!close.empty()) message += "; did you mean \"" + close + "\"?";
-    return Status::Input(message + " ('medload formulary check' lists the rule ids)");
+    return Status::Input(message + " ('medload formulary rules' lists them)");
   }
   return Status::Ok();
 }

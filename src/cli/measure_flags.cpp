@@ -71,7 +71,7 @@ void AddCriteriaFlags(po::options_description& options) {
       ("at-least", po::value<std::vector<std::string>>()->composing(),
        "a threshold (repeatable): items=N, acb=N or dbi=X (also items>=N, as outputs print it)")
       ("rule", po::value<std::vector<std::string>>()->composing(),
-       "a combination rule, ID or rule:ID (repeatable); 'medload formulary check' lists the ids");
+       "a combination rule, ID or rule:ID (repeatable); 'medload formulary rules' lists them");
 }
 
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {

@@ -13,6 +13,13 @@ namespace {
 std::string Age(const WorklistEntry& e) { return e.age ? std::to_string(*e.age) : ""; }
 std::string LastReviewed(const WorklistEntry& e) { return e.last_reviewed ? e.last_reviewed->ToIso() : ""; }
 
+// The score's label in text and HTML: the chosen scale's name in capitals ("ACB", "ARS").
+std::string ScaleLabel(const Worklist& worklist) {
+  std::string label = worklist.scale;
+  for (char& c : label) c = (c >= 'a' && c <= 'z') ? static_cast<char>(c - 32) : c;
+  return label;
+}
+
 std::vector<std::string> CriteriaKeys(const Worklist& worklist) {
   std::vector<std::string> keys;
   for (const Criterion& c : worklist.criteria) keys.push_back(c.Key());
@@ -104,7 +111,7 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
                     std::to_string(e.rule_ids.size()), e.last_reviewed ? e.last_reviewed->ToIso() : "-"});
   }
-  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "rules", "last review"},
+  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules", "last review"},
                  rows);
   if (!worklist.patients.empty()) out << "\nReasons:\n";
   for (const WorklistEntry& e : worklist.patients) {
@@ -120,12 +127,14 @@ void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   out << "# census date: " << worklist.on.ToIso() << "\n";
   out << "# summary: " << WorklistSummary(worklist) << "\n";
   for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
-  out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "dbi", "rules", "criteria_met", "new",
-                 "last_reviewed", "reasons", "warnings"});
+  // "acb" is the score's key whatever the scale (as in JSON); "scale" names the scale.
+  out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "scale", "dbi", "rules", "criteria_met",
+                 "new", "last_reviewed", "reasons", "warnings"});
   for (const WorklistEntry& e : worklist.patients) {
     out << CsvRow({std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
-                   std::to_string(e.acb), FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"), Join(e.criteria_met, "|"),
-                   e.is_new ? "yes" : "no", LastReviewed(e), Join(e.reasons, "; "), Join(e.warnings, "; ")});
+                   std::to_string(e.acb), worklist.scale, FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"),
+                   Join(e.criteria_met, "|"), e.is_new ? "yes" : "no", LastReviewed(e), Join(e.reasons, "; "),
+                   Join(e.warnings, "; ")});
   }
 }
 
@@ -136,7 +145,8 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2), LastReviewed(e),
                     Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; "))});
   }
-  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "last review", "reasons"},
+  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "last review",
+                       "reasons"},
                  rows);
 }
 

@@ -103,15 +103,14 @@ TEST_CASE("an unknown rule is refused with a close id when one shares its words"
   const Case cases[] = {
       {"nsaid-with-anticoagulant",
        "rule \"nsaid-with-anticoagulant\" is not in the formulary's rules.json; did you mean "
-       "\"nsaid-anticoagulant\"? ('medload formulary check' lists the rule ids)"},
+       "\"nsaid-anticoagulant\"? ('medload formulary rules' lists them)"},
       {"Duplicate-NSAID",
        "rule \"Duplicate-NSAID\" is not in the formulary's rules.json; did you mean \"duplicate-nsaid\"? "
-       "('medload formulary check' lists the rule ids)"},
+       "('medload formulary rules' lists them)"},
       {"triple", "rule \"triple\" is not in the formulary's rules.json; did you mean \"aki-triple\"? "
-                 "('medload formulary check' lists the rule ids)"},
+                 "('medload formulary rules' lists them)"},
       {"opioid-benzodiazepine",
-       "rule \"opioid-benzodiazepine\" is not in the formulary's rules.json ('medload formulary check' lists the "
-       "rule ids)"},
+       "rule \"opioid-benzodiazepine\" is not in the formulary's rules.json ('medload formulary rules' lists them)"},
   };
   for (const Case& c : cases) {
     CAPTURE(c.id);

@@ -39,9 +39,9 @@ Result<Criterion> ParseRuleCriterion(std::string_view text);
 
 // Status::Input if a rule criterion names a rule the tables do not have; the message
 // suggests a close id (same words, some left out or added) and points at
-// `medload formulary check`, which lists the rule ids:
+// `medload formulary rules`, which lists them:
 //   rule "nsaid-with-anticoagulant" is not in the formulary's rules.json; did you mean
-//   "nsaid-anticoagulant"? ('medload formulary check' lists the rule ids)
+//   "nsaid-anticoagulant"? ('medload formulary rules' lists them)
 Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTables& tables);
 
 }  // namespace medload
