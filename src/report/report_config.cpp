@@ -141,7 +141,13 @@ Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
 Status ReadTriggers(const Reader& r, const json& doc, DigestTriggers& triggers) {
   const std::string at = "/digests/triggers";
   if (!doc.is_object()) return r.Fault(at, "must be an object");
-  MEDLOAD_TRY(r.OnlyKeys(doc, at, {"rise_patients", "rise_percent", "above_upper_limit"}));
+  MEDLOAD_TRY(r.OnlyKeys(doc, at, {"rise_patients", "rise_percent", "above_upper_limit", "combine"}));
+  std::string combine = "any";
+  MEDLOAD_TRY(r.String(doc, "combine", at, combine));
+  if (combine != "any" && combine != "all") {
+    return r.Fault(at + "/combine", "\"" + combine + "\" is not any (one trigger is enough) or all (every trigger set)");
+  }
+  triggers.all = combine == "all";
   if (doc.contains("rise_patients")) {
     long rise = 0;
     MEDLOAD_TRY(r.Integer(doc, "rise_patients", at, 1, 1000000000, rise));
@@ -290,7 +296,8 @@ json ConfigParameters(const ReportConfig& config) {
                {"triggers",
                 {{"rise_patients", t.rise_patients ? json(*t.rise_patients) : json(nullptr)},
                  {"rise_percent", t.rise_percent ? json(*t.rise_percent) : json(nullptr)},
-                 {"above_upper_limit", t.above_upper_limit}}}};
+                 {"above_upper_limit", t.above_upper_limit},
+                 {"combine", t.all ? "all" : "any"}}}};
   }
   return {{"title", config.title},
           {"network", config.network},

@@ -40,7 +40,8 @@ TEST_CASE("every key of the schema is read") {
     "count_by": "ingredient", "exclude_prn": true, "exclude_route": ["skin"], "scale": "acb",
     "worklist_limit": 10, "pseudonymise_key": "key.txt", "age_min": 65, "reviewed_within": 180,
     "digests": {"from": "a@b.invalid", "to": ["c@d.invalid"], "practice_to": {"WV001": ["e@f.invalid"]},
-                "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false}}})");
+                "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false,
+                             "combine": "all"}}})");
   REQUIRE(config.ok());
   CHECK(config->on->ToIso() == "2026-10-31");
   CHECK(config->months == 24);
@@ -63,6 +64,8 @@ TEST_CASE("every key of the schema is read") {
   CHECK(*config->digests.triggers.rise_patients == 3);
   CHECK(*config->digests.triggers.rise_percent == 12.5);
   CHECK_FALSE(config->digests.triggers.above_upper_limit);
+  CHECK(config->digests.triggers.all);
+  CHECK(ConfigParameters(*config).at("digests").at("triggers").at("combine") == "all");
 }
 
 TEST_CASE("config faults name the file, the JSON pointer of the key and the fault") {
@@ -102,6 +105,9 @@ TEST_CASE("config faults name the file, the JSON pointer of the key and the faul
        "network.json: /practices/1: \"A\" is listed twice"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"rise_percent": -2}}})",
        "network.json: /digests/triggers/rise_percent: must be a number above 0"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"combine": "both"}}})",
+       "network.json: /digests/triggers/combine: \"both\" is not any (one trigger is enough) or all (every trigger "
+       "set)"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"rise": 2}}})",
        "network.json: /digests/triggers/rise: is not a known key (see docs/report.md)"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"from": "a\r\nBcc: x@y"}})",

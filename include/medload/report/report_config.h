@@ -18,11 +18,13 @@
 
 namespace medload {
 
-// When a practice gets a digest message (any one trigger is enough).
+// When a practice gets a digest message: a criterion (or "any") crosses the triggers that
+// are set, any one of them (the default) or all of them together ("combine": "all").
 struct DigestTriggers {
   std::optional<long> rise_patients;    // "rise_patients": count up by at least N
   std::optional<double> rise_percent;   // "rise_percent": count up by at least X percent
   bool above_upper_limit = true;        // "above_upper_limit": rate above the 99.8% limit
+  bool all = false;                     // "combine": "any" (false, default) or "all" (true)
 };
 
 struct DigestConfig {
