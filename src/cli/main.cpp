@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "cli/context.h"
+#include "cli/install_paths.h"
 #include "medload/core/caution.h"
 #include "medload/format/private_file.h"
 
@@ -25,7 +26,8 @@ void PrintHelp(std::ostream& out) {
          "usage: medload [global options] COMMAND [options]\n\n"
          "global options:\n"
          "  --db PATH          the store (default medload.db in the working directory)\n"
-         "  --formulary DIR    the formulary tables (default: the bundled formulary/)\n"
+         "  --formulary DIR    the formulary tables (default: the bundled formulary, in\n"
+         "                     share/medload/formulary beside the installed program)\n"
          "  --format FORMAT    text, csv, json or html (timeline also svg); default text\n"
          "  --output FILE      write the result to FILE (default standard output)\n"
          "  --quiet            no progress or notes on standard error\n"
@@ -33,7 +35,7 @@ void PrintHelp(std::ostream& out) {
          "commands:\n";
   for (const Command& command : Commands()) {
     std::string words = command.words;
-    words.resize(std::max<size_t>(words.size(), 22), ' ');
+    words.resize(std::max<size_t>(words.size(), 25), ' ');
     out << "  " << words << " " << command.summary << "\n";
   }
   out << "\n'medload COMMAND --help' shows a command's options.\n\n" << kCautionLine << "\n";
@@ -134,7 +136,7 @@ int Main(int argc, char** argv) {
   std::signal(SIGXFSZ, SIG_IGN);
   std::vector<std::string> args(argv + 1, argv + argc);
   Context context;
-  context.formulary_dir = MEDLOAD_SOURCE_FORMULARY;
+  context.formulary_dir = BundledFormulary();
   context.out = &std::cout;
   context.err = &std::cerr;
   context.err_is_terminal = ::isatty(STDERR_FILENO) == 1;
