@@ -7,6 +7,7 @@
 #include "medload/burden/run_context.h"
 #include "medload/cohort/cohort.h"
 #include "medload/cohort/cohort_table.h"
+#include "medload/cohort/cohort_wide_writer.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/cohort/series.h"
 #include "medload/format/json_text.h"
@@ -126,7 +127,13 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   return medload::RunCohort(*store, *analysis, *options);
 }
 
-void Write(const Context& context, const CohortTable& table, const CohortTally& tally) {
+void Write(const Context& context, const CohortTable& table, const CohortTally& tally, bool wide) {
+  if (wide && context.format != Format::kJson) {
+    if (context.format == Format::kCsv) WriteCohortWideCsv(*context.out, table);
+    else if (context.format == Format::kHtml) WriteCohortWideHtml(*context.out, table);
+    else WriteCohortWideText(*context.out, table);
+    return;
+  }
   switch (context.format) {
     case Format::kJson: {
       // The raw tally would undo suppression, so it is only written when nothing is withheld.
@@ -159,7 +166,9 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
       ("suppress-below", po::value<long>()->default_value(0),
        "withhold counts from 1 to N-1 and their rates (0: no suppression)")
       ("shard", po::value<std::string>(), "K/N: count only the patients of shard K of N")
-      ("merge", po::bool_switch(), "add the JSON outputs of shard runs given as FILE arguments");
+      ("merge", po::bool_switch(), "add the JSON outputs of shard runs given as FILE arguments")
+      ("layout", po::value<std::string>()->default_value("long"),
+       "long: a row per date and group; wide: a row per group, a column per date (text, csv, html)");
   AddCriteriaFlags(options);
   AddMeasureFlags(options);
   int exit_code = 0;
@@ -171,6 +180,8 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   const bool merge = (*vm)["merge"].as<bool>();
   const bool has_files = vm->count("file") != 0U;
   if (context.format == Format::kSvg) return fail(Status::Usage("cohort writes text, csv, json or html"));
+  const std::string layout = (*vm)["layout"].as<std::string>();
+  if (layout != "long" && layout != "wide") return fail(Status::Usage("--layout \"" + layout + "\" is not long or wide"));
   if (!merge && has_files) return fail(Status::Usage("file arguments are only taken with --merge"));
   if (merge && !has_files) return fail(Status::Usage("--merge needs one or more cohort JSON files"));
   auto measure = ReadMeasureFlags(*vm);
@@ -183,7 +194,7 @@ int RunCohortCommand(Context& context, const std::vector<std::string>& args) {
   if (!table.complete && !context.quiet) {
     *context.err << "medload: note: only " << table.shards << " are in this result\n";
   }
-  Write(context, table, *tally);
+  Write(context, table, *tally, layout == "wide");
   return 0;
 }
 

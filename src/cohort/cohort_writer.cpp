@@ -43,8 +43,9 @@ std::string OptionalText(const std::optional<double>& value, int decimals) {
   return value ? FormatNumber(*value, decimals) : "";
 }
 
-// The header lines every format repeats: what was counted and how.
-std::vector<std::string> Preamble(const CohortTable& table) {
+}  // namespace
+
+std::vector<std::string> CohortPreamble(const CohortTable& table) {
   std::vector<std::string> lines;
   std::string criteria;
   for (const std::string& key : table.criteria) criteria += (criteria.empty() ? "" : ", ") + key;
@@ -66,10 +67,8 @@ std::vector<std::string> Preamble(const CohortTable& table) {
   return lines;
 }
 
-}  // namespace
-
 void WriteCohortText(std::ostream& out, const CohortTable& table) {
-  for (const std::string& line : Preamble(table)) out << line << "\n";
+  for (const std::string& line : CohortPreamble(table)) out << line << "\n";
   out << "\n";
   std::vector<std::string> header = {"date", "group", "registered", "data"};
   for (const std::string& key : table.keys) {
@@ -122,7 +121,7 @@ void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
   WriteHtmlStart(out, "Cohort counts by " + std::string(GroupByName(table.group_by)));
-  for (const std::string& line : Preamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
+  for (const std::string& line : CohortPreamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
   for (size_t k = 0; k < table.keys.size(); ++k) {
     out << "<figure>" << CohortTrendSvg(table, k) << "</figure>\n";
   }
