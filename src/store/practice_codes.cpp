@@ -1,8 +1,10 @@
 #include "medload/store/practice_codes.h"
 
 #include <algorithm>
+#include <set>
 
 #include "medload/core/text.h"
+#include "store/sqlite.h"
 
 namespace medload {
 namespace {
@@ -14,12 +16,38 @@ std::string AsciiLower(std::string text) {
   return text;
 }
 
+// Adds the first column of every row of `sql` to `codes`.
+Status CollectCodes(sqlite3* db, const char* sql, std::set<std::string>& codes) {
+  Result<Statement> stmt = Statement::Prepare(db, sql);
+  if (!stmt.ok()) return stmt.status();
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) return Status::Ok();
+    codes.emplace(stmt->ColumnText(0));
+  }
+}
+
 bool AllKnown(const std::vector<std::string>& codes, const std::vector<std::string>& known) {
   return std::all_of(codes.begin(), codes.end(),
                      [&](const std::string& code) { return std::binary_search(known.begin(), known.end(), code); });
 }
 
 }  // namespace
+
+// A Store member: it lives here beside the check that is its only user.
+Result<std::vector<std::string>> Store::PracticeCodes(bool with_dispensings) const {
+  std::set<std::string> codes;
+  for (const char* sql : {"SELECT practice FROM practices WHERE practice <> ''",
+                          "SELECT DISTINCT practice FROM patients WHERE practice <> ''"}) {
+    if (Status status = CollectCodes(db_, sql, codes); !status.ok()) return status;
+  }
+  if (with_dispensings) {
+    Status status = CollectCodes(db_, "SELECT DISTINCT practice FROM dispensings WHERE practice <> ''", codes);
+    if (!status.ok()) return status;
+  }
+  return std::vector<std::string>(codes.begin(), codes.end());
+}
 
 std::string UnknownPracticeMessage(const std::string& code, const std::vector<std::string>& known) {
   std::string message = "practice \"" + code + "\" is not in the store";

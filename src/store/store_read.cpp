@@ -2,7 +2,6 @@
 // over every patient, practices, reviews, product counts and provenance figures.
 #include <algorithm>
 #include <map>
-#include <set>
 #include <span>
 #include <utility>
 
@@ -23,18 +22,6 @@ constexpr const char* kCounting = "status IN ('', 'completed')";
 
 constexpr const char* kPatientColumns =
     "patient_id, birth_date, birth_year_only, sex, practice, registered_from, registered_to";
-
-// Adds the first column of every row of `sql` to `codes`.
-Status CollectCodes(sqlite3* db, const char* sql, std::set<std::string>& codes) {
-  Result<Statement> stmt = Statement::Prepare(db, sql);
-  if (!stmt.ok()) return stmt.status();
-  for (;;) {
-    Result<bool> row = stmt->Step();
-    if (!row.ok()) return row.status();
-    if (!*row) return Status::Ok();
-    codes.emplace(stmt->ColumnText(0));
-  }
-}
 
 std::optional<Date> ColumnDate(const Statement& stmt, int index) {
   if (stmt.ColumnIsNull(index)) return std::nullopt;
@@ -387,19 +374,6 @@ Result<std::vector<PracticeRecord>> Store::Practices() const {
     if (!stmt->ColumnIsNull(3)) practice.list_size = static_cast<long>(stmt->ColumnInt(3));
   }
   return practices;
-}
-
-Result<std::vector<std::string>> Store::PracticeCodes(bool with_dispensings) const {
-  std::set<std::string> codes;
-  for (const char* sql : {"SELECT practice FROM practices WHERE practice <> ''",
-                          "SELECT DISTINCT practice FROM patients WHERE practice <> ''"}) {
-    if (Status status = CollectCodes(db_, sql, codes); !status.ok()) return status;
-  }
-  if (with_dispensings) {
-    Status status = CollectCodes(db_, "SELECT DISTINCT practice FROM dispensings WHERE practice <> ''", codes);
-    if (!status.ok()) return status;
-  }
-  return std::vector<std::string>(codes.begin(), codes.end());
 }
 
 Result<std::vector<ReviewRecord>> Store::ReviewsOf(std::string_view patient_id) const {
