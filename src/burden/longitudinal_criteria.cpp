@@ -108,9 +108,14 @@ bool LongitudinalMet(const Criterion& criterion, const LongitudinalMeasures& mea
 }
 
 std::optional<Result<Criterion>> ParseLongitudinalCriterion(std::string_view text) {
-  if (text.substr(0, 5) == "falls") return ParseAtLeast(text, "falls", CriterionKind::kFalls);
-  if (text.substr(0, 4) == "tsdd") return ParseAtLeast(text, "tsdd", CriterionKind::kTsdd);
-  if (text.substr(0, 3) != "pdc") return std::nullopt;
+  // The measure's name alone or before a comparison ("falls-risk-pair" may be a rule id).
+  const auto names = [&](std::string_view name) {
+    return text.substr(0, name.size()) == name &&
+           (text.size() == name.size() || std::string_view("<>=").find(text[name.size()]) != std::string_view::npos);
+  };
+  if (names("falls")) return ParseAtLeast(text, "falls", CriterionKind::kFalls);
+  if (names("tsdd")) return ParseAtLeast(text, "tsdd", CriterionKind::kTsdd);
+  if (!names("pdc")) return std::nullopt;
   if (text.substr(3, 1) != "<") {
     return Result<Criterion>(Bad(text, "selects adherence below a threshold: write pdc<X"));
   }

@@ -345,6 +345,44 @@ std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
   return rows;
 }
 
+// The quantity dispensed with its unit ("28 tablet", "100 mL"); empty when none is known.
+std::string QuantityText(const MedsModel& model, const DispensingUse& use) {
+  if (use.quantity <= 0) return "";
+  const std::string unit = RecordText(model.records, use, &DispensingRecord::unit);
+  return FormatNumber(use.quantity, 3) + (unit.empty() ? "" : " " + unit);
+}
+
+// What the latest dispensing of a medicine said: the product as dispensed, the quantity
+// and the dosage as written (quoted, "no dosage text" when the record had none).
+std::string AsDispensed(const MedsModel& model, const DispensingUse& use) {
+  const std::string product = ProductText(model, use);
+  const std::string quantity = QuantityText(model, use);
+  const std::string dosage = DosageText(model, use);
+  std::string text = product.empty() ? std::string("(no product text)") : product;
+  if (!quantity.empty()) text += ", " + quantity;
+  return text + "; " + (dosage.empty() ? std::string("no dosage text") : "\"" + dosage + "\"");
+}
+
+// The HTML table also shows the product as dispensed and the dosage as written (a page
+// wraps long cells; the text table keeps them in a list below it).
+std::vector<std::string> HtmlHeader(const std::string& scale_label) {
+  std::vector<std::string> header = Header(scale_label);
+  header.insert(header.begin() + 1, {"product as dispensed", "dosage as written"});
+  return header;
+}
+
+std::vector<std::vector<std::string>> HtmlRows(const MedsModel& model) {
+  std::vector<std::vector<std::string>> rows = TableRows(model);
+  const std::vector<Row> source = Rows(model);
+  for (size_t i = 0; i < rows.size() && i < source.size(); ++i) {
+    const DispensingUse& use = *source[i].latest;
+    const std::string quantity = QuantityText(model, use);
+    rows[i].insert(rows[i].begin() + 1,
+                   {ProductText(model, use) + (quantity.empty() ? "" : " (" + quantity + ")"), DosageText(model, use)});
+  }
+  return rows;
+}
+
 std::string ScaleLabel(const MedsModel& model) {
   std::string label = model.tables->scale;
   for (char& c : label) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
@@ -382,8 +420,16 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
   out << "Patient " << model.patient << (model.practice.empty() ? "" : " (practice " + model.practice + ")")
       << ", age " << (model.age ? std::to_string(*model.age) : std::string("unknown")) << ", on "
       << b.on.ToIso() << " (" << MeasureName(model.options.measure) << ")\n"
-      << Totals(model) << "\n\n";
+      << Totals(model) << "\n";
+  // Warnings first: they say which figures to distrust before anyone reads them.
+  const auto warnings = MedsWarnings(model);
+  if (!warnings.empty()) out << "\nCheck first:\n";
+  for (const auto& w : warnings) out << "- " << w << "\n";
+  out << "\n";
   WriteTextTable(out, Header(ScaleLabel(model)), TableRows(model));
+  const std::vector<Row> rows = Rows(model);
+  if (!rows.empty()) out << "\nAs dispensed (the latest dispensing of each):\n";
+  for (const Row& row : rows) out << "- " << DisplayName(*row.medicine) << ": " << AsDispensed(model, *row.latest) << "\n";
   if (!b.score_contributions.empty()) {
     out << "\n" << ScaleLabel(model) << " contributions:";
     for (const auto& c : b.score_contributions) out << " " << c.ingredient << " " << c.score << ";";
@@ -409,9 +455,6 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
   out << "\n";
   for (const std::string& line : LongitudinalLines(*model.timeline, b)) out << line << "\n";
   if (model.trajectory) out << "Change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
-  const auto warnings = MedsWarnings(model);
-  if (!warnings.empty()) out << "\nWarnings:\n";
-  for (const auto& w : warnings) out << "- " << w << "\n";
   WriteTextCaution(out);
 }
 
@@ -446,7 +489,11 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   const Burden& b = *model.burden;
   WriteHtmlStart(out, "Medicines of patient " + model.patient + " on " + b.on.ToIso());
   out << "<p><strong>" << EscapeHtml(Totals(model)) << "</strong></p>\n";
-  WriteHtmlTable(out, Header(ScaleLabel(model)), TableRows(model));
+  const auto warnings = MedsWarnings(model);
+  if (!warnings.empty()) out << "<h2>Check first</h2>\n<ul>\n";
+  for (const auto& w : warnings) out << "<li>" << EscapeHtml(w) << "</li>\n";
+  if (!warnings.empty()) out << "</ul>\n";
+  WriteHtmlTable(out, HtmlHeader(ScaleLabel(model)), HtmlRows(model));
   const std::vector<RouteNote> notes = Notes(model);
   if (!notes.empty()) out << "<h2>Not counted because of the route</h2>\n<ul>\n";
   for (const RouteNote& note : notes) {
@@ -476,10 +523,6 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   }
   if (model.trajectory) out << "<li>" << EscapeHtml(TrajectoryText(*model.trajectory, ScaleLabel(model))) << "</li>\n";
   out << "</ul>\n";
-  const auto warnings = MedsWarnings(model);
-  if (!warnings.empty()) out << "<h2>Warnings</h2>\n<ul>\n";
-  for (const auto& w : warnings) out << "<li>" << EscapeHtml(w) << "</li>\n";
-  if (!warnings.empty()) out << "</ul>\n";
   WriteHtmlEnd(out);
 }
 

@@ -201,9 +201,13 @@ void ReadRanges(Reader& reader, const std::vector<PatientIdRange>& ranges, size_
 
 // The pass's own snapshot (two connections need one to agree on), unless the caller has
 // one open. The first pass after an import packs each history once first (best effort).
-Result<std::optional<StoreSnapshot>> OpenPassSnapshot(const Store& store) {
+Result<std::optional<StoreSnapshot>> OpenPassSnapshot(const Store& store, const PassProgressFn& progress) {
   std::optional<StoreSnapshot> own_snapshot;
   if (store.InSnapshot()) return own_snapshot;
+  if (progress) {
+    const Result<bool> current = store.PackedHistoriesCurrent();
+    if (current.ok() && !*current) progress(PassProgress{true, 0, 0, 0});
+  }
   if (Status packed = store.RefreshPackedHistories(); !packed.ok()) return packed;
   Result<StoreSnapshot> snapshot = store.BeginSnapshot();
   if (!snapshot.ok()) return snapshot.status();
@@ -292,7 +296,9 @@ struct Visiting {
 void VisitRanges(ReaderPool& pool, Visiting& visiting, size_t range_count, const RunContext& run,
                  const PassVisit& visit) {
   const size_t readers_used = pool.readers.size();
+  long patients = 0;
   for (size_t r = 0; r < range_count && !pool.stop; ++r) {
+    if (r > 0 && run.pass_progress()) run.pass_progress()(PassProgress{false, r, range_count, patients});
     const size_t reader = r % readers_used;
     for (bool range_end = false; !range_end && !pool.stop;) {
       Batch* batch = visiting.Next(pool, reader);
@@ -301,6 +307,7 @@ void VisitRanges(ReaderPool& pool, Visiting& visiting, size_t range_count, const
         try {
           const Slot& slot = batch->slots[i];
           PassPatient patient(slot.history, slot.timeline, slot.matches, run);
+          ++patients;
           if (!visit(patient)) pool.stop = true;
         } catch (...) {
           visiting.failure = std::current_exception();
@@ -309,6 +316,9 @@ void VisitRanges(ReaderPool& pool, Visiting& visiting, size_t range_count, const
       }
       pool.readers[reader].free.Put(batch);
     }
+  }
+  if (run.pass_progress() && !visiting.failure && visiting.status.ok()) {
+    run.pass_progress()(PassProgress{false, range_count, range_count, patients});
   }
 }
 
@@ -341,7 +351,7 @@ void CollectFacts(const Store& store, const ReaderPool& pool, PassFacts& facts) 
 
 Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const PassVisit& visit,
                               PassFacts* facts) {
-  Result<std::optional<StoreSnapshot>> own_snapshot = OpenPassSnapshot(store);
+  Result<std::optional<StoreSnapshot>> own_snapshot = OpenPassSnapshot(store, analysis.pass_progress());
   if (!own_snapshot.ok()) return own_snapshot.status();
   Result<std::vector<PatientIdRange>> ranges = store.PatientRanges(kPatientsPerRange);
   if (!ranges.ok()) return ranges.status();

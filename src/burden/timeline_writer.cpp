@@ -276,4 +276,27 @@ void WriteTimelineCsv(std::ostream& out, const TimelineModel& model) {
   }
 }
 
+nlohmann::json TimelineJson(const TimelineModel& model) {
+  nlohmann::json episodes = nlohmann::json::array();
+  for (const Medicine& medicine : model.timeline->medicines) {
+    for (const Episode& episode : medicine.episodes) {
+      if (episode.end < model.from || episode.start > model.to) continue;
+      nlohmann::json supplied = nlohmann::json::array();
+      int supplied_days = 0;
+      for (const auto& [start, end] : SuppliedSpans(episode)) {
+        supplied.push_back({{"from", start.ToIso()}, {"to", end.ToIso()}});
+        supplied_days += end - start + 1;
+      }
+      const int days = episode.end - episode.start + 1;
+      episodes.push_back({{"medicine", Name(medicine)}, {"ingredients", medicine.ingredients},
+                          {"start", episode.start.ToIso()}, {"end", episode.end.ToIso()}, {"days", days},
+                          {"supplied_days", supplied_days}, {"tail_days", days - supplied_days},
+                          {"supplied", supplied}, {"dispensings", episode.coverages.size()}});
+    }
+  }
+  return {{"patient", model.patient}, {"from", model.from.ToIso()}, {"to", model.to.ToIso()},
+          {"census", model.census ? nlohmann::json(model.census->ToIso()) : nlohmann::json(nullptr)},
+          {"episodes", episodes}, {"caution", std::string(kCaution)}};
+}
+
 }  // namespace medload

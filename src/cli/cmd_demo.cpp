@@ -6,10 +6,13 @@
 #include <ostream>
 #include <sstream>
 
+#include "cli/install_paths.h"
 #include "cli/measure_flags.h"
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/burden/run_context.h"
 #include "medload/core/clock.h"
+#include "medload/format/json_text.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_files.h"
 #include "medload/report/report_writer.h"
@@ -22,8 +25,9 @@ namespace medload::cli {
 
 void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportConfig& config,
                         const ReportOutcome& outcome);
-std::function<void(long)> ReportProgressLine(const Context& context);
 void PrintCautionFooter(std::ostream& out);
+nlohmann::json ReportOutcomeJson(const std::string& dir, const ReportConfig& config, const ReportOutcome& outcome);
+Status CheckSummaryFormat(const Context& context, const std::string& command);
 
 namespace {
 
@@ -88,12 +92,13 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   po::options_description options("demo options");
   options.add_options()("out", po::value<std::string>()->default_value("medload-demo"),
                         "the folder to write the demo into (default ./medload-demo)")(
-      "data", po::value<std::string>()->default_value(MEDLOAD_SOURCE_DEMO),
+      "data", po::value<std::string>()->default_value(BundledDemo(), "the bundled demo-patients"),
       "the demo data folder (practices.csv, patients.csv, dispensing.csv, reviews.csv, network.json)");
   int exit_code = 0;
   auto vm = ParseOptions(context, "medload demo [--out DIR]", options, {}, args, exit_code);
   if (!vm) return exit_code;
   auto fail = [&](const Status& status) { return Fail(context, status); };
+  if (Status status = CheckSummaryFormat(context, "demo"); !status.ok()) return fail(status);
   const fs::path data = (*vm)["data"].as<std::string>();
   const std::string out = (*vm)["out"].as<std::string>();
   auto config = LoadReportConfig((data / "network.json").string());
@@ -106,15 +111,24 @@ int RunDemo(Context& context, const std::vector<std::string>& args) {
   if (Status status = ImportDemo(*store, data); !status.ok()) return fail(status);
   auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
   if (!analysis.ok()) return fail(analysis.status());
+  analysis->set_pass_progress(PassProgressPrinter(context, "demo"));
   ReportRunOptions run;
   run.out_dir = out;
   run.config_dir = data.string();
   run.generated_at = UtcNow();
-  run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
   if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   if (Status status = WriteNetworkWorklist(*store, *analysis, *config, outcome->on, out); !status.ok()) {
     return fail(status);
+  }
+  if (context.format == Format::kJson) {
+    nlohmann::json summary = ReportOutcomeJson(out, *config, *outcome);
+    summary["network_worklist"] = {(fs::path(out) / "network-worklist.html").string(),
+                                   (fs::path(out) / "network-worklist.csv").string()};
+    summary["cohort"] = {(fs::path(out) / "cohort.csv").string(), (fs::path(out) / "cohort.json").string()};
+    summary["invented"] = "an invented network, invented practices and invented patients";
+    *context.out << JsonText(summary) << "\n";
+    return 0;
   }
   *context.out << "medload demo: an invented network, invented practices and invented patients.\n";
   PrintReportOutcome(*context.out, out, *config, *outcome);

@@ -4,6 +4,7 @@
 // a product the formulary does not fully recognise.
 #include <charconv>
 #include <cmath>
+#include <iostream>
 #include <map>
 #include <memory>
 #include <optional>
@@ -13,6 +14,7 @@
 #include <unordered_map>
 
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/format/output_file.h"
 #include "medload/formulary/formulary.h"
 #include "medload/formulary/resolver.h"
@@ -24,7 +26,8 @@
 namespace medload::cli {
 namespace {
 
-constexpr long kProgressEvery = 1000000;
+// Rows between progress calls (cli/progress.h prints at most one line every 2 seconds).
+constexpr long kProgressEvery = 20000;
 // How long an import waits for the store's write lock (another import, a migration): an
 // hour, so that imports started together by a scheduler run one after the other.
 constexpr int kImportWaitMs = 3600 * 1000;
@@ -38,7 +41,8 @@ po::options_description ImportOptionsDescription(InputKind kind) {
       ("date-format", po::value<std::string>()->default_value("iso"),
        "order of CSV dates: iso (YYYY-MM-DD), dmy (DD/MM/YYYY) or mdy (MM/DD/YYYY)")
       ("rejects", po::value<std::string>(),
-       "FILE: write every rejected row (file, line, reason, message, original row) as CSV")
+       "FILE: write every rejected row (file, line, reason, message, original row) as CSV; - for standard "
+       "output (with --output FILE for the summary)")
       ("max-reject-rate", po::value<std::string>()->default_value("0.05"),
        "R: roll a file back (exit 3) when rejected/read is above R, 0 to 1");
   return options;
@@ -138,10 +142,12 @@ int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<
   std::map<std::string, long> flags;  // the current file's
   if (check) options.stored_dispensing = [&](const DispensingRecord& record) { check->Note(record, flags); };
   for (const std::string& file : files) {
-    if (!context.quiet) {
+    std::optional<ProgressLine> line;
+    if (ShowsProgress(context)) {
+      line.emplace(*context.err, "import " + file);
       options.progress_every = kProgressEvery;
-      options.progress = [&context, &file](long rows) {
-        *context.err << "medload: " << file << ": " << rows << " rows read\n";
+      options.progress = [&line](long rows, uint64_t bytes_read, uint64_t bytes_total) {
+        line->Update(ImportProgressText(rows, bytes_read, bytes_total, line->Elapsed()));
       };
     }
     flags.clear();
@@ -185,7 +191,15 @@ int RunImport(Context& context, const std::vector<std::string>& args, InputKind 
   // appears (or replaces the previous one) only once every file has been imported, so
   // that a killed import leaves no rejects file that looks complete.
   std::optional<OutputFile> rejects;
-  if (vm->count("rejects") != 0U) {
+  if (vm->count("rejects") != 0U && (*vm)["rejects"].as<std::string>() == "-") {
+    // "-" is standard output, as for input files; the summary must then go elsewhere.
+    if (context.output_path.empty() || context.output_path == "-") {
+      return Fail(context, Status::Usage("--rejects - would mix the rejected rows with the import summary on standard "
+                                         "output: give --rejects FILE, or --output FILE for the summary"));
+    }
+    WriteRejectsHeader(std::cout);
+    options->rejects = &std::cout;
+  } else if (vm->count("rejects") != 0U) {
     Result<OutputFile> opened = OutputFile::Open((*vm)["rejects"].as<std::string>(), FileAccess::kOwnerOnly);
     if (!opened.ok()) return Fail(context, opened.status());
     rejects.emplace(std::move(opened.value()));

@@ -14,7 +14,8 @@ namespace medload::cli {
 
 int RunMeds(Context& context, const std::vector<std::string>& args) {
   po::options_description options("meds options");
-  options.add_options()("on", po::value<std::string>(), "the census date (YYYY-MM-DD)");
+  options.add_options()("on", po::value<std::string>(),
+                        "the census date (YYYY-MM-DD), or latest: the last month end on or before the latest dispensing");
   AddMeasureFlags(options);
   int exit_code = 0;
   auto vm = ParseOptions(context, "medload meds PATIENT --on DATE [measure options]", options,
@@ -23,14 +24,16 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("patient") == 0U) return fail(Status::Usage("meds needs a PATIENT identifier"));
   const std::string patient = (*vm)["patient"].as<std::vector<std::string>>().front();
-  auto on = ReadDateFlag(*vm, "on");
-  if (!on.ok()) return fail(on.status());
+  auto on_flag = ReadCensusDateFlag(*vm, "on");
+  if (!on_flag.ok()) return fail(on_flag.status());
   auto measure = ReadMeasureFlags(*vm);
   if (!measure.ok()) return fail(measure.status());
 
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto on = ResolveCensusDate(context, *on_flag, *store);
+  if (!on.ok()) return fail(on.status());
+  auto analysis = OpenRunContext(context, *measure, &*store, "meds");
   if (!analysis.ok()) return fail(analysis.status());
   long dropped = 0;
   auto records = store->DispensingsOf(patient, &dropped);

@@ -4,8 +4,11 @@
 
 #include "cli/measure_flags.h"
 #include "cli/options.h"
+#include "cli/progress.h"
 #include "medload/burden/run_context.h"
+#include "medload/core/caution.h"
 #include "medload/core/clock.h"
+#include "medload/format/json_text.h"
 #include "medload/format/output.h"
 #include "medload/report/report_config.h"
 #include "medload/report/report_writer.h"
@@ -22,15 +25,30 @@ void PrintReportOutcome(std::ostream& out, const std::string& dir, const ReportC
   for (const std::string& code : outcome.digests) out << "  digest for " << code << "\n";
 }
 
+// Shared with `demo`: the same as JSON, with the caution.
+nlohmann::json ReportOutcomeJson(const std::string& dir, const ReportConfig& config, const ReportOutcome& outcome) {
+  return {{"folder", dir},
+          {"index", (std::filesystem::path(dir) / "index.html").string()},
+          {"title", config.title},
+          {"network", config.network},
+          {"census_date", outcome.on.ToIso()},
+          {"practices", outcome.practices},
+          {"digests", outcome.digests},
+          {"files", outcome.files},
+          {"warnings", outcome.warnings},
+          {"caution", std::string(kCaution)}};
+}
+
+// Shared with `demo`: a command that writes its files into a folder prints a summary in
+// text or JSON; other formats are refused before anything is written.
+Status CheckSummaryFormat(const Context& context, const std::string& command) {
+  if (context.format == Format::kText || context.format == Format::kJson) return Status::Ok();
+  return Status::Usage(command + " writes its files (HTML, CSV, JSON) into a folder; its summary on standard output is "
+                                 "text or json");
+}
+
 // The caution as a text footer (demo cannot include format/output.h beside the importer).
 void PrintCautionFooter(std::ostream& out) { WriteTextCaution(out); }
-
-// A progress line on standard error every few thousand patients (none with --quiet).
-std::function<void(long)> ReportProgressLine(const Context& context) {
-  if (context.quiet) return {};
-  std::ostream* err = context.err;
-  return [err](long patients) { *err << "medload: report: " << patients << " patients read\n"; };
-}
 
 namespace {
 
@@ -56,6 +74,7 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("config") == 0U) return fail(Status::Usage("--config FILE is required"));
   if (vm->count("out") == 0U) return fail(Status::Usage("--out DIR is required"));
+  if (Status status = CheckSummaryFormat(context, "report"); !status.ok()) return fail(status);
   const std::string config_path = (*vm)["config"].as<std::string>();
   auto config = LoadReportConfig(config_path);
   if (!config.ok()) return fail(config.status());
@@ -63,14 +82,18 @@ int RunReportCommand(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return fail(store.status());
   auto analysis = RunContext::Open(context.formulary_dir, config->measure, &*store);
   if (!analysis.ok()) return fail(ConfigSettingFault(config_path, analysis.status()));
+  analysis->set_pass_progress(PassProgressPrinter(context, "report"));
   ReportRunOptions run;
   run.out_dir = (*vm)["out"].as<std::string>();
   run.config_dir = std::filesystem::path(config_path).parent_path().string();
   run.generated_at = UtcNow();
-  run.progress = ReportProgressLine(context);
   auto outcome = RunReport(*store, *analysis, *config, run);
   if (!outcome.ok()) return fail(ReportFault(outcome.status(), run));
   for (const std::string& warning : outcome->warnings) Warn(context, warning);
+  if (context.format == Format::kJson) {
+    *context.out << JsonText(ReportOutcomeJson(run.out_dir, *config, *outcome)) << "\n";
+    return 0;
+  }
   PrintReportOutcome(*context.out, run.out_dir, *config, *outcome);
   WriteTextCaution(*context.out);
   return 0;

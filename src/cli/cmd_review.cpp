@@ -6,17 +6,15 @@
 #include "medload/review/pseudonym.h"
 #include "medload/review/worklist.h"
 #include "medload/review/worklist_writer.h"
-#include "medload/review/worklist_writer.h"
+#include "medload/store/practice_codes.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
 namespace {
 
+// The flags except --on, which may be "latest" and is read by the caller.
 Result<WorklistOptions> ReadWorklistFlags(const po::variables_map& vm) {
   WorklistOptions options;
-  auto on = ReadDateFlag(vm, "on");
-  if (!on.ok()) return on.status();
-  options.on = *on;
   auto criteria = ReadCriteriaFlags(vm);
   if (!criteria.ok()) return criteria.status();
   options.criteria = std::move(criteria).value();
@@ -38,7 +36,8 @@ Result<WorklistOptions> ReadWorklistFlags(const po::variables_map& vm) {
 
 int RunReview(Context& context, const std::vector<std::string>& args) {
   po::options_description options("review options");
-  options.add_options()("on", po::value<std::string>(), "the census date (YYYY-MM-DD)")(
+  options.add_options()("on", po::value<std::string>(),
+                        "the census date (YYYY-MM-DD), or latest: the last month end on or before the latest dispensing")(
       "practice", po::value<std::vector<std::string>>()->composing(), "only this practice (repeatable)")(
       "age-min", po::value<int>(), "only patients aged at least N on the date")(
       "reviewed-within", po::value<int>(), "leave out patients with a completed review in the last DAYS days")(
@@ -51,6 +50,8 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
                          {}, args, exit_code);
   if (!vm) return exit_code;
   auto fail = [&](const Status& status) { return Fail(context, status); };
+  auto on = ReadCensusDateFlag(*vm, "on");
+  if (!on.ok()) return fail(on.status());
   auto worklist_options = ReadWorklistFlags(*vm);
   if (!worklist_options.ok()) return fail(worklist_options.status());
   auto measure = ReadMeasureFlags(*vm);
@@ -64,7 +65,13 @@ int RunReview(Context& context, const std::vector<std::string>& args) {
   }
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto census = ResolveCensusDate(context, *on, *store);
+  if (!census.ok()) return fail(census.status());
+  worklist_options->on = *census;
+  if (Status known = CheckPracticeCodes(*store, worklist_options->practices); !known.ok()) {
+    return fail(AsFlagFault(known));
+  }
+  auto analysis = OpenRunContext(context, *measure, &*store, "review");
   if (!analysis.ok()) return fail(analysis.status());
   auto worklist = BuildWorklist(*store, *analysis, *worklist_options);
   if (!worklist.ok()) {

@@ -112,7 +112,7 @@ void WriteSummary(Context& context, const SynthSummary& summary) {
       << "  " << summary.from.ToIso() << " to " << summary.to.ToIso() << ", seed "
       << summary.seed << ", " << SynthFormatName(summary.format) << "\n\n";
   WriteTextTable(out, header, FileRows(summary));
-  WriteTextCaution(out);
+  WriteTextCautionLine(out);
 }
 
 }  // namespace

@@ -5,6 +5,7 @@
 #include "cli/measure_flags.h"
 #include "medload/burden/run_context.h"
 #include "medload/burden/timeline_writer.h"
+#include "medload/format/json_text.h"
 #include "medload/store/store.h"
 
 namespace medload::cli {
@@ -42,7 +43,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
   if (!measure.ok()) return fail(measure.status());
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return fail(store.status());
-  auto analysis = OpenRunContext(context, *measure, &*store);
+  auto analysis = OpenRunContext(context, *measure, &*store, "timeline");
   if (!analysis.ok()) return fail(analysis.status());
   long dropped = 0;
   auto records = store->DispensingsOf(patient, &dropped);
@@ -78,7 +79,7 @@ int RunTimeline(Context& context, const std::vector<std::string>& args) {
     case Format::kSvg: WriteTimelineSvg(*context.out, model); break;
     case Format::kHtml: WriteTimelineHtml(*context.out, model); break;
     case Format::kCsv: WriteTimelineCsv(*context.out, model); break;
-    case Format::kJson: return fail(Status::Usage("timeline writes svg, html, text or csv"));
+    case Format::kJson: *context.out << JsonText(TimelineJson(model)) << "\n"; break;
     case Format::kText: WriteTimelineText(*context.out, model); break;
   }
   return 0;

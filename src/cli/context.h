@@ -25,6 +25,7 @@ struct Context {
   Format format = Format::kText;       // --format
   std::string output_path;             // --output (empty: standard output)
   bool quiet = false;                  // --quiet: no progress or notes on standard error
+  bool err_is_terminal = false;        // standard error is a terminal: progress lines show
   std::ostream* out = nullptr;         // where results go
   std::ostream* err = nullptr;         // diagnostics and progress
 };

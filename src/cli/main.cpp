@@ -1,5 +1,7 @@
 // medload's entry point: splits the global options from the command and its own
 // options, opens the output, runs the command and returns its exit code.
+#include <unistd.h>
+
 #include <csignal>
 
 #include <algorithm>
@@ -10,6 +12,7 @@
 #include <vector>
 
 #include "cli/context.h"
+#include "cli/install_paths.h"
 #include "medload/core/caution.h"
 #include "medload/format/output_file.h"
 #include "medload/format/private_file.h"
@@ -25,7 +28,8 @@ void PrintHelp(std::ostream& out) {
          "usage: medload [global options] COMMAND [options]\n\n"
          "global options:\n"
          "  --db PATH          the store (default medload.db in the working directory)\n"
-         "  --formulary DIR    the formulary tables (default: the bundled formulary/)\n"
+         "  --formulary DIR    the formulary tables (default: the bundled formulary, in\n"
+         "                     share/medload/formulary beside the installed program)\n"
          "  --format FORMAT    text, csv, json or html (timeline also svg); default text\n"
          "  --output FILE      write the result to FILE (default standard output)\n"
          "  --quiet            no progress or notes on standard error\n"
@@ -33,10 +37,10 @@ void PrintHelp(std::ostream& out) {
          "commands:\n";
   for (const Command& command : Commands()) {
     std::string words = command.words;
-    words.resize(std::max<size_t>(words.size(), 22), ' ');
+    words.resize(std::max<size_t>(words.size(), 25), ' ');
     out << "  " << words << " " << command.summary << "\n";
   }
-  out << "\n'medload COMMAND --help' shows a command's options.\n\n" << kCaution << "\n";
+  out << "\n'medload COMMAND --help' shows a command's options.\n\n" << kCautionLine << "\n";
 }
 
 bool ParseFormat(std::string_view text, Format& format) {
@@ -180,9 +184,10 @@ int Main(int argc, char** argv) {
   std::signal(SIGXFSZ, SIG_IGN);
   std::vector<std::string> args(argv + 1, argv + argc);
   Context context;
-  context.formulary_dir = MEDLOAD_SOURCE_FORMULARY;
+  context.formulary_dir = BundledFormulary();
   context.out = &std::cout;
   context.err = &std::cerr;
+  context.err_is_terminal = ::isatty(STDERR_FILENO) == 1;
   std::string error;
   bool help = false;
   bool version = false;

@@ -1,5 +1,10 @@
 #include "cli/measure_flags.h"
 
+#include <ostream>
+
+#include "cli/progress.h"
+#include "medload/report/report.h"
+
 namespace medload::cli {
 
 void AddMeasureFlags(po::options_description& options) {
@@ -81,12 +86,12 @@ Result<MeasureOptions> ReadMeasureFlags(const po::variables_map& vm) {
 void AddCriteriaFlags(po::options_description& options) {
   options.add_options()
       ("at-least", po::value<std::vector<std::string>>()->composing(),
-       "a threshold (repeatable): items=N, acb=N, dbi=X, falls=N or tsdd=N")
+       "a threshold (repeatable): items=N, acb=N, dbi=X, falls=N or tsdd=N (also items>=N, as outputs print it)")
       ("below", po::value<std::vector<std::string>>()->composing(),
        "adherence below a threshold (repeatable): pdc=X (any medicine) or pdc=X:CLASS|CLASS "
        "(the combined proportion of days covered of those classes)")
       ("rule", po::value<std::vector<std::string>>()->composing(),
-       "a combination rule by its id (repeatable)");
+       "a combination rule, ID or rule:ID (repeatable); 'medload formulary rules' lists them");
 }
 
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
@@ -108,7 +113,11 @@ Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm) {
     }
   }
   if (vm.count("rule") != 0U) {
-    for (const std::string& id : vm["rule"].as<std::vector<std::string>>()) criteria.push_back(RuleCriterion(id));
+    for (const std::string& text : vm["rule"].as<std::vector<std::string>>()) {
+      auto criterion = ParseRuleCriterion(text);
+      if (!criterion.ok()) return AsFlagFault(criterion.status());
+      criteria.push_back(*criterion);
+    }
   }
   return criteria;
 }
@@ -121,10 +130,39 @@ Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name) {
   return *date;
 }
 
-Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store) {
+Result<std::optional<Date>> ReadCensusDateFlag(const po::variables_map& vm, const char* name) {
+  if (vm.count(name) == 0U) return Status::Usage(std::string("--") + name + " DATE is required (YYYY-MM-DD or latest)");
+  const std::string text = vm[name].as<std::string>();
+  if (text == "latest") return std::optional<Date>();
+  auto date = ParseDate(text);
+  if (!date) {
+    return Status::Usage(std::string("--") + name + " \"" + text + "\" is not a date (YYYY-MM-DD) or latest");
+  }
+  return std::optional<Date>(*date);
+}
+
+Result<Date> ResolveCensusDate(const Context& context, std::optional<Date> date, const Store& store) {
+  if (date) return *date;
+  auto summary = store.Summary();
+  if (!summary.ok()) return summary.status();
+  auto latest = LatestCensusDate(*summary);
+  if (!latest.ok()) {
+    return Status::Input("latest needs dispensing records: the store " + store.path() + " holds none");
+  }
+  if (!context.quiet) {
+    *context.err << "medload: note: latest is " << latest->ToIso()
+                 << ", the last month end on or before the latest dispensing (" << summary->latest_dispensed->ToIso()
+                 << ")\n";
+  }
+  return *latest;
+}
+
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store,
+                                  const std::string& label) {
   Result<RunContext> run = RunContext::Open(context.formulary_dir, options, store);
   // Open's only usage fault is an unknown scale, which came from --scale here.
   if (!run.ok() && run.status().code() == StatusCode::kUsage) return AsFlagFault(run.status());
+  if (run.ok()) run->set_pass_progress(PassProgressPrinter(context, label));
   return run;
 }
 

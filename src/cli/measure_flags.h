@@ -28,8 +28,10 @@ void AddCriteriaFlags(po::options_description& options);
 Result<std::vector<Criterion>> ReadCriteriaFlags(const po::variables_map& vm);
 
 // RunContext::Open for a command whose measure options came from its flags: an unknown
-// scale is named as the flag (`--scale "NAME" is not a scale in ...`).
-Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store);
+// scale is named as the flag (`--scale "NAME" is not a scale in ...`). Its patient passes
+// print progress lines labelled `label` (cli/progress.h: terminals only, not --quiet).
+Result<RunContext> OpenRunContext(const Context& context, const MeasureOptions& options, Store* store,
+                                  const std::string& label);
 
 // A report's fault as the command line names it: the report folder's usage fault, when
 // --out was empty, names the flag ("--out needs a folder").
@@ -37,5 +39,14 @@ Status ReportFault(const Status& status, const ReportRunOptions& run);
 
 // Reads a date option that must be present ("--on"); usage error naming it otherwise.
 Result<Date> ReadDateFlag(const po::variables_map& vm, const char* name);
+
+// A census date option that may also be "latest": the date, or nullopt for "latest"
+// (resolve it with ResolveCensusDate once the store is open). Usage error naming the
+// option when it is missing or neither a date nor "latest".
+Result<std::optional<Date>> ReadCensusDateFlag(const po::variables_map& vm, const char* name);
+// `date` itself, or for "latest" (nullopt) the last month end on or before the latest
+// dispensing in the store, as a report config's "on": "latest" (LatestCensusDate); a
+// note on the error stream says which date that is. Input failure on an empty store.
+Result<Date> ResolveCensusDate(const Context& context, std::optional<Date> date, const Store& store);
 
 }  // namespace medload::cli

@@ -31,7 +31,7 @@ std::optional<po::variables_map> ParseOptions(Context& context, const char* usag
     return std::nullopt;
   }
   if (vm.count("help") != 0U) {
-    std::cout << "usage: " << usage << "\n\n" << options << "\n" << kCaution << "\n";
+    std::cout << "usage: " << usage << "\n\n" << options << "\n" << kCautionLine << "\n";
     exit_code = 0;
     return std::nullopt;
   }

@@ -7,6 +7,7 @@
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
 #include "medload/burden/run_context.h"
+#include "medload/core/text.h"
 
 namespace medload {
 
@@ -17,6 +18,7 @@ CohortCounter::CohortCounter(const CohortOptions& options,
   tally_.dates = options_.dates;
   tally_.group_by = options_.group_by;
   tally_.measure = std::move(measure);
+  tally_.population = DescribePopulation(options_);
   tally_.shard_count = options_.shard.count;
   tally_.shards.insert(options_.shard.index);
 }
@@ -26,6 +28,11 @@ void CohortCounter::See(const PatientHistory& history) { AddHistoryToSpans(histo
 bool CohortCounter::Settled(const std::string& practice) const {
   const auto it = tally_.spans.find(practice);
   return !options_.dates.empty() && it != tally_.spans.end() && it->second.first <= options_.dates.front();
+}
+
+bool CohortCounter::Counts(const std::string& practice) const {
+  return options_.practices.empty() ||
+         std::find(options_.practices.begin(), options_.practices.end(), practice) != options_.practices.end();
 }
 
 bool CohortCounter::Wants(const PatientHistory& history) const {
@@ -51,8 +58,9 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   for (size_t d = 0; d < options_.dates.size(); ++d) {
     const Date on = options_.dates[d];
     std::optional<std::string> practice = RegisteredPractice(history, on);
-    if (!practice) continue;
+    if (!practice || !Counts(*practice)) continue;
     const std::optional<int> age = AgeOn(history.registry, on);
+    if (options_.age_min && (!age || *age < *options_.age_min)) continue;
     const std::string group =
         GroupOf(options_.group_by, GroupFacts{*practice, age, sex}, networks_);
     CohortCell& cell = CellOf(group, d);
@@ -124,6 +132,7 @@ Status CheckSameRun(const CohortTally& first, const CohortTally& other, const st
   if (other.dates != first.dates) return fault("census dates");
   if (other.group_by != first.group_by) return fault("groups (--by)");
   if (other.measure != first.measure) return fault("measure options");
+  if (other.population != first.population) return fault("patients counted (--practice)");
   if (other.shard_count != first.shard_count) return fault("shard counts (N of --shard K/N)");
   return Status::Ok();
 }
@@ -173,6 +182,18 @@ Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
     }
   }
   return merged;
+}
+
+std::string DescribePopulation(const CohortOptions& options) {
+  std::vector<std::string> parts;
+  if (!options.practices.empty()) {
+    std::vector<std::string> codes = options.practices;
+    std::sort(codes.begin(), codes.end());
+    codes.erase(std::unique(codes.begin(), codes.end()), codes.end());
+    parts.push_back("registered at " + Join(codes, ", "));
+  }
+  if (options.age_min) parts.push_back("aged " + std::to_string(*options.age_min) + " or more");
+  return Join(parts, "; ");
 }
 
 std::string DescribeMeasure(const MeasureOptions& options) {

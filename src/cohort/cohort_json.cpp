@@ -71,6 +71,7 @@ json CohortJson(const CohortTable& table, const CohortTally* raw) {
   for (const Date date : table.dates) dates.push_back(date.ToIso());
   document["dates"] = dates;
   document["measure"] = table.measure;
+  document["population"] = table.population.empty() ? "every registered patient" : table.population;
   document["suppress_below"] = table.suppress_below;
   document["suppression"] = SuppressionNote(table.suppress_below);
   document["history_days"] = table.history_days;
@@ -106,6 +107,7 @@ json TallyJson(const CohortTally& tally) {
           {"dates", dates},
           {"group_by", std::string(GroupByName(tally.group_by))},
           {"measure", tally.measure},
+          {"population", tally.population},
           {"shard_count", tally.shard_count},
           {"shards", tally.shards},
           {"patients", tally.patients},
@@ -212,6 +214,9 @@ Result<CohortTally> TallyFromJson(const json& document, const std::string& file)
   if (status.ok()) status = Read(document, base + "/dates", file, dates);
   if (status.ok()) status = Read(document, base + "/group_by", file, group_by);
   if (status.ok()) status = Read(document, base + "/measure", file, tally.measure);
+  if (status.ok() && document.contains(json::json_pointer(base + "/population"))) {
+    status = Read(document, base + "/population", file, tally.population);  // absent before it was kept
+  }
   if (status.ok()) status = Read(document, base + "/shard_count", file, tally.shard_count);
   if (status.ok()) status = Read(document, base + "/shards", file, shards);
   if (status.ok()) status = Read(document, base + "/patients", file, tally.patients);

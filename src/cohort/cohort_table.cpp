@@ -123,6 +123,7 @@ CohortTable BuildCohortTable(const CohortTally& tally, long suppress_below, int 
   table.dates = tally.dates;
   table.group_by = tally.group_by;
   table.measure = tally.measure;
+  table.population = tally.population;
   table.suppress_below = suppress_below;
   table.history_days = history_days;
   table.complete = tally.complete();

@@ -43,14 +43,16 @@ std::string OptionalText(const std::optional<double>& value, int decimals) {
   return value ? FormatNumber(*value, decimals) : "";
 }
 
-// The header lines every format repeats: what was counted and how.
-std::vector<std::string> Preamble(const CohortTable& table) {
+}  // namespace
+
+std::vector<std::string> CohortPreamble(const CohortTable& table) {
   std::vector<std::string> lines;
   std::string criteria;
   for (const std::string& key : table.criteria) criteria += (criteria.empty() ? "" : ", ") + key;
   lines.push_back("Cohort counts by " + std::string(GroupByName(table.group_by)) +
                   "; criteria: " + criteria + " (any = at least one)");
   lines.push_back("Measure: " + table.measure);
+  if (!table.population.empty()) lines.push_back("Patients: " + table.population);
   lines.push_back("Rates per 1000 registered; standardised: European Standard Population 2013 "
                   "(patients of known age), 95% limits by Dobson et al. 1991.");
   if (!table.complete) {
@@ -65,10 +67,8 @@ std::vector<std::string> Preamble(const CohortTable& table) {
   return lines;
 }
 
-}  // namespace
-
 void WriteCohortText(std::ostream& out, const CohortTable& table) {
-  for (const std::string& line : Preamble(table)) out << line << "\n";
+  for (const std::string& line : CohortPreamble(table)) out << line << "\n";
   out << "\n";
   std::vector<std::string> header = {"date", "group", "registered", "data"};
   for (const std::string& key : table.keys) {
@@ -92,6 +92,7 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
+  if (!table.population.empty()) out << "# patients: " << table.population << "\n";
   for (const std::string& note : table.notes) out << "# note: " << note << "\n";
   out << CsvRow({"date", "group", "registered", "data", "practices_without_data", "criterion", "count",
                  "rate_per_1000", "standardised_per_1000", "standardised_lower", "standardised_upper",
@@ -120,7 +121,7 @@ void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortHtml(std::ostream& out, const CohortTable& table) {
   WriteHtmlStart(out, "Cohort counts by " + std::string(GroupByName(table.group_by)));
-  for (const std::string& line : Preamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
+  for (const std::string& line : CohortPreamble(table)) out << "<p>" << EscapeHtml(line) << "</p>\n";
   for (size_t k = 0; k < table.keys.size(); ++k) {
     out << "<figure>" << CohortTrendSvg(table, k) << "</figure>\n";
   }

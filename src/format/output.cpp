@@ -11,6 +11,15 @@
 namespace medload {
 namespace {
 
+// The banner shows "CAUTION:" in bold, then the rest of the caution once.
+constexpr std::string_view kCautionWord = "CAUTION:";
+std::string_view CautionWord() { return kCautionWord; }
+std::string_view CautionRest() {
+  std::string_view rest = kCaution;
+  if (rest.substr(0, kCautionWord.size()) == kCautionWord) rest.remove_prefix(kCautionWord.size() + 1);
+  return rest;
+}
+
 bool LooksNumeric(std::string_view value) {
   if (value.empty()) return false;
   size_t i = value[0] == '-' || value[0] == '+' ? 1 : 0;
@@ -107,9 +116,9 @@ void WriteHtmlStart(std::ostream& out, std::string_view title) {
          "h1{font-size:1.5rem}h2{font-size:1.2rem;margin-top:1.6rem}\n"
          ".note{color:#444;font-size:.9rem}\nsvg{max-width:100%;height:auto}\n"
          "@media print{.caution{border-width:1px}body{margin:0}}\n"
-         "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>Clinical review "
-         "caution.</strong> "
-      << EscapeHtml(kCaution) << "</div>\n<h1>" << EscapeHtml(title) << "</h1>\n";
+         "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>"
+      << EscapeHtml(CautionWord()) << "</strong> " << EscapeHtml(CautionRest()) << "</div>\n<h1>" << EscapeHtml(title)
+      << "</h1>\n";
 }
 
 void WriteHtmlEnd(std::ostream& out) { out << "</body>\n</html>\n"; }
@@ -170,6 +179,8 @@ void WriteTextCaution(std::ostream& out) {
     text.remove_prefix(std::min(text.size(), cut + 1));
   }
 }
+
+void WriteTextCautionLine(std::ostream& out) { out << "\n" << kCautionLine << "\n"; }
 
 std::string FormatNumber(double value, int decimals) {
   if (!std::isfinite(value)) return "";

@@ -16,6 +16,14 @@ namespace {
 
 using nlohmann::json;
 
+// The characters a criterion accepts in a rule id (ParseRuleCriterion).
+bool IdCharactersOk(std::string_view id) {
+  return std::all_of(id.begin(), id.end(), [](char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '-' || c == '_' ||
+           c == '.';
+  });
+}
+
 class RuleReader {
  public:
   RuleReader(std::string_view file, std::vector<std::string>& faults) : file_(file), faults_(faults) {}
@@ -186,6 +194,9 @@ class RuleReader {
     UnknownKeys(value, pointer, {"id", "title", "explanation", "source", "source_checked", "age_min", "measures",
                                  "require", "forbid", "routes"});
     rule.id = Text(value, pointer, "id");
+    if (!IdCharactersOk(rule.id)) {
+      Fault(pointer + "/id", "\"" + rule.id + "\" may hold only letters, digits, '-', '_' and '.' (--rule names it)");
+    }
     rule.title = Text(value, pointer, "title");
     rule.explanation = Text(value, pointer, "explanation");
     bool unchecked_mark = false;

@@ -8,6 +8,8 @@
 #include <sstream>
 
 #include "medload/core/text.h"
+#include "medload/input/input_hints.h"
+#include "medload/input/json_file.h"
 
 namespace medload {
 namespace {
@@ -80,7 +82,7 @@ std::optional<RowFault> ParseDateField(std::string_view text, const RowContext& 
   if (date) return std::nullopt;
   return Fault("bad_date", context.file, line, field,
                Quoted(text) + " is not a real date (expected " +
-                   std::string(DateShape(context.date_order)) + ")");
+                   std::string(DateShape(context.date_order)) + ")" + DateOrderHint(text, context.date_order));
 }
 
 // The JSON pointer of a top-level key (RFC 6901: "~" as "~0", "/" as "~1").
@@ -143,8 +145,9 @@ const std::vector<ColumnSpec>& ColumnsOf(InputKind kind) {
 Result<ColumnMap> ParseColumnMap(std::string_view json_text, std::string_view file_name,
                                  InputKind kind) {
   const std::string file(file_name);
-  const nlohmann::json json = nlohmann::json::parse(json_text, nullptr, false);
-  if (json.is_discarded()) return Status::Input(file + ": not valid JSON");
+  auto parsed = ParseJsonText(json_text, file);
+  if (!parsed.ok()) return parsed.status();
+  const nlohmann::json& json = *parsed;
   if (!json.is_object()) {
     return Status::Input(file + ": must be a JSON object of column name -> header name");
   }
@@ -172,11 +175,9 @@ Result<ColumnMap> ParseColumnMap(std::string_view json_text, std::string_view fi
 }
 
 Result<ColumnMap> LoadColumnMap(const std::string& path, InputKind kind) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return Status::Input(path + ": cannot read the column mapping file");
-  std::ostringstream text;
-  text << in.rdbuf();
-  return ParseColumnMap(text.str(), path, kind);
+  auto text = ReadTextFile(path);
+  if (!text.ok()) return text.status();
+  return ParseColumnMap(*text, path, kind);
 }
 
 Result<HeaderLayout> HeaderLayout::Find(InputKind kind, const CsvRow& header,
@@ -217,7 +218,7 @@ Result<HeaderLayout> HeaderLayout::Find(InputKind kind, const CsvRow& header,
   }
   if (!missing.empty()) {
     return header_fault("missing required columns: " + missing +
-                        " (name them in the header, or map your names with --columns)");
+                        " (name them in the header, or map your names with --columns)" + DelimiterHint(header));
   }
   return layout;
 }
@@ -315,7 +316,7 @@ std::optional<RowFault> ParseBirthDate(std::string_view text, DateOrder order,
   if (birth) return std::nullopt;
   return Fault("bad_date", file, line, field,
                Quoted(text) + " is not a real date or a year (expected " +
-                   std::string(DateShape(order)) + " or YYYY)");
+                   std::string(DateShape(order)) + " or YYYY)" + DateOrderHint(text, order));
 }
 
 std::optional<RowFault> ParseSex(std::string_view text, std::string_view file, size_t line,

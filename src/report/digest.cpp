@@ -1,10 +1,13 @@
 #include "medload/report/digest.h"
 
+#include <algorithm>
 #include <cmath>
+#include <cstdint>
 #include <sstream>
 
 #include "medload/core/caution.h"
 #include "medload/core/hash.h"
+#include "medload/core/text.h"
 #include "medload/format/output.h"
 #include "medload/format/shown_text.h"
 #include "medload/format/suppression.h"
@@ -28,13 +31,77 @@ std::string SignedPercent(double value) {
   return (value > 0 ? "+" : "") + FormatNumber(value, 1) + "%";
 }
 
-// Header values: printable ASCII on one line.
+// Base64 of `bytes` (RFC 4648 section 4, with padding).
+std::string Base64(std::string_view bytes) {
+  static constexpr char kAlphabet[] = "ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
+  std::string out;
+  for (size_t i = 0; i < bytes.size(); i += 3) {
+    uint32_t group = static_cast<uint32_t>(static_cast<unsigned char>(bytes[i])) << 16;
+    if (i + 1 < bytes.size()) group |= static_cast<uint32_t>(static_cast<unsigned char>(bytes[i + 1])) << 8;
+    if (i + 2 < bytes.size()) group |= static_cast<uint32_t>(static_cast<unsigned char>(bytes[i + 2]));
+    out += kAlphabet[(group >> 18) & 63];
+    out += kAlphabet[(group >> 12) & 63];
+    out += i + 1 < bytes.size() ? kAlphabet[(group >> 6) & 63] : '=';
+    out += i + 2 < bytes.size() ? kAlphabet[group & 63] : '=';
+  }
+  return out;
+}
+
+bool IsPrintableAscii(char c) {
+  const auto byte = static_cast<unsigned char>(c);
+  return byte >= 0x20 && byte < 0x7f;
+}
+
+// Encoded words for `run` (RFC 2047 section 2: "=?UTF-8?B?...?=", at most 75 characters
+// each, so at most 45 bytes of text), cut between UTF-8 characters, separated by spaces
+// (which a reader drops between encoded words).
+std::string EncodedWords(std::string_view run) {
+  constexpr size_t kMaxBytes = 45;
+  std::string out;
+  while (!run.empty()) {
+    size_t take = std::min(run.size(), kMaxBytes);
+    while (take < run.size() && take > 1 && (static_cast<unsigned char>(run[take]) & 0xC0) == 0x80) --take;
+    out += (out.empty() ? "" : " ") + std::string("=?UTF-8?B?") + Base64(run.substr(0, take)) + "?=";
+    run.remove_prefix(take);
+  }
+  return out;
+}
+
+// A header value as printable ASCII on one line: control characters become spaces, and
+// runs of words holding other bytes become RFC 2047 encoded words (the spaces between
+// those words inside the encoding, so they survive). A word holding '@' or '<' is part of
+// an address, which cannot be encoded: its other bytes become '?'.
 std::string HeaderValue(const std::string& text) {
-  std::string value;
+  std::vector<std::string> words;
+  std::string word;
   for (const char c : text) {
     const auto byte = static_cast<unsigned char>(c);
-    value += (byte >= 0x20 && byte < 0x7f) ? c : '?';
+    if (c == ' ' || byte < 0x20 || byte == 0x7f) {
+      if (!word.empty()) words.push_back(std::move(word));
+      word.clear();
+    } else {
+      word += c;
+    }
   }
+  if (!word.empty()) words.push_back(std::move(word));
+  std::string value;
+  std::string run;  // words waiting to be encoded together
+  const auto flush = [&] {
+    if (run.empty()) return;
+    value += (value.empty() ? "" : " ") + EncodedWords(run);
+    run.clear();
+  };
+  for (std::string& w : words) {
+    const bool ascii = std::all_of(w.begin(), w.end(), IsPrintableAscii);
+    if (!ascii && w.find_first_of("@<") == std::string::npos) {
+      run += (run.empty() ? "" : " ") + w;
+      continue;
+    }
+    flush();
+    if (!ascii) std::replace_if(w.begin(), w.end(), [](char c) { return !IsPrintableAscii(c); }, '?');
+    value += (value.empty() ? "" : " ") + w;
+  }
+  flush();
   return value;
 }
 
@@ -46,16 +113,36 @@ std::string Header(const std::string& name, const std::string& value) {
   return text;
 }
 
-std::optional<std::string> RiseFinding(const DigestMeasure& m, const DigestTriggers& t,
-                                       const std::string& since) {
-  if (!m.change.patients || *m.change.patients <= 0) return std::nullopt;
-  const bool by_patients = t.rise_patients && *m.change.patients >= *t.rise_patients;
-  const bool by_percent = t.rise_percent && m.change.percent && *m.change.percent >= *t.rise_percent;
-  if (!by_patients && !by_percent) return std::nullopt;
-  std::string text = m.key + ": up " + std::to_string(*m.change.patients) +
-                     (*m.change.patients == 1 ? " patient" : " patients");
-  if (m.change.percent) text += " (" + SignedPercent(*m.change.percent) + ")";
-  return text + " since " + since;
+// The rise triggers a measure crossed, each in words naming the trigger.
+std::vector<std::string> RisesCrossed(const DigestMeasure& m, const DigestTriggers& t) {
+  std::vector<std::string> crossed;
+  if (!m.change.patients || *m.change.patients <= 0) return crossed;
+  if (t.rise_patients && *m.change.patients >= *t.rise_patients) {
+    crossed.push_back("rise_patients " + std::to_string(*t.rise_patients));
+  }
+  if (t.rise_percent && m.change.percent && *m.change.percent >= *t.rise_percent) {
+    crossed.push_back("rise_percent " + FormatNumber(*t.rise_percent, 1));
+  }
+  return crossed;
+}
+
+// How many triggers are set.
+size_t TriggersSet(const DigestTriggers& t) {
+  return (t.rise_patients ? 1U : 0U) + (t.rise_percent ? 1U : 0U) + (t.above_upper_limit ? 1U : 0U);
+}
+
+// A measure that crossed: its rise (if any) and its limit finding (if any), each naming
+// the trigger crossed in brackets.
+std::string Finding(const DigestMeasure& m, const std::vector<std::string>& rises, const std::string& since,
+                    const std::optional<std::string>& limit) {
+  std::vector<std::string> parts;
+  if (!rises.empty()) {
+    std::string rise = "up " + std::to_string(*m.change.patients) + (*m.change.patients == 1 ? " patient" : " patients");
+    if (m.change.percent) rise += " (" + SignedPercent(*m.change.percent) + ")";
+    parts.push_back(rise + " since " + since + " [" + Join(rises, ", ") + "]");
+  }
+  if (limit) parts.push_back(*limit + " [above_upper_limit]");
+  return m.key + ": " + Join(parts, "; ");
 }
 
 void AddMeasures(const ReportModel& model, const ReportSeries& series,
@@ -76,20 +163,35 @@ void AddMeasures(const ReportModel& model, const ReportSeries& series,
   }
 }
 
-void AddLimitFindings(const ReportModel& model, const ReportSeries& series, Digest& digest) {
+// The control-limit finding of measure `k`: its rate above the upper 99.8% limit around
+// the network's proportion (Spiegelhalter 2005), in words; nullopt otherwise.
+std::optional<std::string> LimitFinding(const ReportModel& model, const ReportSeries& series, size_t k,
+                                        const DigestMeasure& measure) {
   const size_t last = model.dates.size() - 1;
   const long n = series.registered[last];
   const long network_n = model.network.registered[last];
-  if (n < 1 || network_n < 1) return;
-  for (size_t k = 0; k < model.keys.size(); ++k) {
-    if (!digest.measures[k].count) continue;
-    const double p0 = static_cast<double>(model.network.counts[k][last]) / static_cast<double>(network_n);
-    if (PositionOf(series.counts[k][last], n, p0, kDigestCoverage) != FunnelPosition::kAbove) continue;
-    const ControlLimits limits = FunnelLimits(p0, n, kDigestCoverage);
-    digest.findings.push_back(model.keys[k] + ": " + FormatNumber(*digest.measures[k].rate, 1) +
-                              " per 1000 is above the upper 99.8% control limit (" +
-                              FormatNumber(1000 * limits.upper, 1) + " per 1000; network " +
-                              FormatNumber(1000 * p0, 1) + ")");
+  if (n < 1 || network_n < 1 || !measure.count) return std::nullopt;
+  const double p0 = static_cast<double>(model.network.counts[k][last]) / static_cast<double>(network_n);
+  if (PositionOf(series.counts[k][last], n, p0, kDigestCoverage) != FunnelPosition::kAbove) return std::nullopt;
+  const ControlLimits limits = FunnelLimits(p0, n, kDigestCoverage);
+  return FormatNumber(*measure.rate, 1) + " per 1000 is above the upper 99.8% control limit (" +
+         FormatNumber(1000 * limits.upper, 1) + " per 1000; network " + FormatNumber(1000 * p0, 1) + ")";
+}
+
+// Adds a finding for each measure that crossed the triggers: one set trigger is enough,
+// or with "combine": "all" every set trigger must be crossed by that measure.
+void AddFindings(const ReportModel& model, const ReportSeries& series, const std::string& since, bool comparable,
+                 Digest& digest) {
+  const DigestTriggers& t = model.config.digests.triggers;
+  const size_t set = TriggersSet(t);
+  for (size_t k = 0; k < digest.measures.size(); ++k) {
+    const DigestMeasure& m = digest.measures[k];
+    const std::vector<std::string> rises = RisesCrossed(m, t);
+    const std::optional<std::string> limit =
+        t.above_upper_limit && comparable ? LimitFinding(model, series, k, m) : std::nullopt;
+    const size_t crossed = rises.size() + (limit ? 1U : 0U);
+    if (crossed == 0 || (t.all && crossed < set)) continue;
+    digest.findings.push_back(Finding(m, rises, since, limit));
   }
 }
 
@@ -133,15 +235,24 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
     digest.baseline = "none: no earlier date with full figures";
   }
   AddMeasures(model, series, before, digest);
-  for (const DigestMeasure& measure : digest.measures) {
-    if (auto finding = RiseFinding(measure, config.triggers, since)) digest.findings.push_back(*finding);
-  }
-  if (config.triggers.above_upper_limit && comparable) AddLimitFindings(model, series, digest);
+  AddFindings(model, series, since, comparable, digest);
   if (digest.findings.empty()) return std::nullopt;
+  digest.trigger_rule = TriggerRule(config.triggers);
   digest.from = config.from;
   const auto it = config.practice_to.find(series.code);
   digest.to = it != config.practice_to.end() ? it->second : config.default_to;
   return digest;
+}
+
+std::string TriggerRule(const DigestTriggers& t) {
+  std::vector<std::string> set;
+  if (t.rise_patients) set.push_back("a rise of at least " + std::to_string(*t.rise_patients) + " patients (rise_patients)");
+  if (t.rise_percent) set.push_back("a rise of at least " + FormatNumber(*t.rise_percent, 1) + "% (rise_percent)");
+  if (t.above_upper_limit) set.push_back("a rate above the upper 99.8% control limit (above_upper_limit)");
+  if (set.empty()) return "no trigger is set";
+  if (set.size() == 1) return set.front();
+  return Join(set, t.all ? " AND " : " OR ") +
+         (t.all ? ": all of them, on one criterion (combine: all)" : ": any one is enough (combine: any)");
 }
 
 std::string MessageDate(Date on) {
@@ -199,6 +310,7 @@ std::string FormatDigest(const Digest& digest) {
       "Network: " + digest.network, "Census date: " + digest.on.ToIso(),
       "Registered patients: " + std::to_string(digest.registered), "Compared with: " + digest.baseline, ""};
   body.push_back("What crossed a trigger:");
+  if (!digest.trigger_rule.empty()) body.push_back("Triggers: " + digest.trigger_rule + ".");
   for (const std::string& finding : digest.findings) body.push_back("- " + finding);
   body.push_back("");
   body.push_back("Counts on the census date:");

@@ -9,6 +9,7 @@
 #include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/format/suppression.h"
+#include "medload/store/practice_codes.h"
 
 namespace medload {
 namespace {
@@ -42,28 +43,6 @@ std::vector<std::string> EntryWarnings(const Burden& burden) {
   return warnings;
 }
 
-// A worklist row when the patient meets any criterion on the census date.
-std::optional<WorklistEntry> EntryOf(const PatientHistory& history, const std::string& practice,
-                                     const Timeline& timeline, const Burden& burden,
-                                     std::optional<int> age, const ReportConfig& config,
-                                     const BurdenTables& tables) {
-  WorklistEntry entry;
-  for (const Criterion& criterion : config.criteria) {
-    if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
-  }
-  if (entry.criteria_met.empty()) return std::nullopt;
-  entry.patient = history.patient_id;
-  entry.practice = practice;
-  entry.age = age;
-  entry.items = burden.items;
-  entry.acb = burden.acb;
-  entry.dbi = burden.dbi;
-  for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
-  entry.reasons = ExplainBurden(timeline, burden, tables);
-  entry.warnings = EntryWarnings(burden);
-  return entry;
-}
-
 // The practices the report covers: the configured list, or every practice in the store
 // and every practice seen in the counts (codes that are empty or "unknown" left out).
 Result<std::vector<PracticeRecord>> ChoosePractices(const std::vector<PracticeRecord>& known,
@@ -76,7 +55,13 @@ Result<std::vector<PracticeRecord>> ChoosePractices(const std::vector<PracticeRe
     for (const std::string& code : config.practices) {
       const auto it = by_code.find(code);
       if (it == by_code.end() && tally.groups.count(code) == 0) {
-        return Status::Input("practice \"" + code + "\" of the config's /practices is not in the store");
+        std::set<std::string> codes;  // the practices table and every practice the counts saw
+        for (const auto& [known_code, record] : by_code) codes.insert(known_code);
+        for (const auto& [group, cells] : tally.groups) {
+          if (!group.empty() && group != kUnknownGroup) codes.insert(group);
+        }
+        return Status::Input("the config's /practices: " +
+                             UnknownPracticeMessage(code, std::vector<std::string>(codes.begin(), codes.end())));
       }
       chosen.push_back(it != by_code.end() ? it->second : PracticeRecord{code, "", "", std::nullopt});
     }
@@ -147,13 +132,52 @@ namespace {
 // inside the counter's call, also gives the worklist row.
 struct Pass {
   CohortCounter counter;
-  std::map<std::string, std::vector<WorklistEntry>> entries;  // practice -> rows
-  std::map<std::string, long> considered;                     // practice -> registered on `on`
+  ReviewDates reviewed;                    // for reviewed_within and the last review column
+  std::map<std::string, Worklist> lists;   // practice -> rows and figures, unranked
   long patients = 0;
   // practice (the registry's; "" when none) -> patients whose oldest dispensings the
   // store's bound left out
   std::map<std::string, long> capped;
 };
+
+// Adds the patient registered at `practice` on the census date to its list, after the
+// config's age and review filters (each counted, as review counts them).
+void AddToList(Pass& pass, PassPatient& patient, const std::string& practice, const std::optional<Burden>& census,
+               const ReportConfig& config, Date on, const BurdenTables& tables) {
+  const PatientHistory& history = patient.history();
+  Worklist& list = pass.lists[practice];
+  const std::optional<int> age = AgeOn(history.registry, on);
+  if (config.age_min && age && *age < *config.age_min) return;
+  // The counter does not evaluate a patient whom age_min leaves out.
+  const Burden burden = census ? *census : patient.Evaluate(on, age);
+  WorklistEntry entry;
+  for (const Criterion& criterion : config.criteria) {
+    if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
+  }
+  if (config.age_min && !age) {
+    ++list.excluded_age_unknown;
+    if (!entry.criteria_met.empty()) ++list.excluded_age_unknown_meeting;
+    return;
+  }
+  ++list.patients_considered;
+  if (entry.criteria_met.empty()) return;
+  const auto reviews = pass.reviewed.find(history.patient_id);
+  if (reviews != pass.reviewed.end()) {
+    if (config.reviewed_within_days && ReviewedWithin(reviews->second, on, *config.reviewed_within_days)) {
+      ++list.excluded_recent_review;
+      return;
+    }
+    entry.last_reviewed = LastReviewOn(reviews->second, on);
+  }
+  FillFigures(entry, history.patient_id, practice, age, patient.timeline(), burden, tables);
+  entry.warnings = EntryWarnings(burden);
+  // Longitudinal fields and the trajectory; the earlier date's coverage is marked after
+  // the pass (FinishWorklist), when each practice's data span is known.
+  const Date before_on = MonthsBefore(on, kTrajectoryMonths);
+  FillLongitudinal(entry, patient.timeline(), burden, patient.Evaluate(before_on, AgeOn(history.registry, before_on)),
+                   DataState::kFull);
+  list.patients.push_back(std::move(entry));
+}
 
 Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& config, Date on,
                Pass& pass, const ReportProgress& progress) {
@@ -169,31 +193,22 @@ Status RunPass(const Store& store, RunContext& analysis, const ReportConfig& con
       if (date == on) census = burden;
       return burden;
     });
-    if (!census) return true;
     const std::optional<std::string> practice = RegisteredPractice(history, on);
-    if (!practice) return true;
-    ++pass.considered[*practice];
-    const std::optional<int> age = AgeOn(history.registry, on);
-    auto entry = EntryOf(history, *practice, patient.timeline(), *census, age, config, analysis.tables());
-    if (!entry) return true;
-    // Longitudinal fields and the trajectory; the earlier date's coverage is marked after
-    // the pass (FinishWorklist), when each practice's data span is known.
-    const Date before_on = MonthsBefore(on, kTrajectoryMonths);
-    FillLongitudinal(*entry, patient.timeline(), *census,
-                     patient.Evaluate(before_on, AgeOn(history.registry, before_on)), DataState::kFull);
-    pass.entries[*practice].push_back(std::move(*entry));
+    if (practice) AddToList(pass, patient, *practice, census, config, on, analysis.tables());
     return true;
   });
 }
 
-Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& model, long considered,
-                        const std::string& scale,
-                        const std::function<std::string(const std::string&)>& pseudonymise) {
-  Worklist worklist;
+// Ranks a practice's rows, marks those not on the previous report's list of the practice
+// (when it kept one), keeps the first worklist_limit and pseudonymises them.
+Worklist FinishWorklist(Worklist worklist, const std::string& practice, const ReportModel& model,
+                        const std::string& scale, const std::function<std::string(const std::string&)>& pseudonymise,
+                        std::vector<std::string>& listed) {
   worklist.on = model.on;
   worklist.criteria = model.config.criteria;
   worklist.scale = scale;
-  worklist.patients_considered = considered;
+  worklist.age_min_setting = "age_min";
+  std::vector<WorklistEntry>& rows = worklist.patients;
   for (WorklistEntry& row : rows) {
     if (!row.trajectory) continue;
     const auto span = model.tally.spans.find(row.practice);
@@ -203,22 +218,30 @@ Worklist FinishWorklist(std::vector<WorklistEntry> rows, const ReportModel& mode
   }
   std::sort(rows.begin(), rows.end(), RanksBefore);
   worklist.patients_meeting = static_cast<long>(rows.size());
+  for (const WorklistEntry& row : rows) listed.push_back(row.patient);
+  if (model.previous && model.previous->listed) {
+    worklist.has_previous_run = true;
+    const auto before = model.previous->listed->find(practice);
+    for (WorklistEntry& row : rows) {
+      row.is_new = before == model.previous->listed->end() || before->second.count(row.patient) == 0;
+    }
+  }
   if (rows.size() > model.config.worklist_limit) rows.resize(model.config.worklist_limit);
   for (size_t i = 0; i < rows.size(); ++i) {
     rows[i].rank = static_cast<int>(i + 1);
     if (pseudonymise) rows[i].patient = pseudonymise(rows[i].patient);
   }
-  worklist.patients = std::move(rows);
   return worklist;
 }
 
 }  // namespace
 
-Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
-                                     const std::function<std::string(const std::string&)>& pseudonymise,
-                                     const ReportProgress& progress) {
-  ReportModel model;
-  model.config = config;
+namespace {
+
+// The model's census dates, keys and provenance, and the checks worth making before the
+// pass (rule ids, practice codes).
+Status PrepareModel(const Store& store, const RunContext& analysis, ReportModel& model) {
+  const ReportConfig& config = model.config;
   auto summary = store.Summary();
   if (!summary.ok()) return summary.status();
   model.data = *summary;
@@ -231,51 +254,75 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   }
   model.dates = CensusDates(model.on, config.months);
   if (Status status = CheckRulesExist(config.criteria, analysis.tables()); !status.ok()) return status;
+  // Before the pass, so that a typing slip does not cost a whole run.
+  if (Status known = CheckPracticeCodes(store, config.practices); !known.ok()) {
+    return known.code() == StatusCode::kInput ? Status::Input("the config's /practices: " + known.message()) : known;
+  }
   for (const Criterion& criterion : config.criteria) model.keys.push_back(criterion.Key());
   model.keys.push_back("any");
+  model.measure = DescribeMeasure(analysis.options());
+  model.formulary_checksum = analysis.formulary().checksum();
+  model.history_days = HistoryDays(analysis.options());
+  return Status::Ok();
+}
+
+// The series of the chosen practices, the network total and each practice's worklist.
+void AssembleModel(const std::vector<PracticeRecord>& chosen, Pass& pass, const std::string& scale,
+                   const std::function<std::string(const std::string&)>& pseudonymise, ReportModel& model) {
+  const size_t dates = model.dates.size();
+  model.network = ReportSeries{model.config.network, model.config.network, std::nullopt,
+                               std::vector<long>(dates, 0),
+                               std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(dates, 0)),
+                               std::vector<DataState>(dates, DataState::kNoData), std::vector<long>(dates, 0)};
+  for (const PracticeRecord& practice : chosen) {
+    model.practices.push_back(SeriesOf(practice, model.tally, model.keys.size(), dates, model.history_days));
+    AddSeries(model.network, model.practices.back());
+    model.worklists[practice.practice] = FinishWorklist(std::move(pass.lists[practice.practice]), practice.practice,
+                                                        model, scale, pseudonymise, model.listed[practice.practice]);
+  }
+}
+
+}  // namespace
+
+Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
+                                     const std::function<std::string(const std::string&)>& pseudonymise,
+                                     const ReportProgress& progress) {
+  ReportModel model;
+  model.config = config;
+  if (Status status = PrepareModel(store, analysis, model); !status.ok()) return status;
   auto known = store.Practices();
   if (!known.ok()) return known.status();
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& record : *known) networks[record.practice] = record.network;
-  model.measure = DescribeMeasure(analysis.options());
-  model.formulary_checksum = analysis.formulary().checksum();
   CohortOptions cohort;
   cohort.dates = model.dates;
   cohort.group_by = GroupBy::kPractice;
   cohort.criteria = config.criteria;
-  Pass pass{CohortCounter(cohort, networks, model.measure), {}, {}, 0, {}};
+  cohort.age_min = config.age_min;
+  auto reviewed = ReadReviewDates(store);
+  if (!reviewed.ok()) return reviewed.status();
+  Pass pass{CohortCounter(cohort, networks, model.measure), std::move(*reviewed), {}, 0, {}};
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;
   model.capped_patients = std::move(pass.capped);
   model.history_bound = store.history_bound();
   model.tally = pass.counter.Take();
-  model.history_days = HistoryDays(analysis.options());
   auto chosen = ChoosePractices(*known, config, model.tally);
   if (!chosen.ok()) return chosen.status();
-  model.network = ReportSeries{config.network, config.network, std::nullopt,
-                               std::vector<long>(model.dates.size(), 0),
-                               std::vector<std::vector<long>>(model.keys.size(), std::vector<long>(model.dates.size(), 0)),
-                               std::vector<DataState>(model.dates.size(), DataState::kNoData),
-                               std::vector<long>(model.dates.size(), 0)};
-  for (const PracticeRecord& practice : *chosen) {
-    model.practices.push_back(
-        SeriesOf(practice, model.tally, model.keys.size(), model.dates.size(), model.history_days));
-    AddSeries(model.network, model.practices.back());
-    model.worklists[practice.practice] =
-        FinishWorklist(std::move(pass.entries[practice.practice]), model, pass.considered[practice.practice],
-                       analysis.tables().scale, pseudonymise);
-  }
   auto previous = store.LatestRun("report", ReportRunKey(model), model.on.ToIso());
   if (!previous.ok()) return previous.status();
   if (previous->has_value()) model.previous = ParsePreviousReport(**previous);
+  AssembleModel(*chosen, pass, analysis.tables().scale, pseudonymise, model);
   return model;
 }
 
 std::string ReportRunKey(const ReportModel& model) {
   std::string key = "network=" + model.config.network + "|criteria=";
   for (size_t k = 0; k + 1 < model.keys.size(); ++k) key += (k == 0 ? "" : ";") + model.keys[k];
-  return key + "|measure=" + model.measure;
+  key += "|measure=" + model.measure;
+  if (model.config.age_min) key += "|age_min=" + std::to_string(*model.config.age_min);
+  return key;
 }
 
 nlohmann::json ReportRunPayload(const ReportModel& model) {
@@ -287,7 +334,9 @@ nlohmann::json ReportRunPayload(const ReportModel& model) {
     counts[series.code] = values;
     data[series.code] = std::string(DataStateName(series.data.back()));
   }
-  return {{"on", model.on.ToIso()}, {"keys", model.keys}, {"counts", counts}, {"data", data}};
+  nlohmann::json listed = nlohmann::json::object();
+  for (const auto& [practice, ids] : model.listed) listed[practice] = ids;
+  return {{"on", model.on.ToIso()}, {"keys", model.keys}, {"counts", counts}, {"data", data}, {"listed", listed}};
 }
 
 std::optional<PreviousReport> ParsePreviousReport(const std::string& payload) {
@@ -308,6 +357,17 @@ std::optional<PreviousReport> ParsePreviousReport(const std::string& payload) {
       values.push_back(value.get<long>());
     }
     previous.counts[item.key()] = std::move(values);
+  }
+  if (doc.contains("listed") && doc.at("listed").is_object()) {  // absent in reports saved before lists were kept
+    previous.listed.emplace();
+    for (const auto& item : doc.at("listed").items()) {
+      if (!item.value().is_array()) return std::nullopt;
+      auto& ids = (*previous.listed)[item.key()];
+      for (const auto& id : item.value()) {
+        if (!id.is_string()) return std::nullopt;
+        ids.insert(id.get<std::string>());
+      }
+    }
   }
   if (doc.contains("data") && doc.at("data").is_object()) {
     for (const auto& item : doc.at("data").items()) {

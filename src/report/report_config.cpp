@@ -6,6 +6,8 @@
 #include <utility>
 #include <vector>
 
+#include "medload/input/json_file.h"
+
 namespace medload {
 namespace {
 
@@ -96,7 +98,7 @@ const std::set<std::string> kTopKeys = {
     "title", "network", "on", "months", "criteria", "suppress_below", "practices", "measure",
     "window", "grace_days", "carryover", "default_supply_days", "max_supply_days", "count_by",
     "exclude_prn", "exclude_route", "scale", "history_days", "worklist_limit", "pseudonymise_key", "digests",
-    "exposure_years"};
+    "exposure_years", "age_min", "reviewed_within"};
 
 Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
   std::string measure = std::string(MeasureName(m.measure));
@@ -144,7 +146,13 @@ Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
 Status ReadTriggers(const Reader& r, const json& doc, DigestTriggers& triggers) {
   const std::string at = "/digests/triggers";
   if (!doc.is_object()) return r.Fault(at, "must be an object");
-  MEDLOAD_TRY(r.OnlyKeys(doc, at, {"rise_patients", "rise_percent", "above_upper_limit"}));
+  MEDLOAD_TRY(r.OnlyKeys(doc, at, {"rise_patients", "rise_percent", "above_upper_limit", "combine"}));
+  std::string combine = "any";
+  MEDLOAD_TRY(r.String(doc, "combine", at, combine));
+  if (combine != "any" && combine != "all") {
+    return r.Fault(at + "/combine", "\"" + combine + "\" is not any (one trigger is enough) or all (every trigger set)");
+  }
+  triggers.all = combine == "all";
   if (doc.contains("rise_patients")) {
     long rise = 0;
     MEDLOAD_TRY(r.Integer(doc, "rise_patients", at, 1, 1000000000, rise));
@@ -206,6 +214,21 @@ Status ReadCriteria(const Reader& r, const json& doc, std::vector<Criterion>& cr
   return Status::Ok();
 }
 
+// "age_min" and "reviewed_within", as review's --age-min and --reviewed-within.
+Status ReadPopulation(const Reader& r, const json& doc, ReportConfig& config) {
+  if (doc.contains("age_min")) {
+    long age = 0;
+    MEDLOAD_TRY(r.Integer(doc, "age_min", "", 0, 150, age));
+    config.age_min = static_cast<int>(age);
+  }
+  if (doc.contains("reviewed_within")) {
+    long days = 0;
+    MEDLOAD_TRY(r.Integer(doc, "reviewed_within", "", 1, 3660, days));
+    config.reviewed_within_days = static_cast<int>(days);
+  }
+  return Status::Ok();
+}
+
 Status ReadRequired(const Reader& r, const json& doc, ReportConfig& config) {
   for (const char* key : {"title", "network"}) {
     if (!doc.contains(key)) return r.Fault(std::string("/") + key, "is required");
@@ -245,6 +268,7 @@ Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) 
   config.suppress_below = suppress;
   config.worklist_limit = static_cast<size_t>(limit);
   MEDLOAD_TRY(ReadCriteria(r, doc, config.criteria));
+  MEDLOAD_TRY(ReadPopulation(r, doc, config));
   MEDLOAD_TRY(r.Strings(doc, "practices", "", config.practices));
   std::set<std::string> seen;
   for (size_t i = 0; i < config.practices.size(); ++i) {
@@ -258,11 +282,9 @@ Result<ReportConfig> ReadReportConfig(const json& doc, const std::string& file) 
 }
 
 Result<ReportConfig> LoadReportConfig(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return Status::Input(path + ": cannot be read");
-  json doc = json::parse(in, nullptr, false);
-  if (doc.is_discarded()) return Status::Input(path + ": not a JSON document");
-  return ReadReportConfig(doc, path);
+  auto doc = ReadJsonFile(path);
+  if (!doc.ok()) return doc.status();
+  return ReadReportConfig(*doc, path);
 }
 
 json ConfigParameters(const ReportConfig& config) {
@@ -280,7 +302,8 @@ json ConfigParameters(const ReportConfig& config) {
                {"triggers",
                 {{"rise_patients", t.rise_patients ? json(*t.rise_patients) : json(nullptr)},
                  {"rise_percent", t.rise_percent ? json(*t.rise_percent) : json(nullptr)},
-                 {"above_upper_limit", t.above_upper_limit}}}};
+                 {"above_upper_limit", t.above_upper_limit},
+                 {"combine", t.all ? "all" : "any"}}}};
   }
   return {{"title", config.title},
           {"network", config.network},
@@ -289,6 +312,8 @@ json ConfigParameters(const ReportConfig& config) {
           {"criteria", criteria},
           {"suppress_below", config.suppress_below},
           {"practices", config.practices},
+          {"age_min", config.age_min ? json(*config.age_min) : json(nullptr)},
+          {"reviewed_within", config.reviewed_within_days ? json(*config.reviewed_within_days) : json(nullptr)},
           {"measure", std::string(MeasureName(m.measure))},
           {"window", m.window_days},
           {"grace_days", m.episodes.grace_days},

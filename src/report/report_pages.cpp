@@ -113,6 +113,10 @@ Worklist ReportWorklist(const ReportModel& model, const std::string& code) {
   Worklist worklist = model.worklists.at(code);
   worklist.suppress_below = model.config.suppress_below;
   worklist.notes = ReportWarnings(model, &code);
+  if (worklist.has_previous_run && model.previous) {
+    worklist.notes.push_back("\"new\" marks patients who were not on this practice's list in the report of " +
+                             model.previous->on.ToIso());
+  }
   return worklist;
 }
 

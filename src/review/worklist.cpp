@@ -17,11 +17,6 @@
 namespace medload {
 namespace {
 
-// A completed review in the `days` days ending on D.
-bool RecentlyReviewed(const std::vector<Date>& reviews, Date on, int days) {
-  return std::any_of(reviews.begin(), reviews.end(), [&](Date d) { return d <= on && d > on - days; });
-}
-
 std::string RunKey(const WorklistOptions& options, const std::string& scale) {
   std::vector<std::string> parts;
   for (const Criterion& c : options.criteria) parts.push_back(c.Key());
@@ -34,8 +29,30 @@ std::string RunKey(const WorklistOptions& options, const std::string& scale) {
 
 }  // namespace
 
+Result<ReviewDates> ReadReviewDates(const Store& store) {
+  auto reviews = store.Reviews();
+  if (!reviews.ok()) return reviews.status();
+  ReviewDates dates;
+  for (const ReviewRecord& review : *reviews) dates[review.patient_id].push_back(review.reviewed_on);
+  return dates;
+}
+
+std::optional<Date> LastReviewOn(const std::vector<Date>& reviews, Date on) {
+  std::optional<Date> last;
+  for (const Date d : reviews) {
+    if (d <= on && (!last || d > *last)) last = d;
+  }
+  return last;
+}
+
+bool ReviewedWithin(const std::vector<Date>& reviews, Date on, int days) {
+  return std::any_of(reviews.begin(), reviews.end(), [&](Date d) { return d <= on && d > on - days; });
+}
+
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b) {
-  if (a.rule_ids.size() != b.rule_ids.size()) return a.rule_ids.size() > b.rule_ids.size();
+  // Only what was asked for orders the list: rules fired that no criterion names are
+  // shown on the row and do not move it (docs/measures.md, "Review worklist").
+  if (a.criteria_met.size() != b.criteria_met.size()) return a.criteria_met.size() > b.criteria_met.size();
   if (a.acb != b.acb) return a.acb > b.acb;
   if (a.items != b.items) return a.items > b.items;
   if (a.dbi != b.dbi) return a.dbi > b.dbi;
@@ -127,32 +144,26 @@ void MarkTrajectories(const PracticeSpans& spans, int history_days, Worklist& wo
 
 }  // namespace
 
-Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
-  if (options.criteria.empty()) {
-    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
-  }
-  if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
-  std::unordered_map<std::string, std::vector<Date>> reviewed;  // patient -> review dates
-  if (options.reviewed_within_days) {
-    auto reviews = store.Reviews();
-    if (!reviews.ok()) return reviews.status();
-    for (const ReviewRecord& review : *reviews) reviewed[review.patient_id].push_back(review.reviewed_on);
-  }
-  Worklist worklist;
-  worklist.on = options.on;
-  worklist.criteria = options.criteria;
-  worklist.scale = analysis.tables().scale;
-  const std::set<std::string> practices(options.practices.begin(), options.practices.end());
-  PassFacts facts;
-  Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+namespace {
+
+// One pass's state: the options, the reviews and the list being filled.
+struct WorklistPass {
+  const WorklistOptions& options;
+  RunContext& analysis;
+  const ReviewDates& reviewed;
+  std::set<std::string> practices;
+  Worklist& worklist;
+
+  // The patient's row when they count and meet a criterion, after the age and review
+  // filters (each counted in the worklist's summary figures).
+  std::optional<WorklistEntry> Visit(PassPatient& patient) {
     const PatientHistory& history = patient.history();
     const auto practice = RegisteredPractice(history, options.on);
-    if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return true;
+    if (!practice || (!practices.empty() && practices.count(*practice) == 0)) return std::nullopt;
     worklist.practice_data.try_emplace(*practice, DataState::kFull);
     const std::optional<int> age = AgeOn(history.registry, options.on);
-    if (options.age_min && age && *age < *options.age_min) return true;
-    const Timeline& timeline = patient.timeline();
-    const Burden burden = analysis.Evaluate(timeline, options.on, age);
+    if (options.age_min && age && *age < *options.age_min) return std::nullopt;
+    const Burden burden = analysis.Evaluate(patient.timeline(), options.on, age);
     WorklistEntry entry;
     for (const Criterion& criterion : options.criteria) {
       if (criterion.Met(burden)) entry.criteria_met.push_back(criterion.Key());
@@ -160,31 +171,58 @@ Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const Worklis
     if (options.age_min && !age) {
       ++worklist.excluded_age_unknown;
       if (!entry.criteria_met.empty()) ++worklist.excluded_age_unknown_meeting;
-      return true;
+      return std::nullopt;
     }
     ++worklist.patients_considered;
-    if (entry.criteria_met.empty()) return true;
-    if (options.reviewed_within_days) {
-      const auto it = reviewed.find(history.patient_id);
-      if (it != reviewed.end() && RecentlyReviewed(it->second, options.on, *options.reviewed_within_days)) {
+    if (entry.criteria_met.empty()) return std::nullopt;
+    const auto reviews = reviewed.find(history.patient_id);
+    if (reviews != reviewed.end()) {
+      if (options.reviewed_within_days && ReviewedWithin(reviews->second, options.on, *options.reviewed_within_days)) {
         ++worklist.excluded_recent_review;
-        return true;
+        return std::nullopt;
       }
+      entry.last_reviewed = LastReviewOn(reviews->second, options.on);
     }
-    entry.patient = history.patient_id;
-    entry.practice = *practice;
-    entry.age = age;
-    entry.items = burden.items;
-    entry.acb = burden.acb;
-    entry.dbi = burden.dbi;
-    for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
-    entry.reasons = ExplainBurden(timeline, burden, analysis.tables());
-    entry.warnings = EntryWarnings(timeline, burden, options.on, analysis.options().supply.max_supply_days);
+    FillFigures(entry, history.patient_id, *practice, age, patient.timeline(), burden, analysis.tables());
+    entry.warnings = EntryWarnings(patient.timeline(), burden, options.on, analysis.options().supply.max_supply_days);
     const Date before_on = MonthsBefore(options.on, kTrajectoryMonths);
     // The coverage of the earlier date is known after the pass (MarkTrajectories).
-    FillLongitudinal(entry, timeline, burden, analysis.Evaluate(timeline, before_on, AgeOn(history.registry, before_on)),
+    FillLongitudinal(entry, patient.timeline(), burden,
+                     analysis.Evaluate(patient.timeline(), before_on, AgeOn(history.registry, before_on)),
                      DataState::kFull);
-    worklist.patients.push_back(std::move(entry));
+    return entry;
+  }
+};
+
+}  // namespace
+
+void FillFigures(WorklistEntry& entry, const std::string& patient, const std::string& practice,
+                 std::optional<int> age, const Timeline& timeline, const Burden& burden, const BurdenTables& tables) {
+  entry.patient = patient;
+  entry.practice = practice;
+  entry.age = age;
+  entry.items = burden.items;
+  entry.acb = burden.acb;
+  entry.dbi = burden.dbi;
+  for (const FiredRule& fired : burden.rules) entry.rule_ids.push_back(fired.rule->id);
+  entry.reasons = ExplainBurden(timeline, burden, tables);
+}
+
+Result<Worklist> BuildWorklist(Store& store, RunContext& analysis, const WorklistOptions& options) {
+  if (options.criteria.empty()) {
+    return Status::Usage("a worklist needs at least one criterion (items>=N, acb>=N, dbi>=X, falls>=N, tsdd>=N, pdc<X or rule:ID)");
+  }
+  if (Status status = CheckRulesExist(options.criteria, analysis.tables()); !status.ok()) return status;
+  auto reviewed = ReadReviewDates(store);  // for --reviewed-within and the last review column
+  if (!reviewed.ok()) return reviewed.status();
+  Worklist worklist;
+  worklist.on = options.on;
+  worklist.criteria = options.criteria;
+  worklist.scale = analysis.tables().scale;
+  WorklistPass pass{options, analysis, *reviewed, {options.practices.begin(), options.practices.end()}, worklist};
+  PassFacts facts;
+  Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
+    if (auto entry = pass.Visit(patient)) worklist.patients.push_back(std::move(*entry));
     return true;
   }, &facts);
   if (!status.ok()) return status;

@@ -11,6 +11,7 @@ namespace medload {
 namespace {
 
 std::string Age(const WorklistEntry& e) { return e.age ? std::to_string(*e.age) : ""; }
+std::string LastReviewed(const WorklistEntry& e) { return e.last_reviewed ? e.last_reviewed->ToIso() : ""; }
 
 // The score's label in text and HTML: the chosen scale's name in capitals ("ACB", "ARS").
 std::string ScaleLabel(const Worklist& worklist) {
@@ -79,8 +80,9 @@ std::vector<std::string> TrajectoryCells(const WorklistEntry& e) {
 }  // namespace
 
 const char* const kRankIsSortingOrder =
-    "the rank is a sorting order (more rules fired, then higher score, more items, higher DBI, "
-    "older age), not a clinical priority: every rule weighs the same, so judge each patient's need";
+    "the rank is a sorting order (more of the requested criteria met, then higher score, more items, "
+    "higher DBI, older age), not a clinical priority: every criterion weighs the same, and rules that "
+    "were not requested are shown but do not change the order, so judge each patient's need";
 
 std::vector<std::string> WorklistNotes(const Worklist& worklist) {
   std::vector<std::string> notes = worklist.notes;
@@ -108,7 +110,7 @@ std::string WorklistSummary(const Worklist& w) {
     summary += "; " + std::to_string(w.excluded_recent_review) + " left out after a recent review";
   }
   if (w.excluded_age_unknown > 0) {
-    summary += "; " + std::to_string(w.excluded_age_unknown) + " left out by --age-min because their age is unknown (" +
+    summary += "; " + std::to_string(w.excluded_age_unknown) + " left out by " + w.age_min_setting + " because their age is unknown (" +
                std::to_string(w.excluded_age_unknown_meeting) + " of them meet a criterion)";
   }
   return summary;
@@ -121,7 +123,9 @@ nlohmann::json WorklistJson(const Worklist& worklist) {
                         {"age", e.age ? nlohmann::json(*e.age) : nlohmann::json(nullptr)},
                         {"items", e.items}, {"acb", e.acb}, {"dbi", e.dbi}, {"reasons", e.reasons},
                         {"rules", e.rule_ids}, {"criteria_met", e.criteria_met}, {"warnings", e.warnings},
-                        {"new", e.is_new}, {"falls", e.falls}, {"tsdd", e.tsdd},
+                        {"new", e.is_new},
+                        {"last_reviewed", e.last_reviewed ? nlohmann::json(e.last_reviewed->ToIso()) : nlohmann::json(nullptr)},
+                        {"falls", e.falls}, {"tsdd", e.tsdd},
                         {"tsdd_band", std::string(TsddBand(e.tsdd))}, {"adherence", AdherenceJson(e)},
                         {"before", e.trajectory ? TrajectoryJson(*e.trajectory) : nlohmann::json(nullptr)}});
   }
@@ -144,9 +148,11 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " *" : ""), e.practice, Age(e),
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
-                    std::to_string(e.rule_ids.size()), std::to_string(e.falls), FormatNumber(e.tsdd, 0)});
+                    std::to_string(e.rule_ids.size()), std::to_string(e.falls), FormatNumber(e.tsdd, 0),
+                    e.last_reviewed ? e.last_reviewed->ToIso() : "-"});
   }
-  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules", "falls", "TSDD"},
+  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules", "falls", "TSDD",
+                       "last review"},
                  rows);
   if (!worklist.patients.empty()) out << "\nReasons:\n";
   for (const WorklistEntry& e : worklist.patients) {
@@ -165,14 +171,14 @@ void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
   // "acb" is the score's key whatever the scale (as in JSON); "scale" names the scale.
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "scale", "dbi", "rules", "criteria_met",
-                 "new", "reasons", "warnings", "falls", "tsdd", "pdc_below_80", "before_on", "before_items",
-                 "before_acb", "before_dbi", "before_falls", "before_tsdd", "started", "stopped"});
+                 "new", "last_reviewed", "reasons", "warnings", "falls", "tsdd", "pdc_below_80", "before_on",
+                 "before_items", "before_acb", "before_dbi", "before_falls", "before_tsdd", "started", "stopped"});
   for (const WorklistEntry& e : worklist.patients) {
     std::vector<std::string> cells = {std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
                                       std::to_string(e.acb), worklist.scale, FormatNumber(e.dbi, 4),
                                       Join(e.rule_ids, "|"), Join(e.criteria_met, "|"), e.is_new ? "yes" : "no",
-                                      Join(e.reasons, "; "), Join(e.warnings, "; "), std::to_string(e.falls),
-                                      FormatNumber(e.tsdd, 1), LowPdc(e)};
+                                      LastReviewed(e), Join(e.reasons, "; "), Join(e.warnings, "; "),
+                                      std::to_string(e.falls), FormatNumber(e.tsdd, 1), LowPdc(e)};
     for (std::string& cell : TrajectoryCells(e)) cells.push_back(std::move(cell));
     out << CsvRow(cells);
   }
@@ -183,11 +189,12 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
   for (const WorklistEntry& e : worklist.patients) {
     rows.push_back({std::to_string(e.rank), e.patient + (e.is_new ? " (new)" : ""), e.practice, Age(e),
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
-                    std::to_string(e.falls), FormatNumber(e.tsdd, 0),
+                    std::to_string(e.falls), FormatNumber(e.tsdd, 0), LastReviewed(e),
                     Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; ")) +
                         (e.trajectory ? ". " + TrajectoryLine(e, worklist.scale) : "")});
   }
-  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "falls", "TSDD", "reasons"},
+  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "falls", "TSDD",
+                       "last review", "reasons"},
                  rows);
 }
 

@@ -256,7 +256,7 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
       out << line << "\n";
     }
   }
-  WriteTextCaution(out);
+  WriteTextCautionLine(out);  // a summary of counts: the one-line caution (docs/clinical-safety.md)
 }
 
 void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) {

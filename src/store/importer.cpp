@@ -17,6 +17,7 @@
 #include "medload/core/hash.h"
 #include "medload/input/csv_reader.h"
 #include "medload/input/fhir_reader.h"
+#include "medload/input/input_hints.h"
 #include "store/control_characters.h"
 #include "store/record_checks.h"
 #include "store/fhir_import.h"
@@ -41,8 +42,10 @@ constexpr uint64_t kNdjsonBytesPerRow = 600;
 class PrefixedBuffer : public std::streambuf {
  public:
   PrefixedBuffer(std::string head, std::istream& rest, bool lone_cr_ends_line)
-      : head_(std::move(head)), rest_(rest), lone_cr_ends_line_(lone_cr_ends_line) {}
+      : head_(std::move(head)), rest_(rest), lone_cr_ends_line_(lone_cr_ends_line), bytes_read_(head_.size()) {}
   bool failed() const { return rest_.bad(); }
+  // Bytes taken from the input so far (read ahead of the rows parsed by up to a buffer).
+  uint64_t bytes_read() const { return bytes_read_; }
 
  protected:
   int_type underflow() override {
@@ -76,7 +79,9 @@ class PrefixedBuffer : public std::streambuf {
       return take;
     }
     rest_.read(into, static_cast<std::streamsize>(room));
-    return static_cast<size_t>(std::max<std::streamsize>(0, rest_.gcount()));
+    const size_t got = static_cast<size_t>(std::max<std::streamsize>(0, rest_.gcount()));
+    bytes_read_ += got;
+    return got;
   }
 
   void TranslateLoneCr(size_t size) {
@@ -90,6 +95,7 @@ class PrefixedBuffer : public std::streambuf {
   std::istream& rest_;
   bool lone_cr_ends_line_;
   bool carried_cr_ = false;
+  uint64_t bytes_read_;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -166,6 +172,12 @@ class Session : public RowSink {
   bool patient_index_live() const { return !patient_index_deferred_; }
   sqlite3* db() const { return db_; }
 
+  // Progress tells how far through `source` (of `size_bytes`, 0 if unknown) the file is.
+  void ReportBytesOf(const PrefixedBuffer* source, uint64_t size_bytes) {
+    source_ = source;
+    size_bytes_ = size_bytes;
+  }
+
   // One more row read, spanning `lines` physical lines; reports progress.
   void Tick(size_t lines) override {
     ++summary_.read;
@@ -173,7 +185,7 @@ class Session : public RowSink {
     if (lines > 1) ++summary_.multiline_rows;
     if (options_.progress_every > 0 && options_.progress &&
         summary_.read % options_.progress_every == 0) {
-      options_.progress(summary_.read);
+      options_.progress(summary_.read, source_ != nullptr ? source_->bytes_read() : 0, size_bytes_);
     }
   }
 
@@ -290,6 +302,8 @@ class Session : public RowSink {
   std::string reject_key_;
   RegistryCheck registry_;
   bool patient_index_deferred_ = false;
+  const PrefixedBuffer* source_ = nullptr;
+  uint64_t size_bytes_ = 0;
 };
 
 // Reads every CSV row after the header: `parse` checks it, `store` stores it (and counts).
@@ -524,11 +538,15 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   std::string head(4096, '\0');
   in.read(head.data(), static_cast<std::streamsize>(head.size()));
   head.resize(static_cast<size_t>(in.gcount()));
+  if (const auto compressed = CompressedFormat(head)) {
+    return Status::Input(CompressedInputMessage(file, *compressed, InputKindName(kind)));
+  }
   const bool ndjson = LooksLikeNdjson(head);
   summary.format = ndjson ? "fhir" : "csv";
   PrefixedBuffer buffer(std::move(head), in, ndjson);
   std::istream whole(&buffer);
   Session session(store, summary, options);
+  session.ReportBytesOf(&buffer, size_bytes);
   bool read_failed = false;
   Status status =
       ndjson ? ImportFhirInput(kind, whole, size_bytes, session, summary, read_failed)

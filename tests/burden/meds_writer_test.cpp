@@ -105,6 +105,31 @@ TEST_CASE("a dose read in mg is shown with its unit and in tablets, and an unusa
   CHECK(warned);
 }
 
+TEST_CASE("meds text and HTML show each medicine's product, quantity and dosage as dispensed, warnings first") {
+  Fixture f;
+  f.records[0].dosage = "one tablet three times a day";
+  f.timeline = f.analysis->BuildTimeline(f.records);
+  f.burden = f.analysis->Evaluate(f.timeline, *ParseDate("2024-03-10"), 80);
+  f.model.records = f.records;
+  std::ostringstream text, html;
+  WriteMedsText(text, f.model);
+  WriteMedsHtml(html, f.model);
+  const std::string t = text.str();
+  CHECK(t.find("\nAs dispensed (the latest dispensing of each):\n"
+               "- gabapentin: Gabapentin 600mg tablets, 90 tablet; \"one tablet three times a day\"\n"
+               "- morphine: Morphine sulfate 10mg/5ml oral solution, 100 mL; no dosage text\n") != std::string::npos);
+  // The warnings come before the table, so that they are read before the figures.
+  const size_t check_first = t.find("\nCheck first:\n");
+  REQUIRE(check_first != std::string::npos);
+  CHECK(check_first < t.find("medicine "));
+  const std::string h = html.str();
+  CHECK(h.find("<th scope=\"col\">product as dispensed</th><th scope=\"col\">dosage as written</th>") !=
+        std::string::npos);
+  CHECK(h.find("<td>Gabapentin 600mg tablets (90 tablet)</td><td>one tablet three times a day</td>") !=
+        std::string::npos);
+  CHECK(h.find("<h2>Check first</h2>") < h.find("<table>"));
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

@@ -136,6 +136,31 @@ TEST_CASE("a timeline that leaves nothing out has no notes") {
   CHECK(out.str().find("Not drawn") == std::string::npos);
 }
 
+TEST_CASE("the timeline JSON gives each episode with its supplied spans, tail days and the caution") {
+  const Timeline timeline = LateRefill();
+  TimelineModel model;
+  model.patient = "T1";
+  model.timeline = &timeline;
+  model.from = D(2024, 2, 1);
+  model.to = D(2024, 5, 31);
+  const nlohmann::json json = TimelineJson(model);
+  CHECK(json.at("patient") == "T1");
+  CHECK(json.at("census").is_null());
+  REQUIRE(json.at("episodes").size() == 1);
+  const nlohmann::json& episode = json.at("episodes")[0];
+  CHECK(episode.at("medicine") == "oxybutynin");
+  CHECK(episode.at("days") == 92);
+  CHECK(episode.at("supplied_days") == 56);
+  CHECK(episode.at("tail_days") == 36);
+  CHECK(episode.at("supplied") == nlohmann::json::parse(R"([{"from": "2024-02-01", "to": "2024-02-28"},
+                                                             {"from": "2024-03-08", "to": "2024-04-04"}])"));
+  CHECK(episode.at("dispensings") == 2);
+  CHECK(json.at("caution").get<std::string>().rfind("CAUTION:", 0) == 0);
+  model.from = D(2024, 6, 1);  // nothing in range
+  model.to = D(2024, 6, 30);
+  CHECK(TimelineJson(model).at("episodes").empty());
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

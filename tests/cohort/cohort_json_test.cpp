@@ -54,6 +54,26 @@ TEST_CASE("a tally survives a JSON round trip exactly") {
   CHECK(testing::SameCells(*back, tally));
 }
 
+TEST_CASE("the patients counted are named in the JSON and shards counted over other patients do not merge") {
+  CohortOptions some = Options();
+  some.practices = {"A01"};
+  some.shard = ShardSpec{1, 2};
+  const CohortTally first = CountFake(MixedPopulation(40), some);
+  const nlohmann::json document = CohortJson(BuildCohortTable(first, 0, 84), &first);
+  CHECK(document.at("population") == "registered at A01");
+  auto back = TallyFromJson(nlohmann::json::parse(document.dump()), "a.json");
+  REQUIRE(back.ok());
+  CHECK(back->population == "registered at A01");
+  CohortOptions every = Options();
+  every.shard = ShardSpec{2, 2};
+  const CohortTally second = CountFake(MixedPopulation(40), every);
+  CHECK(CohortJson(BuildCohortTable(second, 0, 84), nullptr).at("population") == "every registered patient");
+  auto merged = MergeTallies({*back, second}, {"a.json", "b.json"});
+  REQUIRE_FALSE(merged.ok());
+  CHECK(merged.status().message() ==
+        "b.json: patients counted (--practice) differ from the first file's; merge only the shards of one cohort run");
+}
+
 TEST_CASE("shard outputs read back from JSON merge to the one-run answer") {
   const auto patients = MixedPopulation(300);
   const CohortTally one = CountFake(patients, Options());

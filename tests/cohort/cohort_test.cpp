@@ -70,6 +70,40 @@ TEST_CASE("a hand-worked population gives the expected registered and counts per
   CHECK(tally.patients == 5);
 }
 
+TEST_CASE("counting only some practices leaves the others' patients out of every date") {
+  CohortOptions options = Options(kMonths, GroupBy::kNone);
+  options.practices = {"B02"};
+  const CohortTally tally = CountFake(HandPopulation(), options);
+  REQUIRE(tally.groups.size() == 1);
+  const auto& all = tally.groups.at("all");
+  // January: B02 has P03 and P04; February and March: P03 only (see the hand-worked case).
+  CHECK(all[0].registered == 2);
+  CHECK(all[0].counts[0] == 2);
+  CHECK(all[1].registered == 1);
+  CHECK(all[2].registered == 1);
+  CHECK(tally.population == "registered at B02");
+}
+
+TEST_CASE("a minimum age counts only patients of a known age at least that old on each date") {
+  CohortOptions options = Options(kMonths, GroupBy::kPractice);
+  options.age_min = 69;
+  const CohortTally tally = CountFake(HandPopulation(), options);
+  // P01 (born 1950-03-01) is 73 and P03 (1 July 1954) 69 on every date; P02 (born 1980)
+  // is too young; P04 and P05 have no known age and are left out.
+  CHECK(tally.groups.at("A01")[1].registered == 1);
+  CHECK(tally.groups.at("B02")[0].registered == 1);
+  CHECK(tally.groups.at("A01")[0].registered == 0);
+  CHECK(tally.population == "aged 69 or more");
+}
+
+TEST_CASE("the population in words lists the practices once, sorted, then the minimum age") {
+  CohortOptions options;
+  CHECK(DescribePopulation(options).empty());
+  options.practices = {"B02", "A01", "B02"};
+  options.age_min = 65;
+  CHECK(DescribePopulation(options) == "registered at A01, B02; aged 65 or more");
+}
+
 TEST_CASE("any counts a patient meeting several criteria once") {
   std::vector<FakePatient> patients = {
       Registered("P01", "A01", D(1940, 1, 1), std::nullopt, std::nullopt, 12)};

@@ -53,6 +53,9 @@ TEST_CASE("an HTML page opens with the caution as a banner and escapes its title
   CHECK(html.find("<td class=\"num\">3</td>") != std::string::npos);
   CHECK(html.find("<b>") == std::string::npos);
   CHECK(html.find("http") == std::string::npos);  // self-contained: nothing fetched
+  // The banner says "CAUTION:" once, in bold, then the rest of the caution.
+  CHECK(html.find("<strong>CAUTION:</strong> this output supports clinical judgement") != std::string::npos);
+  CHECK(html.find("CAUTION") == html.rfind("CAUTION"));
 }
 
 TEST_CASE("text tables pad columns and right-align numbers") {
@@ -77,6 +80,23 @@ TEST_CASE("the text caution footer is wrapped and complete") {
     joined += line;
   }
   CHECK(joined == kCaution);
+}
+
+TEST_CASE("the one-line caution keeps the four points of the paragraph") {
+  std::ostringstream out;
+  WriteTextCautionLine(out);
+  CHECK(out.str() == "\n" + std::string(kCautionLine) + "\n");
+  const std::string line(kCautionLine);
+  CHECK(line.find('\n') == std::string::npos);
+  // Spec section 6: supports and does not replace judgement; depends on the tables and
+  // the records; confirm with the patient and the record; local guidance prevails.
+  for (const char* point : {"supports clinical judgement and does not replace it", "editable tables",
+                            "complete records", "confirm each medicine with the patient and the clinical record",
+                            "local guidance prevails"}) {
+    CAPTURE(point);
+    CHECK(line.find(point) != std::string::npos);
+  }
+  CHECK(line.rfind("CAUTION: this output supports clinical judgement", 0) == 0);
 }
 
 TEST_CASE("numbers print with trailing zeros removed") {

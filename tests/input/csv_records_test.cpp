@@ -103,7 +103,13 @@ TEST_CASE("each fault of a dispensing row has its reason and exact message") {
       {"R1,P1,A1,2024-02-30,Amlodipine 5mg tablets,,,28,,,", "bad_date",
        "dispensing.csv:2: dispensed_on: \"2024-02-30\" is not a real date (expected YYYY-MM-DD)"},
       {"R1,P1,A1,01/03/2024,Amlodipine 5mg tablets,,,28,,,", "bad_date",
-       "dispensing.csv:2: dispensed_on: \"01/03/2024\" is not a real date (expected YYYY-MM-DD)"},
+       "dispensing.csv:2: dispensed_on: \"01/03/2024\" is not a real date (expected YYYY-MM-DD); it reads as a "
+       "day-first or a month-first date: use --date-format dmy (DD/MM/YYYY) or mdy (MM/DD/YYYY)"},
+      {"R1,P1,A1,31/03/2024,Amlodipine 5mg tablets,,,28,,,", "bad_date",
+       "dispensing.csv:2: dispensed_on: \"31/03/2024\" is not a real date (expected YYYY-MM-DD); it reads as a "
+       "day-first date: use --date-format dmy"},
+      {"R1,P1,A1,2024-13-01,Amlodipine 5mg tablets,,,28,,,", "bad_date",
+       "dispensing.csv:2: dispensed_on: \"2024-13-01\" is not a real date (expected YYYY-MM-DD)"},
       {"R1,P1,A1,,Amlodipine 5mg tablets,,,28,,,", "missing_date",
        "dispensing.csv:2: dispensed_on: is empty"},
       {"R1, ,A1,2024-03-01,Amlodipine 5mg tablets,,,28,,,", "missing_patient",
@@ -246,7 +252,9 @@ TEST_CASE("a bad column mapping names the offending key by JSON pointer") {
       {R"({"quantity": 3})", "map.json: /quantity: must be a non-empty string, the header name in your file"},
       {R"({"quantity": ""})", "map.json: /quantity: must be a non-empty string, the header name in your file"},
       {R"(["quantity"])", "map.json: must be a JSON object of column name -> header name"},
-      {R"({"quantity": )", "map.json: not valid JSON"},
+      {R"({"quantity": )",
+       "map.json:1:14: not valid JSON: syntax error while parsing value - unexpected end of input; expected '[', "
+       "'{', or a literal"},
       {R"({"a/b": "x"})",
        "map.json: /a~1b: not a column of dispensing input (one of record_id, patient_id, practice, "
        "dispensed_on, product, code, code_system, quantity, unit, days_supply, dosage)"},

@@ -103,6 +103,79 @@ TEST_CASE("control characters and bidi controls in a title or names reach the bo
   CHECK(text.find("Practice: WV001 Invented \\u202ESurgery\r\n") != std::string::npos);
 }
 
+TEST_CASE("non-ASCII words in headers become RFC 2047 encoded words") {
+  // Encoded words and their limits: RFC 2047 sections 2 and 5; base64: RFC 4648 section 4.
+  struct Case {
+    std::string network;
+    std::string subject;
+  };
+  const Case cases[] = {
+      {"Vall\xc3\xa9" "e", "Subject: =?UTF-8?B?W1ZhbGzDqWVd?= WV001: counts moved, census 2026-10-31"},
+      // Two such words are encoded together, so that the space between them survives.
+      {"Caf\xc3\xa9 Cr\xc3\xa8me", "Subject: =?UTF-8?B?W0NhZsOpIENyw6htZV0=?= WV001: counts moved, census 2026-10-31"},
+      {"Plain", "Subject: [Plain] WV001: counts moved, census 2026-10-31"},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.network);
+    Digest digest = SampleDigest();
+    digest.network = c.network;
+    const std::string text = FormatDigest(digest);
+    std::string headers = text.substr(0, text.find("\r\n\r\n"));
+    for (size_t fold = headers.find("\r\n "); fold != std::string::npos; fold = headers.find("\r\n ")) {
+      headers.replace(fold, 3, " ");  // unfold (RFC 5322 section 2.2.3)
+    }
+    CHECK(SplitCrlf(headers)[2] == c.subject);
+  }
+}
+
+TEST_CASE("a long non-ASCII word is split into encoded words between characters, lines kept to 78") {
+  Digest digest = SampleDigest();
+  std::string long_word;
+  for (int i = 0; i < 30; ++i) long_word += "\xc3\xa9";  // 60 bytes: 44 + 16, never half a character
+  digest.from = long_word + " <team@example.invalid>";
+  const std::vector<std::string> lines = SplitCrlf(FormatDigest(digest));
+  CHECK(lines[0] == "From: =?UTF-8?B?w6nDqcOpw6nDqcOpw6nDqcOpw6nDqcOpw6nDqcOpw6nDqcOpw6nDqcOpw6k=?=");
+  CHECK(lines[1] == " =?UTF-8?B?w6nDqcOpw6nDqcOpw6nDqQ==?= <team@example.invalid>");
+  // An address cannot be encoded: its other bytes become '?'.
+  digest.from = "t\xc3\xa9" "am@example.invalid";
+  CHECK(SplitCrlf(FormatDigest(digest))[0] == "From: t??am@example.invalid");
+}
+
+TEST_CASE("the triggers say whether any one or all of them send a digest") {
+  DigestTriggers triggers;
+  triggers.rise_patients = 3;
+  CHECK(TriggerRule(triggers) ==
+        "a rise of at least 3 patients (rise_patients) OR a rate above the upper 99.8% control limit "
+        "(above_upper_limit): any one is enough (combine: any)");
+  triggers.all = true;
+  triggers.rise_percent = 10;
+  CHECK(TriggerRule(triggers) ==
+        "a rise of at least 3 patients (rise_patients) AND a rise of at least 10% (rise_percent) AND a rate above "
+        "the upper 99.8% control limit (above_upper_limit): all of them, on one criterion (combine: all)");
+  triggers.above_upper_limit = false;
+  triggers.rise_percent.reset();
+  CHECK(TriggerRule(triggers) == "a rise of at least 3 patients (rise_patients)");
+}
+
+TEST_CASE("with combine all a practice needs every trigger set crossed by one criterion") {
+  testing::ReportPopulation population;
+  ReportConfig config = testing::TestConfig();  // rise_patients 2, above_upper_limit (default) true
+  auto any = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(any.ok());
+  const size_t a1 = any->practices[0].code == "A1" ? 0 : 1;
+  REQUIRE(BuildDigest(*any, a1, "p.html").has_value());
+  config.digests.triggers.all = true;
+  config.digests.triggers.rise_percent = 1000;  // no rise from zero has a percentage: never crossed
+  auto all = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(all.ok());
+  CHECK_FALSE(BuildDigest(*all, a1, "p.html").has_value());
+  config.digests.triggers.rise_percent.reset();
+  config.digests.triggers.above_upper_limit = false;
+  auto rise_only = BuildReportModel(population.store, population.analysis, config, {}, {});
+  REQUIRE(rise_only.ok());
+  CHECK(BuildDigest(*rise_only, a1, "p.html").has_value());
+}
+
 TEST_CASE("long header values are folded and long words split to keep 78 columns") {
   Digest digest = SampleDigest();
   digest.to.assign(6, "a-rather-long-address-for-folding@example.invalid");
@@ -132,7 +205,9 @@ TEST_CASE("a practice whose count rose by the trigger gets a digest without any 
   CHECK(digest->baseline == "the previous month, 2024-05-31 (no earlier report)");
   const std::string text = FormatDigest(*digest);
   // 0 patients on 2024-05-31, 6 on 2024-06-30: a rise of 6 (no percentage from zero).
-  CHECK(text.find("- acb>=3: up 6 patients since 2024-05-31\r\n") != std::string::npos);
+  CHECK(text.find("- acb>=3: up 6 patients since 2024-05-31 [rise_patients 2]\r\n") != std::string::npos);
+  CHECK(text.find("Triggers: a rise of at least 2 patients (rise_patients) OR a rate above the\r\n") !=
+        std::string::npos);
   CHECK(text.find("To: team@example.invalid") != std::string::npos);
   for (const std::string& id : testing::PatientIds()) {
     CAPTURE(id);

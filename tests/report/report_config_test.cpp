@@ -23,6 +23,8 @@ TEST_CASE("a minimal config takes the documented defaults") {
   CHECK(config->suppress_below == 0);
   CHECK(config->practices.empty());
   CHECK(config->worklist_limit == 50);
+  CHECK_FALSE(config->age_min.has_value());
+  CHECK_FALSE(config->reviewed_within_days.has_value());
   CHECK(config->measure.episodes.grace_days == 30);
   CHECK(config->measure.scale == "acb");
   CHECK_FALSE(config->digests.enabled);
@@ -49,9 +51,10 @@ TEST_CASE("every key of the schema is read") {
     "suppress_below": 5, "practices": ["WV001"], "measure": "lookback", "window": 60,
     "grace_days": 10, "carryover": true, "default_supply_days": 30, "max_supply_days": 90,
     "count_by": "ingredient", "exclude_prn": true, "exclude_route": ["skin"], "scale": "acb",
-    "worklist_limit": 10, "pseudonymise_key": "key.txt",
+    "worklist_limit": 10, "pseudonymise_key": "key.txt", "age_min": 65, "reviewed_within": 180,
     "digests": {"from": "a@b.invalid", "to": ["c@d.invalid"], "practice_to": {"WV001": ["e@f.invalid"]},
-                "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false}}})");
+                "triggers": {"rise_patients": 3, "rise_percent": 12.5, "above_upper_limit": false,
+                             "combine": "all"}}})");
   REQUIRE(config.ok());
   CHECK(config->on->ToIso() == "2026-10-31");
   CHECK(config->months == 24);
@@ -65,11 +68,17 @@ TEST_CASE("every key of the schema is read") {
   CHECK(config->measure.exclude_routes.size() == 1);
   CHECK(config->worklist_limit == 10);
   CHECK(config->pseudonymise_key == "key.txt");
+  CHECK(config->age_min == 65);
+  CHECK(config->reviewed_within_days == 180);
+  CHECK(ConfigParameters(*config).at("age_min") == 65);
+  CHECK(ConfigParameters(*config).at("reviewed_within") == 180);
   CHECK(config->digests.enabled);
   CHECK(config->digests.practice_to.at("WV001").at(0) == "e@f.invalid");
   CHECK(*config->digests.triggers.rise_patients == 3);
   CHECK(*config->digests.triggers.rise_percent == 12.5);
   CHECK_FALSE(config->digests.triggers.above_upper_limit);
+  CHECK(config->digests.triggers.all);
+  CHECK(ConfigParameters(*config).at("digests").at("triggers").at("combine") == "all");
 }
 
 TEST_CASE("config faults name the file, the JSON pointer of the key and the fault") {
@@ -101,10 +110,17 @@ TEST_CASE("config faults name the file, the JSON pointer of the key and the faul
        "network.json: /exclude_route/1: \"nasal-ish\" is not a known route"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "carryover": "yes"})",
        "network.json: /carryover: must be true or false"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "age_min": -1})",
+       "network.json: /age_min: -1 is outside 0 to 150"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "reviewed_within": "6 months"})",
+       "network.json: /reviewed_within: must be a whole number"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "practices": ["A", "A"]})",
        "network.json: /practices/1: \"A\" is listed twice"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"rise_percent": -2}}})",
        "network.json: /digests/triggers/rise_percent: must be a number above 0"},
+      {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"combine": "both"}}})",
+       "network.json: /digests/triggers/combine: \"both\" is not any (one trigger is enough) or all (every trigger "
+       "set)"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"triggers": {"rise": 2}}})",
        "network.json: /digests/triggers/rise: is not a known key (see docs/report.md)"},
       {R"({"title": "T", "network": "N", "criteria": ["items>=1"], "digests": {"from": "a\r\nBcc: x@y"}})",
@@ -130,7 +146,7 @@ TEST_CASE("a bad criterion is reported at its index with the criterion parser's 
 TEST_CASE("a missing config file is an input error naming the path") {
   auto config = LoadReportConfig("/nonexistent/network.json");
   REQUIRE_FALSE(config.ok());
-  CHECK(config.status().message() == "/nonexistent/network.json: cannot be read");
+  CHECK(config.status().message() == "/nonexistent/network.json: no such file");
 }
 
 TEST_CASE("the normalised parameters fill in every default and hide the key file") {

@@ -70,24 +70,47 @@ Criterion AtLeast(const char* text) { return ParseCriterion(text).value(); }
 
 TEST_SUITE("review/worklist") {
 
-TEST_CASE("the review order is rules, then acb, items, dbi, older age, then identifier") {
-  auto entry = [](std::string id, int rules, int acb, int items, double dbi, std::optional<int> age) {
+TEST_CASE("the review order is criteria met, then acb, items, dbi, older age, then identifier") {
+  auto entry = [](std::string id, int met, int acb, int items, double dbi, std::optional<int> age) {
     WorklistEntry e;
     e.patient = std::move(id);
-    e.rule_ids.assign(static_cast<size_t>(rules), "r");
+    e.criteria_met.assign(static_cast<size_t>(met), "c");
     e.acb = acb;
     e.items = items;
     e.dbi = dbi;
     e.age = age;
     return e;
   };
-  std::vector<WorklistEntry> list = {entry("z", 0, 9, 20, 3, 99), entry("y", 1, 0, 1, 0, 20),
-                                     entry("x", 0, 9, 21, 0, 50), entry("w", 0, 9, 20, 3, 100),
-                                     entry("v", 0, 9, 20, 3, std::nullopt), entry("u", 0, 9, 20, 3, 99)};
+  std::vector<WorklistEntry> list = {entry("z", 1, 9, 20, 3, 99), entry("y", 2, 0, 1, 0, 20),
+                                     entry("x", 1, 9, 21, 0, 50), entry("w", 1, 9, 20, 3, 100),
+                                     entry("v", 1, 9, 20, 3, std::nullopt), entry("u", 1, 9, 20, 3, 99)};
   std::sort(list.begin(), list.end(), RanksBefore);
   std::vector<std::string> order;
   for (const auto& e : list) order.push_back(e.patient);
   CHECK(order == std::vector<std::string>{"y", "x", "w", "u", "z", "v"});
+}
+
+TEST_CASE("rules that were not requested do not change the review order") {
+  WorklistEntry many_rules;  // meets one criterion, fires three rules nobody asked for
+  many_rules.patient = "a";
+  many_rules.criteria_met = {"acb>=3"};
+  many_rules.rule_ids = {"r1", "r2", "r3"};
+  many_rules.acb = 3;
+  many_rules.items = 9;
+  WorklistEntry two_criteria;  // meets two criteria, fires no rule
+  two_criteria.patient = "b";
+  two_criteria.criteria_met = {"items>=10", "acb>=3"};
+  two_criteria.acb = 3;
+  two_criteria.items = 10;
+  WorklistEntry higher_acb;  // meets one criterion with a higher score, fires no rule
+  higher_acb.patient = "c";
+  higher_acb.criteria_met = {"acb>=3"};
+  higher_acb.acb = 4;
+  std::vector<WorklistEntry> list = {many_rules, higher_acb, two_criteria};
+  std::sort(list.begin(), list.end(), RanksBefore);
+  CHECK(list[0].patient == "b");
+  CHECK(list[1].patient == "c");
+  CHECK(list[2].patient == "a");
 }
 
 TEST_CASE("a patient meeting any criterion is listed with readable reasons") {
@@ -109,6 +132,24 @@ TEST_CASE("a patient meeting any criterion is listed with readable reasons") {
   CHECK(list.patients[1].rule_ids == std::vector<std::string>{"aki-triple"});
   // E left the register before the date and is not considered.
   CHECK(list.patients_considered == 3);
+}
+
+TEST_CASE("a patient meeting more requested criteria ranks before one firing more rules nobody asked for") {
+  Population p;
+  // B fires aki-triple, which is not requested; A fires an anticholinergic rule, also not
+  // requested. Both have 3 medicines; only A meets acb>=3 as well.
+  auto list = p.Build(On(D(2024, 1, 10), {AtLeast("items=3"), AtLeast("acb=3")}));
+  REQUIRE(list.patients.size() == 2);
+  CHECK(list.patients[0].patient == "A");
+  CHECK(list.patients[0].criteria_met == std::vector<std::string>{"items>=3", "acb>=3"});
+  CHECK(list.patients[1].patient == "B");
+  CHECK(list.patients[1].rule_ids == std::vector<std::string>{"aki-triple"});
+  // Asked for, the rule is a criterion: B then meets two and ranks first, A's higher
+  // score notwithstanding.
+  auto with_rule = p.Build(On(D(2024, 1, 10), {AtLeast("items=3"), RuleCriterion("aki-triple")}));
+  REQUIRE(with_rule.patients.size() == 2);
+  CHECK(with_rule.patients[0].patient == "B");
+  CHECK(with_rule.patients[0].criteria_met == std::vector<std::string>{"items>=3", "rule:aki-triple"});
 }
 
 TEST_CASE("practice, age and limit filters narrow the list") {
@@ -136,6 +177,18 @@ TEST_CASE("patients reviewed within the given days are left out") {
   auto list = p.Build(options);
   CHECK(list.patients.empty());
   CHECK(list.excluded_recent_review == 1);
+}
+
+TEST_CASE("each row gives the patient's latest review on or before the census date") {
+  Population p;
+  Import(p.store, InputKind::kReviews, "patient_id,reviewed_on\nA,2022-03-01\nA,2023-08-14\nA,2024-02-01\n");
+  auto list = p.Build(On(D(2024, 1, 10), {AtLeast("items=3")}));
+  REQUIRE(list.patients.size() == 2);
+  CHECK(list.patients[0].patient == "A");
+  CHECK(list.patients[0].last_reviewed == D(2023, 8, 14));  // the February review is not known yet
+  CHECK_FALSE(list.patients[1].last_reviewed.has_value());
+  CHECK(LastReviewOn({D(2024, 2, 1), D(2022, 3, 1)}, D(2024, 2, 1)) == D(2024, 2, 1));
+  CHECK_FALSE(LastReviewOn({D(2024, 2, 1)}, D(2024, 1, 31)).has_value());
 }
 
 TEST_CASE("patients are marked new against the previous run with the same criteria") {
@@ -316,7 +369,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==
-        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary rules' lists them");
+        "rule \"no-such-rule\" is not in the formulary's rules.json ('medload formulary rules' lists them)");
 }
 
 }  // TEST_SUITE

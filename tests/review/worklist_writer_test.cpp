@@ -78,8 +78,9 @@ TEST_CASE("the worklist CSV gives the census date in a comment line after the ca
   CHECK(csv.rfind("# CAUTION", 0) == 0);
   CHECK(csv.compare(first_end + 1, 26, "# census date: 2026-12-31\n") == 0);
   // Comment lines come before the header; the longitudinal columns follow the earlier ones.
-  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,reasons,warnings,falls,tsdd,"
-                 "pdc_below_80,before_on,before_items,before_acb,before_dbi,before_falls,before_tsdd,started,stopped\n"));
+  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,last_reviewed,reasons,"
+                 "warnings,falls,tsdd,pdc_below_80,before_on,before_items,before_acb,before_dbi,before_falls,"
+                 "before_tsdd,started,stopped\n"));
   CHECK(csv.find("# note:") < csv.find("\nrank,"));
 }
 
@@ -109,6 +110,29 @@ TEST_CASE("the summary counts patients of unknown age left out by the minimum ag
   CHECK(WorklistJson(w)["excluded_age_unknown"] == 4);
   CHECK(WorklistJson(w)["excluded_age_unknown_meeting"] == 1);
   CHECK(Has(WorklistJson(w)["summary"].get<std::string>(), part));
+}
+
+TEST_CASE("every format gives each patient's last completed review, blank when there is none") {
+  Worklist w = Sample();
+  w.patients[0].last_reviewed = Date::FromCivil(2026, 8, 14);
+  const std::string text = Text(w);
+  CHECK(Has(text, "TSDD  last review\n"));
+  CHECK(Has(text, "   0  2026-08-14\n"));
+  CHECK(Has(text, "   0  -\n"));
+  CHECK(Has(Csv(w), "\n1,P1,ZZ01,,11,0,acb,0,,,no,2026-08-14,11 medicines,,0,0,"));
+  CHECK(Has(Csv(w), "\n2,P2,ZZ01,,11,0,acb,0,,,no,,11 medicines,,0,0,"));
+  const nlohmann::json json = WorklistJson(w);
+  CHECK(json["patients"][0]["last_reviewed"] == "2026-08-14");
+  CHECK(json["patients"][1]["last_reviewed"].is_null());
+  CHECK(Has(Html(w), "<th scope=\"col\">last review</th>"));
+  CHECK(Has(Html(w), "<td>2026-08-14</td>"));
+}
+
+TEST_CASE("the report names its minimum age setting as the config key in the summary") {
+  Worklist w = Sample();
+  w.excluded_age_unknown = 2;
+  w.age_min_setting = "age_min";
+  CHECK(Has(Text(w), "2 left out by age_min because their age is unknown (0 of them meet a criterion)"));
 }
 
 TEST_CASE("a meeting count below the report's threshold is withheld from the summary and notes") {

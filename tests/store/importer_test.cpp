@@ -6,6 +6,7 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <fstream>
 #include <iterator>
 #include <sstream>
@@ -258,7 +259,7 @@ TEST_CASE("an import reads without the memory map and turns it back on afterward
   long during = -1;
   ImportOptions options;
   options.progress_every = 10;
-  options.progress = [&](long) { during = Count(*on_disk, "PRAGMA mmap_size"); };
+  options.progress = [&](long, uint64_t, uint64_t) { during = Count(*on_disk, "PRAGMA mmap_size"); };
   std::istringstream in(DispensingFile(0, 20));
   REQUIRE(ImportStream(*on_disk, InputKind::kDispensing, in, "d.csv", options).ok());
   CHECK(during == 0);
@@ -490,14 +491,33 @@ TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
   CHECK(Count(store, "SELECT COUNT(*) FROM dispensings WHERE patient_id = 'P9'") == 0);
 }
 
-TEST_CASE("progress is reported every N rows") {
+TEST_CASE("progress is reported every N rows with the bytes read and the file's size when known") {
   Store store = Memory();
   std::vector<long> reports;
+  std::vector<uint64_t> bytes;
+  std::vector<uint64_t> totals;
   ImportOptions options;
   options.progress_every = 100;
-  options.progress = [&](long rows) { reports.push_back(rows); };
-  REQUIRE(Import(store, InputKind::kDispensing, DispensingFile(0, 350), options).ok());
+  options.progress = [&](long rows, uint64_t read, uint64_t total) {
+    reports.push_back(rows);
+    bytes.push_back(read);
+    totals.push_back(total);
+  };
+  const std::string file = DispensingFile(0, 350);
+  REQUIRE(Import(store, InputKind::kDispensing, file, options).ok());
   CHECK(reports == std::vector<long>{100, 200, 300});
+  CHECK(totals == std::vector<uint64_t>{0, 0, 0});  // a stream: size unknown
+  CHECK(std::is_sorted(bytes.begin(), bytes.end()));
+  CHECK(bytes.back() <= file.size());
+  CHECK(bytes.front() > 0);
+
+  TempFolder folder;
+  const std::string path = folder.Write("d.csv", DispensingFile(1000, 350));
+  totals.clear();
+  Store other = Memory();
+  REQUIRE(ImportFile(other, InputKind::kDispensing, path, options).ok());
+  REQUIRE(totals.size() == 3);
+  CHECK(totals[0] == DispensingFile(1000, 350).size());
 }
 
 TEST_CASE("FHIR dispenses keep their status, and those that do not count are counted apart") {
@@ -759,7 +779,7 @@ TEST_CASE("an import killed mid-transaction leaves the store intact and a re-run
     Result<Store> store = Store::Open(db);
     ImportOptions options;
     options.progress_every = 20000;  // two thirds through the file, inside its transaction
-    options.progress = [&](long) {
+    options.progress = [&](long, uint64_t, uint64_t) {
       const ssize_t written = write(ready[1], "x", 1);
       (void)written;
       for (;;) pause();

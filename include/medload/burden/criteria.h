@@ -31,9 +31,10 @@ struct Criterion {
 };
 
 // Parses "items=10", "items>=10", "acb=3", "dbi=1.0", "falls=3", "tsdd=1095" (as given to
-// --at-least or found in a config), "pdc<0.8" or "pdc<0.8:CLASS|CLASS" (a config), or
-// "rule:ID" / "rule=ID". Thresholds are numbers from 0: items, acb and falls whole numbers
-// up to 1000, tsdd up to 1,000,000, dbi up to 100, pdc above 0 and at most 1 (inf, nan and
+// --at-least or found in a config), "pdc<0.8" or "pdc<0.8:CLASS|CLASS" (a config),
+// "rule:ID" / "rule=ID", or a bare rule id "ID" (letters, digits, '-', '_', '.'; not a
+// measure's name). Thresholds are numbers from 0: items, acb and falls whole numbers up
+// to 1000, tsdd up to 1,000,000, dbi up to 100, pdc above 0 and at most 1 (inf, nan and
 // 1e400 are refused). Errors (Status::Usage) name the text, the fault and what is accepted.
 Result<Criterion> ParseCriterion(std::string_view text);
 // Parses the value of --below: "pdc=0.8" or "pdc=0.8:CLASS|CLASS" (the only measure
@@ -44,9 +45,16 @@ Result<Criterion> ParseBelowCriterion(std::string_view text);
 void AddPdcGroups(const std::vector<Criterion>& criteria, MeasureOptions& options);
 // The criterion of `--rule ID`.
 Criterion RuleCriterion(std::string id);
+// The criterion of a rule as written by a user: "ID", or "rule:ID" / "rule=ID" (the form
+// outputs and configs print). Usage error naming the text when what is left is not a rule
+// id (letters, digits, '-', '_', '.').
+Result<Criterion> ParseRuleCriterion(std::string_view text);
 
 // Status::Input if a rule criterion names a rule the tables do not have, or a pdc
-// criterion a class that no ingredient carries.
+// criterion a class that no ingredient carries. For a rule, the message suggests a close
+// id (same words, some left out or added) and points at `medload formulary rules`:
+//   rule "nsaid-with-anticoagulant" is not in the formulary's rules.json; did you mean
+//   "nsaid-anticoagulant"? ('medload formulary rules' lists them)
 Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTables& tables);
 
 }  // namespace medload

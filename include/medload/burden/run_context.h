@@ -4,6 +4,7 @@
 // and the medload version, so a changed table or an upgrade re-resolves).
 #pragma once
 
+#include <functional>
 #include <memory>
 #include <optional>
 #include <span>
@@ -20,6 +21,18 @@
 namespace medload {
 
 class Store;
+
+// How far a patient pass (patient_pass.h) has got, for progress lines. `packing`: the
+// store's packed copy of the histories is being rebuilt (once after an import, before any
+// patient is read); otherwise `ranges_done` of `ranges` ranges of patients (about equal in
+// size) have been visited, `patients` patients in them.
+struct PassProgress {
+  bool packing = false;
+  size_t ranges_done = 0;
+  size_t ranges = 0;
+  long patients = 0;
+};
+using PassProgressFn = std::function<void(const PassProgress&)>;
 
 class RunContext {
  public:
@@ -65,6 +78,11 @@ class RunContext {
   // Distinct products resolved in this run.
   size_t resolved_products() const;
 
+  // What passes made with this context report as they go (none by default). Called on
+  // the pass's calling thread.
+  void set_pass_progress(PassProgressFn progress) { pass_progress_ = std::move(progress); }
+  const PassProgressFn& pass_progress() const { return pass_progress_; }
+
  private:
   RunContext() = default;
   std::unique_ptr<Formulary> formulary_;
@@ -80,6 +98,7 @@ class RunContext {
   BurdenTables tables_;
   MeasureOptions options_;
   Store* store_ = nullptr;
+  PassProgressFn pass_progress_;
 };
 
 // The key a record's product is resolved under within a run: product, code and code

@@ -11,6 +11,8 @@
 #include <utility>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
 #include "medload/burden/timeline.h"
 
 namespace medload {
@@ -43,5 +45,9 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model);
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model);
 void WriteTimelineText(std::ostream& out, const TimelineModel& model);
 void WriteTimelineCsv(std::ostream& out, const TimelineModel& model);
+// {"patient", "from", "to", "census", "episodes": [{"medicine", "ingredients", "start",
+// "end", "days", "supplied_days", "tail_days", "supplied": [{"from", "to"}],
+// "dispensings"}], "caution"}: the episodes shown, as in the CSV, with their supplied spans.
+nlohmann::json TimelineJson(const TimelineModel& model);
 
 }  // namespace medload

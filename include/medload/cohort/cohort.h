@@ -30,7 +30,17 @@ struct CohortOptions {
   GroupBy group_by = GroupBy::kPractice; // --by (default practice)
   std::vector<Criterion> criteria;       // one count each, plus "any"
   ShardSpec shard;                       // --shard K/N (default 1/1: every patient)
+  // --practice CODE (repeatable): count only patients registered at one of these on each
+  // date; empty = every practice.
+  std::vector<std::string> practices;
+  // A report config's "age_min": count only patients aged at least N on each date (an
+  // unknown age is left out); nullopt = every age.
+  std::optional<int> age_min;
 };
+
+// The patients a cohort with these options counts, in words ("" for every registered
+// patient): "registered at WV001, WV002; aged 65 or more". Merged shards must agree.
+std::string DescribePopulation(const CohortOptions& options);
 
 // The integer counts of one group on one census date.
 struct CohortCell {
@@ -57,6 +67,7 @@ struct CohortTally {
   std::vector<Date> dates;
   GroupBy group_by = GroupBy::kPractice;
   std::string measure;                // the measure options in words (merges must agree)
+  std::string population;             // DescribePopulation (merges must agree)
   uint32_t shard_count = 1;           // N of the shards this tally is made of
   std::set<uint32_t> shards;          // which of the N shards it covers
   long patients = 0;                  // patients in these shards, registered or not
@@ -111,6 +122,8 @@ class CohortCounter {
   CohortCell& CellOf(const std::string& group, size_t date_index);
   // Whether the practice's data are known to begin on or before the first census date.
   bool Settled(const std::string& practice) const;
+  // Whether patients registered at `practice` are counted (CohortOptions::practices).
+  bool Counts(const std::string& practice) const;
 
   CohortOptions options_;
   std::map<std::string, std::string> networks_;

@@ -42,6 +42,7 @@ struct CohortTable {
   std::vector<std::string> groups;    // sorted
   GroupBy group_by = GroupBy::kPractice;
   std::string measure;
+  std::string population;             // CohortTally::population ("" = every registered patient)
   long suppress_below = 0;
   int history_days = 84;              // the short-history window (DataStateOn)
   bool complete = true;               // false when a merge lacked some shards

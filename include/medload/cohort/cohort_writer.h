@@ -6,6 +6,7 @@
 
 #include <iosfwd>
 #include <string>
+#include <vector>
 
 #include <nlohmann/json.hpp>
 
@@ -25,6 +26,10 @@ nlohmann::json CohortJson(const CohortTable& table, const CohortTally* raw);
 // missing or malformed member.
 nlohmann::json TallyJson(const CohortTally& tally);
 Result<CohortTally> TallyFromJson(const nlohmann::json& document, const std::string& file);
+
+// The header lines every format repeats: what was counted and how (groups, criteria,
+// measure, patients counted, rates, suppression, warnings, the coverage legend).
+std::vector<std::string> CohortPreamble(const CohortTable& table);
 
 void WriteCohortText(std::ostream& out, const CohortTable& table);
 void WriteCohortCsv(std::ostream& out, const CohortTable& table);

@@ -15,4 +15,12 @@ inline constexpr std::string_view kCaution =
     "record before acting; local guidance, coding rules and licensed practice take "
     "precedence.";
 
+// The same four points in one line, for outputs that carry no clinical figures (an import
+// summary, `synth`, `--help`), where the paragraph would only be skipped. Clinical outputs
+// always carry kCaution in full.
+inline constexpr std::string_view kCautionLine =
+    "CAUTION: this output supports clinical judgement and does not replace it; figures depend on the "
+    "editable tables and on complete records; confirm each medicine with the patient and the clinical "
+    "record; local guidance prevails.";
+
 }  // namespace medload

@@ -35,6 +35,9 @@ void WriteTextTable(std::ostream& out, const std::vector<std::string>& header,
                     const std::vector<std::vector<std::string>>& rows);
 // The caution as a text footer, wrapped at 78 columns, preceded by a blank line.
 void WriteTextCaution(std::ostream& out);
+// kCautionLine as a one-line footer, preceded by a blank line (outputs without clinical
+// figures: import summaries, synth, help).
+void WriteTextCautionLine(std::ostream& out);
 
 // A number with at most `decimals` decimals, trailing zeros removed ("1.5", "2", "0.91").
 std::string FormatNumber(double value, int decimals = 2);

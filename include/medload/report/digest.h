@@ -31,7 +31,8 @@ struct Digest {
   std::string page;                // the practice page's file name in the report folder
   long suppress_below = 0;
   std::vector<DigestMeasure> measures;
-  std::vector<std::string> findings;  // each trigger crossed, in words
+  std::vector<std::string> findings;  // each criterion that crossed, with the triggers in brackets
+  std::string trigger_rule;           // TriggerRule of the config: what sends a digest
   std::string from;
   std::vector<std::string> to;
 };
@@ -46,10 +47,16 @@ std::optional<Digest> BuildDigest(const ReportModel& model, size_t index, const 
 
 // The message: headers From, To, Subject, Date (the census date at 00:00 UTC, for
 // reproducible files), Message-ID (a hash of network, practice and date), MIME-Version
-// and Content-Type text/plain; charset=utf-8, then the body with the caution. CRLF line
-// ends; no line longer than 78 characters; header values are single-line printable ASCII
-// (other bytes become '?').
+// and Content-Type text/plain; charset=utf-8, then the body with the triggers, what
+// crossed them and the caution. CRLF line ends; no line longer than 78 characters; header
+// values are single-line printable ASCII: words with other bytes become RFC 2047 encoded
+// words ("=?UTF-8?B?...?="), except inside an address, where they become '?'.
 std::string FormatDigest(const Digest& digest);
+
+// The configured triggers in words with how they combine: "a rise of at least 3 patients
+// (rise_patients) OR a rate above the upper 99.8% control limit (above_upper_limit): any
+// one is enough (combine: any)".
+std::string TriggerRule(const DigestTriggers& triggers);
 
 // Day-of-week date for a Date header: "Sat, 31 Oct 2026 00:00:00 +0000".
 std::string MessageDate(Date on);

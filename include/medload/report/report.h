@@ -8,6 +8,7 @@
 #include <functional>
 #include <map>
 #include <optional>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -43,6 +44,9 @@ struct PreviousReport {
   // practice -> its data coverage then; practices missing here (reports saved before
   // coverage was kept) count as comparable.
   std::map<std::string, DataState> data;
+  // practice -> the patients on its whole list then (before the limit, real identifiers);
+  // nullopt for reports saved before lists were kept (nobody is marked new then).
+  std::optional<std::map<std::string, std::set<std::string>>> listed;
 };
 
 struct ReportModel {
@@ -53,6 +57,9 @@ struct ReportModel {
   std::vector<ReportSeries> practices;      // sorted by code
   ReportSeries network;                     // the sum of `practices`
   std::map<std::string, Worklist> worklists;  // practice -> worklist on `on` (top N)
+  // practice -> every patient meeting a criterion, in review order, before the limit and
+  // pseudonyms: saved with the run (in the store only) to mark "new on the list" next time.
+  std::map<std::string, std::vector<std::string>> listed;
   std::optional<PreviousReport> previous;   // the last report before `on`, if any
   CohortTally tally;                        // the cohort counts behind the series
   StoreSummary data;                        // provenance
@@ -85,9 +92,10 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis,
                                      const ReportProgress& progress);
 
 // The key under which report runs are saved in the store ("since the last report"):
-// the network name and the criteria keys.
+// the network name, the criteria keys, the measure and age_min when set.
 std::string ReportRunKey(const ReportModel& model);
-// The payload saved for this run: {"on", "counts": {practice: [per key]}}.
+// The payload saved for this run in the store: {"on", "keys", "counts": {practice: [per
+// key]}, "data": {practice: coverage}, "listed": {practice: [patient ids]}}.
 nlohmann::json ReportRunPayload(const ReportModel& model);
 // Reads the previous report's payload (as saved above). nullopt when malformed.
 std::optional<PreviousReport> ParsePreviousReport(const std::string& payload);

@@ -18,11 +18,13 @@
 
 namespace medload {
 
-// When a practice gets a digest message (any one trigger is enough).
+// When a practice gets a digest message: a criterion (or "any") crosses the triggers that
+// are set, any one of them (the default) or all of them together ("combine": "all").
 struct DigestTriggers {
   std::optional<long> rise_patients;    // "rise_patients": count up by at least N
   std::optional<double> rise_percent;   // "rise_percent": count up by at least X percent
   bool above_upper_limit = true;        // "above_upper_limit": rate above the 99.8% limit
+  bool all = false;                     // "combine": "any" (false, default) or "all" (true)
 };
 
 struct DigestConfig {
@@ -41,6 +43,12 @@ struct ReportConfig {
   std::vector<Criterion> criteria;      // "criteria": at least one
   long suppress_below = 0;              // "suppress_below": withhold counts 1..N-1
   std::vector<std::string> practices;   // "practices": empty = every practice
+  // "age_min": count and list only patients aged at least N on each date (an unknown age
+  // is left out, and the practice pages say how many); nullopt = every age.
+  std::optional<int> age_min;
+  // "reviewed_within": leave out of the worklists patients with a completed review in the
+  // DAYS days ending on the census date (the counts still include them); nullopt = none.
+  std::optional<int> reviewed_within_days;
   MeasureOptions measure;               // "measure", "window", "grace_days", ...
   size_t worklist_limit = 50;           // "worklist_limit": rows on each practice page
   std::string pseudonymise_key;         // "pseudonymise_key": key file; empty = none

@@ -1,11 +1,12 @@
 // The review worklist: patients who meet any selection criterion on a census date,
-// ranked by the fixed order (rules fired, ACB, items, DBI, age, identifier), each with
+// ranked by the fixed order (requested criteria met, ACB, items, DBI, age, identifier), each with
 // readable reasons. It streams the store once; it does not write any output format.
 #pragma once
 
 #include <map>
 #include <optional>
 #include <string>
+#include <unordered_map>
 #include <vector>
 
 #include "medload/burden/run_context.h"
@@ -39,11 +40,12 @@ struct WorklistEntry {
   int items = 0;
   int acb = 0;
   double dbi = 0;
-  std::vector<std::string> rule_ids;      // rules fired (all, not only selected ones)
-  std::vector<std::string> criteria_met;  // keys of the criteria met ("items>=10", ...)
+  std::vector<std::string> rule_ids;      // rules fired (all, not only requested ones): information
+  std::vector<std::string> criteria_met;  // keys of the requested criteria met: the first sort key
   std::vector<std::string> reasons;       // readable, for the pharmacist
   std::vector<std::string> warnings;      // unmatched products, unknown doses, ...
   bool is_new = false;                    // not on the previous run's list (same criteria)
+  std::optional<Date> last_reviewed;      // latest completed review on or before the date
   // Longitudinal measures on the date (docs/measures.md), and the same figures 12 months
   // before with the medicines started and stopped since (FillLongitudinal).
   int falls = 0;
@@ -70,6 +72,9 @@ struct Worklist {
   // unknown; and how many of those would have met a criterion.
   long excluded_age_unknown = 0;
   long excluded_age_unknown_meeting = 0;
+  // How the summary names the minimum age setting: "--age-min" in review, "age_min" in
+  // the report (its config key).
+  std::string age_min_setting = "--age-min";
   bool has_previous_run = false;          // "new" flags compare with an earlier run
   // The data coverage on the census date of each practice with patients registered that
   // day (after the practice filter), from the pass over every patient (data_coverage.h).
@@ -83,14 +88,31 @@ struct Worklist {
   long suppress_below = 0;
 };
 
-// The fixed review order (docs/measures.md, "Review worklist"): more rules fired first, then higher acb, more
-// items, higher dbi, older age (unknown last), then patient id ascending.
+// The fixed review order (docs/measures.md, "Review worklist"): more of the requested
+// criteria met first (criteria_met: each --at-least and each --rule is one), then higher
+// acb, more items, higher dbi, older age (unknown last), then patient id ascending. Rules
+// fired that were not requested (rule_ids) do not change the order.
 bool RanksBefore(const WorklistEntry& a, const WorklistEntry& b);
 
 // The readable reasons of one patient: "11 medicines", "ACB 7: amitriptyline 3, ...",
 // "DBI 1.25: ...", "rule: <title> (<medicines>)".
 std::vector<std::string> ExplainBurden(const Timeline& timeline, const Burden& burden,
                                        const BurdenTables& tables);
+
+// Fills a row's identity and figures (patient, practice, age, items, acb, dbi, the rules
+// fired and the readable reasons) from the burden on the census date; the caller sets
+// the criteria met, warnings and review facts.
+void FillFigures(WorklistEntry& entry, const std::string& patient, const std::string& practice,
+                 std::optional<int> age, const Timeline& timeline, const Burden& burden, const BurdenTables& tables);
+
+// Completed review dates per patient, each patient's oldest first (Store::Reviews).
+using ReviewDates = std::unordered_map<std::string, std::vector<Date>>;
+Result<ReviewDates> ReadReviewDates(const Store& store);
+// The latest of `reviews` on or before `on`; nullopt when there is none (a review after
+// the census date is not known on it).
+std::optional<Date> LastReviewOn(const std::vector<Date>& reviews, Date on);
+// Whether a review falls in the `days` days ending on `on` (--reviewed-within).
+bool ReviewedWithin(const std::vector<Date>& reviews, Date on, int days);
 
 // Streams the store once and builds the ranked list. Status::Usage when no criterion is
 // given; Status::Input for a rule id the tables do not have or a storage error.
