@@ -261,7 +261,7 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
-  if (model.data_note) out << "# note: " << *model.data_note << "\n";
+  if (model.data_note) WriteCsvComment(out, "note: " + *model.data_note);
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
                  "product", "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes"});
   for (const Row& row : Rows(model)) {

@@ -92,7 +92,7 @@ void WriteCohortText(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
-  for (const std::string& note : table.notes) out << "# note: " << note << "\n";
+  for (const std::string& note : table.notes) WriteCsvComment(out, "note: " + note);
   out << CsvRow({"date", "group", "registered", "data", "practices_without_data", "criterion", "count",
                  "rate_per_1000", "standardised_per_1000", "standardised_lower", "standardised_upper",
                  "suppressed"});

@@ -66,7 +66,20 @@ std::string CsvRow(const std::vector<std::string>& cells) {
   return row;
 }
 
-void WriteCsvCaution(std::ostream& out) { out << "# " << kCaution << "\n"; }
+std::string CsvCommentLine(std::string_view text) {
+  std::string line = "\"# ";
+  for (const char c : text) {
+    if (c == '"') line += "\"\"";
+    else if (c == '\r' || c == '\n') line += ' ';
+    else line += c;
+  }
+  line += "\"\n";
+  return line;
+}
+
+void WriteCsvComment(std::ostream& out, std::string_view text) { out << CsvCommentLine(text); }
+
+void WriteCsvCaution(std::ostream& out) { WriteCsvComment(out, kCaution); }
 
 std::string EscapeHtml(std::string_view value) {
   std::string escaped;

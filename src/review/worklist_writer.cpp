@@ -113,9 +113,9 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
 
 void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   WriteCsvCaution(out);
-  out << "# census date: " << worklist.on.ToIso() << "\n";
-  out << "# summary: " << WorklistSummary(worklist) << "\n";
-  for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
+  WriteCsvComment(out, "census date: " + worklist.on.ToIso());
+  WriteCsvComment(out, "summary: " + WorklistSummary(worklist));
+  for (const std::string& note : WorklistNotes(worklist)) WriteCsvComment(out, "note: " + note);
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "dbi", "rules", "criteria_met", "new",
                  "reasons", "warnings"});
   for (const WorklistEntry& e : worklist.patients) {

@@ -34,7 +34,7 @@ TEST_CASE("the CSV starts with the caution and has one line per date, group and 
   std::ostringstream out;
   WriteCohortCsv(out, SmallTable(0));
   const std::string text = out.str();
-  CHECK(text.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(text.rfind("\"# " + std::string(kCaution) + "\"\n", 0) == 0);
   CHECK(text.find("date,group,registered,data,practices_without_data,criterion,count,rate_per_1000,") !=
         std::string::npos);
   CHECK(text.find("2024-01-31,<A&B>,50,full,0,items>=10,2,40,40,") != std::string::npos);
@@ -82,7 +82,8 @@ TEST_CASE("a table's warnings appear in the text, CSV, HTML and JSON") {
   CHECK(html.str().find("Warning: " + warning + ".") != std::string::npos);
   // CSV: the caution first, then the warning as a comment line, then the header.
   const std::string lines = csv.str();
-  CHECK(lines.compare(lines.find('\n') + 1, 8 + warning.size() + 1, "# note: " + warning + "\n") == 0);
+  const std::string note = "\"# note: " + warning + "\"\n";
+  CHECK(lines.compare(lines.find('\n') + 1, note.size(), note) == 0);
   CHECK(CohortJson(table, nullptr).at("notes") == nlohmann::json::array({warning}));
 }
 
