@@ -78,10 +78,10 @@ Status WriteNetworkWorklist(Store& store, RunContext& analysis, const ReportConf
   WriteWorklistCsv(csv, *worklist);
   std::ostringstream html;
   WriteWorklistHtml(html, *worklist, config.network + ": review worklist on " + on.ToIso());
-  if (Status status = folder->WriteFile("network-worklist.csv", csv.str(), FileAccess::kOwnerOnly); !status.ok()) {
+  if (Status status = folder->WriteFile("network-worklist.csv", csv.str()); !status.ok()) {
     return status;
   }
-  return folder->WriteFile("network-worklist.html", html.str(), FileAccess::kOwnerOnly);
+  return folder->WriteFile("network-worklist.html", html.str());
 }
 
 }  // namespace

@@ -30,6 +30,26 @@ bool IsPlainRelative(std::string_view relative) {
   return true;
 }
 
+// Creates folder `path` with mode 0700 (exactly: the umask is not applied).
+std::error_code MakeOwnerOnlyFolder(const fs::path& path) {
+  std::error_code error;
+  fs::create_directory(path, error);
+  if (!error) fs::permissions(path, fs::perms::owner_all, fs::perm_options::replace, error);
+  return error;
+}
+
+// Creates `path` and its missing parents, each with mode 0700.
+std::error_code MakeOwnerOnlyFolders(const fs::path& path) {
+  std::error_code error;
+  fs::path step;
+  for (const fs::path& part : path) {
+    step /= part;
+    if (fs::exists(step, error)) continue;
+    if (std::error_code made = MakeOwnerOnlyFolder(step)) return made;
+  }
+  return error;
+}
+
 }  // namespace
 
 Result<std::string> SafeFileStem(std::string_view text) {
@@ -52,7 +72,7 @@ Result<ReportFolder> ReportFolder::Open(const std::string& path) {
   if (fs::exists(path, error) && !fs::is_directory(path, error)) {
     return Status::Input(path + ": exists and is not a folder");
   }
-  fs::create_directories(path, error);
+  error = MakeOwnerOnlyFolders(fs::path(path).lexically_normal());
   if (error) return Status::Input(path + ": cannot be created (" + error.message() + ")");
   return ReportFolder(path);
 }
@@ -67,13 +87,12 @@ Status ReportFolder::MakeSubfolder(std::string_view name) const {
   if (fs::exists(sub, error) && !fs::is_directory(sub, error)) {
     return Status::Input(sub.string() + ": exists and is not a folder");
   }
-  fs::create_directory(sub, error);
+  if (!fs::exists(sub, error)) error = MakeOwnerOnlyFolder(sub);
   if (error) return Status::Input(sub.string() + ": cannot be created (" + error.message() + ")");
   return Status::Ok();
 }
 
-Status ReportFolder::WriteFile(std::string_view relative, std::string_view content,
-                               FileAccess access) const {
+Status ReportFolder::WriteFile(std::string_view relative, std::string_view content) const {
   if (!IsPlainRelative(relative)) {
     return Status::Input("\"" + std::string(relative) + "\" is not a file name inside the report folder");
   }
@@ -85,7 +104,7 @@ Status ReportFolder::WriteFile(std::string_view relative, std::string_view conte
       return Status::Input(step.string() + ": is a symbolic link; refusing to write through it");
     }
   }
-  if (Status status = PrepareOutputFile(target.string(), access); !status.ok()) return status;
+  if (Status status = PreparePrivateFile(target.string()); !status.ok()) return status;
   std::ofstream out(target, std::ios::binary | std::ios::trunc);
   out.write(content.data(), static_cast<std::streamsize>(content.size()));
   out.close();

@@ -48,10 +48,9 @@ Result<std::map<std::string, PracticeFiles>> FileNames(const ReportModel& model)
 struct Writer {
   const ReportFolder& folder;
   std::vector<std::string>& written;
-  Status Put(const std::string& name, const std::string& content,
-             FileAccess access = FileAccess::kShared) {
+  Status Put(const std::string& name, const std::string& content) {
     written.push_back(name);
-    return folder.WriteFile(name, content, access);
+    return folder.WriteFile(name, content);
   }
 };
 
@@ -68,13 +67,10 @@ Status WritePractices(const ReportModel& model, const std::map<std::string, Prac
   for (size_t i = 0; i < model.practices.size(); ++i) {
     const ReportSeries& s = model.practices[i];
     const PracticeFiles& names = files.at(s.code);
-    // The practice page and worklist name patients: owner-only (the overview, cohort
-    // tables and digests carry counts only).
-    const FileAccess patients = FileAccess::kOwnerOnly;
-    if (Status st = writer.Put(names.page, PracticeHtml(model, i, names), patients); !st.ok()) return st;
+    if (Status st = writer.Put(names.page, PracticeHtml(model, i, names)); !st.ok()) return st;
     std::ostringstream csv;
     WriteWorklistCsv(csv, ReportWorklist(model, s.code));
-    if (Status st = writer.Put(names.worklist, csv.str(), patients); !st.ok()) return st;
+    if (Status st = writer.Put(names.worklist, csv.str()); !st.ok()) return st;
     if (const auto digest = BuildDigest(model, i, names.page)) {
       if (Status st = writer.Put(names.digest, FormatDigest(*digest)); !st.ok()) return st;
       digests.push_back(s.code);

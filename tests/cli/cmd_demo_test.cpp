@@ -11,7 +11,7 @@ namespace medload {
 
 TEST_SUITE("cli/cmd_demo") {
 
-TEST_CASE("the demo's network worklist is owner-only and its cohort table follows the umask") {
+TEST_CASE("every file the demo writes is owner-only, as in a report folder, whatever the umask") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
   const mode_t old_mask = ::umask(022);
@@ -20,8 +20,10 @@ TEST_CASE("the demo's network worklist is owner-only and its cohort table follow
   REQUIRE_MESSAGE(result.exit_code == 0, result.err);
   const std::pair<const char*, mode_t> files[] = {{"demo/network-worklist.csv", 0600},
                                                   {"demo/network-worklist.html", 0600},
-                                                  {"demo/cohort.csv", 0644},
-                                                  {"demo/index.html", 0644}};
+                                                  {"demo/cohort.csv", 0600},
+                                                  {"demo/index.html", 0600},
+                                                  {"demo", 0700},
+                                                  {"demo/digests", 0700}};
   for (const auto& [name, mode] : files) {
     CAPTURE(name);
     struct stat info {};

@@ -221,35 +221,34 @@ TEST_CASE("network-level outputs carry no patient identifier") {
   }
 }
 
-TEST_CASE("report pages and worklists that name patients are owner-only, the overview is not") {
+TEST_CASE("every file of a report folder is owner-only and the folders it creates are too, whatever the umask") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));
   BuildNetwork(folder, run);
   const mode_t old_mask = ::umask(022);
-  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run);
+  ProcessResult report = RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out/2024"}, run);
   ::umask(old_mask);
   REQUIRE_MESSAGE(report.exit_code == 0, report.err);
+  CHECK(ModeOf(folder.File("out")) == 0700);
+  CHECK(ModeOf(folder.File("out/2024")) == 0700);
+  CHECK(ModeOf(folder.File("out/2024/digests")) == 0700);
   size_t private_files = 0;
-  for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
-    const std::string name = entry.path().filename().string();
-    CAPTURE(name);
-    if (name.rfind("practice-", 0) == 0 || name.rfind("worklist-", 0) == 0) {
-      CHECK(ModeOf(entry.path().string()) == 0600);
-      ++private_files;
-    } else if (entry.is_regular_file()) {
-      CHECK(ModeOf(entry.path().string()) == 0644);
-    }
+  for (const fs::directory_entry& entry : fs::recursive_directory_iterator(folder.File("out/2024"))) {
+    if (!entry.is_regular_file()) continue;
+    CAPTURE(entry.path().string());
+    CHECK(ModeOf(entry.path().string()) == 0600);
+    ++private_files;
   }
-  CHECK(private_files == 4);
+  CHECK(private_files >= 8);  // index, cohort.csv and .json, run.json, a page and a worklist per practice
   // A re-run narrows a worklist that was made readable by others in the meantime.
   const std::string worklist = [&] {
-    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
+    for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out/2024"))) {
       if (entry.path().filename().string().rfind("worklist-", 0) == 0) return entry.path().string();
     }
     return std::string();
   }();
   REQUIRE(::chmod(worklist.c_str(), 0644) == 0);
-  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out"}, run).exit_code == 0);
+  REQUIRE(RunMedload({"--quiet", "report", "--config", "network.json", "--out", "out/2024"}, run).exit_code == 0);
   CHECK(ModeOf(worklist) == 0600);
 }
 

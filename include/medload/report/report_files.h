@@ -1,6 +1,8 @@
 // Writing the report folder safely: file names made from data (practice codes) are
-// sanitised so they cannot leave the folder or collide, and files are written only inside
-// the output folder, never through a symbolic link. It does not decide what the files hold.
+// sanitised so they cannot leave the folder or collide; files are written only inside the
+// output folder, never through a symbolic link, and all of them owner-only (the folder
+// holds patient-level pages and worklists: docs/report.md, "Who can read the folder").
+// It does not decide what the files hold.
 #pragma once
 
 #include <string>
@@ -17,23 +19,24 @@ namespace medload {
 // Returns Status::Input naming the text when the result would be empty, "." or "..".
 Result<std::string> SafeFileStem(std::string_view text);
 
-// The report's output folder. Creates it (and its parents) when missing.
+// The report's output folder. Creates it (and its missing parents) when missing.
 class ReportFolder {
  public:
+  // Folders it creates get mode 0700 (owner only), whatever the umask; a folder that
+  // already exists keeps its mode (it may be the working folder).
   // Fails with Input when `path` exists and is not a folder or cannot be created.
   static Result<ReportFolder> Open(const std::string& path);
 
   const std::string& path() const { return path_; }
 
-  // Creates the sub-folder `name` (one level, no separators). Refused with Input when it
-  // exists as a symbolic link or a file.
+  // Creates the sub-folder `name` (one level, no separators) with mode 0700 when missing.
+  // Refused with Input when it exists as a symbolic link or a file.
   Status MakeSubfolder(std::string_view name) const;
   // Writes `content` to `relative` ("index.html", "digests/WV001.eml"), replacing a
   // regular file of that name. Refused with Input when `relative` is absolute, contains
-  // "..", or the file or its folder is a symbolic link. With FileAccess::kOwnerOnly the
-  // file is created (or narrowed to) mode 0600: pages and worklists that name patients.
-  Status WriteFile(std::string_view relative, std::string_view content,
-                   FileAccess access = FileAccess::kShared) const;
+  // "..", or the file or its folder is a symbolic link. Every file is created with (or
+  // narrowed to) mode 0600: one policy for the whole folder.
+  Status WriteFile(std::string_view relative, std::string_view content) const;
   // Removes the regular files in sub-folder `name` whose names end in `suffix` (stale
   // digests from an earlier run), so a re-run leaves exactly this run's files.
   Status RemoveFiles(std::string_view name, std::string_view suffix) const;
