@@ -4,6 +4,7 @@
 
 #include <ostream>
 
+#include "medload/cohort/cohort_chart.h"
 #include "medload/format/output.h"
 #include "medload/format/suppression.h"
 
