@@ -139,7 +139,7 @@ void WriteDateLabels(std::ostringstream& svg, const Plot& plot, const std::vecto
   const double spacing = dates.size() > 1 ? plot.width / static_cast<double>(dates.size() - 1) : plot.width;
   const auto every = static_cast<size_t>(std::max(1.0, std::ceil(label / spacing)));
   for (size_t d = 0; d < dates.size(); d += every) {
-    WriteText(svg, plot.X(d), plot.Bottom() + 16, kFont, "middle", dates[d].ToIso());
+    WriteText(svg, plot.X(d), plot.Bottom() + 19, kFont, "middle", dates[d].ToIso());
   }
 }
 

@@ -178,7 +178,7 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
   const ReportSeries& s = model.practices[index];
   std::ostringstream out;
   WriteHtmlStart(out, model.config.title + ": " + s.code + (s.name.empty() ? "" : " " + s.name));
-  out << "<p><a href=\"index.html\">Network overview</a></p>\n";
+  out << "<p class=\"screen\"><a href=\"index.html\">Network overview</a></p>\n";
   WriteRunFacts(out, model, &s.code);
   std::vector<std::vector<std::string>> rows;
   for (size_t k = 0; k < model.keys.size(); ++k) {
