@@ -125,18 +125,12 @@ constexpr std::string_view kPageStyle =
 }  // namespace
 
 void WriteHtmlStart(std::ostream& out, std::string_view title) {
-  // The caution text opens with its own "CAUTION:" label: that word is the banner's heading.
-  std::string_view label;
-  std::string_view text = kCaution;
-  if (const size_t colon = text.find(": "); colon != std::string_view::npos && colon < 12) {
-    label = text.substr(0, colon + 1);
-    text.remove_prefix(colon + 2);
-  }
   out << "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
          "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<title>"
       << EscapeHtml(title) << "</title>\n<style>\n" << kPageStyle
-      << "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>" << EscapeHtml(label)
-      << "</strong> " << EscapeHtml(text) << "</div>\n<h1>" << EscapeHtml(title) << "</h1>\n";
+      << "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>Clinical review "
+         "caution.</strong> "
+      << EscapeHtml(kCaution) << "</div>\n<h1>" << EscapeHtml(title) << "</h1>\n";
 }
 
 void WriteHtmlEnd(std::ostream& out) { out << "</body>\n</html>\n"; }

@@ -74,17 +74,6 @@ TEST_CASE("an HTML page opens with the caution as a banner and escapes its title
   CHECK(html.find("http") == std::string::npos);  // self-contained: nothing fetched
 }
 
-TEST_CASE("the caution banner says CAUTION once and holds the whole caution text") {
-  std::ostringstream out;
-  WriteHtmlStart(out, "Page");
-  const std::string html = out.str();
-  const std::string banner = html.substr(html.find("<div class=\"caution\""));
-  const std::string rest(std::string_view(kCaution).substr(std::string_view("CAUTION: ").size()));
-  CHECK(banner.rfind("<div class=\"caution\" role=\"note\"><strong>CAUTION:</strong> " + EscapeHtml(rest) + "</div>", 0) ==
-        0);
-  CHECK(html.find("Clinical review caution") == std::string::npos);
-}
-
 TEST_CASE("the page style prints on A4 with table headers repeated and rows and charts kept whole") {
   std::ostringstream out;
   WriteHtmlStart(out, "Page");
