@@ -56,6 +56,27 @@ std::string FitText(std::string_view text, double font_size, double max_width) {
   return fitted + std::string(kEllipsis);
 }
 
+std::vector<std::string> WrapText(std::string_view text, double font_size, double max_width) {
+  std::vector<std::string> lines;
+  std::string line;
+  size_t at = 0;
+  while (at < text.size()) {
+    const size_t space = text.find(' ', at);
+    const std::string_view word = text.substr(at, space == std::string_view::npos ? std::string_view::npos : space - at);
+    at = space == std::string_view::npos ? text.size() : space + 1;
+    if (word.empty()) continue;
+    const std::string joined = line.empty() ? std::string(word) : line + " " + std::string(word);
+    if (TextWidth(joined, font_size) <= max_width) {
+      line = joined;
+      continue;
+    }
+    if (!line.empty()) lines.push_back(line);
+    line = FitText(word, font_size, max_width);
+  }
+  if (!line.empty()) lines.push_back(line);
+  return lines;
+}
+
 std::optional<std::vector<double>> PlaceLabels(std::span<const double> wanted, double gap, double top,
                                                double bottom) {
   if (wanted.empty()) return std::vector<double>{};

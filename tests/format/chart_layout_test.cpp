@@ -90,6 +90,14 @@ TEST_CASE("a label too wide for its room is cut at a whole character and ends in
   }
 }
 
+TEST_CASE("long text is wrapped at spaces into lines that fit, and an overlong word is cut") {
+  const std::vector<std::string> lines = WrapText("Solid bars: days supplied. Pale bars: tail days.", 10, 100);
+  CHECK(lines == std::vector<std::string>{"Solid bars: days", "supplied. Pale", "bars: tail days."});
+  for (const std::string& line : lines) CHECK(TextWidth(line, 10) <= 100);
+  CHECK(WrapText("a  Wwwwwwwwwwwwwwwwwwww b", 10, 60) == std::vector<std::string>{"a", "Wwww...", "b"});
+  CHECK(WrapText("", 10, 60).empty());
+}
+
 TEST_CASE("labels that already stand apart stay where they want to be") {
   const std::vector<double> wanted = {100, 40, 70};
   const auto placed = PlaceLabels(wanted, 13, 0, 200);

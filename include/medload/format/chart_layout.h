@@ -27,6 +27,10 @@ inline constexpr double kBoldWidth = 1.12;
 // code points) that fits with an ellipsis ("...") appended; "" when not even "..." fits.
 std::string FitText(std::string_view text, double font_size, double max_width);
 
+// `text` broken at spaces into lines no wider than `max_width` (by TextWidth); a word wider
+// than that is cut with FitText. Empty for empty text.
+std::vector<std::string> WrapText(std::string_view text, double font_size, double max_width);
+
 // Vertical positions for labels that want to sit at `wanted` (any order), each at least
 // `gap` from every other and inside [top, bottom], moved as little as a top-down then
 // bottom-up pass allows. The result is in the order of `wanted`, and labels keep their
