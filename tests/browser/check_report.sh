@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
-# Real-browser check of the report at two network sizes: the demo (3 practices) and the
-# demo's patients spread over 50 practices (spread_network.sh). Headless Chromium renders
-# the overview, a practice page and a cohort page; layout_check.js then looks, with real
+# Real-browser check of the report at three network sizes: the demo (3 practices) and the
+# demo's patients spread over 13 and 50 practices (spread_network.sh). Headless Chromium
+# renders the overviews, a practice page, a cohort page and a timeline; layout_check.js
+# then looks, with real
 # glyph boxes, for chart text that overlaps or leaves its chart and for pages or tables
 # wider than the window: on screen at 1400 px, and with the print rules at the printable
 # width of A4 (210 mm less 2 x 12 mm margins = 703 px). Screenshots and a PDF of a
@@ -26,6 +27,9 @@ large="$out/browser-demo-50"
 demo "$data" "$small"
 "$here/spread_network.sh" "$data" "$out/browser-data-50" 50 || { echo "could not spread the demo over 50 practices"; exit 1; }
 demo "$out/browser-data-50" "$large"
+middle="$out/browser-demo-13"
+"$here/spread_network.sh" "$data" "$out/browser-data-13" 13 || { echo "could not spread the demo over 13 practices"; exit 1; }
+demo "$out/browser-data-13" "$middle"
 
 # A cohort page of the 50 practices, from a store of the same data.
 cohort="$out/browser-cohort-50.html"
@@ -36,6 +40,10 @@ for kind in practices patients dispensing reviews; do
 done
 "$medload" --quiet --db "$out/browser-cohort.db" --format html --output "$cohort" cohort --from 2025-11-01 \
   --to 2026-10-31 --at-least items=10 --at-least acb=3 >/dev/null 2>&1 || { echo "cohort failed"; exit 1; }
+timeline="$out/browser-timeline.html"
+patient=$(sed -n '2s/,.*//p' "$out/browser-data-50/patients.csv")
+"$medload" --quiet --db "$out/browser-cohort.db" --format html --output "$timeline" timeline "$patient" \
+  --from 2024-11-01 --to 2026-10-31 --on 2026-10-31 >/dev/null 2>&1 || { echo "timeline failed"; exit 1; }
 
 # The overview renders its charts and banner without console messages.
 "$chromium" "${flags[@]}" --dump-dom "file://$small/index.html" >"$out/browser-dom.html" 2>"$out/browser-console.log"
@@ -71,7 +79,8 @@ layout() {
     *) printf '%s\n' "$result" | sed '1d;$d' | sed 's/&quot;/"/g; s/&amp;/\&/g; s/&lt;/</g; s/&gt;/>/g'; status=1 ;;
   esac
 }
-for page in "$small/index.html" "$small/practice-WV001.html" "$large/index.html" "$large/practice-NW07.html" "$cohort"; do
+for page in "$small/index.html" "$small/practice-WV001.html" "$middle/index.html" "$large/index.html" \
+            "$large/practice-NW07.html" "$cohort" "$timeline"; do
   layout "$page" 1400 screen
   layout "$page" 703 print
 done
@@ -85,5 +94,5 @@ done
 for file in report-screenshot.png report-50-screenshot.png practice-print.pdf; do
   [ -s "$out/$file" ] || { echo "$file was not written"; status=1; }
 done
-[ $status -eq 0 ] && echo "report rendered at 3 and 50 practices without layout faults; screenshots and PDF in $out"
+[ $status -eq 0 ] && echo "report rendered at 3, 13 and 50 practices without layout faults; screenshots and PDF in $out"
 exit $status
