@@ -57,6 +57,33 @@ void BM_ResolveDistinctCold(benchmark::State& state) {
 }
 BENCHMARK(BM_ResolveDistinctCold)->Unit(benchmark::kMillisecond);
 
+// Descriptions as messy dispensing data writes them: brands with their maker, US names and
+// combinations, abbreviations, glued strengths, misspellings, a part the tables do not
+// know, and lines nothing resolves (the slowest path: every word tried as a spelling).
+const std::vector<std::string>& MessyDescriptions() {
+  static const std::vector<std::string> kMessy = {
+      "Detrusitol 2mg tablets (Pfizer Ltd)", "Seroquel XL 50mg tablets (AstraZeneca UK Ltd)",
+      "Symbicort 200/6 Turbohaler (AstraZeneca UK Ltd)", "Norco 10-325 mg tablet",
+      "Hydrocodone bitartrate and acetaminophen 5 mg/325 mg tablet",
+      "Butalbital, acetaminophen and caffeine 50 mg/325 mg/40 mg tablet", "Lansoprazole30mg caps",
+      "Metformin 500mg m/r tabs", "Hyoscine HBr 300mcg tabs", "Chloramphenicol 0.5% e/d",
+      "Amitriptilline 10mg tabs", "Oxybutinin 5mg tabs", "Frobazine 10mg and paracetamol 500mg tablets",
+      "Ensure Plus milkshake style liquid (Abbott Laboratories Ltd)", "Frobnicate 10mg tablets",
+      "Unlicensed special 5ml", "Chlorpromamide 100mg tabs", "Co-codamol 30/500 caps",
+      "Atorvastatin Calcium 40 MG Oral Tablet", "Fentanyl 12mcg/hr patch"};
+  return kMessy;
+}
+
+// The resolver alone on the messy descriptions, each resolved every time.
+void BM_ResolveMessyCold(benchmark::State& state) {
+  const Formulary& formulary = SharedAnalysis().formulary();
+  for (auto _ : state) {
+    for (const std::string& text : MessyDescriptions()) benchmark::DoNotOptimize(Resolve(formulary, text));
+  }
+  state.SetItemsProcessed(state.iterations() * static_cast<int64_t>(MessyDescriptions().size()));
+}
+BENCHMARK(BM_ResolveMessyCold)->Unit(benchmark::kMicrosecond);
+
 // A fresh ResolutionCache per pass: every description is a miss, resolved and stored.
 void BM_ResolutionCacheMisses(benchmark::State& state) {
   const Formulary& formulary = SharedAnalysis().formulary();

@@ -6,6 +6,8 @@
 #include <set>
 #include <tuple>
 
+#include "burden/rule_firing.h"
+
 namespace medload {
 
 std::string_view DoseBasisName(DoseBasis basis) {
@@ -85,9 +87,15 @@ std::vector<ActiveMedicine> FindActive(const Timeline& timeline, Date on, const 
   return active;
 }
 
+// Whether a medicine in use by `routes` counts for the ingredient's score or DBI at all.
+bool RoutesCount(const BurdenTables& tables, RouteSet routes, const std::string& ingredient) {
+  return tables.CountsForScale(routes, ingredient) || tables.CountsForDbi(routes, ingredient);
+}
+
 // For each distinct active ingredient, the active medicine whose latest dispensing of it
-// is the most recent: that medicine carries the ingredient's score.
-std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
+// is the most recent, preferring one whose route counts (tablets over a cream of the same
+// ingredient): that medicine carries the ingredient's score.
+std::map<std::string, size_t> IngredientOwners(const Timeline& timeline, const BurdenTables& tables,
                                                const std::vector<ActiveMedicine>& active) {
   std::map<std::string, size_t> owners;  // ingredient -> index into `active`
   for (size_t a = 0; a < active.size(); ++a) {
@@ -97,6 +105,11 @@ std::map<std::string, size_t> IngredientOwners(const Timeline& timeline,
       auto [it, inserted] = owners.emplace(ingredient, a);
       if (inserted) continue;
       const ActiveMedicine& other = active[it->second];
+      const bool counts = RoutesCount(tables, active[a].routes, ingredient);
+      if (counts != RoutesCount(tables, other.routes, ingredient)) {
+        if (counts) it->second = a;
+        continue;
+      }
       if (timeline.medicines[other.medicine].uses[other.latest_use].dispensed_on < latest) it->second = a;
     }
   }
@@ -198,12 +211,21 @@ void CollectProducts(const Timeline& timeline, const std::vector<ActiveMedicine>
   }
 }
 
+// Spec section 5, "Routes": a product counts for the DBI when its route does.
+bool DbiRouteCounts(const Timeline& timeline, const Burden& burden, const BurdenTables& tables,
+                    const ActiveProduct& product, const std::string& ingredient) {
+  RouteSet route;
+  route.Add(timeline.medicines[burden.active[product.active].medicine].uses[product.use].route);
+  return tables.CountsForDbi(route, ingredient);
+}
+
 // The products of `ingredient` taken together on D, the most recently dispensed first:
 // that product, plus every other active product dispensed again since its run began (a
-// product dispensed only before then was switched from, not added).
+// product dispensed only before then was switched from, not added). Products on a route
+// the DBI does not count for the ingredient are left out first.
 std::vector<ActiveProduct> ProductsTakenTogether(const Timeline& timeline, const Burden& burden,
-                                                 const std::string& ingredient, Date on,
-                                                 const MeasureOptions& options) {
+                                                 const BurdenTables& tables, const std::string& ingredient,
+                                                 Date on, const MeasureOptions& options) {
   std::vector<ActiveProduct> products;
   for (size_t a = 0; a < burden.active.size(); ++a) {
     const Medicine& medicine = timeline.medicines[burden.active[a].medicine];
@@ -211,6 +233,9 @@ std::vector<ActiveProduct> ProductsTakenTogether(const Timeline& timeline, const
       CollectProducts(timeline, burden.active, a, ingredient, on, options, products);
     }
   }
+  std::erase_if(products, [&](const ActiveProduct& p) {
+    return !DbiRouteCounts(timeline, burden, tables, p, ingredient);
+  });
   if (products.empty()) return products;
   auto use_of = [&](const ActiveProduct& p) -> const DispensingUse& {
     return timeline.medicines[burden.active[p.active].medicine].uses[p.use];
@@ -253,15 +278,24 @@ std::optional<DbiContribution> IngredientDose(const Timeline& timeline, const Bu
 
 void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const MeasureOptions& options,
                   Burden& burden) {
-  for (const auto& [ingredient, owner] : IngredientOwners(timeline, burden.active)) {
-    if (const int score = tables.Score(ingredient); score > 0) {
+  for (const auto& [ingredient, owner] : IngredientOwners(timeline, tables, burden.active)) {
+    // Spec section 5, "Routes": the scale and the DBI count systemic routes only.
+    const int score = tables.Score(ingredient);
+    if (score > 0 && tables.CountsForScale(burden.active[owner].routes, ingredient)) {
       burden.score_contributions.push_back({ingredient, score});
       burden.acb += score;
       burden.active[owner].score += score;
     }
     const DbiEntry* entry = tables.Dbi(ingredient);
-    if (entry == nullptr) continue;
-    const auto products = ProductsTakenTogether(timeline, burden, ingredient, burden.on, options);
+    if (entry == nullptr) {
+      if (tables.InDbiClass(ingredient)) {
+        burden.dbi_incomplete.push_back(ingredient);
+        burden.dbi_no_minimum.push_back(ingredient);
+      }
+      continue;
+    }
+    const auto products = ProductsTakenTogether(timeline, burden, tables, ingredient, burden.on, options);
+    if (products.empty()) continue;  // only on routes the DBI does not count
     auto dose = IngredientDose(timeline, burden, ingredient, products);
     if (!dose) {
       burden.dbi_incomplete.push_back(ingredient);
@@ -278,77 +312,7 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const Me
                    [](const auto& a, const auto& b) { return a.score > b.score; });
 }
 
-bool MedicineMatches(const Medicine& medicine, const RuleRequirement& requirement,
-                     const BurdenTables& tables) {
-  for (const std::string& ingredient : medicine.ingredients) {
-    for (const std::string& class_name : requirement.classes) {
-      if (tables.HasClass(ingredient, class_name)) return true;
-    }
-    for (const std::string& name : requirement.ingredients) {
-      if (name == ingredient) return true;
-    }
-    if (requirement.scale_score_at_least &&
-        tables.Score(ingredient, requirement.scale) >= *requirement.scale_score_at_least) {
-      return true;
-    }
-  }
-  return false;
-}
-
-bool MeasuresHold(const RuleMeasures& measures, const Burden& burden) {
-  return (!measures.items || burden.items >= *measures.items) &&
-         (!measures.acb || burden.acb >= *measures.acb) &&
-         (!measures.dbi || burden.dbi >= *measures.dbi - 1e-9);
-}
-
-size_t RequirementCount(const BurdenTables& tables) {
-  size_t count = 0;
-  for (const Rule& rule : tables.rules) count += rule.require.size();
-  return count;
-}
-
-// Flags of MatchRuleRequirements, with where this rule's requirements start in them.
-struct PreparedMatches {
-  const std::vector<bool>* flags = nullptr;  // null: work each match out
-  size_t per_medicine = 0;                   // requirements of all rules
-  size_t first = 0;                          // flat index of the rule's first requirement
-};
-
-std::optional<FiredRule> Fire(const Rule& rule, const Timeline& timeline, const BurdenTables& tables,
-                              const Burden& burden, const PreparedMatches& prepared) {
-  if (!MeasuresHold(rule.measures, burden)) return std::nullopt;
-  std::set<size_t> involved;
-  for (size_t k = 0; k < rule.require.size(); ++k) {
-    const RuleRequirement& requirement = rule.require[k];
-    int matched = 0;
-    for (const ActiveMedicine& active : burden.active) {
-      const bool meets =
-          prepared.flags != nullptr
-              ? (*prepared.flags)[active.medicine * prepared.per_medicine + prepared.first + k]
-              : MedicineMatches(timeline.medicines[active.medicine], requirement, tables);
-      if (!meets) continue;
-      ++matched;
-      involved.insert(active.medicine);
-    }
-    if (matched < requirement.at_least) return std::nullopt;
-  }
-  return FiredRule{&rule, std::vector<size_t>(involved.begin(), involved.end())};
-}
-
 }  // namespace
-
-std::vector<bool> MatchRuleRequirements(const Timeline& timeline, const BurdenTables& tables) {
-  std::vector<bool> matches;
-  matches.reserve(timeline.medicines.size() * RequirementCount(tables));
-  for (const Medicine& medicine : timeline.medicines) {
-    for (const Rule& rule : tables.rules) {
-      for (const RuleRequirement& requirement : rule.require) {
-        matches.push_back(MedicineMatches(medicine, requirement, tables));
-      }
-    }
-  }
-  return matches;
-}
 
 Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tables,
                       const MeasureOptions& options, std::optional<int> age,
@@ -357,22 +321,11 @@ Burden EvaluateBurden(const Timeline& timeline, Date on, const BurdenTables& tab
   burden.on = on;
   burden.active = FindActive(timeline, on, options);
   burden.items = static_cast<int>(burden.active.size());
-  ScoreAndDose(timeline, tables, options, burden);
-  PreparedMatches prepared{matches, matches != nullptr ? RequirementCount(tables) : 0, 0};
-  for (size_t first = 0; const Rule& rule : tables.rules) {
-    prepared.first = first;
-    first += rule.require.size();
-    if (rule.age_min) {
-      if (!age) {
-        burden.age_unknown_for_rules = true;
-        continue;
-      }
-      if (*age < *rule.age_min) continue;
-    }
-    if (auto fired = Fire(rule, timeline, tables, burden, prepared)) {
-      burden.rules.push_back(std::move(*fired));
-    }
+  for (ActiveMedicine& active : burden.active) {
+    active.routes = burden_internal::RoutesInForce(timeline.medicines[active.medicine], active, on, options);
   }
+  ScoreAndDose(timeline, tables, options, burden);
+  burden_internal::FireRules(timeline, tables, age, matches, burden);
   return burden;
 }
 

@@ -71,7 +71,7 @@ Status CheckRulesExist(const std::vector<Criterion>& criteria, const BurdenTable
   for (const Criterion& criterion : criteria) {
     if (criterion.kind == CriterionKind::kRule && tables.FindRule(criterion.rule_id) == nullptr) {
       return Status::Input("rule \"" + criterion.rule_id +
-                           "\" is not in the formulary's rules.json; 'medload formulary check' lists them");
+                           "\" is not in the formulary's rules.json; 'medload formulary rules' lists them");
     }
   }
   return Status::Ok();

@@ -2,10 +2,13 @@
 
 #include <algorithm>
 #include <cctype>
+#include <cmath>
 #include <ostream>
 
+#include "medload/burden/route_notes.h"
 #include "medload/core/caution.h"
 #include "medload/core/text.h"
+#include "medload/dose/dose_unit.h"
 #include "medload/format/output.h"
 
 namespace medload {
@@ -40,9 +43,28 @@ std::vector<std::string> ClassesOf(const MedsModel& model, const Medicine& medic
   return classes;
 }
 
-std::string DosageRead(const DosageReading& dosage) {
+// How the dosage was read: the amount a day in its own unit and, when that is another
+// unit (a dose in mg, administrations without a dose), in the unit of the quantity, or
+// why that is not known.
+std::string DosageRead(const MedsModel& model, const DispensingUse& use) {
+  const DosageReading& dosage = use.dosage;
   std::string text(UnderstandingName(dosage.understanding));
-  if (dosage.units_per_day) text += ", " + FormatNumber(*dosage.units_per_day, 3) + " per day";
+  if (dosage.units_per_day) {
+    const bool administrations = dosage.unit == kAdministrationUnit;
+    text += ", " + FormatNumber(*dosage.units_per_day, 3) +
+            (administrations ? " times a day, no dose stated"
+                             : (dosage.unit.empty() ? "" : " " + dosage.unit) + " per day");
+    const std::string unit = RecordText(model.records, use, &DispensingRecord::unit);
+    const bool converted = administrations || (use.supply.units_per_day &&
+                                               std::abs(*use.supply.units_per_day - *dosage.units_per_day) >
+                                                   1e-9 * std::abs(*dosage.units_per_day));
+    if (use.supply.units_per_day && converted) {
+      text += " = " + FormatNumber(*use.supply.units_per_day, 3) + " " +
+              (unit.empty() ? std::string("dose units") : unit) + " per day";
+    } else if (!use.supply.units_per_day && !use.supply.note.empty()) {
+      text += " (not used: " + use.supply.note + ")";
+    }
+  }
   if (dosage.as_needed) text += ", as needed";
   return text;
 }
@@ -56,16 +78,72 @@ std::string ProductText(const MedsModel& model, const DispensingUse& use) {
   return RecordText(model.records, use, &DispensingRecord::product);
 }
 
-// Unmatched products dispensed, on or before the date, recently enough that they could
+// Products of `list` dispensed, on or before the date, recently enough that they could
 // still be in use.
-std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+std::vector<const UnmatchedProduct*> Recent(const MedsModel& model, const std::vector<UnmatchedProduct>& list) {
   std::vector<const UnmatchedProduct*> recent;
   const Date first = model.burden->on - (model.options.supply.max_supply_days - 1);
-  for (const UnmatchedProduct& product : model.timeline->unmatched) {
+  for (const UnmatchedProduct& product : list) {
     const std::optional<Date> last = product.LastBy(model.burden->on);
     if (last && *last >= first) recent.push_back(&product);
   }
   return recent;
+}
+
+std::vector<const UnmatchedProduct*> RecentUnmatched(const MedsModel& model) {
+  return Recent(model, model.timeline->unmatched);
+}
+
+// The recent products of the timeline's partial (or approximate) matches, as text.
+nlohmann::json RecentFlagged(const MedsModel& model, MatchKind match) {
+  nlohmann::json list = nlohmann::json::array();
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    if (product->match == match) list.push_back(product->product);
+  }
+  return list;
+}
+
+// The warning for a product recognised only in part or from a close spelling, with what
+// was known of it on `on`.
+std::string FlaggedWarning(const UnmatchedProduct& product, Date on) {
+  const std::string said = "\"" + product.product + "\" (" + std::to_string(product.ItemsBy(on)) + " item(s), last " +
+                           product.LastBy(on)->ToIso() + ")";
+  if (product.match == MatchKind::kPartial) {
+    return said + " was recognised only in part (" + product.detail +
+           "): what the formulary does not know is not counted.";
+  }
+  return said + " was read from a close spelling (" + product.detail + "): confirm it is the medicine dispensed.";
+}
+
+// The route notes of the active medicine at `index` in Burden::active.
+std::vector<std::string> NotesOf(const std::vector<RouteNote>& notes, const ActiveMedicine& active,
+                                 const MedsModel& model) {
+  std::vector<std::string> texts;
+  const size_t index = static_cast<size_t>(&active - model.burden->active.data());
+  for (const RouteNote& note : notes) {
+    if (note.active == index) texts.push_back(note.text);
+  }
+  return texts;
+}
+
+// The routes in use, "not stated" for a product whose route the description did not give.
+std::string RoutesShown(const ActiveMedicine& active) {
+  std::string text;
+  for (const Route route : active.routes.Routes()) {
+    if (!text.empty()) text += ", ";
+    text += route == Route::kUnknown ? std::string("not stated") : std::string(RouteName(route));
+  }
+  return text;
+}
+
+std::vector<RouteNote> Notes(const MedsModel& model) {
+  return RouteNotes(*model.timeline, *model.burden, *model.tables, model.age);
+}
+
+std::string SystemicRoutesSentence(const MedsModel& model) {
+  return "Scores, the DBI and the rules count systemic routes (" +
+         RouteListText(model.tables->systemic_routes, ", ") +
+         ") unless the formulary says otherwise; items count every route.";
 }
 
 std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& fired) {
@@ -75,6 +153,20 @@ std::vector<std::string> RuleMedicines(const MedsModel& model, const FiredRule& 
 }
 
 }  // namespace
+
+std::string NotCountedNote(const MedsModel& model) {
+  long total = 0;
+  std::string statuses;
+  for (const auto& [status, count] : model.not_counted) {
+    total += count;
+    if (!statuses.empty()) statuses += ", ";
+    statuses += status + " " + std::to_string(count);
+  }
+  if (total == 0) return "";
+  return std::to_string(total) + " dispensing(s) up to " + model.burden->on.ToIso() +
+         " are stored but not counted here because of their status (" + statuses +
+         "); only completed dispensings count: check them with the dispensing record";
+}
 
 std::vector<std::string> MedsWarnings(const MedsModel& model) {
   std::vector<std::string> warnings;
@@ -87,7 +179,16 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
                        " item(s), last " + product->LastBy(model.burden->on)->ToIso() +
                        ") was not recognised by the formulary and is not counted.");
   }
+  for (const UnmatchedProduct* product : Recent(model, model.timeline->flagged)) {
+    warnings.push_back(FlaggedWarning(*product, model.burden->on));
+  }
   for (const std::string& ingredient : model.burden->dbi_incomplete) {
+    const auto& no_minimum = model.burden->dbi_no_minimum;
+    if (std::find(no_minimum.begin(), no_minimum.end(), ingredient) != no_minimum.end()) {
+      warnings.push_back(ingredient + " is in a class the Drug Burden Index counts, but the table gives it no "
+                         "minimum daily dose, so it adds nothing: the DBI is incomplete.");
+      continue;
+    }
     warnings.push_back("The daily dose of " + ingredient +
                        " is not known (no strength), so it adds nothing to the Drug Burden Index.");
   }
@@ -106,23 +207,39 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
   }
   for (const Row& row : Rows(model)) {
     if (row.latest->supply.rule == SupplyRule::kDefaultDays) {
+      const std::string& why = row.latest->supply.note;
       warnings.push_back("The days of supply of " + DisplayName(*row.medicine) + " were assumed (" +
-                         std::to_string(row.latest->supply.days) +
-                         " days): the record gave no days supply and the dosage was not understood.");
+                         std::to_string(row.latest->supply.days) + " days): the record gave no days supply and " +
+                         (why.empty() ? std::string("the dosage was not understood.")
+                                      : "the dosage gave no amount a day in the quantity's unit (" + why + ")."));
+    }
+  }
+  for (const Row& row : Rows(model)) {
+    if (RouteNotStated(*row.active)) {
+      warnings.push_back("The route of " + DisplayName(*row.medicine) +
+                         " was not stated (no form in the product description): it is counted as systemic.");
     }
   }
   if (model.burden->age_unknown_for_rules) {
-    warnings.push_back("The patient's age is not known, so rules with an age limit were not checked.");
+    warnings.push_back("The patient's age is not known, so a rule with a minimum age (criteria for older people) that these medicines meet was not applied.");
   }
   if (!model.registered) warnings.push_back("The patient has no row in the registry.");
+  if (const std::string note = NotCountedNote(model); !note.empty()) {
+    std::string sentence = note + ".";
+    sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+    warnings.push_back(std::move(sentence));
+  }
   return warnings;
 }
 
 nlohmann::json MedsJson(const MedsModel& model) {
   const Burden& burden = *model.burden;
+  const std::vector<RouteNote> notes = Notes(model);
   nlohmann::json medicines = nlohmann::json::array();
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
+    std::vector<std::string> routes;
+    for (const Route route : row.active->routes.Routes()) routes.emplace_back(RouteName(route));
     medicines.push_back({{"name", DisplayName(*row.medicine)},
                          {"ingredients", row.medicine->ingredients},
                          {"since", row.active->since.ToIso()},
@@ -134,6 +251,8 @@ nlohmann::json MedsJson(const MedsModel& model) {
                          {"classes", ClassesOf(model, *row.medicine)},
                          {"product", ProductText(model, use)},
                          {"route", RouteName(use.route)},
+                         {"routes", routes},
+                         {"not_counted", NotesOf(notes, *row.active, model)},
                          {"last_dispensed", use.dispensed_on.ToIso()},
                          {"quantity", use.quantity},
                          {"supply_days", use.supply.days},
@@ -141,7 +260,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
                                                                     : nlohmann::json(nullptr)},
                          {"supply_rule", SupplyRuleName(use.supply.rule)},
                          {"dosage", DosageText(model, use)},
-                         {"dosage_read", DosageRead(use.dosage)},
+                         {"dosage_read", DosageRead(model, use)},
                          {"as_needed", use.dosage.as_needed}});
   }
   nlohmann::json rules = nlohmann::json::array();
@@ -149,7 +268,7 @@ nlohmann::json MedsJson(const MedsModel& model) {
     rules.push_back({{"id", fired.rule->id},
                      {"title", fired.rule->title},
                      {"explanation", fired.rule->explanation},
-                     {"source", fired.rule->source},
+                     {"source", RuleSourceText(*fired.rule)},
                      {"medicines", RuleMedicines(model, fired)}});
   }
   nlohmann::json contributions = nlohmann::json::array();
@@ -175,16 +294,18 @@ nlohmann::json MedsJson(const MedsModel& model) {
           {"age", age}, {"items", burden.items}, {"acb", burden.acb}, {"scale", model.tables->scale},
           {"dbi", burden.dbi}, {"medicines", medicines}, {"rules", rules},
           {"score_contributions", contributions}, {"dbi_contributions", dbi},
-          {"dbi_incomplete", burden.dbi_incomplete}, {"unmatched", unmatched},
+          {"dbi_incomplete", burden.dbi_incomplete}, {"dbi_no_minimum", burden.dbi_no_minimum},
+          {"unmatched", unmatched}, {"unmatched_in_part", RecentFlagged(model, MatchKind::kPartial)},
+          {"approximate", RecentFlagged(model, MatchKind::kApproximate)}, {"not_counted", model.not_counted},
           {"measure", MeasureName(model.options.measure)}, {"data", std::string(DataStateName(model.data))},
-          {"warnings", MedsWarnings(model)},
+          {"systemic_routes", RouteListText(model.tables->systemic_routes, ",")}, {"warnings", MedsWarnings(model)},
           {"caution", std::string(kCaution)}};
 }
 
 namespace {
 
 std::vector<std::string> Header(const std::string& scale_label) {
-  return {"medicine", "since", "until", "last dispensed", "supply", "dosage read", scale_label, "DBI"};
+  return {"medicine", "route", "since", "until", "last dispensed", "supply", "dosage read", scale_label, "DBI"};
 }
 
 // The episode's last counted day, marked when the date falls in the tail.
@@ -209,10 +330,11 @@ std::vector<std::vector<std::string>> TableRows(const MedsModel& model) {
   std::vector<std::vector<std::string>> rows;
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
-    rows.push_back({DisplayName(*row.medicine), row.active->since.ToIso(), UntilText(*row.active),
+    rows.push_back({DisplayName(*row.medicine), RoutesShown(*row.active), row.active->since.ToIso(),
+                    UntilText(*row.active),
                     use.dispensed_on.ToIso(),
                     std::to_string(use.supply.days) + " d (" + std::string(SupplyRuleName(use.supply.rule)) + ")",
-                    DosageRead(use.dosage), std::to_string(row.active->score), FormatNumber(row.active->dbi, 2)});
+                    DosageRead(model, use), std::to_string(row.active->score), FormatNumber(row.active->dbi, 2)});
   }
   return rows;
 }
@@ -248,10 +370,17 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
         << FormatNumber(c.min_daily_dose_mg, 2) << " mg -> " << FormatNumber(c.value, 3) << " ("
         << DoseBasisName(c.basis) << ")" << DoseBasisMark(c) << "\n";
   }
+  const std::vector<RouteNote> notes = Notes(model);
+  if (!notes.empty()) out << "\nNot counted because of the route:\n";
+  for (const RouteNote& note : notes) {
+    out << "- " << DisplayName(model.timeline->medicines[b.active[note.active].medicine]) << ": " << note.text
+        << "\n";
+  }
+  out << SystemicRoutesSentence(model) << "\n";
   for (const FiredRule& fired : b.rules) {
     out << "\nRule " << fired.rule->id << ": " << fired.rule->title << "\n  medicines: "
         << Join(RuleMedicines(model, fired), ", ") << "\n  " << fired.rule->explanation
-        << "\n  source: " << fired.rule->source << "\n";
+        << "\n  source: " << RuleSourceText(*fired.rule) << "\n";
   }
   const auto warnings = MedsWarnings(model);
   if (!warnings.empty()) out << "\nWarnings:\n";
@@ -262,16 +391,22 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
   if (model.data_note) WriteCsvComment(out, "note: " + *model.data_note);
+  if (const std::string note = NotCountedNote(model); !note.empty()) WriteCsvComment(out, "note: " + note);
+  WriteCsvComment(out, SystemicRoutesSentence(model));
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
-                 "product", "supply_days", "supply_rule", "dosage", "dosage_read", "score", "dbi", "classes"});
+                 "product", "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi",
+                 "classes", "not_counted"});
+  const std::vector<RouteNote> notes = Notes(model);
   for (const Row& row : Rows(model)) {
     const DispensingUse& use = *row.latest;
     out << CsvRow({model.patient, model.burden->on.ToIso(), DisplayName(*row.medicine),
                    Join(row.medicine->ingredients, "|"), row.active->since.ToIso(), row.active->until.ToIso(),
-                   row.active->in_tail ? "yes" : "no", use.dispensed_on.ToIso(), ProductText(model, use), std::to_string(use.supply.days),
-                   std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(use.dosage),
+                   row.active->in_tail ? "yes" : "no", use.dispensed_on.ToIso(), ProductText(model, use),
+                   RoutesShown(*row.active), std::to_string(use.supply.days),
+                   std::string(SupplyRuleName(use.supply.rule)), DosageText(model, use), DosageRead(model, use),
+                   model.tables->scale,
                    std::to_string(row.active->score), FormatNumber(row.active->dbi, 4),
-                   Join(ClassesOf(model, *row.medicine), "|")});
+                   Join(ClassesOf(model, *row.medicine), "|"), Join(NotesOf(notes, *row.active, model), "; ")});
   }
 }
 
@@ -280,6 +415,14 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
   WriteHtmlStart(out, "Medicines of patient " + model.patient + " on " + b.on.ToIso());
   out << "<p><strong>" << EscapeHtml(Totals(model)) << "</strong></p>\n";
   WriteHtmlTable(out, Header(ScaleLabel(model)), TableRows(model));
+  const std::vector<RouteNote> notes = Notes(model);
+  if (!notes.empty()) out << "<h2>Not counted because of the route</h2>\n<ul>\n";
+  for (const RouteNote& note : notes) {
+    out << "<li>" << EscapeHtml(DisplayName(model.timeline->medicines[b.active[note.active].medicine])) << ": "
+        << EscapeHtml(note.text) << "</li>\n";
+  }
+  if (!notes.empty()) out << "</ul>\n";
+  out << "<p class=\"note\">" << EscapeHtml(SystemicRoutesSentence(model)) << "</p>\n";
   if (!b.dbi_contributions.empty()) out << "<h2>Drug Burden Index</h2>\n<ul>\n";
   for (const auto& c : b.dbi_contributions) {
     out << "<li>" << EscapeHtml(c.ingredient) << ": " << EscapeHtml(DbiWorking(model, c)) << ", minimum "
@@ -292,7 +435,7 @@ void WriteMedsHtml(std::ostream& out, const MedsModel& model) {
     out << "<li><strong>" << EscapeHtml(fired.rule->title) << "</strong> (" << EscapeHtml(fired.rule->id)
         << "): " << EscapeHtml(Join(RuleMedicines(model, fired), ", ")) << ". "
         << EscapeHtml(fired.rule->explanation) << " <span class=\"note\">Source: "
-        << EscapeHtml(fired.rule->source) << "</span></li>\n";
+        << EscapeHtml(RuleSourceText(*fired.rule)) << "</span></li>\n";
   }
   if (!b.rules.empty()) out << "</ul>\n";
   const auto warnings = MedsWarnings(model);

@@ -65,7 +65,7 @@ void RunContext::SaveResolutions() {
 }
 
 std::string RunContext::ResolutionKey() const {
-  return formulary_->checksum() + " medload " MEDLOAD_VERSION;
+  return formulary_->checksum() + " medload " MEDLOAD_VERSION " resolver " + std::to_string(kResolverVersion);
 }
 
 Timeline RunContext::BuildTimeline(std::span<const DispensingRecord> records) {

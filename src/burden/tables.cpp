@@ -24,11 +24,44 @@ const DbiEntry* BurdenTables::Dbi(const std::string& ingredient) const {
   return it == dbi.end() ? nullptr : &it->second;
 }
 
+bool BurdenTables::InDbiClass(const std::string& ingredient) const {
+  return std::any_of(dbi_classes.begin(), dbi_classes.end(),
+                     [&](const std::string& name) { return HasClass(ingredient, name); });
+}
+
 const Rule* BurdenTables::FindRule(const std::string& id) const {
   for (const Rule& rule : rules) {
     if (rule.id == id) return &rule;
   }
   return nullptr;
+}
+
+RouteSet BurdenTables::ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const {
+  const auto scale_it = scale_routes.find(scale_name);
+  if (scale_it == scale_routes.end()) return systemic_routes;
+  const auto it = scale_it->second.find(ingredient);
+  return it == scale_it->second.end() ? systemic_routes : it->second;
+}
+
+RouteSet BurdenTables::DbiRoutes(const std::string& ingredient) const {
+  const auto it = dbi_routes.find(ingredient);
+  return it == dbi_routes.end() ? systemic_routes : it->second;
+}
+
+RouteSet BurdenTables::RuleRoutes(const Rule& rule) const {
+  return rule.routes.empty() ? systemic_routes : RouteSet(rule.routes);
+}
+
+bool BurdenTables::CountsForScale(RouteSet routes, const std::string& ingredient) const {
+  return RoutesCount(routes, ScaleRoutes(ingredient, scale));
+}
+
+bool BurdenTables::CountsForDbi(RouteSet routes, const std::string& ingredient) const {
+  return RoutesCount(routes, DbiRoutes(ingredient));
+}
+
+bool BurdenTables::CountsForRule(RouteSet routes, const Rule& rule) const {
+  return RoutesCount(routes, RuleRoutes(rule));
 }
 
 BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& scale) {
@@ -39,12 +72,18 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
   }
   for (const Scale& table : formulary.tables().scales) {
     auto& scores = tables.scales[table.name];
-    for (const ScaleRow& row : table.rows) scores[row.ingredient] = row.score;
+    for (const ScaleRow& row : table.rows) {
+      scores[row.ingredient] = row.score;
+      if (!row.routes.empty()) tables.scale_routes[table.name][row.ingredient] = RouteSet(row.routes);
+    }
   }
   for (const DbiDose& row : formulary.tables().dbi) {
     tables.dbi[row.ingredient] = DbiEntry{row.min_daily_dose_mg, std::string(DbiEffectName(row.effect))};
+    if (!row.routes.empty()) tables.dbi_routes[row.ingredient] = RouteSet(row.routes);
   }
+  for (const DbiClass& row : formulary.tables().dbi_classes) tables.dbi_classes.push_back(row.class_name);
   tables.rules = formulary.rules();
+  tables.systemic_routes = RouteSet(formulary.SystemicRoutes());
   return tables;
 }
 

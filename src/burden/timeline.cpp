@@ -41,11 +41,22 @@ bool RouteExcluded(Route route, const MeasureOptions& options) {
          options.exclude_routes.end();
 }
 
-void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r) {
+void NoteUnmatched(std::map<std::string, UnmatchedProduct>& unmatched, const DispensingRecord& r,
+                   const ResolvedProduct& product) {
   UnmatchedProduct& entry = unmatched[r.product + '\x1f' + r.code];
   entry.product = r.product;
   entry.code = r.code;
+  entry.match = product.match;
+  entry.detail = product.flagged() ? FlagDescription(product) : product.match_detail;
   entry.dispensed.push_back(r.dispensed_on);
+}
+
+// Moves the noted products into `into`, by product text, each with its dispensings in date order.
+void MoveNoted(std::map<std::string, UnmatchedProduct>& noted, std::vector<UnmatchedProduct>& into) {
+  for (auto& [key, entry] : noted) {
+    std::sort(entry.dispensed.begin(), entry.dispensed.end());
+    into.push_back(std::move(entry));
+  }
 }
 
 // The groups a product's ingredients count as: one medicine, or one per ingredient.
@@ -113,7 +124,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
                        const MeasureOptions& options, DosageTextCache* dosages) {
   Timeline timeline;
   std::map<std::string, Medicine> medicines;
-  std::map<std::string, UnmatchedProduct> unmatched;
+  std::map<std::string, UnmatchedProduct> unmatched, flagged;
   std::vector<ProductGroups> product_groups;
   for (size_t i = 0; i < records.size(); ++i) {
     const DispensingRecord& record = records[i];
@@ -123,9 +134,10 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     }
     const ResolvedProduct& product = resolve(record);
     if (!product.matched()) {
-      NoteUnmatched(unmatched, record);
+      NoteUnmatched(unmatched, record, product);
       continue;
     }
+    if (product.flagged()) NoteUnmatched(flagged, record, product);  // counts, and is said
     if (!product.is_medicine()) {
       ++timeline.non_medicine_items;
       continue;
@@ -135,7 +147,9 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       ++timeline.excluded_items;
       continue;
     }
-    QuantityUnit quantity_unit{record.unit.empty() ? product.dose_unit : record.unit, std::nullopt};
+    QuantityUnit quantity_unit{record.unit.empty() ? product.dose_unit : record.unit, std::nullopt,
+                               record.unit.empty(), record.product, product.form,
+                               product.ingredients.size()};
     if (product.ingredients.size() == 1) quantity_unit.mg_per_unit = product.ingredients[0].mg_per_unit;
     const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,
                                         ProductDefaultSupplyDays(product, record.quantity), options.supply,
@@ -158,10 +172,8 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
     FinishMedicine(medicine, options);
     timeline.medicines.push_back(std::move(medicine));
   }
-  for (auto& [key, entry] : unmatched) {
-    std::sort(entry.dispensed.begin(), entry.dispensed.end());
-    timeline.unmatched.push_back(std::move(entry));
-  }
+  MoveNoted(unmatched, timeline.unmatched);
+  MoveNoted(flagged, timeline.flagged);
   return timeline;
 }
 

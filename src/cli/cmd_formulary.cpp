@@ -78,7 +78,7 @@ int LookupCommand(Context& context, const std::vector<std::string>& args) {
 
 // ---- formulary unmatched ----
 
-void WriteUnmatched(Context& context, const std::vector<ProductCount>& products, const std::string& checksum) {
+void WriteUnmatched(Context& context, const std::vector<UnresolvedProduct>& products, const std::string& checksum) {
   std::ostream& out = *context.out;
   switch (context.format) {
     case Format::kJson: out << JsonText(UnmatchedJson(products, checksum)) << "\n"; return;
@@ -103,7 +103,7 @@ int UnmatchedCommand(Context& context, const std::vector<std::string>& args) {
   if (!store.ok()) return Fail(context, store.status());
   auto counts = store->ProductCounts();
   if (!counts.ok()) return Fail(context, counts.status());
-  const std::vector<ProductCount> unmatched = UnmatchedProducts(*formulary, *counts, static_cast<size_t>(limit));
+  const std::vector<UnresolvedProduct> unmatched = UnmatchedProducts(*formulary, *counts, static_cast<size_t>(limit));
   WriteUnmatched(context, unmatched, formulary->checksum());
   return 0;
 }

@@ -1,15 +1,22 @@
 // `medload import dispensing|patients|practices|reviews FILE...`: loads files into the
 // store, one transaction per file, and prints how many rows were read, imported,
-// duplicates and rejected (docs/input-formats.md).
+// duplicates and rejected (docs/input-formats.md), and how many stored dispensings have
+// a product the formulary does not fully recognise.
 #include <charconv>
 #include <cmath>
 #include <fstream>
+#include <map>
+#include <memory>
 #include <ostream>
 #include <set>
 #include <sys/stat.h>
+#include <unordered_map>
 
 #include "cli/options.h"
 #include "medload/format/private_file.h"
+#include "medload/formulary/formulary.h"
+#include "medload/formulary/resolver.h"
+#include "medload/input/fhir_reader.h"
 #include "medload/store/import_summary.h"
 #include "medload/store/importer.h"
 #include "medload/store/store.h"
@@ -82,11 +89,54 @@ void WriteSummary(Format format, const std::vector<ImportSummary>& summaries, st
   }
 }
 
+// Tallies, by match kind, the counting dispensings whose product the formulary does not
+// recognise, recognises only in part or reads from a close spelling; each distinct
+// product is resolved once.
+class ProductCheck {
+ public:
+  explicit ProductCheck(Formulary formulary) : formulary_(std::move(formulary)) {}
+
+  void Note(const DispensingRecord& record, std::map<std::string, long>& flags) {
+    if (!StatusCounts(record.status)) return;
+    key_.assign(record.product).append(1, '\x1f').append(record.code).append(1, '\x1f').append(record.code_system);
+    auto it = seen_.find(key_);
+    if (it == seen_.end()) {
+      const ResolvedProduct product = Resolve(formulary_, record.product, record.code, record.code_system);
+      it = seen_.emplace(key_, product.match).first;
+    }
+    const MatchKind match = it->second;
+    if (match == MatchKind::kUnmatched || match == MatchKind::kPartial || match == MatchKind::kApproximate) {
+      ++flags[std::string(MatchKindName(match))];
+    }
+  }
+
+ private:
+  Formulary formulary_;
+  std::unordered_map<std::string, MatchKind> seen_;
+  std::string key_;
+};
+
+// The product check of a dispensing import, or none (with a note) when the formulary
+// does not load: the import itself does not need it.
+std::unique_ptr<ProductCheck> OpenProductCheck(Context& context, InputKind kind) {
+  if (kind != InputKind::kDispensing) return nullptr;
+  auto formulary = LoadFormulary(context.formulary_dir);
+  if (!formulary.ok()) {
+    *context.err << "medload: products not checked: formulary " << context.formulary_dir
+                 << " does not load (medload formulary check lists its faults)\n";
+    return nullptr;
+  }
+  return std::make_unique<ProductCheck>(std::move(formulary).value());
+}
+
 // Imports the files one by one; a file that fails does not stop the others.
 int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<std::string>& files,
               ImportOptions& options) {
   std::vector<ImportSummary> summaries;
   int exit_code = 0;
+  const std::unique_ptr<ProductCheck> check = OpenProductCheck(context, kind);
+  std::map<std::string, long> flags;  // the current file's
+  if (check) options.stored_dispensing = [&](const DispensingRecord& record) { check->Note(record, flags); };
   for (const std::string& file : files) {
     if (!context.quiet) {
       options.progress_every = kProgressEvery;
@@ -94,12 +144,14 @@ int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<
         *context.err << "medload: " << file << ": " << rows << " rows read\n";
       };
     }
+    flags.clear();
     Result<ImportSummary> summary = ImportFile(store, kind, file, options);
     if (!summary.ok()) {
       Fail(context, summary.status());
       exit_code = kExitInput;
       continue;
     }
+    if (!summary->rolled_back) summary->product_flags = flags;  // a rolled-back file stored nothing
     if (summary->rolled_back) {
       *context.err << "medload: " << RollbackMessage(*summary) << "\n";
       if (exit_code == 0) exit_code = kExitRejected;

@@ -36,9 +36,16 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   auto registry = store->PatientOf(patient);
   if (!registry.ok()) return fail(registry.status());
   if (records->empty() && !registry->has_value()) {
-    return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
+    // A patient whose every dispensing has a status that does not count is still known.
+    auto all = store->AllDispensingsOf(patient);
+    if (!all.ok()) return fail(all.status());
+    if (all->empty()) {
+      return fail(Status::Input("patient \"" + patient + "\" is not in the store " + context.db_path));
+    }
   }
 
+  auto not_counted = store->NotCountingOf(patient, *on);
+  if (!not_counted.ok()) return fail(not_counted.status());
   // The practice whose data coverage applies: the registry's, else the one named by the
   // latest dispensing on or before the date (nothing later: the point-in-time rule).
   std::string practice = registry->has_value() ? (*registry)->practice : "";
@@ -72,6 +79,7 @@ int RunMeds(Context& context, const std::vector<std::string>& args) {
   model.records = *records;
   model.options = *measure;
   model.data_note = data_note;
+  model.not_counted = std::move(not_counted.value());
   switch (context.format) {
     case Format::kJson: *context.out << JsonText(MedsJson(model)) << "\n"; break;
     case Format::kCsv: WriteMedsCsv(*context.out, model); break;

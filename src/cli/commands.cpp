@@ -18,6 +18,8 @@ int RunDemo(Context& context, const std::vector<std::string>& args);
 int RunFormularyCheck(Context& context, const std::vector<std::string>& args);
 int RunFormularyLookup(Context& context, const std::vector<std::string>& args);
 int RunFormularyUnmatched(Context& context, const std::vector<std::string>& args);
+int RunFormularyLoadDictionary(Context& context, const std::vector<std::string>& args);
+int RunFormularyRules(Context& context, const std::vector<std::string>& args);
 
 const std::vector<Command>& Commands() {
   static const std::vector<Command> kCommands = {
@@ -33,6 +35,10 @@ const std::vector<Command>& Commands() {
       {"formulary check", "validate the formulary tables; every fault as file:line: fault", RunFormularyCheck},
       {"formulary lookup", "show how a product description or code resolves", RunFormularyLookup},
       {"formulary unmatched", "stored products that nothing in the formulary recognises", RunFormularyUnmatched},
+      {"formulary load-dictionary", "read a dm+d or RxNorm release (or a CSV list) into a formulary's dictionary.csv",
+       RunFormularyLoadDictionary},
+      {"formulary rules", "the combination rules: classes, routes, minimum age and source of each",
+       RunFormularyRules},
       {"report", "the batch report of a care network into a folder (--config, --out)", RunReportCommand},
       {"demo", "the bundled invented network: worklist, cohort table and report into a folder", RunDemo},
       {"synth", "write a synthetic, deterministic data set (invented network)", RunSynth},

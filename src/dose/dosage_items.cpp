@@ -6,35 +6,11 @@
 #include <optional>
 
 #include "dose/dosage_phrases.h"
+#include "dose/dosage_words.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
 namespace {
-
-struct NumberWord {
-  std::string_view word;
-  double value;
-};
-
-constexpr std::array kNumberWords = {
-    NumberWord{"one", 1},       NumberWord{"two", 2},        NumberWord{"three", 3},
-    NumberWord{"four", 4},      NumberWord{"five", 5},       NumberWord{"six", 6},
-    NumberWord{"seven", 7},     NumberWord{"eight", 8},      NumberWord{"nine", 9},
-    NumberWord{"ten", 10},      NumberWord{"eleven", 11},    NumberWord{"twelve", 12},
-    NumberWord{"thirteen", 13}, NumberWord{"fourteen", 14},  NumberWord{"fifteen", 15},
-    NumberWord{"sixteen", 16},  NumberWord{"seventeen", 17}, NumberWord{"eighteen", 18},
-    NumberWord{"nineteen", 19}, NumberWord{"twenty", 20},    NumberWord{"thirty", 30},
-    NumberWord{"forty", 40},    NumberWord{"fifty", 50},     NumberWord{"sixty", 60},
-    NumberWord{"seventy", 70},  NumberWord{"eighty", 80},    NumberWord{"ninety", 90},
-    NumberWord{"half", 0.5},    NumberWord{"quarter", 0.25},
-};
-
-std::optional<double> NumberWordValue(std::string_view word) {
-  for (const NumberWord& entry : kNumberWords) {
-    if (entry.word == word) return entry.value;
-  }
-  return std::nullopt;
-}
 
 bool IsWhole(double value) { return value == std::floor(value); }
 
@@ -48,22 +24,6 @@ struct Range {
   double high = 0;
   size_t next = 0;
 };
-
-// Units of time after "every", "in", "q" and before "hourly"; in days.
-std::optional<double> TimeUnitDays(std::string_view word) {
-  if (word == "hour" || word == "hours" || word == "hr" || word == "hrs" || word == "h") {
-    return 1.0 / 24;
-  }
-  if (word == "minute" || word == "minutes" || word == "min" || word == "mins") {
-    return 1.0 / 1440;
-  }
-  if (word == "day" || word == "days") return 1.0;
-  if (word == "week" || word == "weeks" || word == "wk" || word == "wks") return 7.0;
-  if (word == "fortnight" || word == "fortnights") return 14.0;
-  if (word == "month" || word == "months") return 30.0;
-  if (word == "year" || word == "years") return 365.0;
-  return std::nullopt;
-}
 
 class Recogniser {
  public:
@@ -112,6 +72,8 @@ class Recogniser {
     } else if (Word(k, "a") || Word(k, "an")) {
       const auto value = NumberWordValue(Text(k + 1));
       if (value && *value < 1) number = Number{*value, k + 2};
+    } else if (const auto roman = RomanValue(k)) {
+      number = Number{*roman, k + 1};
     } else if (const auto value = NumberWordValue(Text(k))) {
       number = Number{*value, k + 1};
       const auto ones = NumberWordValue(Text(k + 1));
@@ -119,6 +81,16 @@ class Recogniser {
     }
     if (!number) return std::nullopt;
     return WithHalf(*number);
+  }
+
+  // "i", "ii", "iii" before a unit or "po": a count written in Roman numerals (common
+  // practice in US prescriptions: "ii tabs po bid"). "iv" is a route, never a number.
+  std::optional<double> RomanValue(size_t k) const {
+    if (k >= t_.size() || t_[k].kind != TokenKind::kWord) return std::nullopt;
+    const std::string_view word = t_[k].text;
+    if (word != "i" && word != "ii" && word != "iii") return std::nullopt;
+    if (!UnitAt(k + 1) && !Word(k + 1, "po")) return std::nullopt;
+    return static_cast<double>(word.size());
   }
 
   // "n/d" with d in 2..4 and n < d: a fraction of a dose unit (not "5/7", a duration).
@@ -164,11 +136,35 @@ class Recogniser {
                       std::max(first->value, second->value), second->next};
       }
     }
-    if (Word(range.next, "x") && IsNumber(range.next + 1) && UnitAt(range.next + 2)) {
+    if (Word(range.next, "x") && IsNumber(range.next + 1) && UnitAt(range.next + 2) &&
+        !FormAfterMass(range.next + 2)) {
       const double times = t_[range.next + 1].number;
       range = Range{range.low * times, range.high * times, range.next + 2};
     }
     return range;
+  }
+
+  // A mass unit at k followed by a dose-form unit: "500mg tablets" names a strength.
+  bool FormAfterMass(size_t k) const {
+    if (!IsMass(k)) return false;
+    const auto form = UnitOf(k + 1);
+    return form && form->name != "mg" && form->name != "ml" && form->name != "unit";
+  }
+
+  std::optional<DoseUnit> UnitOf(size_t k) const {
+    if (k >= t_.size() || t_[k].kind != TokenKind::kWord) return std::nullopt;
+    return ReadDoseUnit(t_[k].text);
+  }
+
+  // A mass unit word at k ("mg", "g", "micrograms"): only these can name a strength.
+  bool IsMass(size_t k) const {
+    // Every mass unit word starts with m, g or u (mg, mcg, microgram, g, gram, ug): a
+    // cheap test first, since this runs after every amount.
+    if (k >= t_.size() || t_[k].text.empty()) return false;
+    const char first = t_[k].text.front();
+    if (first != 'm' && first != 'g' && first != 'u') return false;
+    const auto unit = UnitOf(k);
+    return unit && unit->name == "mg";
   }
 
   bool IsLink(size_t k) const { return Word(k, "-") || Word(k, "to") || Word(k, "or"); }
@@ -178,8 +174,11 @@ class Recogniser {
   }
 
   void Step() {
+    if (Word(i_, "(")) ++depth_;
+    if (Word(i_, ")") && depth_ > 0) --depth_;
     if (MatchClockTime() || MatchSpoon() || MatchEvery() || MatchQHours() || MatchHourly() ||
-        MatchCount() || MatchPerTime() || MatchDuration() || MatchDayNumber() || MatchAmount() ||
+        MatchCount() || MatchPerTime() || MatchDuration() || MatchDayNumber() ||
+        MatchWeekLabel() || MatchAmount() ||
         MatchArticle() ||
         MatchOnAtNight() || MatchPhrase() || MatchUnit()) {
       return;
@@ -245,12 +244,13 @@ class Recogniser {
     return true;
   }
 
-  // "4 hourly", "4-6 hourly".
+  // "4 hourly", "4-6 hourly", "6-hourly".
   bool MatchHourly() {
     const auto range = RangeAt(i_);
     if (!range || !(range->low > 0)) return false;
-    if (!Word(range->next, "hourly") && !Word(range->next, "hrly")) return false;
-    Emit(ItemKind::kPeriod, range->next + 1, range->low / 24);
+    const size_t next = Word(range->next, "-") ? range->next + 1 : range->next;  // "6-hourly"
+    if (!Word(next, "hourly") && !Word(next, "hrly")) return false;
+    Emit(ItemKind::kPeriod, next + 1, range->low / 24);
     return true;
   }
 
@@ -258,7 +258,10 @@ class Recogniser {
   bool MatchCount() {
     if (Word(i_, "x")) {
       const auto range = RangeAt(i_ + 1);
-      if (!range || UnitAt(range->next) || TimeUnitDays(Text(range->next))) return false;
+      if (!range || UnitAt(range->next) || TimeUnitDays(Text(range->next)) ||
+          Word(range->next, "/")) {  // "x 28/7" is a duration
+        return false;
+      }
       Emit(ItemKind::kCount, range->next, range->high);
       return true;
     }
@@ -267,6 +270,11 @@ class Recogniser {
     const size_t next = range->next;
     if (!Word(next, "times") && !Word(next, "time") && !Word(next, "x")) return false;
     if (Word(next, "x") && (IsNumber(next + 1) || NumberAt(next + 1))) return false;
+    // "1 x bd", "2 x tds": the number is the dose and "x" joins it to the frequency.
+    if (Word(next, "x")) {
+      const auto phrase = MatchDosagePhrase(t_, next + 1);
+      if (phrase && phrase->item.kind == ItemKind::kFrequency) return false;
+    }
     Emit(ItemKind::kCount, next + 1, range->high);
     return true;
   }
@@ -289,44 +297,103 @@ class Recogniser {
     return true;
   }
 
-  // "for 7 days", "for a week", "x 5 days", "14 days", "5/7", "for 2/52": a duration.
-  // Runs after the "every", "q", "hourly", count and "in 24 hours" matchers.
+  // "for 7 days", "for a week", "x 5 days", "14 days", "5/7", "for 2/52": how long the
+  // doses are taken (kDuration, in days, the upper value of a range). Runs after the
+  // "every", "q", "hourly", count and "in 24 hours" matchers.
   bool MatchDuration() {
     size_t k = i_;
-    if (Word(k, "for") || Word(k, "x")) ++k;
+    const bool after = Word(k, "after");
+    if (Word(k, "for") || Word(k, "x") || after) ++k;
     if (IsNumber(k) && Word(k + 1, "/") && IsNumber(k + 2)) {
       const double unit = t_[k + 2].number;
-      if (unit == 7 || unit == 52 || unit == 12) {
-        Emit(ItemKind::kFiller, k + 3);
+      const double days = unit == 7 ? 1 : unit == 52 ? 7 : unit == 12 ? 30 : 0;
+      if (days > 0) {
+        EmitDuration(t_[k].number * days, k + 3);
         return true;
       }
     }
     size_t next = k;
+    double amount = 1;
     if (k > i_ && (Word(k, "a") || Word(k, "an"))) {
       next = k + 1;
     } else if (const auto range = RangeAt(k)) {
       next = range->next;
+      amount = range->high;
     } else {
       return false;
     }
-    // "2 hours before bed", "30 minutes before food" are offsets, not doses: also fillers.
-    if (!TimeUnitDays(Text(next))) return false;
-    Emit(ItemKind::kFiller, next + 1);
+    const auto days = TimeUnitDays(Text(next));
+    if (!days) return false;
+    // "2 hours before bed", "30 minutes before food" are offsets, not doses: fillers.
+    const bool offset = Word(next + 1, "before") || Word(next + 1, "after") ||
+                        Word(next + 1, "apart");
+    if (*days < 1 || (k == i_ && offset)) {
+      Emit(ItemKind::kFiller, next + 1);
+    } else if (after) {
+      Emit(ItemKind::kStartAfter, next + 1, amount * *days);  // "increase after one week"
+    } else {
+      EmitDuration(amount * *days, next + 1);
+    }
     return true;
   }
 
-  // "on day 1", "days 1-3", "day one": which day of a course, not an amount.
+  // A labelled stage of `days`: a dose under the label without a timing is daily.
+  void EmitStage(double days, size_t next) {
+    Item item{ItemKind::kStageMark, days, 0, {}, {}, false};
+    item.daily = true;
+    items_.push_back(std::move(item));
+    i_ = next;
+  }
+
+  void EmitDuration(double days, size_t next) {
+    if (days >= 1 && days <= kMaxDosageAmount) {
+      Emit(ItemKind::kDuration, next, days);
+    } else {
+      Emit(ItemKind::kFiller, next);
+    }
+  }
+
+  // "on day 1", "day one": a dose on the first day (kOneDay); "days 2-5": for 4 days;
+  // another day number only says which day of a course.
   bool MatchDayNumber() {
     if (!Word(i_, "day") && !Word(i_, "days")) return false;
     const auto range = RangeAt(i_ + 1);
     if (!range) return false;
-    Emit(ItemKind::kFiller, range->next);
+    if (range->low == 1 && range->high == 1) {
+      Emit(ItemKind::kOneDay, range->next);
+    } else if (range->high >= range->low && IsWhole(range->low) && IsWhole(range->high) &&
+               range->high - range->low < kMaxDosageAmount) {
+      EmitStage(range->high - range->low + 1, range->next);
+    } else {
+      Emit(ItemKind::kFiller, range->next);
+    }
+    return true;
+  }
+
+  // "week 1", "week 2:", "weeks 3-4": a stage of a titration written week by week.
+  bool MatchWeekLabel() {
+    if (!Word(i_, "week") && !Word(i_, "weeks")) return false;
+    const auto range = RangeAt(i_ + 1);
+    if (!range || !IsWhole(range->low) || !IsWhole(range->high) || range->low < 1 ||
+        range->high - range->low >= 520) {
+      return false;
+    }
+    EmitStage((range->high - range->low + 1) * 7, range->next);
     return true;
   }
 
   bool MatchAmount() {
     const auto range = RangeAt(i_);
     if (!range) return false;
+    if (const auto end = StrengthEnd(range->next)) {
+      Emit(ItemKind::kFiller, *end);  // a strength: read and left out of the dose
+      return true;
+    }
+    if (depth_ > 0 && i_ >= 2 && Word(i_ - 1, "(") && UnitAt(i_ - 2)) {
+      // "10mg (1 tablet) daily": the same dose said again in brackets.
+      Emit(ItemKind::kFiller, UnitAt(range->next) ? range->next + 1 : range->next);
+      return true;
+    }
     if (range->high > kMaxDosageAmount) {
       // An amount that cannot be a dose, so the dose it belongs to is unusable.
       items_.push_back(Item{ItemKind::kUnknown, 0, 0, {}, std::string(Text(i_)), true});
@@ -335,6 +402,32 @@ class Recogniser {
     }
     Emit(ItemKind::kAmount, range->next, range->high);
     return true;
+  }
+
+  // When the amount ending before `unit` is a strength, not a dose: a mass in brackets
+  // ("1 tablet (500mg)"), before a dose form ("2 x 500mg tablets"), per a volume or dose
+  // ("10mg/5ml"), or before the dose itself ("Paracetamol 500mg - 2 tabs", "amlodipine
+  // 5mg one daily"). Returns where the strength ends; nullopt when it is a dose.
+  std::optional<size_t> StrengthEnd(size_t unit) const {
+    if (!IsMass(unit)) return std::nullopt;
+    if (depth_ > 0 || FormAfterMass(unit)) return unit + 1;
+    if (Word(unit + 1, "/")) {
+      size_t end = unit + 2;
+      if (IsNumber(end)) ++end;
+      return UnitAt(end) ? end + 1 : unit + 2;
+    }
+    size_t k = unit + 1;
+    if (Word(k, "-") || Word(k, ":") || Word(k, ",")) ++k;
+    const auto dose = RangeAt(k);
+    if (!dose) return std::nullopt;
+    static constexpr std::array<std::string_view, 8> kCountWords = {
+        "times", "time", "x", "hourly", "hrly", "-", "/", "to"};
+    const std::string_view after = Text(dose->next);
+    if (std::find(kCountWords.begin(), kCountWords.end(), after) != kCountWords.end() ||
+        TimeUnitDays(after) || IsMass(dose->next)) {
+      return std::nullopt;
+    }
+    return unit + 1;
   }
 
   // "a tablet", "an application": one.
@@ -375,6 +468,7 @@ class Recogniser {
 
   const std::vector<Token>& t_;
   size_t i_ = 0;
+  int depth_ = 0;  // open brackets before i_
   std::vector<Item> items_;
 };
 

@@ -26,6 +26,13 @@ enum class ItemKind {
   kAsDirected,  // "as directed", "as per instructions", ...
   kSeparator,   // "and", ",", ";", "."
   kThen,        // "then", "followed by": the next doses replace these (a changing dose)
+  kDuration,    // value: how long these doses are taken, in days ("for 7 days", "5/7")
+  kOneDay,      // "stat", "immediately", "on the first day", "day 1": a dose on one day
+  kStop,        // "then stop", "and stop": nothing is taken after the doses before it
+  kVariable,    // "reduce by", "taper", "wean": the dose changes by a rule not written out
+  kNegation,    // "not", "do not", "remove": the rest of the clause adds no dose
+  kStageMark,   // "week 2", "days 2-5": a stage of value days (daily: its doses are daily)
+  kStartAfter,  // "after one week": the stage before lasts value days
   kEachSide,    // "each eye", "both nostrils": value 2 administrations per dose
   kUnitHint,    // a verb that implies a unit ("apply" -> application); unit set
   kFiller,      // understood and without effect ("take", "by mouth", "for 7 days")
@@ -39,6 +46,8 @@ struct Item {
   std::string_view unit = {};  // static storage
   std::string text = {};       // the word, for kUnknown
   bool unusable_amount = false;  // kUnknown: a number too large for a dose (the dose is unusable)
+  bool as_needed = false;        // kMaximum: "up to" also makes the dose as needed
+  bool daily = false;            // kStageMark: a dose under the label without a timing is daily
 };
 
 // Amounts above this are not doses (hostile or mistyped numbers): read as unknown.

@@ -1,6 +1,7 @@
 #include "dose/dosage_phrases.h"
 
 #include <map>
+#include <set>
 #include <string>
 
 namespace medload {
@@ -12,6 +13,7 @@ struct Phrase {
   double value = 0;
   double period_days = 0;  // kFrequency: the days its administrations are spread over
   std::string_view unit = {};
+  bool as_needed = false;  // kMaximum: also makes the dose as needed
 };
 
 using K = ItemKind;
@@ -37,7 +39,9 @@ constexpr Phrase kPhrases[] = {
     {"max dose", K::kMaximum}, {"maximum dose", K::kMaximum},
     {"max daily dose", K::kMaximum, 1}, {"maximum daily dose", K::kMaximum, 1},
     {"max daily", K::kMaximum, 1}, {"maximum daily", K::kMaximum, 1},
-    {"mdd", K::kMaximum, 1}, {"up to", K::kMaximum}, {"no more than", K::kMaximum},
+    {"mdd", K::kMaximum, 1}, {"no more than", K::kMaximum},
+    // "up to" leaves the number of doses to the patient: as needed (common practice).
+    {"up to", K::kMaximum, 0, 0, {}, true},
     {"not more than", K::kMaximum}, {"not to exceed", K::kMaximum},
     {"do not exceed", K::kMaximum}, {"not exceeding", K::kMaximum},
     {"at most", K::kMaximum}, {"do not take more than", K::kMaximum},
@@ -46,6 +50,8 @@ constexpr Phrase kPhrases[] = {
     {"as directed", K::kAsDirected}, {"as instructed", K::kAsDirected},
     {"as advised", K::kAsDirected}, {"as prescribed", K::kAsDirected},
     {"as per", K::kAsDirected}, {"per instructions", K::kAsDirected},
+    {"sliding scale", K::kAsDirected}, {"mdu", K::kAsDirected}, {"ut dict", K::kAsDirected},
+    {"ut dictum", K::kAsDirected},
     {"according to instructions", K::kAsDirected},
     {"according to the instructions", K::kAsDirected},
     // Abbreviated frequencies: administrations per period_days days.
@@ -53,7 +59,7 @@ constexpr Phrase kPhrases[] = {
     {"bd", K::kFrequency, 2, 1}, {"bid", K::kFrequency, 2, 1},
     {"tds", K::kFrequency, 3, 1}, {"tid", K::kFrequency, 3, 1},
     {"qds", K::kFrequency, 4, 1}, {"qid", K::kFrequency, 4, 1},
-    {"qod", K::kFrequency, 1, 2}, {"qh", K::kFrequency, 1, 1.0 / 24},
+    {"qod", K::kFrequency, 1, 2}, {"eod", K::kFrequency, 1, 2}, {"qh", K::kFrequency, 1, 1.0 / 24},
     {"qqh", K::kFrequency, 1, 4.0 / 24},
     // Counts.
     {"once", K::kCount, 1}, {"twice", K::kCount, 2}, {"thrice", K::kCount, 3},
@@ -67,7 +73,11 @@ constexpr Phrase kPhrases[] = {
     {"per hour", K::kPeriod, 1.0 / 24}, {"every other day", K::kPeriod, 2},
     {"every second day", K::kPeriod, 2}, {"every third day", K::kPeriod, 3},
     {"alternate days", K::kPeriod, 2}, {"alternate day", K::kPeriod, 2},
-    {"every alternate day", K::kPeriod, 2}, {"weekly", K::kPeriod, 7},
+    {"every alternate day", K::kPeriod, 2}, {"alternate", K::kPeriod, 2},
+    {"every other", K::kPeriod, 2}, {"alt die", K::kPeriod, 2}, {"alt dieb", K::kPeriod, 2},
+    {"alternis diebus", K::kPeriod, 2}, {"alt days", K::kPeriod, 2},
+    {"q day", K::kPeriod, 1}, {"q d", K::kPeriod, 1}, {"q week", K::kPeriod, 7},
+    {"q wk", K::kPeriod, 7}, {"weekly", K::kPeriod, 7},
     {"a week", K::kPeriod, 7}, {"per week", K::kPeriod, 7}, {"each week", K::kPeriod, 7},
     {"every week", K::kPeriod, 7}, {"/ week", K::kPeriod, 7},
     {"every other week", K::kPeriod, 14}, {"alternate weeks", K::kPeriod, 14},
@@ -96,14 +106,15 @@ constexpr Phrase kPhrases[] = {
     {"nightly", K::kEvent, kNight}, {"bedtime", K::kEvent, kNight},
     {"bed time", K::kEvent, kNight}, {"bed", K::kEvent, kNight},
     {"hs", K::kEvent, kNight}, {"qhs", K::kEvent, kNight},
-    {"retiring", K::kEvent, kNight},
+    {"retiring", K::kEvent, kNight}, {"q am", K::kEvent, kMorning},
+    {"q pm", K::kEvent, kEvening}, {"q hs", K::kEvent, kNight},
     // Meals.
     {"with meals", K::kMeals}, {"with each meal", K::kMeals},
     {"with every meal", K::kMeals}, {"with main meals", K::kMeals},
     {"with each main meal", K::kMeals}, {"before meals", K::kMeals},
     {"before each meal", K::kMeals}, {"after meals", K::kMeals},
     {"after each meal", K::kMeals}, {"at mealtimes", K::kMeals},
-    {"at meal times", K::kMeals},
+    {"at meal times", K::kMeals}, {"ac", K::kMeals}, {"pc", K::kMeals},
     // Days of the week.
     {"monday", K::kWeekday, 1}, {"mondays", K::kWeekday, 1}, {"mon", K::kWeekday, 1},
     {"tuesday", K::kWeekday, 2}, {"tuesdays", K::kWeekday, 2}, {"tue", K::kWeekday, 2},
@@ -118,20 +129,36 @@ constexpr Phrase kPhrases[] = {
     {"weekends", K::kWeekday, 96}, {"weekend", K::kWeekday, 96},
     {"except", K::kExceptDays}, {"except on", K::kExceptDays},
     {"excluding", K::kExceptDays}, {"not on", K::kExceptDays}, {"apart from", K::kExceptDays},
-    {"same day", K::kFiller}, {"first day", K::kFiller}, {"second day", K::kFiller}, {"once only", K::kFiller}, {"single dose", K::kFiller},
+    {"same day", K::kFiller}, {"second day", K::kFiller},
+    // A dose given on one day only: a loading dose, a single dose.
+    {"stat", K::kOneDay}, {"immediately", K::kOneDay}, {"at once", K::kOneDay},
+    {"now", K::kOneDay},
+    {"first day", K::kOneDay}, {"once only", K::kOneDay}, {"single dose", K::kOneDay},
     // Both sides.
     {"each eye", K::kEachSide, 2}, {"both eyes", K::kEachSide, 2},
     {"each nostril", K::kEachSide, 2}, {"both nostrils", K::kEachSide, 2},
     {"each ear", K::kEachSide, 2}, {"both ears", K::kEachSide, 2},
+    {"ou", K::kEachSide, 2}, {"au", K::kEachSide, 2},  // oculus / auris uterque
     // Separators and changes of dose.
     {"and", K::kSeparator}, {",", K::kSeparator}, {";", K::kSeparator},
+    {"(", K::kSeparator}, {")", K::kSeparator},
     {".", K::kSeparator}, {":", K::kSeparator}, {"&", K::kSeparator},
     {"+", K::kSeparator}, {"-", K::kSeparator}, {"plus", K::kSeparator},
     {"also", K::kSeparator}, {"then", K::kThen}, {"followed by", K::kThen},
     {"thereafter", K::kThen}, {"after that", K::kThen}, {"reducing to", K::kThen},
     {"reduce to", K::kThen}, {"increasing to", K::kThen}, {"increase to", K::kThen},
-    {"then stop", K::kFiller}, {"then review", K::kFiller}, {"and stop", K::kFiller},
+    {"then stop", K::kStop}, {"and stop", K::kStop}, {"then review", K::kFiller},
     {"and review", K::kFiller},
+    // A dose that changes by a rule the text does not write out.
+    {"reduce", K::kVariable}, {"reducing", K::kVariable}, {"decrease", K::kVariable},
+    {"decreasing", K::kVariable}, {"increase by", K::kVariable},
+    {"increasing by", K::kVariable}, {"taper", K::kVariable}, {"tapering", K::kVariable},
+    {"wean", K::kVariable}, {"weaning", K::kVariable},
+    // Negatives: the rest of the clause says when NOT to take a dose.
+    {"not", K::kNegation}, {"do not", K::kNegation}, {"don't", K::kNegation},
+    {"dont", K::kNegation}, {"never", K::kNegation}, {"avoid", K::kNegation},
+    {"must not", K::kNegation}, {"should not", K::kNegation}, {"remove", K::kNegation},
+    {"take off", K::kNegation}, {"wash off", K::kNegation},
     // Verbs that imply a unit.
     {"apply", K::kUnitHint, 0, 0, "application"}, {"inhale", K::kUnitHint, 0, 0, "puff"},
     {"instil", K::kUnitHint, 0, 0, "drop"}, {"instill", K::kUnitHint, 0, 0, "drop"},
@@ -160,10 +187,12 @@ constexpr std::string_view kFillers[] = {
     "headache", "diarrhoea", "spasm", "spasms", "cramps", "dry", "symptoms", "flare",
     "flares", "attack", "attacks", "dizziness", "inflammation", "swelling", "inhaled",
     "sprayed", "instilled", "inserted", "insert", "applied", "massage", "rub", "sprinkle",
-    "mix", "mixed", "dilute", "diluted", "immediately", "stat", "apart", "all", "change", "changed", "replace", "remove", "contents", "sl",
+    "mix", "mixed", "dilute", "diluted", "apart", "all", "change", "changed", "replace", "contents", "sl",
+    "po", "pr", "sig", "os", "x", "initially", "titrate", "titrated", "adjust", "lungs", "rectally",
+    "vaginally", "topically", "new", "together",
     "may", "repeat",
     "repeated",
-    "time", "a", "an", "(", ")", "\"",
+    "time", "a", "an", "\"",
     "'", "/", "!", "?", "*", "=", "[", "]", "#", "%", "<", ">", "_", "~", "@", "{", "}", "|",
     "\\", "^", "`", "$", "with food", "on", "up", "or", "plenty", "first", "meal",
 };
@@ -191,6 +220,7 @@ PhraseIndex BuildIndex() {
   PhraseIndex index;
   for (const Phrase& phrase : kPhrases) {
     Item item{phrase.kind, phrase.value, phrase.period_days, phrase.unit, {}, false};
+    item.as_needed = phrase.as_needed;
     auto words = SplitWords(phrase.words);
     index[words.front()].push_back(SplitPhrase{std::move(words), item});
   }
@@ -201,7 +231,23 @@ PhraseIndex BuildIndex() {
   return index;
 }
 
+std::set<std::string_view, std::less<>> BuildWordSet() {
+  std::set<std::string_view, std::less<>> words;
+  for (const Phrase& phrase : kPhrases) {
+    for (std::string_view word : SplitWords(phrase.words)) words.insert(word);
+  }
+  for (std::string_view filler : kFillers) {
+    for (std::string_view word : SplitWords(filler)) words.insert(word);
+  }
+  return words;
+}
+
 }  // namespace
+
+bool IsDosagePhraseWord(std::string_view word) {
+  static const std::set<std::string_view, std::less<>> kWords = BuildWordSet();
+  return kWords.count(word) > 0;
+}
 
 std::optional<PhraseMatch> MatchDosagePhrase(const std::vector<Token>& tokens, size_t start) {
   static const PhraseIndex kIndex = BuildIndex();

@@ -20,6 +20,9 @@ struct PhraseMatch {
 // The longest listed phrase starting at tokens[start], if any. Pure.
 std::optional<PhraseMatch> MatchDosagePhrase(const std::vector<Token>& tokens, size_t start);
 
+// True when the lower-case `word` is one of the words of a listed phrase or filler. Pure.
+bool IsDosagePhraseWord(std::string_view word);
+
 // Events of the time-of-day kind: the values of ItemKind::kEvent for named times of day.
 // Clock times use kClockEventBase + hours * 100 + minutes.
 enum DayEvent : int { kMorning = 1, kMidday = 2, kAfternoon = 3, kEvening = 4, kNight = 5 };

@@ -1,58 +1,18 @@
 #include "medload/dose/dosage_text.h"
 
 #include <algorithm>
-#include <bit>
 #include <cmath>
-#include <limits>
 #include <vector>
 
+#include "dose/dosage_groups.h"
 #include "dose/dosage_items.h"
 #include "dose/dosage_lexer.h"
+#include "dose/dosage_typos.h"
 #include "medload/core/text.h"
 #include "medload/dose/dose_unit.h"
 
 namespace medload {
 namespace {
-
-// One dose said once with its timing: "2 tablets in the morning", "one twice a day".
-struct Part {
-  std::optional<double> amount;
-  std::string_view unit;  // canonical; empty when not said
-  double factor = 1;      // unit factor ("5ml spoonful" -> 5 ml)
-  std::optional<double> count;   // administrations in `period`
-  std::optional<double> period;  // days
-  std::vector<int> events;       // distinct times of day
-  unsigned weekdays = 0;         // bit d set: day d of the week (bit 0 = Monday)
-  bool except_days = false;      // the weekdays are the days left out
-  bool meals = false;
-  double multiplier = 1;         // "each eye": 2
-};
-
-// "max 8 in 24 hours", "up to four times a day", "maximum 4 doses a day".
-struct Maximum {
-  bool present = false;
-  std::optional<double> amount;
-  std::string_view unit;
-  double factor = 1;
-  std::optional<double> count;
-  std::optional<double> period;
-  std::vector<int> events;
-};
-
-// Doses taken together; a "then" starts the next group (a changing dose).
-struct Group {
-  std::vector<Part> parts;
-  Maximum max;
-};
-
-struct GroupResult {
-  std::optional<double> units_per_day;
-  std::string_view unit;
-};
-
-void AddDistinct(std::vector<int>& values, int value) {
-  if (std::find(values.begin(), values.end(), value) == values.end()) values.push_back(value);
-}
 
 // The length of the well-formed UTF-8 sequence at word[i] (RFC 3629: no overlong forms,
 // no surrogates, nothing above U+10FFFF), or 0 when it is not one.
@@ -96,309 +56,139 @@ std::string SafeWord(std::string_view word) {
   return safe;
 }
 
-class Assembler {
- public:
-  void Add(const Item& item) {
-    if (in_max_ && AddToMaximum(item)) return;
-    in_max_ = false;
-    switch (item.kind) {
-      case ItemKind::kAmount:
-        if (part_.amount) StartPart();
-        part_.amount = item.value;
-        break;
-      case ItemKind::kUnit:
-        if (part_.unit.empty()) {
-          part_.unit = item.unit;
-          part_.factor = item.value;
-        }
-        break;
-      case ItemKind::kCount:
-        // "once or twice daily": a second count before the period is a range's upper value.
-        if (!part_.count || !part_.period) {
-          part_.count = std::max(part_.count.value_or(0), item.value);
-        }
-        break;
-      case ItemKind::kPeriod:
-        if (!part_.period) part_.period = item.value;
-        break;
-      case ItemKind::kFrequency:
-        if (!part_.count && !part_.period) {
-          part_.count = item.value;
-          part_.period = item.period_days;
-        }
-        break;
-      default:
-        AddOther(item);
-    }
-  }
-
-  DosageReading Finish(bool truncated);
-
- private:
-  void AddOther(const Item& item) {
-    switch (item.kind) {
-      case ItemKind::kEvent: AddDistinct(part_.events, static_cast<int>(item.value)); break;
-      case ItemKind::kMeals: part_.meals = true; break;
-      case ItemKind::kWeekday: part_.weekdays |= static_cast<unsigned>(item.value); break;
-      case ItemKind::kExceptDays: part_.except_days = true; break;
-      case ItemKind::kAsNeeded: as_needed_ = true; break;
-      case ItemKind::kAsDirected: as_directed_ = true; break;
-      case ItemKind::kEachSide: part_.multiplier = item.value; break;
-      case ItemKind::kUnitHint:
-        if (unit_hint_.empty()) unit_hint_ = item.unit;
-        break;
-      case ItemKind::kThen:
-        StartPart();
-        groups_.emplace_back();
-        break;
-      case ItemKind::kMaximum:
-        in_max_ = true;
-        group().max.present = true;
-        if (item.value == 1 && !group().max.period) group().max.period = 1;
-        break;
-      case ItemKind::kUnknown:
-        unknown_.push_back(item.text);
-        if (item.unusable_amount) {
-          if (part_.amount) StartPart();
-          part_.amount = std::numeric_limits<double>::quiet_NaN();  // an unusable dose
-        }
-        break;
-      default: break;  // separators and fillers
-    }
-  }
-
-  // Items after a maximum marker describe the maximum until a separator or a marker.
-  bool AddToMaximum(const Item& item) {
-    Maximum& max = group().max;
-    switch (item.kind) {
-      case ItemKind::kAmount:
-        if (max.amount) return false;
-        max.amount = item.value;
-        return true;
-      case ItemKind::kUnit:
-        if (max.unit.empty()) {
-          max.unit = item.unit;
-          max.factor = item.value;
-        }
-        return true;
-      case ItemKind::kCount: max.count = item.value; return true;
-      case ItemKind::kPeriod: max.period = item.value; return true;
-      case ItemKind::kFrequency:
-        max.count = item.value;
-        max.period = item.period_days;
-        return true;
-      case ItemKind::kEvent: AddDistinct(max.events, static_cast<int>(item.value)); return true;
-      case ItemKind::kMaximum:
-      case ItemKind::kFiller: return true;
-      default: return false;
-    }
-  }
-
-  Group& group() {
-    if (groups_.empty()) groups_.emplace_back();
-    return groups_.back();
-  }
-
-  void StartPart() {
-    group().parts.push_back(part_);
-    part_ = Part{};
-  }
-
-  void Note(std::string note) {
-    if (std::find(notes_.begin(), notes_.end(), note) == notes_.end()) notes_.push_back(note);
-  }
-
-  struct PartsSum {
-    double regular = 0;     // units per day of the timed doses
-    bool timed = false;     // at least one dose had a timing
-    bool left_out = false;  // a dose had no timing
-    std::optional<double> first_dose;
-  };
-
-  std::optional<double> Rate(const Part& part);
-  std::string_view GroupUnit(const Group& group) const;
-  PartsSum SumParts(const Group& group, std::string_view unit,
-                    std::optional<double> max_administrations);
-  GroupResult Evaluate(const Group& group);
-  void MaximumPerDay(const Group& group, std::string_view unit, std::optional<double>& units,
-                     std::optional<double>& administrations);
-  std::string JoinedNotes() const;
-
-  std::vector<Group> groups_;
-  Part part_;
-  bool in_max_ = false;
-  bool as_needed_ = false;
-  bool as_directed_ = false;
-  bool doubtful_ = false;  // something was assumed or left out: at best kPartial
-  bool left_out_ = false;  // a dose without a frequency was not counted
-  std::string_view unit_hint_;
-  std::vector<std::string> unknown_;
-  std::vector<std::string> notes_;
-};
-
-// Administrations per day of one part, or nullopt when it gives no timing.
-std::optional<double> Assembler::Rate(const Part& part) {
-  std::optional<double> rate;
-  if (part.count || part.period) {
-    if (part.count && !part.period && part.weekdays == 0) {
-      Note("a count without a period is read as per day");
-      doubtful_ = true;
-    }
-    rate = part.count.value_or(1) / part.period.value_or(1);
-  } else if (!part.events.empty()) {
-    rate = static_cast<double>(part.events.size());
-  } else if (part.meals) {
-    rate = 3;  // with each of three meals
-  } else if (part.weekdays != 0) {
-    rate = 1;
-  }
-  if (rate && part.weekdays != 0 && part.period.value_or(1) <= 1) {
-    const int days = std::popcount(part.weekdays);
-    rate = *rate * (part.except_days ? 7 - days : days) / 7.0;
-  }
-  return rate;
-}
-
-void Assembler::MaximumPerDay(const Group& group, std::string_view unit,
-                              std::optional<double>& units,
-                              std::optional<double>& administrations) {
-  const Maximum& max = group.max;
-  if (!max.present || (!max.amount && !max.count && max.events.empty())) return;
-  if (!max.period && max.events.empty()) Note("a maximum without a period is read as per day");
-  const double count =
-      max.count.value_or(max.events.empty() ? 1 : static_cast<double>(max.events.size()));
-  const double period = max.period.value_or(1);
-  if (!max.amount) {
-    administrations = count / period;
-    return;
-  }
-  const bool doses = max.unit == "dose" && unit != "dose" && unit != "puff";
-  if (doses) {
-    administrations = *max.amount * count / period;
-  } else if (max.unit.empty() || unit.empty() || SameDoseUnit(max.unit, unit)) {
-    units = *max.amount * max.factor * count / period;
-  } else {
-    Note("a maximum in " + std::string(max.unit) + " was not compared with doses in " +
-         std::string(unit));
-  }
-}
-
-// The unit of a group: its first dose's, else its maximum's, else the verb's.
-std::string_view Assembler::GroupUnit(const Group& group) const {
-  for (const Part& part : group.parts) {
-    if (!part.unit.empty()) return part.unit;
-  }
-  if (group.max.amount && !group.max.unit.empty() && group.max.unit != "dose") {
-    return group.max.unit;
-  }
-  return unit_hint_;
-}
-
-// The regular daily amount of a group's doses in `unit`; a dose without its own timing
-// takes the maximum's administrations ("1-2 tablets up to four times a day").
-Assembler::PartsSum Assembler::SumParts(const Group& group, std::string_view unit,
-                                        std::optional<double> max_administrations) {
-  PartsSum sum;
-  for (const Part& part : group.parts) {
-    const double dose = part.amount.value_or(1) * part.factor * part.multiplier;
-    if (!part.unit.empty() && !SameDoseUnit(part.unit, unit)) {
-      Note("doses in more than one unit: only " + std::string(unit) + " counted");
-      doubtful_ = true;
-      continue;
-    }
-    if (part.amount && std::isnan(*part.amount)) {
-      Note("an amount too large to be a dose");
-      continue;
-    }
-    if (part.amount && !sum.first_dose) sum.first_dose = dose;
-    auto rate = Rate(part);
-    if (!rate) rate = max_administrations;
-    if (!rate) {
-      sum.left_out = sum.left_out || part.amount.has_value();
-      continue;
-    }
-    sum.regular += dose * *rate;
-    sum.timed = true;
-  }
-  return sum;
-}
-
-GroupResult Assembler::Evaluate(const Group& group) {
-  GroupResult result;
-  result.unit = GroupUnit(group);
-  std::optional<double> max_units;
-  std::optional<double> max_administrations;
-  MaximumPerDay(group, result.unit, max_units, max_administrations);
-  const PartsSum sum = SumParts(group, result.unit, max_administrations);
-  if (max_administrations && !max_units) {
-    max_units = sum.first_dose.value_or(1) * *max_administrations;
-  }
-  // A dose left without a frequency matters unless an as-needed maximum sets the amount.
-  left_out_ = left_out_ || (sum.left_out && !(as_needed_ && max_units));
-  if (as_needed_) {
-    result.units_per_day = max_units ? max_units : sum.timed ? std::optional(sum.regular)
-                                                             : std::nullopt;
-  } else if (sum.timed) {
-    result.units_per_day = max_units ? std::min(sum.regular, *max_units) : sum.regular;
-  } else {
-    result.units_per_day = max_units;
-  }
-  return result;
-}
-
-std::string Assembler::JoinedNotes() const {
+std::string JoinedNotes(const std::vector<std::string>& unknown,
+                        const std::vector<std::string>& notes) {
   std::string joined;
-  if (!unknown_.empty()) {
+  if (!unknown.empty()) {
     joined = "did not understand";
-    for (size_t k = 0; k < unknown_.size() && k < 5; ++k) {
-      joined += (k == 0 ? " \"" : ", \"") + SafeWord(unknown_[k]) + "\"";
+    for (size_t k = 0; k < unknown.size() && k < 5; ++k) {
+      joined += (k == 0 ? " \"" : ", \"") + SafeWord(unknown[k]) + "\"";
     }
-    if (unknown_.size() > 5) joined += ", ...";
+    if (unknown.size() > 5) joined += ", ...";
   }
-  for (const std::string& note : notes_) {
+  for (const std::string& note : notes) {
     if (!joined.empty()) joined += "; ";
     joined += note;
   }
   return joined;
 }
 
-DosageReading Assembler::Finish(bool truncated) {
-  StartPart();
-  DosageReading reading;
-  reading.as_needed = as_needed_;
-  size_t with_units = 0;
-  for (const Group& group : groups_) {
-    const GroupResult result = Evaluate(group);
-    if (!result.units_per_day) {
-      if (reading.unit.empty()) reading.unit = std::string(result.unit);
-      continue;
+void AddNote(std::vector<std::string>& notes, std::string note) {
+  if (std::find(notes.begin(), notes.end(), note) == notes.end()) notes.push_back(note);
+}
+
+// The groups that carry a dose, and a stop after them; groups before the first dose
+// ("shake well then ...") and after a stop are dropped.
+std::vector<GroupReading> DoseGroups(const std::vector<GroupReading>& groups) {
+  std::vector<GroupReading> kept;
+  for (const GroupReading& group : groups) {
+    if (!kept.empty() && kept.back().stop) break;
+    if (group.stop ? !kept.empty() : group.has_dose) kept.push_back(group);
+  }
+  return kept;
+}
+
+// The stages of two or more dose groups, with the reading's unit; nullopt (and a note)
+// when a stage gives no amount or the stages are in units that do not relate. A stage
+// without a length continues: the stages after it are not reached.
+std::optional<std::vector<DoseStage>> Stages(const std::vector<GroupReading>& kept,
+                                             std::string_view& unit,
+                                             std::vector<std::string>& notes, bool& doubtful) {
+  std::vector<DoseStage> stages;
+  for (size_t k = 0; k < kept.size(); ++k) {
+    const GroupReading& group = kept[k];
+    if (group.stop) {
+      stages.push_back(DoseStage{0, std::nullopt});
+      break;
     }
-    ++with_units;
-    if (!reading.units_per_day || *result.units_per_day > *reading.units_per_day) {
-      reading.units_per_day = result.units_per_day;
-      reading.unit = std::string(result.unit);
+    if (!group.units_per_day || !(*group.units_per_day > 0)) {
+      AddNote(notes, "a stage of the changing dose gives no amount per day");
+      return std::nullopt;
+    }
+    if (!group.unit.empty() && !unit.empty() && !SameDoseUnit(group.unit, unit)) {
+      AddNote(notes, "the stages of the changing dose are in different units");
+      return std::nullopt;
+    }
+    if (unit.empty()) unit = group.unit;
+    std::optional<int> days;
+    if (group.one_off) days = 1;
+    if (!days && group.days) days = static_cast<int>(std::ceil(*group.days - 1e-9));
+    stages.push_back(DoseStage{*group.units_per_day, days});
+    if (!days) {
+      if (k + 1 < kept.size()) {
+        AddNote(notes, "a stage has no length: its dose is taken to continue");
+        doubtful = true;
+      }
+      break;
     }
   }
-  if (left_out_ && reading.units_per_day) Note("a dose without a frequency was left out");
-  if (with_units > 1) Note("the dose changes: the highest daily amount is used");
+  stages.back().days.reset();
+  return stages;
+}
+
+// Units per day, unit and stages from the assembled groups (`reading.note` not set).
+void ReadGroups(AssembledDosage& assembled, DosageReading& reading) {
+  const std::vector<GroupReading> kept = DoseGroups(assembled.groups);
+  const GroupReading& first = kept.empty() ? assembled.groups.front() : kept.front();
+  const GroupReading& last = assembled.groups.back();
+  if (!kept.empty() && assembled.groups.size() > 1 && !last.has_dose && !last.stop &&
+      !assembled.variable) {
+    // "2 daily for 5 days then see your doctor": nothing says what follows.
+    AddNote(assembled.notes, "a later stage gives no dose: the dose before it is taken to continue");
+    assembled.doubtful = true;
+  }
+  reading.unit = std::string(first.unit);
+  if (kept.size() >= 2) {
+    std::string_view unit;
+    auto stages = Stages(kept, unit, assembled.notes, assembled.doubtful);
+    if (!stages) return;
+    reading.unit = std::string(unit);
+    if (stages->size() >= 2) {
+      reading.units_per_day = stages->front().units_per_day;
+      reading.stages = std::move(*stages);
+      AddNote(assembled.notes, "the dose changes: read in " + std::to_string(reading.stages.size()) +
+                                   " stages, the first one's units per day shown");
+      return;
+    }
+  }
+  if (first.one_off) {
+    AddNote(assembled.notes, "a dose on one day only: no amount per day");
+    return;
+  }
+  reading.units_per_day = first.units_per_day;
+}
+
+DosageReading Finish(AssembledDosage assembled, bool truncated) {
+  DosageReading reading;
+  reading.as_needed = assembled.as_needed;
+  ReadGroups(assembled, reading);
+  auto& notes = assembled.notes;
+  if (assembled.variable && reading.units_per_day) {
+    reading.units_per_day.reset();
+    reading.stages.clear();
+    AddNote(notes, "the dose changes by a rule that is not written out");
+  }
+  if (assembled.left_out && reading.units_per_day) AddNote(notes, "a dose without a frequency was left out");
   if (truncated) {
-    Note("the text is longer than the parser reads: the rest was ignored");
-    doubtful_ = true;
+    AddNote(notes, "the text is longer than the parser reads: the rest was ignored");
+    assembled.doubtful = true;
   }
   if (reading.units_per_day && !(*reading.units_per_day > 0)) {
     reading.units_per_day.reset();
-    Note("a dose of zero");
+    reading.stages.clear();
+    AddNote(notes, "a dose of zero");
   }
   if (!reading.units_per_day) {
-    Note(as_directed_ ? "as directed: no amount per day is given"
-         : as_needed_ ? "as needed with no frequency or maximum"
-                      : "no usable dose and frequency found");
+    AddNote(notes, assembled.as_directed ? "as directed: no amount per day is given"
+                   : assembled.as_needed ? "as needed with no frequency or maximum"
+                                         : "no usable dose and frequency found");
     reading.understanding = Understanding::kUnknown;
   } else {
-    reading.understanding = unknown_.empty() && !doubtful_ ? Understanding::kFull
-                                                           : Understanding::kPartial;
+    reading.understanding = assembled.unknown.empty() && !assembled.doubtful
+                                ? Understanding::kFull
+                                : Understanding::kPartial;
   }
-  reading.note = JoinedNotes();
+  reading.note = JoinedNotes(assembled.unknown, notes);
   return reading;
 }
 
@@ -416,11 +206,38 @@ std::string_view UnderstandingName(Understanding understanding) {
 
 DosageReading ReadDosageText(std::string_view text) {
   if (IsBlank(text, " \t\n\r\f\v")) return DosageReading{};
-  const LexedText lexed = LexDosageText(text);
+  LexedText lexed = LexDosageText(text);
   if (lexed.tokens.empty()) return DosageReading{};
-  Assembler assembler;
-  for (const Item& item : RecogniseDosageItems(lexed.tokens)) assembler.Add(item);
-  return assembler.Finish(lexed.truncated);
+  std::vector<Item> items = RecogniseDosageItems(lexed.tokens);
+  std::vector<std::string> corrections;
+  // Misspellings are looked for only when some word was not understood (rarely).
+  if (std::any_of(items.begin(), items.end(),
+                  [](const Item& item) { return item.kind == ItemKind::kUnknown; })) {
+    corrections = CorrectDosageTypos(lexed.tokens);
+    if (!corrections.empty()) items = RecogniseDosageItems(lexed.tokens);
+  }
+  AssembledDosage assembled = AssembleDosageItems(items);
+  if (!corrections.empty()) {
+    assembled.doubtful = true;
+    assembled.notes.insert(assembled.notes.begin(), corrections.begin(), corrections.end());
+  }
+  return Finish(std::move(assembled), lexed.truncated);
+}
+
+std::optional<double> UnitsPerDayOnDay(const std::vector<DoseStage>& stages, int day) {
+  if (stages.empty() || day < 0) return std::nullopt;
+  long long start = 0;
+  for (const DoseStage& stage : stages) {
+    if (!stage.days || day < start + *stage.days) return stage.units_per_day;
+    start += *stage.days;
+  }
+  return stages.back().units_per_day;
+}
+
+std::optional<double> UnitsPerDayOnDay(const DosageReading& reading, int day) {
+  if (!reading.units_per_day || day < 0) return std::nullopt;
+  if (reading.stages.empty()) return reading.units_per_day;
+  return UnitsPerDayOnDay(reading.stages, day);
 }
 
 }  // namespace medload

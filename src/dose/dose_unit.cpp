@@ -37,7 +37,7 @@ constexpr std::array kUnitWords = {
     UnitWord{"actuation", "puff", 1},       UnitWord{"actuations", "puff", 1},
     UnitWord{"dose", "dose", 1},            UnitWord{"doses", "dose", 1},
     UnitWord{"drop", "drop", 1},            UnitWord{"drops", "drop", 1},
-    UnitWord{"gtt", "drop", 1},             UnitWord{"sachet", "sachet", 1},
+    UnitWord{"gtt", "drop", 1},             UnitWord{"gtts", "drop", 1},             UnitWord{"sachet", "sachet", 1},
     UnitWord{"sachets", "sachet", 1},       UnitWord{"patch", "patch", 1},
     UnitWord{"patches", "patch", 1},        UnitWord{"application", "application", 1},
     UnitWord{"applications", "application", 1},
@@ -107,12 +107,20 @@ std::optional<DoseUnit> ReadDoseUnit(std::string_view text) {
   return LookUpWord(word);
 }
 
+bool IsSingleUnitForm(std::string_view canonical) {
+  for (std::string_view form : {"tablet", "capsule", "patch", "suppository", "pessary", "sachet",
+                                "lozenge", "pastille", "enema"}) {
+    if (canonical == form) return true;
+  }
+  return false;
+}
+
 bool SameDoseUnit(std::string_view canonical_a, std::string_view canonical_b) {
   if (canonical_a == canonical_b) return true;
   auto either = [&](std::string_view x, std::string_view y) {
     return (canonical_a == x && canonical_b == y) || (canonical_a == y && canonical_b == x);
   };
-  return either("tablet", "capsule") || either("puff", "dose");
+  return either("tablet", "capsule") || either("puff", "dose") || either("spray", "dose");
 }
 
 }  // namespace medload

@@ -5,6 +5,7 @@
 #include <map>
 #include <set>
 #include <string>
+#include <vector>
 
 #include "medload/dose/dose_unit.h"
 
@@ -137,9 +138,12 @@ std::optional<Amount> ReadQuantity(const json& quantity, const std::string& poin
       return Amount{*value * unit->factor, std::string(unit->name)};
     }
   }
-  const std::string unit = String(quantity, "unit");
+  // A unit this table does not know is kept as written, so that nobody takes the amount
+  // for one in the quantity's unit.
+  std::string unit = String(quantity, "unit");
+  if (unit.empty()) unit = String(quantity, "code");
   if (!unit.empty()) notes.Add(pointer + "/unit \"" + unit + "\" is not a known dose unit");
-  return Amount{*value, {}};
+  return Amount{*value, unit};
 }
 
 std::optional<Amount> DoseOf(const json& dosage, Notes& notes) {
@@ -189,10 +193,12 @@ bool AsNeeded(const json& dosage) {
 }
 
 // The structured reading: fills `reading` and returns true when it gave units per day.
-bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes) {
+// `times` is set to the administrations a day whenever the timing gives them.
+bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes,
+                   std::optional<double>& times) {
   reading.as_needed = AsNeeded(dosage);
   const auto dose = DoseOf(dosage, notes);
-  const auto times = TimesPerDay(dosage, notes);
+  times = TimesPerDay(dosage, notes);
   auto max = MaxPerDay(dosage, notes);
   if (dose) reading.unit = dose->unit;
   if (max && dose && !max->unit.empty() && !dose->unit.empty() &&
@@ -215,6 +221,94 @@ bool ReadStructure(const json& dosage, DosageReading& reading, Notes& notes) {
   return reading.units_per_day.has_value();
 }
 
+// When the structure gave no amount a day: the text's reading, else (a frequency without
+// a dose) so many administrations a day, for the supply calculation to count one unit
+// each only for single-unit forms.
+DosageReading ReadWithoutStructure(const json& dosage, DosageReading reading, std::optional<double> times,
+                                   Notes& notes) {
+  const std::string text = String(dosage, "text");
+  DosageReading from_text = text.empty() ? DosageReading() : ReadDosageText(text);
+  if (from_text.units_per_day || (!text.empty() && !times)) {
+    from_text.as_needed = from_text.as_needed || reading.as_needed;
+    if (from_text.unit.empty()) from_text.unit = reading.unit;
+    notes.Add("no structured dose and frequency: read from the text");
+    if (!from_text.note.empty()) notes.Add(from_text.note);
+    from_text.note = notes.text();
+    return from_text;
+  }
+  if (times && reading.unit.empty() && std::isfinite(*times)) {
+    reading.units_per_day = *times;
+    reading.unit = std::string(kAdministrationUnit);
+    reading.understanding = Understanding::kPartial;
+    notes.Add("a frequency without a dose: administrations a day");
+  } else {
+    notes.Add(text.empty() ? "no structured dose and frequency and no text"
+                           : "no structured dose and frequency, and the text gave none");
+    reading.understanding = Understanding::kUnknown;
+  }
+  reading.note = notes.text();
+  return reading;
+}
+
+// Days of Timing.repeat.boundsDuration (HL7 FHIR R4 Timing.repeat.bounds[x]), rounded up
+// to whole days; nullopt when absent or unusable.
+std::optional<int> BoundsDays(const json& element) {
+  if (!element.is_object() || !element.contains("timing")) return std::nullopt;
+  const json& timing = element.at("timing");
+  if (!timing.is_object() || !timing.contains("repeat") || !timing.at("repeat").is_object()) {
+    return std::nullopt;
+  }
+  const json& repeat = timing.at("repeat");
+  if (!repeat.contains("boundsDuration")) return std::nullopt;
+  Notes ignored;
+  const json& duration = repeat.at("boundsDuration");
+  const auto value = PositiveNumber(duration, "value", "", ignored);
+  std::string unit = String(duration, "code");
+  if (unit.empty()) unit = String(duration, "unit");
+  const auto per_unit = DaysPerUnit(unit);
+  if (!value || !per_unit) return std::nullopt;
+  const double days = std::ceil(*value * *per_unit - 1e-9);
+  if (!(days >= 1) || days > 36500) return std::nullopt;
+  return static_cast<int>(days);
+}
+
+// Sequences in order as the stages of a changing dose (the text reader's convention):
+// each lasts its boundsDuration; one without a duration continues and ends the stages.
+// The reading's units per day are the first stage's; unknown when a stage has none.
+DosageReading Staged(const std::map<long long, DosageReading>& by_sequence,
+                     const std::map<long long, int>& bounds, Notes& notes) {
+  DosageReading result = by_sequence.begin()->second;
+  std::vector<DoseStage> stages;
+  for (const auto& [sequence, group] : by_sequence) {
+    result.as_needed = result.as_needed || group.as_needed;
+    if (!group.units_per_day || (!group.unit.empty() && !result.unit.empty() &&
+                                 !SameDoseUnit(group.unit, result.unit))) {
+      notes.Add("a sequence gives no units per day in the first one's unit");
+      result.units_per_day.reset();
+      result.understanding = Understanding::kUnknown;
+      return result;
+    }
+    if (result.unit.empty()) result.unit = group.unit;
+    if (group.understanding == Understanding::kPartial) result.understanding = group.understanding;
+    const auto days = bounds.find(sequence);
+    stages.push_back(DoseStage{*group.units_per_day, std::nullopt});
+    if (days == bounds.end()) break;
+    stages.back().days = days->second;
+  }
+  stages.back().days.reset();
+  if (stages.size() < by_sequence.size()) {
+    notes.Add("a sequence has no boundsDuration: its dose is taken to continue");
+  }
+  if (stages.size() >= 2) {
+    notes.Add("the dose changes: read in " + std::to_string(stages.size()) +
+              " stages, the first one's units per day shown");
+    result.stages = std::move(stages);
+  }
+  result.units_per_day = result.stages.empty() ? by_sequence.begin()->second.units_per_day
+                                               : result.stages.front().units_per_day;
+  return result;
+}
+
 }  // namespace
 
 DosageReading ReadFhirDosage(const json& dosage) {
@@ -227,23 +321,13 @@ DosageReading ReadFhirDosage(const json& dosage) {
       return reading;
     }
     if (dosage.empty()) return reading;
-    if (ReadStructure(dosage, reading, notes)) {
+    std::optional<double> times;
+    if (ReadStructure(dosage, reading, notes, times)) {
       reading.understanding = Understanding::kFull;
       reading.note = notes.text();
       return reading;
     }
-    const std::string text = String(dosage, "text");
-    if (!text.empty()) {
-      DosageReading from_text = ReadDosageText(text);
-      from_text.as_needed = from_text.as_needed || reading.as_needed;
-      if (from_text.unit.empty()) from_text.unit = reading.unit;
-      notes.Add("no structured dose and frequency: read from the text");
-      if (!from_text.note.empty()) notes.Add(from_text.note);
-      from_text.note = notes.text();
-      return from_text;
-    }
-    notes.Add("no structured dose and frequency and no text");
-    reading.understanding = Understanding::kUnknown;
+    return ReadWithoutStructure(dosage, reading, times, notes);
   } catch (const json::exception& error) {
     reading.units_per_day.reset();
     reading.understanding = Understanding::kUnknown;
@@ -258,6 +342,7 @@ DosageReading ReadFhirDosageList(const json& dosage_instructions) {
   if (!dosage_instructions.is_array() || dosage_instructions.empty()) return result;
   if (dosage_instructions.size() == 1) return ReadFhirDosage(dosage_instructions.at(0));
   std::map<long long, DosageReading> by_sequence;
+  std::map<long long, int> bounds;  // days of each sequence's boundsDuration
   Notes notes;
   for (const json& element : dosage_instructions) {
     long long sequence = 0;
@@ -267,6 +352,7 @@ DosageReading ReadFhirDosageList(const json& dosage_instructions) {
     }
     const DosageReading part = ReadFhirDosage(element);
     if (!part.note.empty()) notes.Add(part.note);
+    if (const auto days = BoundsDays(element)) bounds.try_emplace(sequence, *days);
     auto [slot, inserted] = by_sequence.try_emplace(sequence, part);
     if (inserted) continue;
     DosageReading& group = slot->second;
@@ -287,14 +373,11 @@ DosageReading ReadFhirDosageList(const json& dosage_instructions) {
       notes.Add("a concurrent part has no usable units per day in the same unit");
     }
   }
-  for (auto& [sequence, group] : by_sequence) {
-    const bool higher = group.units_per_day &&
-                        (!result.units_per_day || *group.units_per_day > *result.units_per_day);
-    const bool as_needed = result.as_needed || group.as_needed;
-    if (higher || result.understanding == Understanding::kEmpty) result = group;
-    result.as_needed = as_needed;
+  if (by_sequence.size() == 1) {
+    result = by_sequence.begin()->second;
+  } else {
+    result = Staged(by_sequence, bounds, notes);
   }
-  if (by_sequence.size() > 1) notes.Add("the dose changes: the highest daily amount is used");
   result.note = notes.text();
   return result;
 }

@@ -75,12 +75,39 @@ void CheckIngredientRows(const Formulary& formulary, const std::string& file, co
   }
 }
 
-void CheckProducts(const Formulary& formulary, std::vector<std::string>& faults) {
+// dbi_classes.csv: each class is one some ingredient has, named once.
+void CheckDbiClasses(const Formulary& formulary, std::vector<std::string>& faults) {
+  std::set<std::string> known;
+  for (const Ingredient& ingredient : formulary.ingredients()) known.insert(ingredient.classes.begin(), ingredient.classes.end());
   std::unordered_map<std::string, int> seen;
-  for (const NamedProduct& product : formulary.tables().products) {
+  for (const DbiClass& row : formulary.tables().dbi_classes) {
+    if (known.count(row.class_name) == 0U) {
+      faults.push_back(Fault("dbi_classes.csv", row.line, "no ingredient has the class \"" + row.class_name + "\""));
+    }
+    const auto [it, inserted] = seen.emplace(row.class_name, row.line);
+    if (!inserted) {
+      faults.push_back(Fault("dbi_classes.csv", row.line, "duplicate class \"" + row.class_name + "\" (first on line " +
+                                                             std::to_string(it->second) + ")"));
+    }
+  }
+}
+
+// Rows of products.csv or brands.csv: known ingredients, no duplicate names.
+void CheckNamedProducts(const Formulary& formulary, const std::vector<NamedProduct>& rows,
+                        std::vector<std::string>& faults) {
+  std::unordered_map<std::string, int> seen;
+  for (const NamedProduct& product : rows) {
+    const std::string& file = product.table;
     for (const std::string& name : product.ingredients) {
-      if (formulary.FindIngredient(name) == nullptr) {
-        faults.push_back(Fault("products.csv", product.line, UnknownIngredient(name)));
+      if (formulary.FindIngredient(name) != nullptr) continue;
+      faults.push_back(Fault(file, product.line, file == "brands.csv" ? "unknown ingredient or product \"" + name +
+                                                                         "\" (not in ingredients.csv or products.csv)"
+                                                                   : UnknownIngredient(name)));
+    }
+    if (file == "brands.csv") {
+      if (const Ingredient* ingredient = formulary.FindIngredient(product.name)) {
+        faults.push_back(Fault(file, product.line, "brand \"" + product.name + "\" is also a name of the ingredient \"" +
+                                                        ingredient->name + "\""));
       }
     }
     std::set<std::string> words;
@@ -89,8 +116,26 @@ void CheckProducts(const Formulary& formulary, std::vector<std::string>& faults)
     for (const std::string& word : words) key += "|" + word;
     const auto [it, inserted] = seen.emplace(key, product.line);
     if (!inserted) {
-      faults.push_back(Fault("products.csv", product.line, "duplicate product \"" + product.name +
-                                                               "\" (first on line " + std::to_string(it->second) + ")"));
+      faults.push_back(Fault(file, product.line, std::string(file == "brands.csv" ? "duplicate brand \"" : "duplicate product \"") +
+                                                     product.name + "\" (first on line " + std::to_string(it->second) + ")"));
+    }
+  }
+}
+
+void CheckDictionary(const Formulary& formulary, std::vector<std::string>& faults) {
+  std::unordered_map<std::string, int> seen;
+  for (const DictionaryEntry& entry : formulary.tables().dictionary) {
+    for (const std::string& element : entry.ingredients) {
+      const std::string name = element.substr(0, element.find('='));
+      if (name.empty() || name.front() == '?' || formulary.FindIngredient(name) != nullptr) continue;
+      faults.push_back(Fault("dictionary.csv", entry.line,
+                             UnknownIngredient(name) + "; write \"?" + name + "\" for a substance it does not know"));
+    }
+    if (entry.code.empty()) continue;
+    const auto [it, inserted] = seen.emplace(CodeSystemKey(entry.code_system) + "\x1f" + entry.code, entry.line);
+    if (!inserted) {
+      faults.push_back(Fault("dictionary.csv", entry.line, "duplicate code " + entry.code_system + " " + entry.code +
+                                                               " (first on line " + std::to_string(it->second) + ")"));
     }
   }
 }
@@ -110,7 +155,7 @@ void CheckCodes(const Formulary& formulary, std::vector<std::string>& faults) {
       faults.push_back(Fault("codes.csv", code.line,
                              "\"" + code.target + "\" is not a product, ingredient or non-medicine term"));
     }
-    const auto [it, inserted] = seen.emplace(NameKey(code.code_system) + "\x1f" + code.code, code.line);
+    const auto [it, inserted] = seen.emplace(CodeSystemKey(code.code_system) + "\x1f" + code.code, code.line);
     if (!inserted) {
       faults.push_back(Fault("codes.csv", code.line, "duplicate code " + code.code_system + " " + code.code +
                                                          " (first on line " + std::to_string(it->second) + ")"));
@@ -134,27 +179,34 @@ void CheckNonMedicines(const Formulary& formulary, std::vector<std::string>& fau
   }
 }
 
+// One requirement's classes, ingredients and scale; `pointer` is its JSON pointer.
+void CheckRequirement(const Formulary& formulary, const RuleRequirement& requirement, const std::string& pointer,
+                      std::vector<std::string>& faults) {
+  for (size_t i = 0; i < requirement.classes.size(); ++i) {
+    if (!formulary.IsKnownClass(requirement.classes[i])) {
+      faults.push_back(pointer + "/classes/" + std::to_string(i) + ": unknown class \"" + requirement.classes[i] +
+                       "\" (no ingredient carries it)");
+    }
+  }
+  for (size_t i = 0; i < requirement.ingredients.size(); ++i) {
+    if (formulary.FindIngredient(requirement.ingredients[i]) == nullptr) {
+      faults.push_back(pointer + "/ingredients/" + std::to_string(i) + ": " +
+                       UnknownIngredient(requirement.ingredients[i]));
+    }
+  }
+  if (requirement.scale_score_at_least && !formulary.HasScale(requirement.scale)) {
+    faults.push_back(pointer + "/scale: unknown scale \"" + requirement.scale + "\"");
+  }
+}
+
 void CheckRules(const Formulary& formulary, std::vector<std::string>& faults) {
   for (const Rule& rule : formulary.rules()) {
     const std::string rule_pointer = "rules.json: /rules/" + std::to_string(rule.position);
     for (size_t r = 0; r < rule.require.size(); ++r) {
-      const RuleRequirement& requirement = rule.require[r];
-      const std::string pointer = rule_pointer + "/require/" + std::to_string(r);
-      for (size_t i = 0; i < requirement.classes.size(); ++i) {
-        if (!formulary.IsKnownClass(requirement.classes[i])) {
-          faults.push_back(pointer + "/classes/" + std::to_string(i) + ": unknown class \"" +
-                           requirement.classes[i] + "\" (no ingredient carries it)");
-        }
-      }
-      for (size_t i = 0; i < requirement.ingredients.size(); ++i) {
-        if (formulary.FindIngredient(requirement.ingredients[i]) == nullptr) {
-          faults.push_back(pointer + "/ingredients/" + std::to_string(i) + ": " +
-                           UnknownIngredient(requirement.ingredients[i]));
-        }
-      }
-      if (requirement.scale_score_at_least && !formulary.HasScale(requirement.scale)) {
-        faults.push_back(pointer + "/scale: unknown scale \"" + requirement.scale + "\"");
-      }
+      CheckRequirement(formulary, rule.require[r], rule_pointer + "/require/" + std::to_string(r), faults);
+    }
+    for (size_t r = 0; r < rule.forbid.size(); ++r) {
+      CheckRequirement(formulary, rule.forbid[r], rule_pointer + "/forbid/" + std::to_string(r), faults);
     }
   }
 }
@@ -168,7 +220,10 @@ void CheckTables(const FormularyTables& tables, std::vector<std::string>& faults
     CheckIngredientRows(formulary, "anticholinergic/" + scale.name + ".csv", scale.rows, faults);
   }
   CheckIngredientRows(formulary, "dbi.csv", formulary.tables().dbi, faults);
-  CheckProducts(formulary, faults);
+  CheckDbiClasses(formulary, faults);
+  CheckNamedProducts(formulary, formulary.tables().products, faults);
+  CheckNamedProducts(formulary, formulary.tables().brands, faults);
+  CheckDictionary(formulary, faults);
   CheckCodes(formulary, faults);
   CheckNonMedicines(formulary, faults);
   CheckRules(formulary, faults);
@@ -185,9 +240,12 @@ FormularyCheck CheckFormulary(const std::string& dir) {
   for (const Scale& scale : tables.scales) check.scale_rows += scale.rows.size();
   check.dbi_rows = tables.dbi.size();
   check.products = tables.products.size();
+  check.brands = tables.brands.size();
+  check.dictionary_rows = tables.dictionary.size();
   check.codes = tables.codes.size();
   check.non_medicine_terms = tables.non_medicines.size();
   check.rules = tables.rules.size();
+  check.routes = tables.routes.size();
   return check;
 }
 

@@ -2,10 +2,13 @@
 
 #include <algorithm>
 #include <map>
+#include <optional>
 #include <set>
 
+#include "formulary/description_words.h"
 #include "formulary/name_index.h"
 #include "formulary/table_files.h"
+#include "medload/formulary/resolver.h"
 
 namespace medload {
 
@@ -15,7 +18,10 @@ struct Formulary::Lookups {
   std::map<std::string, std::vector<size_t>, std::less<>> by_class;  // class -> ingredients
   std::map<std::string, std::unordered_map<std::string, int>, std::less<>> scales;  // canonical names
   std::unordered_map<std::string, size_t> dbi;       // canonical name -> row
-  std::unordered_map<std::string, size_t> products;  // NameKey -> first row
+  std::unordered_map<std::string, size_t> products;  // NameKey -> first target (see NamedProductAt)
+  std::vector<NamedProduct> dictionary_brands;       // one per unambiguous dictionary brand
+  std::unordered_map<std::string, size_t> dictionary_codes;  // CodeKey -> dictionary row
+  std::unordered_map<std::string, size_t> dictionary_names;  // DescriptionKey -> dictionary row
   std::unordered_map<std::string, size_t> codes;     // CodeKey -> row
   std::unordered_map<std::string, size_t> rules;     // id -> rule
 };
@@ -23,15 +29,6 @@ struct Formulary::Lookups {
 namespace {
 
 const std::vector<std::string> kNoClasses;
-
-// The code system as compared: lower case, no trailing slash; the WHO ATC URIs are "atc".
-std::string CodeSystemKey(std::string_view system) {
-  std::string key = NameKey(system);
-  if (key == "atc" || key == "http www whocc no atc" || key == "https www whocc no atc" || key == "who atc") {
-    return "atc";
-  }
-  return key;
-}
 
 std::string CodeKey(std::string_view system, std::string_view code) {
   std::string key = CodeSystemKey(system);
@@ -45,6 +42,88 @@ void Canonicalise(const Formulary::Lookups& lookups, const std::vector<Ingredien
                   std::string& name) {
   const auto it = lookups.by_name.find(NameKey(name));
   if (it != lookups.by_name.end()) name = ingredients[it->second].name;
+}
+
+// The key a dictionary name is found under: abbreviations written out, then NameKey.
+std::string DescriptionKey(std::string_view text) {
+  return NameKey(formulary_internal::ExpandAbbreviations(NormaliseText(text)));
+}
+
+// A brands.csv row naming one products.csv row takes that row's ingredients, form, route,
+// dose unit and supply; otherwise its names are ingredients.
+void ResolveBrand(const Formulary::Lookups& lookups, const FormularyTables& tables, NamedProduct& brand) {
+  if (brand.ingredients.size() == 1 && lookups.by_name.count(NameKey(brand.ingredients[0])) == 0) {
+    const auto it = lookups.products.find(NameKey(brand.ingredients[0]));
+    if (it != lookups.products.end() && it->second < tables.products.size()) {
+      const NamedProduct& product = tables.products[it->second];
+      brand.ingredients = product.ingredients;
+      brand.form = product.form;
+      brand.route = product.route;
+      brand.dose_unit = product.dose_unit;
+      brand.supply_days_per_unit = product.supply_days_per_unit;
+      return;
+    }
+  }
+  for (std::string& name : brand.ingredients) Canonicalise(lookups, tables.ingredients, name);
+}
+
+// Canonicalises the name part of each "name=strength" element ("?name" stays as written).
+void CanonicaliseEntry(const Formulary::Lookups& lookups, const FormularyTables& tables, DictionaryEntry& entry) {
+  for (std::string& element : entry.ingredients) {
+    if (element.empty() || element.front() == '?') continue;
+    const size_t equals = element.find('=');
+    std::string name = element.substr(0, equals);
+    Canonicalise(lookups, tables.ingredients, name);
+    element = equals == std::string::npos ? name : name + element.substr(equals);
+  }
+}
+
+// One named product per dictionary brand whose rows all name the same ingredients;
+// a brand whose rows disagree is left to exact names and codes.
+void AddDictionaryBrands(const FormularyTables& tables, Formulary::Lookups& lookups) {
+  std::map<std::string, std::optional<NamedProduct>> brands;
+  for (const DictionaryEntry& entry : tables.dictionary) {
+    if (entry.brand.empty()) continue;
+    NamedProduct brand;
+    brand.name = entry.brand;
+    brand.source = entry.source;
+    brand.line = entry.line;
+    brand.table = "dictionary.csv";
+    for (const std::string& element : entry.ingredients) brand.ingredients.push_back(element.substr(0, element.find('=')));
+    // A dictionary writes a combination's ingredients in its own order, not necessarily
+    // the order a brand's strengths are written in: its brand pairs no strength.
+    brand.strengths_in_order = brand.ingredients.size() == 1;
+    std::sort(brand.ingredients.begin(), brand.ingredients.end());
+    auto [it, inserted] = brands.emplace(NameKey(entry.brand), brand);
+    if (!inserted && it->second && it->second->ingredients != brand.ingredients) it->second.reset();
+  }
+  for (auto& [key, brand] : brands) {
+    if (brand) lookups.dictionary_brands.push_back(std::move(*brand));
+  }
+}
+
+void IndexDictionary(FormularyTables& tables, Formulary::Lookups& lookups) {
+  for (size_t i = 0; i < tables.dictionary.size(); ++i) {
+    DictionaryEntry& entry = tables.dictionary[i];
+    CanonicaliseEntry(lookups, tables, entry);
+    if (!entry.code.empty()) lookups.dictionary_codes.emplace(CodeKey(entry.code_system, entry.code), i);
+    if (!entry.name.empty()) lookups.dictionary_names.emplace(DescriptionKey(entry.name), i);
+  }
+  AddDictionaryBrands(tables, lookups);
+}
+
+// Index entries of the single-word names (the candidates for a close spelling).
+void IndexSpellings(const FormularyTables& tables, NameIndex& index) {
+  for (size_t i = 0; i < tables.ingredients.size(); ++i) {
+    const Ingredient& ingredient = tables.ingredients[i];
+    auto add = [&](const std::string& name) {
+      const std::string key = NameKey(name);
+      if (!key.empty() && key.find(' ') == std::string::npos) index.spelling_names.emplace_back(key, i);
+    };
+    add(ingredient.name);
+    for (const std::string& synonym : ingredient.synonyms) add(synonym);
+  }
+  std::sort(index.spelling_names.begin(), index.spelling_names.end());  // by first letter for lookups
 }
 
 }  // namespace
@@ -91,6 +170,18 @@ Formulary Formulary::FromTables(FormularyTables tables) {
     lookups->products.emplace(NameKey(product.name), i);
     index->products.Add(product.name, i, product.requires_words.size());
   }
+  for (size_t i = 0; i < tables.brands.size(); ++i) {
+    NamedProduct& brand = tables.brands[i];
+    ResolveBrand(*lookups, tables, brand);
+    lookups->products.emplace(NameKey(brand.name), tables.products.size() + i);
+    index->products.Add(brand.name, tables.products.size() + i, brand.requires_words.size());
+  }
+  IndexDictionary(tables, *lookups);
+  const size_t first_dictionary_brand = tables.products.size() + tables.brands.size();
+  for (size_t i = 0; i < lookups->dictionary_brands.size(); ++i) {
+    index->products.Add(lookups->dictionary_brands[i].name, first_dictionary_brand + i);
+  }
+  IndexSpellings(tables, *index);
   for (size_t i = 0; i < tables.codes.size(); ++i) {
     lookups->codes.emplace(CodeKey(tables.codes[i].code_system, tables.codes[i].code), i);
   }
@@ -99,6 +190,9 @@ Formulary Formulary::FromTables(FormularyTables tables) {
   }
   for (size_t i = 0; i < tables.rules.size(); ++i) {
     for (RuleRequirement& requirement : tables.rules[i].require) {
+      for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
+    }
+    for (RuleRequirement& requirement : tables.rules[i].forbid) {
       for (std::string& name : requirement.ingredients) Canonicalise(*lookups, tables.ingredients, name);
     }
     lookups->rules.emplace(tables.rules[i].id, i);
@@ -171,7 +265,25 @@ const DbiDose* Formulary::DbiOf(std::string_view ingredient) const {
 
 const NamedProduct* Formulary::FindProduct(std::string_view name) const {
   const auto it = lookups_->products.find(NameKey(name));
-  return it == lookups_->products.end() ? nullptr : &tables_->products[it->second];
+  return it == lookups_->products.end() ? nullptr : &NamedProductAt(it->second);
+}
+
+const NamedProduct& Formulary::NamedProductAt(size_t target) const {
+  if (target < tables_->products.size()) return tables_->products[target];
+  target -= tables_->products.size();
+  if (target < tables_->brands.size()) return tables_->brands[target];
+  return lookups_->dictionary_brands.at(target - tables_->brands.size());
+}
+
+const DictionaryEntry* Formulary::FindDictionaryCode(std::string_view code_system, std::string_view code) const {
+  const auto it = lookups_->dictionary_codes.find(CodeKey(code_system, code));
+  return it == lookups_->dictionary_codes.end() ? nullptr : &tables_->dictionary[it->second];
+}
+
+const DictionaryEntry* Formulary::FindDictionaryName(std::string_view description) const {
+  if (lookups_->dictionary_names.empty()) return nullptr;
+  const auto it = lookups_->dictionary_names.find(DescriptionKey(description));
+  return it == lookups_->dictionary_names.end() ? nullptr : &tables_->dictionary[it->second];
 }
 
 const ProductCode* Formulary::FindCode(std::string_view code_system, std::string_view code) const {
@@ -182,6 +294,26 @@ const ProductCode* Formulary::FindCode(std::string_view code_system, std::string
 const Rule* Formulary::FindRule(std::string_view id) const {
   const auto it = lookups_->rules.find(std::string(id));
   return it == lookups_->rules.end() ? nullptr : &tables_->rules[it->second];
+}
+
+std::string CodeSystemKey(std::string_view system) {
+  std::string key = NameKey(system);
+  std::erase(key, ' ');
+  // FHIR system URIs (FHIR R4 terminologies page; the dm+d URI from memory).
+  if (key == "httpwwwwhoccnoatc" || key == "httpswwwwhoccnoatc" || key == "whoatc") return "atc";
+  if (key == "httpsdmdnhsuk" || key == "httpdmdnhsuk") return "dmd";
+  if (key == "httpwwwnlmnihgovresearchumlsrxnorm") return "rxnorm";
+  return key;
+}
+
+std::vector<Route> Formulary::SystemicRoutes() const {
+  std::vector<Route> routes = DefaultSystemicRoutes();
+  for (const RouteRow& row : tables_->routes) {
+    std::erase(routes, row.route);
+    if (row.systemic) routes.push_back(row.route);
+  }
+  SortRoutes(routes);
+  return routes;
 }
 
 }  // namespace medload

@@ -27,10 +27,20 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"scale rows", std::to_string(check.scale_rows)},
           {"dbi rows", std::to_string(check.dbi_rows)},
           {"products", std::to_string(check.products)},
+          {"brands", std::to_string(check.brands)},
+          {"dictionary rows", std::to_string(check.dictionary_rows)},
           {"codes", std::to_string(check.codes)},
           {"non-medicine terms", std::to_string(check.non_medicine_terms)},
           {"rules", std::to_string(check.rules)},
+          {"routes", std::to_string(check.routes)},
           {"checksum", check.checksum}};
+}
+
+// The spellings read as ingredients ("oxybutinin read as oxybutynin").
+std::string SpellingText(const ResolvedProduct& product) {
+  std::vector<std::string> parts;
+  for (const SpellingReading& reading : product.spellings) parts.push_back(reading.written + " read as " + reading.read_as);
+  return Join(parts, "; ");
 }
 
 std::string CheckVerdict(const FormularyCheck& check) {
@@ -80,7 +90,9 @@ std::vector<std::pair<std::string, std::string>> ProductFacts(const LookupModel&
                              {"route", std::string(RouteName(product.route))},
                              {"dose_unit", product.dose_unit},
                              {"supply_days_per_unit",
-                              product.default_supply_days ? std::to_string(*product.default_supply_days) : ""}});
+                              product.default_supply_days ? std::to_string(*product.default_supply_days) : ""},
+                             {"not_in_formulary", Join(product.unknown, "|")},
+                             {"close_spelling", SpellingText(product)}});
   return facts;
 }
 
@@ -91,23 +103,45 @@ std::vector<std::vector<std::string>> FactRows(const LookupModel& model) {
 }
 
 const std::vector<std::string>& UnmatchedHeader() {
-  static const std::vector<std::string> kHeader = {"product", "code", "code_system", "items", "patients"};
+  static const std::vector<std::string> kHeader = {"product", "code",        "code_system", "match",
+                                                   "detail",  "suggestions", "items",       "patients"};
   return kHeader;
 }
 
-std::vector<std::vector<std::string>> UnmatchedRows(const std::vector<ProductCount>& products) {
+std::vector<std::vector<std::string>> UnmatchedRows(const std::vector<UnresolvedProduct>& products) {
   std::vector<std::vector<std::string>> rows;
-  for (const ProductCount& product : products) {
-    rows.push_back({product.product, product.code, product.code_system, std::to_string(product.items),
-                    std::to_string(product.patients)});
+  for (const UnresolvedProduct& p : products) {
+    rows.push_back({p.count.product, p.count.code, p.count.code_system, std::string(MatchKindName(p.match)), p.detail,
+                    Join(p.suggestions, "|"), std::to_string(p.count.items), std::to_string(p.count.patients)});
   }
   return rows;
 }
 
-long ItemsOf(const std::vector<ProductCount>& products) {
-  long items = 0;
-  for (const ProductCount& product : products) items += product.items;
-  return items;
+struct Totals {
+  long products = 0, items = 0;
+};
+
+// The products and items of `products` whose match is `match`.
+Totals TotalsOf(const std::vector<UnresolvedProduct>& products, MatchKind match) {
+  Totals totals;
+  for (const UnresolvedProduct& p : products) {
+    if (p.match != match) continue;
+    totals.products += 1;
+    totals.items += p.count.items;
+  }
+  return totals;
+}
+
+// "N unmatched products, N items; N recognised only in part, N items; N read from a close
+// spelling, N items".
+std::string UnmatchedSentence(const std::vector<UnresolvedProduct>& products) {
+  const Totals unmatched = TotalsOf(products, MatchKind::kUnmatched);
+  const Totals partial = TotalsOf(products, MatchKind::kPartial);
+  const Totals approximate = TotalsOf(products, MatchKind::kApproximate);
+  return std::to_string(unmatched.products) + " unmatched products, " + std::to_string(unmatched.items) + " items; " +
+         std::to_string(partial.products) + " recognised only in part, " + std::to_string(partial.items) +
+         " items; " + std::to_string(approximate.products) + " read from a close spelling, " +
+         std::to_string(approximate.items) + " items";
 }
 
 }  // namespace
@@ -216,48 +250,87 @@ void WriteLookupText(std::ostream& out, const LookupModel& model) {
 
 // ---- formulary unmatched ----
 
-std::vector<ProductCount> UnmatchedProducts(const Formulary& formulary, const std::vector<ProductCount>& counts,
-                                            size_t limit) {
-  std::vector<ProductCount> unmatched;
+std::vector<UnresolvedProduct> UnmatchedProducts(const Formulary& formulary, const std::vector<ProductCount>& counts,
+                                                 size_t limit) {
+  std::vector<UnresolvedProduct> unresolved;
   for (const ProductCount& product : counts) {
-    if (!Resolve(formulary, product.product, product.code, product.code_system).matched()) unmatched.push_back(product);
+    const ResolvedProduct resolved = Resolve(formulary, product.product, product.code, product.code_system);
+    if (resolved.matched() && !resolved.flagged()) continue;
+    UnresolvedProduct entry{product, resolved.match, FlagDescription(resolved), {}};
+    if (!resolved.matched()) entry.suggestions = SuggestNames(formulary, product.product);
+    unresolved.push_back(std::move(entry));
   }
-  std::stable_sort(unmatched.begin(), unmatched.end(), [](const ProductCount& a, const ProductCount& b) {
-    return a.items != b.items ? a.items > b.items : a.patients > b.patients;
+  std::stable_sort(unresolved.begin(), unresolved.end(), [](const UnresolvedProduct& a, const UnresolvedProduct& b) {
+    return a.count.items != b.count.items ? a.count.items > b.count.items : a.count.patients > b.count.patients;
   });
-  if (limit > 0 && unmatched.size() > limit) unmatched.resize(limit);
-  return unmatched;
+  if (limit > 0 && unresolved.size() > limit) unresolved.resize(limit);
+  return unresolved;
 }
 
-json UnmatchedJson(const std::vector<ProductCount>& products, const std::string& checksum) {
+json UnmatchedJson(const std::vector<UnresolvedProduct>& products, const std::string& checksum) {
   json list = json::array();
-  for (const ProductCount& p : products) {
-    list.push_back({{"product", p.product}, {"code", p.code}, {"code_system", p.code_system},
-                    {"items", p.items}, {"patients", p.patients}});
+  for (const UnresolvedProduct& p : products) {
+    list.push_back({{"product", p.count.product}, {"code", p.count.code}, {"code_system", p.count.code_system},
+                    {"match", std::string(MatchKindName(p.match))}, {"detail", p.detail},
+                    {"suggestions", p.suggestions}, {"items", p.count.items}, {"patients", p.count.patients}});
   }
-  return json{{"products", list}, {"unmatched_products", products.size()},
-              {"unmatched_items", ItemsOf(products)}, {"formulary_checksum", checksum},
+  const Totals unmatched = TotalsOf(products, MatchKind::kUnmatched);
+  const Totals partial = TotalsOf(products, MatchKind::kPartial);
+  const Totals approximate = TotalsOf(products, MatchKind::kApproximate);
+  return json{{"products", list},
+              {"unmatched_products", unmatched.products},
+              {"unmatched_items", unmatched.items},
+              {"partial_products", partial.products},
+              {"partial_items", partial.items},
+              {"approximate_products", approximate.products},
+              {"approximate_items", approximate.items},
+              {"formulary_checksum", checksum},
               {"caution", std::string(kCaution)}};
 }
 
-void WriteUnmatchedCsv(std::ostream& out, const std::vector<ProductCount>& products) {
+void WriteUnmatchedCsv(std::ostream& out, const std::vector<UnresolvedProduct>& products) {
   WriteCsvCaution(out);
   out << CsvRow(UnmatchedHeader());
   for (const auto& row : UnmatchedRows(products)) out << CsvRow(row);
 }
 
-void WriteUnmatchedHtml(std::ostream& out, const std::vector<ProductCount>& products) {
+void WriteUnmatchedHtml(std::ostream& out, const std::vector<UnresolvedProduct>& products) {
   WriteHtmlStart(out, "Unmatched products");
-  out << "<h1>Products the formulary does not recognise</h1>\n<p>" << products.size() << " products, "
-      << ItemsOf(products) << " items</p>\n";
+  out << "<h1>Products the formulary does not fully recognise</h1>\n<p>" << EscapeHtml(UnmatchedSentence(products))
+      << "</p>\n";
   WriteHtmlTable(out, UnmatchedHeader(), UnmatchedRows(products));
   WriteHtmlEnd(out);
 }
 
-void WriteUnmatchedText(std::ostream& out, const std::vector<ProductCount>& products) {
+void WriteUnmatchedText(std::ostream& out, const std::vector<UnresolvedProduct>& products) {
   const std::vector<std::vector<std::string>> rows = UnmatchedRows(products);
-  out << products.size() << " unmatched products, " << ItemsOf(products) << " items\n";
+  out << UnmatchedSentence(products) << "\n";
   if (!rows.empty()) WriteTextTable(out, UnmatchedHeader(), rows);
+  WriteTextCaution(out);
+}
+
+// ---- formulary load-dictionary ----
+
+json DictionaryLoadJson(const std::string& dictionary, const DictionaryLoad& load, size_t rows_in_file) {
+  return json{{"dictionary", dictionary},
+              {"code_system", load.code_system},
+              {"rows_loaded", load.entries.size()},
+              {"rows_in_file", rows_in_file},
+              {"products_skipped", load.skipped},
+              {"unknown_substances", load.unknown_substances},
+              {"caution", std::string(kCaution)}};
+}
+
+void WriteDictionaryLoadText(std::ostream& out, const std::string& dictionary, const DictionaryLoad& load,
+                             size_t rows_in_file) {
+  out << dictionary << ": " << load.entries.size() << " " << load.code_system << " rows loaded, " << rows_in_file
+      << " rows in the file\n";
+  if (load.skipped > 0) out << load.skipped << " products left out: no ingredient\n";
+  if (!load.unknown_substances.empty()) {
+    out << load.unknown_substances.size()
+        << " substances are not in ingredients.csv; products naming them resolve as partial until they are added:\n";
+    for (const std::string& name : load.unknown_substances) out << "  " << name << "\n";
+  }
   WriteTextCaution(out);
 }
 

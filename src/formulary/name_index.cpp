@@ -2,26 +2,15 @@
 
 #include <algorithm>
 
+#include "formulary/description_words.h"
 #include "medload/formulary/formulary.h"
+#include "medload/formulary/resolver.h"
 
 namespace medload::formulary_internal {
 namespace {
 
 bool IsWordByte(unsigned char c) {
   return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c >= 0x80;
-}
-
-// The singular forms a plural description word may stand for.
-void SingularForms(std::string_view word, std::vector<std::string>& forms) {
-  forms.clear();
-  forms.emplace_back(word);
-  if (word.size() > 3 && word.back() == 's') forms.emplace_back(word.substr(0, word.size() - 1));
-  if (word.size() > 4 && word.substr(word.size() - 2) == "es") {
-    forms.emplace_back(word.substr(0, word.size() - 2));
-  }
-  if (word.size() > 4 && word.substr(word.size() - 3) == "ies") {
-    forms.push_back(std::string(word.substr(0, word.size() - 3)) + "y");
-  }
 }
 
 }  // namespace
@@ -69,7 +58,8 @@ bool WordTable::Contains(const std::vector<Word>& words, const std::vector<std::
 }
 
 void WordTable::Add(std::string_view name, size_t target, size_t rank) {
-  const std::string key = NameKey(name);
+  // Written out as descriptions are ("Seroquel XL" matches "seroquel modified release").
+  const std::string key = NameKey(ExpandAbbreviations(NormaliseText(name)));
   if (key.empty()) return;
   Entry entry;
   for (const Word& word : SplitWords(key)) entry.words.emplace_back(word.text);
@@ -85,12 +75,22 @@ void WordTable::Add(std::string_view name, size_t target, size_t rank) {
   ++count_;
 }
 
-const std::vector<WordTable::Entry>* WordTable::Bucket(std::string_view first_word) const {
-  thread_local std::vector<std::string> forms;
-  SingularForms(first_word, forms);
-  for (const std::string& form : forms) {
+const std::vector<WordTable::Entry>* WordTable::Bucket(std::string_view word) const {
+  // The word, then the singular forms a plural may stand for ("tablets", "patches",
+  // "suppositories"), without building a string except for "-ies".
+  const auto find = [&](std::string_view form) -> const std::vector<Entry>* {
     const auto it = by_first_.find(form);
-    if (it != by_first_.end()) return &it->second;
+    return it == by_first_.end() ? nullptr : &it->second;
+  };
+  if (const auto* bucket = find(word)) return bucket;
+  if (word.size() > 3 && word.back() == 's') {
+    if (const auto* bucket = find(word.substr(0, word.size() - 1))) return bucket;
+  }
+  if (word.size() > 4 && word.substr(word.size() - 2) == "es") {
+    if (const auto* bucket = find(word.substr(0, word.size() - 2))) return bucket;
+  }
+  if (word.size() > 4 && word.substr(word.size() - 3) == "ies") {
+    return find(std::string(word.substr(0, word.size() - 3)) + "y");
   }
   return nullptr;
 }

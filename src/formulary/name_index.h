@@ -4,9 +4,11 @@
 #pragma once
 
 #include <cstddef>
+#include <functional>
 #include <string>
 #include <string_view>
 #include <unordered_map>
+#include <utility>
 #include <vector>
 
 namespace medload {
@@ -49,8 +51,13 @@ class WordTable {
   size_t size() const { return count_; }
 
  private:
+  // Hashes a std::string and a string_view alike, so that lookups build no string.
+  struct TextHash {
+    using is_transparent = void;
+    size_t operator()(std::string_view text) const { return std::hash<std::string_view>{}(text); }
+  };
   const std::vector<Entry>* Bucket(std::string_view first_word) const;
-  std::unordered_map<std::string, std::vector<Entry>> by_first_;
+  std::unordered_map<std::string, std::vector<Entry>, TextHash, std::equal_to<>> by_first_;
   size_t count_ = 0;
 };
 
@@ -76,8 +83,11 @@ const WordTable::Entry* WordTable::LongestAt(const std::vector<Word>& words, siz
 class NameIndex {
  public:
   formulary_internal::WordTable ingredients;    // target: index in FormularyTables::ingredients
-  formulary_internal::WordTable products;       // target: index in FormularyTables::products
+  formulary_internal::WordTable products;       // target: see Formulary::NamedProductAt
   formulary_internal::WordTable non_medicines;  // target: index in FormularyTables::non_medicines
+  // Single-word ingredient names and synonyms (NameKey) with their ingredient index, sorted:
+  // the candidates a close spelling may be read as.
+  std::vector<std::pair<std::string, size_t>> spelling_names;
 };
 
 }  // namespace medload

@@ -62,8 +62,22 @@ std::string_view MatchKindName(MatchKind kind) {
     case MatchKind::kProduct: return "product";
     case MatchKind::kIngredient: return "ingredient";
     case MatchKind::kNonMedicine: return "non-medicine";
+    case MatchKind::kApproximate: return "approximate";
+    case MatchKind::kPartial: return "partial";
   }
   return "unmatched";
+}
+
+std::string FlagDescription(const ResolvedProduct& product) {
+  std::string text;
+  if (!product.unknown.empty()) {
+    text = "not in the formulary: ";
+    for (size_t i = 0; i < product.unknown.size(); ++i) text += (i == 0 ? "" : ", ") + product.unknown[i];
+  }
+  for (const SpellingReading& reading : product.spellings) {
+    text += (text.empty() ? "" : "; ") + ("\"" + reading.written + "\" read as " + reading.read_as);
+  }
+  return text;
 }
 
 std::optional<int> ProductDefaultSupplyDays(const ResolvedProduct& product, double quantity) {

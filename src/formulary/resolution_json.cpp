@@ -12,8 +12,8 @@ using nlohmann::json;
 json Optional(const std::optional<double>& value) { return value ? json(*value) : json(nullptr); }
 
 std::optional<MatchKind> MatchKindFromName(std::string_view name) {
-  for (const MatchKind kind : {MatchKind::kUnmatched, MatchKind::kCode, MatchKind::kProduct,
-                               MatchKind::kIngredient, MatchKind::kNonMedicine}) {
+  for (const MatchKind kind : {MatchKind::kUnmatched, MatchKind::kCode, MatchKind::kProduct, MatchKind::kIngredient,
+                               MatchKind::kNonMedicine, MatchKind::kApproximate, MatchKind::kPartial}) {
     if (MatchKindName(kind) == name) return kind;
   }
   return std::nullopt;
@@ -38,6 +38,32 @@ bool ReadString(const json& object, const char* key, std::string& out) {
   return true;
 }
 
+// Reads "unknown" (an array of strings) and "spellings" (objects with "written" and
+// "read_as"); absent means none. The JSON pointer of the first bad element, or "".
+std::string ReadFlags(const json& value, ResolvedProduct& product) {
+  if (value.contains("unknown")) {
+    const json& unknown = value.at("unknown");
+    if (!unknown.is_array()) return "/unknown";
+    for (size_t i = 0; i < unknown.size(); ++i) {
+      if (!unknown.at(i).is_string()) return "/unknown/" + std::to_string(i);
+      product.unknown.push_back(unknown.at(i).get<std::string>());
+    }
+  }
+  if (!value.contains("spellings")) return "";
+  const json& spellings = value.at("spellings");
+  if (!spellings.is_array()) return "/spellings";
+  for (size_t i = 0; i < spellings.size(); ++i) {
+    SpellingReading reading;
+    const json& item = spellings.at(i);
+    if (!item.is_object() || !ReadString(item, "written", reading.written) || !ReadString(item, "read_as", reading.read_as) ||
+        reading.read_as.empty()) {
+      return "/spellings/" + std::to_string(i);
+    }
+    product.spellings.push_back(std::move(reading));
+  }
+  return "";
+}
+
 }  // namespace
 
 nlohmann::json ResolvedProductToJson(const ResolvedProduct& product) {
@@ -47,7 +73,13 @@ nlohmann::json ResolvedProductToJson(const ResolvedProduct& product) {
                            {"mg_per_unit", Optional(ingredient.mg_per_unit)},
                            {"mg_per_day", Optional(ingredient.mg_per_day)}});
   }
+  json spellings = json::array();
+  for (const SpellingReading& reading : product.spellings) {
+    spellings.push_back({{"written", reading.written}, {"read_as", reading.read_as}});
+  }
   return json{{"ingredients", std::move(ingredients)},
+              {"unknown", product.unknown},
+              {"spellings", std::move(spellings)},
               {"form", product.form},
               {"dose_unit", product.dose_unit},
               {"route", std::string(RouteName(product.route))},
@@ -88,6 +120,10 @@ Result<ResolvedProduct> ResolvedProductFromJson(const nlohmann::json& value) {
   if (value.contains("non_medicine")) {
     if (!value.at("non_medicine").is_boolean()) return Bad("/non_medicine", "not true or false");
     product.non_medicine = value.at("non_medicine").get<bool>();
+  }
+  if (const std::string pointer = ReadFlags(value, product); !pointer.empty()) {
+    return Bad(pointer, pointer.find("spellings") != std::string::npos ? "not an object with written and read_as"
+                                                                       : "not a string or an array of strings");
   }
   if (value.contains("default_supply_days") && !value.at("default_supply_days").is_null()) {
     if (!value.at("default_supply_days").is_number_integer()) return Bad("/default_supply_days", "not a whole number");

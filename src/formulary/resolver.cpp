@@ -1,189 +1,81 @@
-// Resolution order (see resolver.h and docs/formulary.md): code, non-medicine terms,
-// named products, ingredient words. Strengths, form and route come from the words.
+// Resolution order (see resolver.h and docs/formulary.md): code, non-medicine terms, a
+// dictionary's exact name, named products and brands, ingredient words (with close
+// spellings and unknown parts). Strengths, form and route come from the words.
 #include "medload/formulary/resolver.h"
 
 #include <algorithm>
 #include <cctype>
-#include <cstdint>
 
+#include "formulary/description_words.h"
+#include "formulary/ingredient_words.h"
 #include "formulary/name_index.h"
+#include "formulary/product_forms.h"
+#include "formulary/spelling.h"
 
 namespace medload {
 namespace {
 
+using formulary_internal::Component;
+using formulary_internal::FindComponents;
+using formulary_internal::FindForm;
+using formulary_internal::FormWords;
 using formulary_internal::SplitWords;
 using formulary_internal::Word;
 using formulary_internal::WordTable;
 
-struct FormWords {
-  std::string_view words;
-  std::string_view form;
-  Route route;
-  std::string_view dose_unit;
+// A description made ready for matching.
+struct Text {
+  std::string text;                // normalised, abbreviations written out
+  std::vector<Word> words;         // its words, without a trailing maker in brackets
+  std::vector<Strength> strengths;
 };
 
-// Form words as dispensing descriptions write them. Longest match wins.
-constexpr FormWords kForms[] = {
-    {"tablet", "tablet", Route::kOral, "tablet"},
-    {"caplet", "tablet", Route::kOral, "tablet"},
-    {"modified release tablet", "modified-release tablet", Route::kOral, "tablet"},
-    {"prolonged release tablet", "modified-release tablet", Route::kOral, "tablet"},
-    {"gastro resistant tablet", "gastro-resistant tablet", Route::kOral, "tablet"},
-    {"dispersible tablet", "dispersible tablet", Route::kOral, "tablet"},
-    {"soluble tablet", "soluble tablet", Route::kOral, "tablet"},
-    {"effervescent tablet", "effervescent tablet", Route::kOral, "tablet"},
-    {"chewable tablet", "chewable tablet", Route::kOral, "tablet"},
-    {"orodispersible tablet", "orodispersible tablet", Route::kOral, "tablet"},
-    {"orodispersible film", "orodispersible film", Route::kOral, "film"},
-    {"sublingual tablet", "sublingual tablet", Route::kSublingualBuccal, "tablet"},
-    {"sublingual spray", "sublingual spray", Route::kSublingualBuccal, "dose"},
-    {"buccal tablet", "buccal tablet", Route::kSublingualBuccal, "tablet"},
-    {"buccal film", "buccal film", Route::kSublingualBuccal, "film"},
-    {"oromucosal solution", "oromucosal solution", Route::kSublingualBuccal, "ml"},
-    {"oromucosal spray", "oromucosal spray", Route::kSublingualBuccal, "dose"},
-    {"mouthspray", "oromucosal spray", Route::kSublingualBuccal, "dose"},
-    {"chewing gum", "medicated chewing gum", Route::kSublingualBuccal, "piece"},
-    {"capsule", "capsule", Route::kOral, "capsule"},
-    {"modified release capsule", "modified-release capsule", Route::kOral, "capsule"},
-    {"prolonged release capsule", "modified-release capsule", Route::kOral, "capsule"},
-    {"gastro resistant capsule", "gastro-resistant capsule", Route::kOral, "capsule"},
-    {"oral solution", "oral solution", Route::kOral, "ml"},
-    {"oral suspension", "oral suspension", Route::kOral, "ml"},
-    {"oral liquid", "oral solution", Route::kOral, "ml"},
-    {"oral drops", "oral drops", Route::kOral, "ml"},
-    {"oral emulsion", "oral emulsion", Route::kOral, "ml"},
-    {"oral powder", "oral powder", Route::kOral, "sachet"},
-    {"oral gel", "oral gel", Route::kOral, "g"},
-    {"syrup", "syrup", Route::kOral, "ml"},
-    {"elixir", "elixir", Route::kOral, "ml"},
-    {"linctus", "linctus", Route::kOral, "ml"},
-    {"mixture", "oral solution", Route::kOral, "ml"},
-    {"granules", "granules", Route::kOral, "sachet"},
-    {"sachet", "sachet", Route::kOral, "sachet"},
-    {"lozenge", "lozenge", Route::kOral, "lozenge"},
-    {"pastille", "pastille", Route::kOral, "pastille"},
-    {"mouthwash", "mouthwash", Route::kOral, "ml"},
-    {"cream", "cream", Route::kSkin, "g"},
-    {"ointment", "ointment", Route::kSkin, "g"},
-    {"gel", "gel", Route::kSkin, "g"},
-    {"lotion", "lotion", Route::kSkin, "ml"},
-    {"cutaneous solution", "cutaneous solution", Route::kSkin, "ml"},
-    {"cutaneous spray", "cutaneous spray", Route::kSkin, "ml"},
-    {"cutaneous foam", "cutaneous foam", Route::kSkin, "g"},
-    {"cutaneous emulsion", "cutaneous emulsion", Route::kSkin, "ml"},
-    {"scalp application", "scalp application", Route::kSkin, "ml"},
-    {"shampoo", "shampoo", Route::kSkin, "ml"},
-    {"paste", "paste", Route::kSkin, "g"},
-    {"emollient", "emollient", Route::kSkin, "g"},
-    {"bath additive", "bath additive", Route::kSkin, "ml"},
-    {"dusting powder", "dusting powder", Route::kSkin, "g"},
-    {"medicated plaster", "medicated plaster", Route::kSkin, "plaster"},
-    {"paint", "paint", Route::kSkin, "ml"},
-    {"spray", "spray", Route::kUnknown, "dose"},
-    {"eye drop", "eye drops", Route::kEye, "ml"},
-    {"eye ointment", "eye ointment", Route::kEye, "g"},
-    {"eye gel", "eye gel", Route::kEye, "g"},
-    {"ear drop", "ear drops", Route::kEar, "ml"},
-    {"ear spray", "ear spray", Route::kEar, "ml"},
-    {"ear eye drop", "ear/eye drops", Route::kEye, "ml"},
-    {"nasal spray", "nasal spray", Route::kNasal, "dose"},
-    {"nasal drop", "nasal drops", Route::kNasal, "ml"},
-    {"nasal ointment", "nasal ointment", Route::kNasal, "g"},
-    {"inhaler", "inhaler", Route::kInhaled, "puff"},
-    // Inhaler devices often named in place of the form.
-    {"accuhaler", "inhalation powder", Route::kInhaled, "dose"},
-    {"easyhaler", "inhalation powder", Route::kInhaled, "dose"},
-    {"ellipta", "inhalation powder", Route::kInhaled, "dose"},
-    {"evohaler", "inhaler", Route::kInhaled, "puff"},
-    {"nexthaler", "inhalation powder", Route::kInhaled, "dose"},
-    {"respimat", "inhalation solution", Route::kInhaled, "puff"},
-    {"spiromax", "inhalation powder", Route::kInhaled, "dose"},
-    {"turbohaler", "inhalation powder", Route::kInhaled, "dose"},
-    {"pressurised inhalation", "inhaler", Route::kInhaled, "puff"},
-    {"inhalation powder", "inhalation powder", Route::kInhaled, "dose"},
-    {"inhalation solution", "inhalation solution", Route::kInhaled, "puff"},
-    {"inhalation capsule", "inhalation powder capsule", Route::kInhaled, "capsule"},
-    {"inhalation powder capsule", "inhalation powder capsule", Route::kInhaled, "capsule"},
-    {"nebuliser solution", "nebuliser liquid", Route::kInhaled, "ml"},
-    {"nebuliser liquid", "nebuliser liquid", Route::kInhaled, "ml"},
-    {"nebuliser suspension", "nebuliser liquid", Route::kInhaled, "ml"},
-    {"nebule", "nebuliser liquid", Route::kInhaled, "ml"},
-    {"patch", "patch", Route::kTransdermal, "patch"},
-    {"transdermal patch", "patch", Route::kTransdermal, "patch"},
-    {"injection", "injection", Route::kInjection, "injection"},
-    {"solution for injection", "injection", Route::kInjection, "injection"},
-    {"suspension for injection", "injection", Route::kInjection, "injection"},
-    {"powder for solution for injection", "injection", Route::kInjection, "injection"},
-    {"pre filled pen", "injection", Route::kInjection, "injection"},
-    {"prefilled pen", "injection", Route::kInjection, "injection"},
-    {"pre filled syringe", "injection", Route::kInjection, "injection"},
-    {"prefilled syringe", "injection", Route::kInjection, "injection"},
-    {"cartridge", "injection", Route::kInjection, "injection"},
-    {"ampoule", "injection", Route::kInjection, "injection"},
-    {"implant", "implant", Route::kInjection, "implant"},
-    {"suppository", "suppository", Route::kRectal, "suppository"},
-    {"enema", "enema", Route::kRectal, "enema"},
-    {"rectal foam", "rectal foam", Route::kRectal, "dose"},
-    {"rectal ointment", "rectal ointment", Route::kRectal, "g"},
-    {"rectal solution", "enema", Route::kRectal, "enema"},
-    {"pessary", "pessary", Route::kVaginal, "pessary"},
-    {"vaginal cream", "vaginal cream", Route::kVaginal, "g"},
-    {"vaginal gel", "vaginal gel", Route::kVaginal, "g"},
-    {"vaginal tablet", "vaginal tablet", Route::kVaginal, "tablet"},
-    {"vaginal ring", "vaginal ring", Route::kVaginal, "ring"},
-};
-
-const WordTable& FormTable() {
-  static const WordTable table = [] {
-    WordTable forms;
-    for (size_t i = 0; i < std::size(kForms); ++i) forms.Add(kForms[i].words, i);
-    return forms;
-  }();
-  return table;
+bool StartsName(const Formulary& formulary, const std::vector<Word>& words, size_t i) {
+  const NameIndex& index = formulary.name_index();
+  return index.ingredients.LongestAt(words, i) != nullptr || index.products.LongestAt(words, i) != nullptr ||
+         index.non_medicines.LongestAt(words, i) != nullptr;
 }
 
-// The longest form phrase in the words (leftmost on a tie); nullptr if none.
-const FormWords* FindForm(const std::vector<Word>& words) {
-  const WordTable::Entry* best = nullptr;
-  for (size_t i = 0; i < words.size(); ++i) {
-    const WordTable::Entry* entry = FormTable().LongestAt(words, i);
-    if (entry != nullptr && (best == nullptr || entry->words.size() > best->words.size())) best = entry;
-  }
-  return best == nullptr ? nullptr : &kForms[best->target];
-}
-
-// An ingredient found in the words, with the byte offset where its name starts.
-struct Mention {
-  std::string name;
-  size_t offset = 0;
-};
-
-std::vector<Mention> FindIngredients(const Formulary& formulary, const std::vector<Word>& words) {
-  std::vector<Mention> mentions;
-  const WordTable& table = formulary.name_index().ingredients;
-  for (size_t i = 0; i < words.size();) {
-    const WordTable::Entry* entry = table.LongestAt(words, i);
-    if (entry == nullptr) {
-      ++i;
-      continue;
+// Drops the words of a trailing bracket that holds no number and no known name: the
+// maker, as dispensing systems append it ("Detrusitol 2mg tablets (Pfizer Ltd)").
+void DropMaker(const Formulary& formulary, Text& text) {
+  size_t end = text.text.find_last_not_of(" .");
+  if (end == std::string::npos || text.text[end] != ')') return;
+  int depth = 0;
+  size_t open = end + 1;
+  for (size_t i = end + 1; i-- > 0;) {
+    if (text.text[i] == ')') ++depth;
+    if (text.text[i] == '(' && --depth == 0) {
+      open = i;
+      break;
     }
-    const std::string& name = formulary.ingredients()[entry->target].name;
-    const bool repeated = std::any_of(mentions.begin(), mentions.end(),
-                                      [&](const Mention& m) { return m.name == name; });
-    if (!repeated) mentions.push_back(Mention{name, words[i].offset});
-    i += entry->words.size();
   }
-  return mentions;
+  if (open > end || open == 0) return;
+  const std::string_view inside = std::string_view(text.text).substr(open, end - open);
+  if (inside.find_first_of("0123456789") != std::string_view::npos) return;
+  const auto first = std::find_if(text.words.begin(), text.words.end(), [&](const Word& w) { return w.offset > open; });
+  for (auto it = first; it != text.words.end(); ++it) {
+    if (StartsName(formulary, text.words, static_cast<size_t>(it - text.words.begin()))) return;
+  }
+  text.words.erase(first, text.words.end());
+}
+
+Text Prepare(const Formulary& formulary, std::string_view description) {
+  Text text;
+  text.text = formulary_internal::ExpandAbbreviations(NormaliseText(description));
+  text.words = SplitWords(text.text);
+  text.strengths = ParseStrengths(text.text);
+  DropMaker(formulary, text);
+  return text;
 }
 
 // The named product whose name (and required words) occur, longest first; nullptr.
 const NamedProduct* FindNamedProduct(const Formulary& formulary, const std::vector<Word>& words) {
-  const auto& products = formulary.tables().products;
   const WordTable::Entry* best = nullptr;
   for (size_t i = 0; i < words.size(); ++i) {
     const WordTable::Entry* entry = formulary.name_index().products.LongestAt(
         words, i, [&](const WordTable::Entry& candidate) {
-          for (const std::string& required : products[candidate.target].requires_words) {
+          for (const std::string& required : formulary.NamedProductAt(candidate.target).requires_words) {
             const std::string key = NameKey(required);
             std::vector<std::string> required_words;
             for (const Word& word : SplitWords(key)) required_words.emplace_back(word.text);
@@ -195,7 +87,7 @@ const NamedProduct* FindNamedProduct(const Formulary& formulary, const std::vect
     const size_t size = entry->words.size() + entry->rank;
     if (best == nullptr || size > best->words.size() + best->rank) best = entry;
   }
-  return best == nullptr ? nullptr : &products[best->target];
+  return best == nullptr ? nullptr : &formulary.NamedProductAt(best->target);
 }
 
 ResolvedIngredient WithStrength(const std::string& name, const Strength* strength, std::string_view dose_unit) {
@@ -209,33 +101,6 @@ ResolvedIngredient WithStrength(const std::string& name, const Strength* strengt
     }
   }
   return ingredient;
-}
-
-// Pairs ingredients (in `mentions` order) with strengths: one each when the counts agree;
-// a single ingredient takes the first strength; otherwise each takes the first strength
-// written after its name and before the next ingredient's name.
-std::vector<ResolvedIngredient> PairStrengths(const std::vector<Mention>& mentions,
-                                              const std::vector<Strength>& strengths, bool by_position,
-                                              std::string_view dose_unit) {
-  std::vector<ResolvedIngredient> out;
-  for (size_t i = 0; i < mentions.size(); ++i) {
-    const Strength* strength = nullptr;
-    if (strengths.size() == mentions.size()) {
-      strength = &strengths[i];
-    } else if (mentions.size() == 1 && !strengths.empty()) {
-      strength = &strengths.front();
-    } else if (by_position) {
-      const size_t end = i + 1 < mentions.size() ? mentions[i + 1].offset : SIZE_MAX;
-      for (const Strength& candidate : strengths) {
-        if (candidate.position > mentions[i].offset && candidate.position < end) {
-          strength = &candidate;
-          break;
-        }
-      }
-    }
-    out.push_back(WithStrength(mentions[i].name, strength, dose_unit));
-  }
-  return out;
 }
 
 // The dose unit implied by the strengths' denominators ("5mg/5ml" -> ml), if any.
@@ -267,6 +132,20 @@ std::vector<Strength> ForRoute(std::vector<Strength> strengths, Route route) {
   return strengths;
 }
 
+// Sets the ingredients: names starting "?" are substances the tables do not know (kept
+// in `unknown`, never given a known ingredient's strength). Returns true if any was.
+bool SetIngredients(const std::vector<std::string>& names, const std::vector<const Strength*>& paired,
+                    ResolvedProduct& product) {
+  for (size_t i = 0; i < names.size(); ++i) {
+    if (!names[i].empty() && names[i].front() == '?') {
+      product.unknown.push_back(names[i].substr(1));
+      continue;
+    }
+    product.ingredients.push_back(WithStrength(names[i], paired[i], product.dose_unit));
+  }
+  return !product.unknown.empty();
+}
+
 void ApplyProduct(const NamedProduct& named, const std::vector<Strength>& strengths, ResolvedProduct& product) {
   if (!named.form.empty()) product.form = named.form;
   if (named.route) product.route = *named.route;
@@ -274,9 +153,43 @@ void ApplyProduct(const NamedProduct& named, const std::vector<Strength>& streng
   const std::string_view per = DoseUnitFromStrengths(strengths);
   if (!named.dose_unit.empty() && per.empty()) product.dose_unit = named.dose_unit;
   product.default_supply_days = named.supply_days_per_unit;
-  std::vector<Mention> mentions;
-  for (const std::string& name : named.ingredients) mentions.push_back(Mention{name, 0});
-  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), false, product.dose_unit);
+  const std::vector<Strength> scaled = ForRoute(strengths, product.route);
+  std::vector<const Strength*> paired = formulary_internal::PairStrengths(named.ingredients.size(), {}, scaled);
+  if (!named.strengths_in_order && named.ingredients.size() > 1) paired.assign(paired.size(), nullptr);
+  if (SetIngredients(named.ingredients, paired, product)) product.match = MatchKind::kPartial;
+}
+
+// A dictionary row: its own strengths when it gives any ("codeine=30mg"), else the
+// description's as for a named product.
+void ApplyDictionary(const Formulary& formulary, const DictionaryEntry& entry, Text& text, ResolvedProduct& product) {
+  if (product.form.empty() || text.strengths.empty()) {
+    Text own = Prepare(formulary, entry.name);
+    if (product.form.empty()) SetFormAndStrengths(own.words, own.strengths, product);
+    if (text.strengths.empty()) text.strengths = std::move(own.strengths);
+  }
+  std::vector<std::string> names;
+  std::vector<Strength> own_strengths;
+  bool explicit_strengths = false;
+  for (const std::string& element : entry.ingredients) {
+    const size_t equals = element.find('=');
+    names.push_back(element.substr(0, equals));
+    explicit_strengths = explicit_strengths || equals != std::string::npos;
+  }
+  std::vector<const Strength*> paired(names.size(), nullptr);
+  if (explicit_strengths) {
+    own_strengths.reserve(names.size());
+    for (size_t i = 0; i < names.size(); ++i) {
+      const size_t equals = entry.ingredients[i].find('=');
+      const auto parsed = equals == std::string::npos ? std::vector<Strength>{}
+                                                       : ParseStrengths(NormaliseText(entry.ingredients[i].substr(equals + 1)));
+      own_strengths.push_back(parsed.empty() ? Strength{} : parsed.front());
+      if (!parsed.empty()) paired[i] = &own_strengths.back();
+    }
+  } else {
+    own_strengths = ForRoute(text.strengths, product.route);  // kept alive for `paired`
+    paired = formulary_internal::PairStrengths(names.size(), {}, own_strengths);
+  }
+  if (SetIngredients(names, paired, product)) product.match = MatchKind::kPartial;
 }
 
 bool IsAtcLike(std::string_view code) {
@@ -284,30 +197,45 @@ bool IsAtcLike(std::string_view code) {
          std::isdigit(static_cast<unsigned char>(code[1])) && std::isdigit(static_cast<unsigned char>(code[2]));
 }
 
+std::string CodeLabel(std::string_view code, std::string_view system) {
+  return (system.empty() ? std::string("code") : std::string(system)) + " " + std::string(code);
+}
+
+// The target name of a code in codes.csv or the ATC codes of ingredients.csv; "" if none.
+std::string CodeTarget(const Formulary& formulary, std::string_view code, std::string_view system) {
+  if (const ProductCode* row = formulary.FindCode(system, code)) return row->target;
+  if (system.empty() && IsAtcLike(code)) {
+    if (const ProductCode* atc = formulary.FindCode("ATC", code)) return atc->target;
+  }
+  const std::string system_key = CodeSystemKey(system);
+  const bool atc_system = system_key.empty() || system_key == "atc" || system_key.find("whocc") != std::string::npos;
+  const Ingredient* ingredient = atc_system ? formulary.FindByAtc(code) : nullptr;
+  return ingredient == nullptr ? std::string() : ingredient->name;
+}
+
 // Resolution by code; true if the code named something.
-bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_view system,
-                 const std::vector<Strength>& strengths, ResolvedProduct& product) {
+bool ResolveCode(const Formulary& formulary, std::string_view code, std::string_view system, Text& text,
+                 ResolvedProduct& product) {
   std::string target;
-  if (const ProductCode* row = formulary.FindCode(system, code)) {
-    target = row->target;
-  } else if (system.empty() && IsAtcLike(code)) {
-    if (const ProductCode* atc = formulary.FindCode("ATC", code)) target = atc->target;
-  }
-  const std::string label = (system.empty() ? std::string("code") : std::string(system)) + " " + std::string(code);
+  if (const ProductCode* row = formulary.FindCode(system, code)) target = row->target;
   if (target.empty()) {
-    const std::string system_key = NameKey(system);
-    const bool atc_system = system_key.empty() || system_key == "atc" || system_key.find("whocc") != std::string::npos;
-    const Ingredient* ingredient = atc_system ? formulary.FindByAtc(code) : nullptr;
-    if (ingredient == nullptr) return false;
-    target = ingredient->name;
+    if (const DictionaryEntry* entry = formulary.FindDictionaryCode(system, code)) {
+      product.match = MatchKind::kCode;
+      product.match_detail = CodeLabel(code, system) + " -> \"" + entry->name + "\" (dictionary.csv)";
+      ApplyDictionary(formulary, *entry, text, product);
+      return true;
+    }
+    target = CodeTarget(formulary, code, system);
   }
+  if (target.empty()) return false;
   product.match = MatchKind::kCode;
-  product.match_detail = label + " -> " + target;
+  product.match_detail = CodeLabel(code, system) + " -> " + target;
+  const std::vector<Strength> strengths = ForRoute(text.strengths, product.route);
   if (const NamedProduct* named = formulary.FindProduct(target)) {
-    ApplyProduct(*named, strengths, product);
+    ApplyProduct(*named, text.strengths, product);
   } else if (const Ingredient* ingredient = formulary.FindIngredient(target)) {
-    product.ingredients =
-        PairStrengths({Mention{ingredient->name, 0}}, ForRoute(strengths, product.route), false, product.dose_unit);
+    product.ingredients.push_back(WithStrength(ingredient->name, strengths.empty() ? nullptr : &strengths.front(),
+                                               product.dose_unit));
   } else {
     product.non_medicine = true;  // a code for a non-medicine term
   }
@@ -328,32 +256,81 @@ bool ResolveNonMedicine(const Formulary& formulary, const std::vector<Word>& wor
   return false;
 }
 
+std::string JoinWords(const std::vector<std::string>& words) {
+  std::string out;
+  for (const std::string& word : words) out += (out.empty() ? "" : ", ") + word;
+  return out;
+}
+
+// Resolution by the ingredient names, close spellings and unknown parts in the words.
+void ResolveByIngredients(const Formulary& formulary, const Text& text, ResolvedProduct& product) {
+  const std::vector<Component> components = FindComponents(formulary, text.text, text.words, text.strengths);
+  if (components.empty()) {
+    product.match_detail = "no code, product or ingredient name recognised";
+    return;
+  }
+  std::vector<std::string> names;
+  std::vector<size_t> offsets;
+  for (const Component& component : components) {
+    names.push_back(component.kind == Component::Kind::kUnknown ? "?" + component.name : component.name);
+    offsets.push_back(component.offset);
+    if (component.kind == Component::Kind::kSpelled) product.spellings.push_back({component.written, component.name});
+  }
+  const std::vector<Strength> strengths = ForRoute(text.strengths, product.route);
+  const std::vector<const Strength*> paired = formulary_internal::PairStrengths(names.size(), offsets, strengths);
+  const bool partial = SetIngredients(names, paired, product);
+  product.match = partial ? MatchKind::kPartial
+                          : (product.spellings.empty() ? MatchKind::kIngredient : MatchKind::kApproximate);
+  product.match_detail = product.ingredients.size() + product.unknown.size() == 1 ? "ingredient name"
+                                                                                    : "ingredient names (combination)";
+}
+
+// Says in the detail what was read from a close spelling and what was not recognised.
+void NoteFlags(ResolvedProduct& product) {
+  std::vector<std::string> readings;
+  for (const SpellingReading& reading : product.spellings) readings.push_back("\"" + reading.written + "\" read as " + reading.read_as);
+  if (!readings.empty()) product.match_detail += "; close spelling: " + JoinWords(readings);
+  if (!product.unknown.empty()) product.match_detail += "; not in the formulary: " + JoinWords(product.unknown);
+}
+
 }  // namespace
 
 ResolvedProduct Resolve(const Formulary& formulary, std::string_view description, std::string_view code,
                         std::string_view code_system) {
   ResolvedProduct product;
-  const std::string text = NormaliseText(description);
-  const std::vector<Word> words = SplitWords(text);
-  const std::vector<Strength> strengths = ParseStrengths(text);
-  SetFormAndStrengths(words, strengths, product);
-  if (!code.empty() && ResolveCode(formulary, code, code_system, strengths, product)) return product;
-  if (ResolveNonMedicine(formulary, words, product)) return product;
-  if (const NamedProduct* named = FindNamedProduct(formulary, words)) {
-    ApplyProduct(*named, strengths, product);
+  Text text = Prepare(formulary, description);
+  SetFormAndStrengths(text.words, text.strengths, product);
+  if (!code.empty() && ResolveCode(formulary, code, code_system, text, product)) {
+    NoteFlags(product);
+    return product;
+  }
+  if (ResolveNonMedicine(formulary, text.words, product)) return product;
+  if (const DictionaryEntry* entry = formulary.FindDictionaryName(description)) {
     product.match = MatchKind::kProduct;
-    product.match_detail = "product \"" + named->name + "\"";
-    return product;
+    product.match_detail = "dictionary product \"" + entry->name + "\" (" + entry->code_system + ")";
+    ApplyDictionary(formulary, *entry, text, product);
+  } else if (const NamedProduct* named = FindNamedProduct(formulary, text.words)) {
+    product.match = MatchKind::kProduct;
+    product.match_detail = "product \"" + named->name + "\" (" + named->table + ")";
+    ApplyProduct(*named, text.strengths, product);
+  } else {
+    ResolveByIngredients(formulary, text, product);
   }
-  const std::vector<Mention> mentions = FindIngredients(formulary, words);
-  if (mentions.empty()) {
-    product.match_detail = "no code, product or ingredient name recognised";
-    return product;
-  }
-  product.ingredients = PairStrengths(mentions, ForRoute(strengths, product.route), true, product.dose_unit);
-  product.match = MatchKind::kIngredient;
-  product.match_detail = mentions.size() == 1 ? "ingredient name" : "ingredient names (combination)";
+  NoteFlags(product);
   return product;
+}
+
+std::vector<std::string> SuggestNames(const Formulary& formulary, std::string_view description, size_t limit) {
+  const Text text = Prepare(formulary, description);
+  std::vector<std::string> names;
+  for (const Word& word : text.words) {
+    if (!formulary_internal::LooksLikeIngredient(word.text)) continue;
+    for (std::string& name : formulary_internal::NearestNames(formulary, word.text, limit)) {
+      if (std::find(names.begin(), names.end(), name) == names.end()) names.push_back(std::move(name));
+    }
+  }
+  if (names.size() > limit) names.resize(limit);
+  return names;
 }
 
 const ResolvedProduct& ResolutionCache::Resolve(std::string_view description, std::string_view code,

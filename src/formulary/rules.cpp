@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload {
@@ -77,12 +78,20 @@ class RuleReader {
       Fault(pointer, "not an object");
       return requirement;
     }
-    UnknownKeys(value, pointer, {"classes", "ingredients", "scale_score_at_least", "scale", "at_least"});
+    UnknownKeys(value, pointer, {"classes", "ingredients", "scale_score_at_least", "scale", "at_least", "count"});
     requirement.classes = Strings(value, pointer, "classes");
     requirement.ingredients = Strings(value, pointer, "ingredients");
     requirement.scale_score_at_least = Whole(value, pointer, "scale_score_at_least", 1, 3);
     if (value.contains("scale")) requirement.scale = Text(value, pointer, "scale");
     requirement.at_least = Whole(value, pointer, "at_least", 1, 1000).value_or(1);
+    if (value.contains("count")) {
+      const std::string count = Text(value, pointer, "count");
+      if (count == "medicines") {
+        requirement.count = RuleCount::kMedicines;
+      } else if (!count.empty() && count != "ingredients") {
+        Fault(pointer + "/count", "\"" + count + "\" is not \"ingredients\" or \"medicines\"");
+      }
+    }
     if (requirement.classes.empty() && requirement.ingredients.empty() && !requirement.scale_score_at_least) {
       Fault(pointer, "needs classes, ingredients or scale_score_at_least");
     }
@@ -106,27 +115,88 @@ class RuleReader {
     }
   }
 
+  // The list of requirements at `key`: required and non-empty for "require".
+  std::vector<RuleRequirement> Requirements(const json& rule, const std::string& pointer, const char* key,
+                                            bool required) {
+    std::vector<RuleRequirement> requirements;
+    if (!rule.contains(key) && !required) return requirements;
+    if (!rule.contains(key) || !rule.at(key).is_array() || (required && rule.at(key).empty())) {
+      Fault(pointer + "/" + key, required ? "missing or not a non-empty array" : "not an array");
+      return requirements;
+    }
+    const json& list = rule.at(key);
+    for (size_t i = 0; i < list.size(); ++i) {
+      requirements.push_back(Requirement(list.at(i), pointer + "/" + key + "/" + std::to_string(i)));
+    }
+    return requirements;
+  }
+
+  std::vector<Route> Routes(const json& rule, const std::string& pointer) {
+    const std::vector<std::string> names = Strings(rule, pointer, "routes");
+    if (rule.contains("routes") && rule.at("routes").is_array() && rule.at("routes").empty()) {
+      Fault(pointer + "/routes", "empty: leave the key out for the systemic routes");
+    }
+    std::vector<Route> routes;
+    for (size_t i = 0; i < names.size(); ++i) {
+      auto parsed = ParseRouteList(names[i]);
+      if (!parsed.ok() || parsed->size() != 1) {
+        Fault(pointer + "/routes/" + std::to_string(i), "\"" + names[i] + "\" is not a route name");
+        continue;
+      }
+      routes.push_back(parsed->front());
+    }
+    SortRoutes(routes);
+    return routes;
+  }
+
+  // The citation. Tables written before source_checked marked an unchecked citation
+  // "(from memory)": that mark is taken off the citation and the rule read as unchecked;
+  // "from memory" anywhere else is a fault, so that no screen shows it.
+  std::string Source(const json& rule, const std::string& pointer, bool& unchecked_mark) {
+    std::string source = Text(rule, pointer, "source");
+    unchecked_mark = false;
+    const auto lower = [](std::string text) {
+      for (char& c : text) c = (c >= 'A' && c <= 'Z') ? static_cast<char>(c + 32) : c;
+      return text;
+    };
+    static constexpr std::string_view kMark = "(from memory)";
+    if (const size_t at = lower(source).find(kMark); at != std::string::npos) {
+      const size_t start = at > 0 && source[at - 1] == ' ' ? at - 1 : at;
+      source.erase(start, kMark.size() + (at - start));
+      unchecked_mark = true;
+    }
+    if (lower(source).find("from memory") != std::string::npos) {
+      Fault(pointer + "/source", "cites \"from memory\": give the citation and \"source_checked\": false");
+    }
+    if (rule.contains("source_checked") && !rule.at("source_checked").is_boolean()) {
+      Fault(pointer + "/source_checked", "not true or false");
+    }
+    return source;
+  }
+
   Rule ReadRule(const json& value, const std::string& pointer) {
     Rule rule;
     if (!value.is_object()) {
       Fault(pointer, "not an object");
       return rule;
     }
-    UnknownKeys(value, pointer, {"id", "title", "explanation", "source", "age_min", "measures", "require"});
+    UnknownKeys(value, pointer, {"id", "title", "explanation", "source", "source_checked", "age_min", "measures",
+                                 "require", "forbid", "routes"});
     rule.id = Text(value, pointer, "id");
     rule.title = Text(value, pointer, "title");
     rule.explanation = Text(value, pointer, "explanation");
-    rule.source = Text(value, pointer, "source");
+    bool unchecked_mark = false;
+    rule.source = Source(value, pointer, unchecked_mark);
+    rule.source_checked = value.contains("source_checked") && value.at("source_checked").is_boolean() &&
+                          value.at("source_checked").get<bool>();
+    if (unchecked_mark && rule.source_checked) {
+      Fault(pointer + "/source_checked", "true, but the source says \"(from memory)\"");
+    }
     rule.age_min = Whole(value, pointer, "age_min", 0, 150);
     if (value.contains("measures")) Measures(value.at("measures"), pointer + "/measures", rule.measures);
-    if (!value.contains("require") || !value.at("require").is_array() || value.at("require").empty()) {
-      Fault(pointer + "/require", "missing or not a non-empty array");
-      return rule;
-    }
-    const json& require = value.at("require");
-    for (size_t i = 0; i < require.size(); ++i) {
-      rule.require.push_back(Requirement(require.at(i), pointer + "/require/" + std::to_string(i)));
-    }
+    rule.routes = Routes(value, pointer);
+    rule.require = Requirements(value, pointer, "require", true);
+    rule.forbid = Requirements(value, pointer, "forbid", false);
     return rule;
   }
 
@@ -142,6 +212,12 @@ int LineOf(std::string_view text, size_t byte) {
 }
 
 }  // namespace
+
+std::string RuleSourceText(const Rule& rule) {
+  if (rule.source_checked) return rule.source;
+  return rule.source + "; not yet checked against the publication: check against the current edition before "
+                       "local use";
+}
 
 std::vector<Rule> ParseRules(std::string_view json_text, std::string_view file_name,
                              std::vector<std::string>& faults) {

@@ -1,5 +1,6 @@
 // Strengths as British product descriptions write them: "10mg", "500micrograms",
-// "5mg/5ml", "30mg/500mg", "30/500", "0.1%", "5micrograms/hour", "100units/ml".
+// "5mg/5ml", "30mg/500mg", "30/500", "0.1%", "5micrograms/hour", "100units/ml", and as US
+// ones do: "5 mg/325 mg", "10-325 mg".
 #include <charconv>
 #include <cmath>
 #include <optional>
@@ -111,8 +112,10 @@ std::vector<Item> ReadChain(std::string_view text, size_t& i) {
   chain.push_back(*first);
   while (chain.size() < 6) {
     size_t j = i;
+    // "10-325 mg": a dash straight between two numbers separates them as a slash does.
+    const bool dash = j + 1 < text.size() && text[j] == '-' && j > 0 && IsDigit(text[j - 1]) && IsDigit(text[j + 1]);
     SkipSpaces(text, j);
-    if (j >= text.size() || text[j] != '/') break;
+    if (j >= text.size() || (text[j] != '/' && !dash)) break;
     ++j;
     SkipSpaces(text, j);
     auto next = ReadItem(text, j, false);

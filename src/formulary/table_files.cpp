@@ -9,6 +9,8 @@
 
 #include "formulary/table_reader.h"
 #include "medload/core/hash.h"
+#include "medload/formulary/resolver.h"
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload::formulary_internal {
@@ -127,6 +129,17 @@ std::optional<int> ParseWhole(std::string_view text) {
   return value;
 }
 
+// The optional `routes` column of a scale or dbi.csv row: empty, or route names.
+std::optional<std::vector<Route>> EntryRoutes(const Table& table, const TableRow& row,
+                                              std::vector<std::string>& faults) {
+  auto routes = ParseRouteList(row.optional.empty() ? std::string() : row.optional[0]);
+  if (!routes.ok()) {
+    faults.push_back(Fault(table.name, row.line, "routes: " + routes.status().message()));
+    return std::nullopt;
+  }
+  return std::move(routes).value();
+}
+
 void ReadScale(const Table& table, Scale& scale, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "ingredient", faults)) continue;
@@ -139,7 +152,9 @@ void ReadScale(const Table& table, Scale& scale, std::vector<std::string>& fault
       faults.push_back(Fault(table.name, row.line, "score: " + row.fields[1] + " is out of range 0..3"));
       continue;
     }
-    scale.rows.push_back(ScaleRow{row.fields[0], *score, row.fields[2], row.line});
+    auto routes = EntryRoutes(table, row, faults);
+    if (!routes) continue;
+    scale.rows.push_back(ScaleRow{row.fields[0], *score, row.fields[2], row.line, std::move(*routes)});
   }
 }
 
@@ -168,7 +183,22 @@ void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::strin
                              "effect: \"" + row.fields[2] + "\" is not anticholinergic, sedative or both"));
       continue;
     }
-    tables.dbi.push_back(DbiDose{row.fields[0], *dose, *effect, row.fields[3], row.line});
+    auto routes = EntryRoutes(table, row, faults);
+    if (!routes) continue;
+    tables.dbi.push_back(DbiDose{row.fields[0], *dose, *effect, row.fields[3], row.line, std::move(*routes)});
+  }
+}
+
+void ReadDbiClasses(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "class", faults)) continue;
+    const auto effect = EffectFromName(row.fields[1]);
+    if (!effect) {
+      faults.push_back(Fault(table.name, row.line,
+                             "effect: \"" + row.fields[1] + "\" is not anticholinergic, sedative or both"));
+      continue;
+    }
+    tables.dbi_classes.push_back(DbiClass{row.fields[0], *effect, row.fields[2], row.line});
   }
 }
 
@@ -218,6 +248,53 @@ void ReadCodes(const Table& table, FormularyTables& tables, std::vector<std::str
   }
 }
 
+void ReadBrands(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "brand", faults)) continue;
+    NamedProduct brand;
+    brand.name = row.fields[0];
+    brand.ingredients = SplitList(row.fields[1]);
+    brand.source = row.fields[2];
+    brand.line = row.line;
+    brand.table = table.name;
+    if (brand.ingredients.empty()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: empty (ingredients or a products.csv name)"));
+      continue;
+    }
+    tables.brands.push_back(std::move(brand));
+  }
+}
+
+// "name=strength": the strength must read as exactly one strength ("30mg", "5mg/5ml").
+bool StrengthReads(std::string_view element) {
+  const size_t equals = element.find('=');
+  if (equals == std::string_view::npos || equals + 1 == element.size()) return true;
+  return ParseStrengths(NormaliseText(element.substr(equals + 1))).size() == 1;
+}
+
+void ReadDictionary(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "code_system", faults)) continue;
+    DictionaryEntry entry{row.fields[0], row.fields[1], row.fields[2], row.fields[3],
+                          SplitList(row.fields[4]), row.fields[5], row.line};
+    if (entry.code.empty() && entry.name.empty()) {
+      faults.push_back(Fault(table.name, row.line, "code and name: both empty (a row needs one)"));
+      continue;
+    }
+    if (entry.ingredients.empty()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: empty"));
+      continue;
+    }
+    const auto bad = std::find_if(entry.ingredients.begin(), entry.ingredients.end(),
+                                  [](const std::string& element) { return !StrengthReads(element); });
+    if (bad != entry.ingredients.end()) {
+      faults.push_back(Fault(table.name, row.line, "ingredients: \"" + *bad + "\" has a strength that does not read"));
+      continue;
+    }
+    tables.dictionary.push_back(std::move(entry));
+  }
+}
+
 void ReadNonMedicines(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "term", faults)) continue;
@@ -225,14 +302,40 @@ void ReadNonMedicines(const Table& table, FormularyTables& tables, std::vector<s
   }
 }
 
-// Reads the table `relative` with `columns` and hands it to `read`.
+// routes.csv: `route,systemic,source`, each route at most once.
+void ReadRoutes(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
+  std::vector<std::pair<Route, int>> seen;
+  for (const TableRow& row : table.rows) {
+    if (!NameAndSource(table, row, "route", faults)) continue;
+    const std::optional<Route> route = RouteFromName(row.fields[0]);
+    if (!route || *route == Route::kUnknown) {
+      faults.push_back(Fault(table.name, row.line, "route: \"" + row.fields[0] + "\" is not a route name"));
+      continue;
+    }
+    if (row.fields[1] != "yes" && row.fields[1] != "no") {
+      faults.push_back(Fault(table.name, row.line, "systemic: \"" + row.fields[1] + "\" is not yes or no"));
+      continue;
+    }
+    const auto first = std::find_if(seen.begin(), seen.end(), [&](const auto& s) { return s.first == *route; });
+    if (first != seen.end()) {
+      faults.push_back(Fault(table.name, row.line, "duplicate route \"" + std::string(RouteName(*route)) +
+                                                       "\" (first on line " + std::to_string(first->second) + ")"));
+      continue;
+    }
+    seen.emplace_back(*route, row.line);
+    tables.routes.push_back(RouteRow{*route, row.fields[1] == "yes", row.fields[2], row.line});
+  }
+}
+
+// Reads the table `relative` with `columns` (and `optional_columns`) and hands it to `read`.
 template <typename ReadFn>
 void ReadTableFile(const fs::path& dir, const std::string& relative, bool required,
                    const std::vector<std::string_view>& columns, FileContents& files,
-                   std::vector<std::string>& faults, ReadFn read) {
+                   std::vector<std::string>& faults, ReadFn read,
+                   const std::vector<std::string_view>& optional_columns = {}) {
   const auto content = ReadFile(dir, relative, required, files, faults);
   if (!content) return;
-  const auto table = ParseTable(relative, *content, columns, faults);
+  const auto table = ParseTable(relative, *content, columns, faults, optional_columns);
   if (table) read(*table);
 }
 
@@ -277,11 +380,15 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
     Scale scale;
     scale.name = name;
     ReadTableFile(dir, "anticholinergic/" + name + ".csv", true, {"ingredient", "score", "source"}, files,
-                  faults, [&](const Table& t) { ReadScale(t, scale, faults); });
+                  faults, [&](const Table& t) { ReadScale(t, scale, faults); }, {"routes"});
     tables.scales.push_back(std::move(scale));
   }
   ReadTableFile(dir, "dbi.csv", false, {"ingredient", "min_daily_dose_mg", "effect", "source"}, files, faults,
-                [&](const Table& t) { ReadDbi(t, tables, faults); });
+                [&](const Table& t) { ReadDbi(t, tables, faults); }, {"routes"});
+  ReadTableFile(dir, "dbi_classes.csv", false, {"class", "effect", "source"}, files, faults,
+                [&](const Table& t) { ReadDbiClasses(t, tables, faults); });
+  ReadTableFile(dir, "routes.csv", false, {"route", "systemic", "source"}, files, faults,
+                [&](const Table& t) { ReadRoutes(t, tables, faults); });
   ReadTableFile(dir, "products.csv", false,
                 {"product", "requires", "ingredients", "form", "route", "dose_unit", "supply_days_per_unit",
                  "source"},
@@ -290,6 +397,10 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
                 faults, [&](const Table& t) { ReadCodes(t, tables, faults); });
   ReadTableFile(dir, "non_medicines.csv", false, {"term", "category", "source"}, files, faults,
                 [&](const Table& t) { ReadNonMedicines(t, tables, faults); });
+  ReadTableFile(dir, "brands.csv", false, {"brand", "ingredients", "source"}, files, faults,
+                [&](const Table& t) { ReadBrands(t, tables, faults); });
+  ReadTableFile(dir, "dictionary.csv", false, {"code_system", "code", "name", "brand", "ingredients", "source"},
+                files, faults, [&](const Table& t) { ReadDictionary(t, tables, faults); });
   if (const auto rules = ReadFile(dir, "rules.json", false, files, faults)) {
     tables.rules = ParseRules(*rules, "rules.json", faults);
   }

@@ -92,7 +92,8 @@ std::vector<std::string> SplitList(std::string_view text) {
 
 std::optional<Table> ParseTable(std::string_view name, std::string_view content,
                                 const std::vector<std::string_view>& columns,
-                                std::vector<std::string>& faults) {
+                                std::vector<std::string>& faults,
+                                const std::vector<std::string_view>& optional_columns) {
   if (content.substr(0, 3) == "\xEF\xBB\xBF") content.remove_prefix(3);
   size_t pos = 0;
   int line = 1;
@@ -104,20 +105,22 @@ std::optional<Table> ParseTable(std::string_view name, std::string_view content,
     faults.push_back(Fault(name, header.line, "no header row"));
     return std::nullopt;
   }
-  // order[i] = index in the header of columns[i].
-  std::vector<size_t> order(columns.size(), SIZE_MAX);
+  // order[i] = index in the header of all_columns[i] (required, then optional).
+  std::vector<std::string_view> all_columns = columns;
+  all_columns.insert(all_columns.end(), optional_columns.begin(), optional_columns.end());
+  std::vector<size_t> order(all_columns.size(), SIZE_MAX);
   bool header_ok = true;
   for (size_t h = 0; h < header.fields.size(); ++h) {
     std::string column = header.fields[h];
     std::transform(column.begin(), column.end(), column.begin(),
                    [](unsigned char c) { return static_cast<char>(c >= 'A' && c <= 'Z' ? c + 32 : c); });
-    const auto it = std::find(columns.begin(), columns.end(), column);
-    if (it == columns.end() || order[static_cast<size_t>(it - columns.begin())] != SIZE_MAX) {
+    const auto it = std::find(all_columns.begin(), all_columns.end(), column);
+    if (it == all_columns.end() || order[static_cast<size_t>(it - all_columns.begin())] != SIZE_MAX) {
       faults.push_back(Fault(name, header.line, "unknown or repeated column \"" + column + "\""));
       header_ok = false;
       continue;
     }
-    order[static_cast<size_t>(it - columns.begin())] = h;
+    order[static_cast<size_t>(it - all_columns.begin())] = h;
   }
   for (size_t i = 0; i < columns.size(); ++i) {
     if (order[i] == SIZE_MAX) {
@@ -140,6 +143,9 @@ std::optional<Table> ParseTable(std::string_view name, std::string_view content,
     TableRow row;
     row.line = record.line;
     for (size_t i = 0; i < columns.size(); ++i) row.fields.push_back(std::move(record.fields[order[i]]));
+    for (size_t i = columns.size(); i < all_columns.size(); ++i) {
+      row.optional.push_back(order[i] == SIZE_MAX ? std::string() : std::move(record.fields[order[i]]));
+    }
     table.rows.push_back(std::move(row));
   }
   return table;

@@ -8,6 +8,7 @@
 
 #include "medload/burden/patient_facts.h"
 #include "medload/burden/patient_pass.h"
+#include "medload/burden/route_notes.h"
 #include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"
@@ -76,14 +77,26 @@ namespace {
 std::vector<std::string> EntryWarnings(const Timeline& timeline, const Burden& burden, Date on,
                                        int max_supply_days) {
   std::vector<std::string> warnings;
-  int unmatched = 0;
-  for (const auto& product : timeline.unmatched) {
+  const auto recent = [&](const UnmatchedProduct& product) {
     const std::optional<Date> last = product.LastBy(on);
-    if (last && *last > on - max_supply_days) ++unmatched;
+    return last && *last > on - max_supply_days;
+  };
+  int unmatched = 0, partial = 0, approximate = 0;
+  for (const auto& product : timeline.unmatched) unmatched += recent(product) ? 1 : 0;
+  for (const auto& product : timeline.flagged) {
+    if (!recent(product)) continue;
+    (product.match == MatchKind::kPartial ? partial : approximate) += 1;
   }
   if (unmatched > 0) warnings.push_back(std::to_string(unmatched) + " recent product(s) not recognised");
+  if (partial > 0) warnings.push_back(std::to_string(partial) + " recent product(s) recognised only in part");
+  if (approximate > 0) warnings.push_back(std::to_string(approximate) + " recent product(s) read from a close spelling");
   if (!burden.dbi_incomplete.empty()) warnings.push_back("dose unknown: " + Join(burden.dbi_incomplete, ", "));
   if (burden.age_unknown_for_rules) warnings.push_back("age unknown: age-limited rules not checked");
+  std::vector<std::string> not_stated;
+  for (const ActiveMedicine& active : burden.active) {
+    if (RouteNotStated(active)) not_stated.push_back(Join(timeline.medicines[active.medicine].ingredients, "+"));
+  }
+  if (!not_stated.empty()) warnings.push_back("route not stated, counted as systemic: " + Join(not_stated, ", "));
   return warnings;
 }
 

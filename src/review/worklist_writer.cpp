@@ -12,6 +12,13 @@ namespace {
 
 std::string Age(const WorklistEntry& e) { return e.age ? std::to_string(*e.age) : ""; }
 
+// The score's label in text and HTML: the chosen scale's name in capitals ("ACB", "ARS").
+std::string ScaleLabel(const Worklist& worklist) {
+  std::string label = worklist.scale;
+  for (char& c : label) c = (c >= 'a' && c <= 'z') ? static_cast<char>(c - 32) : c;
+  return label;
+}
+
 std::vector<std::string> CriteriaKeys(const Worklist& worklist) {
   std::vector<std::string> keys;
   for (const Criterion& c : worklist.criteria) keys.push_back(c.Key());
@@ -101,7 +108,7 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
                     std::to_string(e.rule_ids.size())});
   }
-  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "rules"}, rows);
+  WriteTextTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "rules"}, rows);
   if (!worklist.patients.empty()) out << "\nReasons:\n";
   for (const WorklistEntry& e : worklist.patients) {
     out << std::to_string(e.rank) << ". " << e.patient << ": " << Join(e.reasons, "; ") << "\n";
@@ -116,12 +123,14 @@ void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   WriteCsvComment(out, "census date: " + worklist.on.ToIso());
   WriteCsvComment(out, "summary: " + WorklistSummary(worklist));
   for (const std::string& note : WorklistNotes(worklist)) WriteCsvComment(out, "note: " + note);
-  out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "dbi", "rules", "criteria_met", "new",
-                 "reasons", "warnings"});
+  // "acb" is the score's key whatever the scale (as in JSON); "scale" names the scale.
+  out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "scale", "dbi", "rules", "criteria_met",
+                 "new", "reasons", "warnings"});
   for (const WorklistEntry& e : worklist.patients) {
     out << CsvRow({std::to_string(e.rank), e.patient, e.practice, Age(e), std::to_string(e.items),
-                   std::to_string(e.acb), FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"), Join(e.criteria_met, "|"),
-                   e.is_new ? "yes" : "no", Join(e.reasons, "; "), Join(e.warnings, "; ")});
+                   std::to_string(e.acb), worklist.scale, FormatNumber(e.dbi, 4), Join(e.rule_ids, "|"),
+                   Join(e.criteria_met, "|"), e.is_new ? "yes" : "no", Join(e.reasons, "; "),
+                   Join(e.warnings, "; ")});
   }
 }
 
@@ -132,7 +141,7 @@ void WriteWorklistHtmlTable(std::ostream& out, const Worklist& worklist) {
                     std::to_string(e.items), std::to_string(e.acb), FormatNumber(e.dbi, 2),
                     Join(e.reasons, "; ") + (e.warnings.empty() ? "" : ". Check: " + Join(e.warnings, "; "))});
   }
-  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", worklist.scale, "DBI", "reasons"}, rows);
+  WriteHtmlTable(out, {"rank", "patient", "practice", "age", "items", ScaleLabel(worklist), "DBI", "reasons"}, rows);
 }
 
 void WriteWorklistHtmlNotes(std::ostream& out, const Worklist& worklist) {

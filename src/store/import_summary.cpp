@@ -1,8 +1,10 @@
 #include "medload/store/import_summary.h"
 
 #include <ostream>
+#include <utility>
 
 #include "medload/core/caution.h"
+#include "medload/core/text.h"
 #include "medload/format/json_text.h"
 #include "medload/format/output.h"
 
@@ -22,6 +24,28 @@ std::string JoinCounts(const std::map<std::string, long>& counts, std::string_vi
   return text;
 }
 
+// "a; b" for one CSV cell.
+std::string JoinLines(const std::vector<std::string>& lines) {
+  std::string text;
+  for (const std::string& line : lines) text += (text.empty() ? "" : "; ") + line;
+  return text;
+}
+
+// "3 item(s) not recognised (not counted), 1 recognised only in part": the flagged
+// products' items by match kind, in that fixed order.
+std::string ProductFlagText(const std::map<std::string, long>& flags) {
+  static const std::pair<const char*, const char*> kKinds[] = {
+      {"unmatched", " not recognised (not counted)"},
+      {"partial", " recognised only in part"},
+      {"approximate", " read from a close spelling"}};
+  std::vector<std::string> parts;
+  for (const auto& [kind, said] : kKinds) {
+    const auto it = flags.find(kind);
+    if (it != flags.end() && it->second > 0) parts.push_back(std::to_string(it->second) + " item(s)" + said);
+  }
+  return Join(parts, ", ");
+}
+
 nlohmann::ordered_json FileJson(const ImportSummary& summary) {
   nlohmann::ordered_json json = {
       {"file", summary.file},
@@ -39,7 +63,16 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
       {"rolled_back", summary.rolled_back},
       {"examples", summary.examples},
   };
-  if (summary.kind == "dispensing" && summary.format == "fhir") json["patients"] = summary.patients;
+  if (summary.kind == "dispensing") {
+    json["not_in_registry"] = summary.not_in_registry;
+    json["not_in_registry_patients"] = summary.not_in_registry_patients;
+    json["not_in_registry_examples"] = summary.not_in_registry_examples;
+    json["product_flags"] = summary.product_flags;
+  }
+  if (summary.kind == "dispensing" && summary.format == "fhir") {
+    json["patients"] = summary.patients;
+    json["medications"] = summary.medications;
+  }
   return json;
 }
 
@@ -67,9 +100,25 @@ std::vector<std::string> DetailLines(const ImportSummary& summary) {
     lines.push_back(summary.file + ": stored but not counted in measures (status): " +
                     JoinCounts(summary.not_counted, " ", ", "));
   }
+  if (!summary.product_flags.empty()) {
+    lines.push_back(summary.file + ": products to check (medload formulary unmatched lists them): " +
+                    ProductFlagText(summary.product_flags));
+  }
   if (summary.patients > 0) {
     lines.push_back(summary.file + ": " + std::to_string(summary.patients) +
                     " of the rows read were Patient resources (registry rows)");
+  }
+  if (summary.medications > 0) {
+    lines.push_back(summary.file + ": " + std::to_string(summary.medications) +
+                    " of the rows read were Medication resources (products that dispenses name)");
+  }
+  if (summary.not_in_registry > 0) {
+    std::string line = summary.file + ": warning: " + std::to_string(summary.not_in_registry) +
+                       " imported dispensing(s) of " + std::to_string(summary.not_in_registry_patients) +
+                       " patient(s) have no row in the patient registry (no age, practice or"
+                       " registration for them until it is imported; check the patient ids)";
+    lines.push_back(line + (summary.not_in_registry_examples.empty() ? "" : ", for example:"));
+    for (const std::string& example : summary.not_in_registry_examples) lines.push_back("  " + example);
   }
   for (const std::string& example : summary.examples) lines.push_back(example);
   if (summary.rejected > static_cast<long>(summary.examples.size())) {
@@ -93,9 +142,13 @@ void ImportSummary::Add(const ImportSummary& other) {
   rejected += other.rejected;
   updated += other.updated;
   patients += other.patients;
+  medications += other.medications;
   blank_lines += other.blank_lines;
+  not_in_registry += other.not_in_registry;
+  not_in_registry_patients += other.not_in_registry_patients;
   for (const auto& [key, count] : other.reasons) reasons[key] += count;
   for (const auto& [key, count] : other.not_counted) not_counted[key] += count;
+  for (const auto& [key, count] : other.product_flags) product_flags[key] += count;
   rolled_back = rolled_back || other.rolled_back;
 }
 
@@ -129,6 +182,8 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"reasons", total.reasons},
       {"updated", total.updated},
       {"not_counted", total.not_counted},
+      {"not_in_registry", total.not_in_registry},
+      {"product_flags", total.product_flags},
       {"rolled_back", total.rolled_back},
   };
   if (files.size() == 1) json["file"] = files.front().file;
@@ -161,7 +216,7 @@ void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out)
 void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) {
   WriteCsvCaution(out);
   out << CsvRow({"file", "kind", "format", "read", "imported", "duplicates", "rejected", "updated",
-                 "rolled_back", "reasons", "not_counted"});
+                 "rolled_back", "reasons", "not_counted", "not_in_registry", "not_in_registry_examples", "product_flags"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
@@ -169,7 +224,8 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
                    std::to_string(file.imported), std::to_string(file.duplicates),
                    std::to_string(file.rejected), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
-                   JoinCounts(file.not_counted, "=", ";")});
+                   JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
+                   JoinLines(file.not_in_registry_examples), JoinCounts(file.product_flags, "=", ";")});
   }
 }
 

@@ -17,7 +17,9 @@
 #include "medload/input/csv_reader.h"
 #include "medload/input/fhir_reader.h"
 #include "store/control_characters.h"
+#include "store/fhir_import.h"
 #include "store/record_writers.h"
+#include "store/registry_check.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -77,14 +79,14 @@ bool LooksLikeNdjson(std::string_view head) {
   return first != std::string_view::npos && head[first] == '{';
 }
 
-// Counts, the --rejects output, the rejected_rows table and the run row of one file,
-// inside the file's transaction.
-class Session {
+// Counts, the --rejects output, the rejected_rows table, the registry check and the run
+// row of one file, inside the file's transaction.
+class Session : public RowSink {
  public:
   Session(Store& store, ImportSummary& summary, const ImportOptions& options)
       : db_(store.handle()), summary_(summary), options_(options) {}
 
-  ~Session() {
+  ~Session() override {
     transaction_.reset();  // ends the transaction (rolling back unless committed) first
     (void)SetMemoryMap(db_, true);
     (void)SetPageCache(db_, false);
@@ -105,7 +107,7 @@ class Session {
         " VALUES (?1, ?2, ?3, ?4, ?5)");
     if (!reject.ok()) return reject.status();
     insert_reject_ = std::move(reject.value());
-    return Status::Ok();
+    return registry_.Prepare(db_, summary_.format == "fhir");
   }
 
   WriteSource source() const { return {summary_.run_id, summary_.file}; }
@@ -131,7 +133,7 @@ class Session {
   sqlite3* db() const { return db_; }
 
   // One more row read; reports progress.
-  void Tick() {
+  void Tick() override {
     ++summary_.read;
     if (options_.progress_every > 0 && options_.progress &&
         summary_.read % options_.progress_every == 0) {
@@ -139,7 +141,7 @@ class Session {
     }
   }
 
-  Status Reject(size_t line, const RowFault& fault, std::string_view original) {
+  Status Reject(size_t line, const RowFault& fault, std::string_view original) override {
     ++summary_.rejected;
     ++summary_.reasons[fault.reason];
     if (summary_.examples.size() < options_.max_examples) summary_.examples.push_back(fault.message);
@@ -154,13 +156,20 @@ class Session {
     return insert_reject_.Run();
   }
 
-  void Count(WriteOutcome outcome) {
+  void Count(WriteOutcome outcome) override {
     if (outcome == WriteOutcome::kDuplicate) {
       ++summary_.duplicates;
       return;
     }
     ++summary_.imported;
     if (outcome == WriteOutcome::kUpdated) ++summary_.updated;
+  }
+
+  Status CountDispensing(const DispensingRecord& record, size_t line, WriteOutcome outcome) override {
+    Count(outcome);
+    if (outcome == WriteOutcome::kDuplicate) return Status::Ok();
+    if (options_.stored_dispensing) options_.stored_dispensing(record);
+    return registry_.Note(record.patient_id, line);
   }
 
   // Commits, or rolls back when the reject rate is above the limit.
@@ -175,6 +184,9 @@ class Session {
       if (!trace.ok()) return trace.status();
       if (Status status = InsertRun("rolled_back"); !status.ok()) return status;
       return trace->Commit();
+    }
+    if (summary_.kind == InputKindName(InputKind::kDispensing)) {
+      if (Status status = registry_.Finish(summary_); !status.ok()) return status;
     }
     if (patient_index_deferred_) {
       // The same definition as in the schema (store.cpp, version 1).
@@ -225,6 +237,7 @@ class Session {
   const ImportOptions& options_;
   std::optional<Transaction> transaction_;
   Statement insert_reject_;
+  RegistryCheck registry_;
   bool patient_index_deferred_ = false;
 };
 
@@ -292,7 +305,9 @@ class DispensingBatch {
     for (const Slot* slot : order_) {
       Result<WriteOutcome> outcome = writer_.Write(slot->record, slot->line, false);
       if (!outcome.ok()) return outcome.status();
-      session_.Count(*outcome);
+      if (Status status = session_.CountDispensing(slot->record, slot->line, *outcome); !status.ok()) {
+        return status;
+      }
     }
     return Status::Ok();
   }
@@ -321,8 +336,7 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
             [&](const DispensingRecord& record, size_t line) -> Status {
               Result<WriteOutcome> outcome = writer.Write(record, line, false);
               if (!outcome.ok()) return outcome.status();
-              session.Count(*outcome);
-              return Status::Ok();
+              return session.CountDispensing(record, line, *outcome);
             });
       }
       DispensingBatch batch(writer, session);
@@ -338,47 +352,6 @@ Status ImportCsv(InputKind kind, CsvReader& reader, const HeaderLayout& layout,
                                                            ParsePracticeRow);
     case InputKind::kReviews:
       return ImportCsvWith<ReviewWriter, ReviewRecord>(reader, layout, context, session, ParseReviewRow);
-  }
-  return Status::Ok();
-}
-
-// FHIR NDJSON: MedicationDispense (dispensing imports) and Patient resources.
-Status ImportFhir(InputKind kind, FhirReader& reader, Session& session, ImportSummary& summary) {
-  DispensingWriter dispensings;
-  PatientWriter patients;
-  if (Status status = dispensings.Prepare(session.db(), session.source()); !status.ok()) return status;
-  if (Status status = patients.Prepare(session.db(), session.source()); !status.ok()) return status;
-  FhirItem item;
-  while (reader.Next(item)) {
-    session.Tick();
-    if (item.kind != FhirItemKind::kRejected) {
-      if (std::optional<RowFault> fault = ControlCharacterFault(summary.file, item.line, item.text, true)) {
-        item.kind = FhirItemKind::kRejected;
-        item.fault = std::move(*fault);
-      }
-    }
-    if (item.kind == FhirItemKind::kDispense && kind != InputKind::kDispensing) {
-      item.kind = FhirItemKind::kRejected;
-      item.fault = {"unsupported_resource",
-                    FaultMessage(summary.file, item.line, "/resourceType",
-                                 "MedicationDispense in a patients import (use 'import dispensing')")};
-    }
-    if (item.kind == FhirItemKind::kRejected) {
-      if (Status status = session.Reject(item.line, item.fault, item.text); !status.ok()) return status;
-      continue;
-    }
-    Result<WriteOutcome> outcome = WriteOutcome::kDuplicate;
-    if (item.kind == FhirItemKind::kPatient) {
-      if (kind == InputKind::kDispensing) ++summary.patients;
-      outcome = patients.Write(item.patient);
-    } else {
-      outcome = dispensings.Write(item.dispense, item.line, true);
-      if (outcome.ok() && *outcome != WriteOutcome::kDuplicate && !StatusCounts(item.dispense.status)) {
-        ++summary.not_counted[item.dispense.status];
-      }
-    }
-    if (!outcome.ok()) return outcome.status();
-    session.Count(*outcome);
   }
   return Status::Ok();
 }
@@ -419,7 +392,7 @@ Status ImportFhirInput(InputKind kind, std::istream& in, uint64_t size_bytes, Se
     if (!status.ok()) return status;
   }
   FhirReader reader(in, summary.file);
-  Status status = ImportFhir(kind, reader, session, summary);
+  Status status = ImportFhirItems(kind, reader, session.db(), session.source(), session, summary);
   summary.blank_lines = static_cast<long>(reader.blank_lines());
   read_failed = reader.read_failed();
   return status;

@@ -7,8 +7,9 @@
 namespace medload {
 namespace {
 
-// The first byte of every packed history; a later layout takes another.
-constexpr char kLayout = 1;
+// The first byte of every packed history; a later layout takes another (2: the unit of
+// the structured dose).
+constexpr char kLayout = 2;
 
 // Flags of one record.
 constexpr uint8_t kHasDaysSupply = 1;
@@ -109,7 +110,7 @@ std::string PackHistory(std::span<const DispensingRecord> records) {
     if (record.structured_units_per_day) PutFixed<double>(body, *record.structured_units_per_day);
     for (const std::string* field : {&record.practice, &record.product, &record.code,
                                      &record.code_system, &record.unit, &record.dosage,
-                                     &record.status}) {
+                                     &record.status, &record.structured_unit}) {
       PutVarint(body, table.IndexOf(*field));
     }
   }
@@ -181,6 +182,7 @@ Status UnpackHistory(std::string_view packed, std::string_view patient_id,
     text(record.unit);
     text(record.dosage);
     text(record.status);
+    text(record.structured_unit);
     if (reader.failed) return damaged();
   }
   if (!reader.AtEnd()) return damaged();

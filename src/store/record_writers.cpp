@@ -45,8 +45,10 @@ Status DispensingWriter::Prepare(sqlite3* db, WriteSource source) {
       db,
       "INSERT INTO dispensings (dedup_key, record_id, patient_id, practice, dispensed_on,"
       " product, code, code_system, quantity, unit, days_supply, dosage,"
-      " structured_units_per_day, structured_as_needed, status, source_line, run_id)"
-      " VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17)"
+      " structured_units_per_day, structured_as_needed, status, source_line, run_id,"
+      " structured_unit)"
+      " VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17,"
+      " ?18)"
       " ON CONFLICT (dedup_key) DO NOTHING");
   if (!insert.ok()) return insert.status();
   insert_ = std::move(insert.value());
@@ -80,6 +82,7 @@ Result<WriteOutcome> DispensingWriter::Write(const DispensingRecord& record, siz
   insert_.BindInt(14, record.structured_as_needed ? 1 : 0);
   insert_.BindText(15, record.status);
   insert_.BindInt(16, static_cast<int64_t>(line));
+  insert_.BindText(18, record.structured_unit);
   if (Status status = insert_.Run(); !status.ok()) return status;
   if (ChangedRows(db_) == 1) return WriteOutcome::kImported;
   if (!update_status || record.record_id.empty()) return WriteOutcome::kDuplicate;

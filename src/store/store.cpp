@@ -127,6 +127,29 @@ CREATE TRIGGER dispensing_updated_unpacks AFTER UPDATE ON dispensings
 CREATE TRIGGER dispensing_deleted_unpacks AFTER DELETE ON dispensings
   BEGIN DELETE FROM packed_histories_state; END;
 )sql",
+    // 3 -> 4: the unit of a structured FHIR dose (mg, administrations...; '' = the
+    // quantity's unit), so the packed copy is built again in its new layout; the
+    // identifiers of FHIR Patient resources, through which a dispense's subject given by
+    // identifier or urn:uuid is found; and the FHIR Medication resources dispenses name.
+    R"sql(
+ALTER TABLE dispensings ADD COLUMN structured_unit TEXT NOT NULL DEFAULT '';
+DELETE FROM packed_histories;
+DELETE FROM packed_histories_state;
+CREATE TABLE patient_identifiers (
+  system TEXT NOT NULL,
+  value TEXT NOT NULL,
+  patient_id TEXT NOT NULL,
+  run_id INTEGER REFERENCES import_runs(id),
+  PRIMARY KEY (value, system, patient_id)
+) WITHOUT ROWID;
+CREATE TABLE fhir_medications (
+  medication_id TEXT PRIMARY KEY,
+  product TEXT NOT NULL,
+  code TEXT NOT NULL DEFAULT '',
+  code_system TEXT NOT NULL DEFAULT '',
+  run_id INTEGER REFERENCES import_runs(id)
+) WITHOUT ROWID;
+)sql",
 };
 
 bool FileExists(const std::string& path) {

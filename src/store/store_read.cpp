@@ -1,6 +1,7 @@
 // The store's read API over imported records: one patient's history, the ordered pass
 // over every patient, practices, reviews, product counts and provenance figures.
 #include <algorithm>
+#include <map>
 #include <span>
 #include <utility>
 
@@ -13,7 +14,8 @@ namespace {
 
 constexpr const char* kDispensingColumns =
     "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
-    " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status";
+    " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status,"
+    " structured_unit";
 
 // The statuses that count in measures (docs/input-formats.md: only "completed" or none).
 constexpr const char* kCounting = "status IN ('', 'completed')";
@@ -49,6 +51,7 @@ Status ReadDispensing(const Statement& stmt, DispensingRecord& record) {
   if (!stmt.ColumnIsNull(11)) record.structured_units_per_day = stmt.ColumnDouble(11);
   record.structured_as_needed = stmt.ColumnInt(12) != 0;
   record.status.assign(stmt.ColumnText(13));
+  record.structured_unit.assign(stmt.ColumnText(14));
   return Status::Ok();
 }
 
@@ -121,6 +124,24 @@ Result<std::vector<DispensingRecord>> Store::DispensingsOf(std::string_view pati
 
 Result<std::vector<DispensingRecord>> Store::AllDispensingsOf(std::string_view patient_id) const {
   return SelectDispensings(db_, patient_id, false);
+}
+
+Result<std::map<std::string, long>> Store::NotCountingOf(std::string_view patient_id, Date on) const {
+  Result<Statement> stmt = Statement::Prepare(
+      db_, std::string("SELECT status, COUNT(*) FROM dispensings WHERE patient_id = ?1 AND"
+                       " dispensed_on <= ?2 AND NOT ") + kCounting + " GROUP BY status ORDER BY status");
+  if (!stmt.ok()) return stmt.status();
+  const std::string on_iso = on.ToIso();
+  stmt->BindText(1, patient_id);
+  stmt->BindText(2, on_iso);
+  std::map<std::string, long> counts;
+  for (;;) {
+    Result<bool> row = stmt->Step();
+    if (!row.ok()) return row.status();
+    if (!*row) break;
+    counts[std::string(stmt->ColumnText(0))] = static_cast<long>(stmt->ColumnInt(1));
+  }
+  return counts;
 }
 
 Result<std::optional<PatientRecord>> Store::PatientOf(std::string_view patient_id) const {

@@ -45,7 +45,8 @@ std::vector<CareCondition> BuildConditions() {
       {"atrial fibrillation", {0, 10, 50, 150, 400, 900, 1600}, 85, 120,
        {{8500, {{"apixaban-5", 25}, {"apixaban-2.5", 8}, {"edoxaban", 12}, {"rivaroxaban", 8},
                 {"warfarin-1", 8, "warfarin-3", 6000}}},
-        {7000, {{"bisoprolol-2.5", 10}, {"bisoprolol-5", 15}, {"digoxin", 5}}}}},
+        {7000, {{"bisoprolol-2.5", 10}, {"bisoprolol-5", 15}, {"digoxin", 5}}},
+        {500, {{"amiodarone", 1}}}}},
       {"heart failure", {0, 5, 30, 100, 250, 500, 1000}, 85, 120,
        {{8500, {{"furosemide-40", 15}, {"furosemide-20", 8}, {"co-amilofruse", 5}}},
         {7000, {{"ramipril-2.5", 10}, {"ramipril-5", 5}, {"candesartan-8", 5}}},
@@ -81,7 +82,8 @@ std::vector<CareCondition> BuildConditions() {
         {2200, {{"gabapentin", 10}, {"pregabalin-75", 8}, {"pregabalin-150", 4},
                 {"amitriptyline-10", 12}, {"duloxetine", 3}}},
         {1800, {{"senna", 10}, {"lactulose", 8}, {"macrogol", 6}}},
-        {300, {{"baclofen", 1}}}}},
+        {300, {{"baclofen", 1}}},
+        {1500, {{"zopiclone-7.5", 6}, {"zopiclone-3.75", 4}, {"diazepam-2", 3}, {"diazepam-5", 2}, {"temazepam", 2}}}}},
       {"overactive bladder", {0, 50, 150, 300, 500, 800, 1200}, 140, 60,
        {{7500, {{"oxybutynin", 15}, {"solifenacin", 20}, {"tolterodine", 10}}},
         {2000, {{"mirabegron", 1}}}}},
@@ -106,7 +108,8 @@ std::vector<CareCondition> BuildConditions() {
        {{9000, {{"olanzapine", 20}, {"quetiapine-100", 15}, {"aripiprazole", 15},
                 {"risperidone-1", 10}}},
         {1200, {{"procyclidine", 1}}},
-        {1500, {{"zopiclone-7.5", 1}}}}},
+        {1500, {{"zopiclone-7.5", 1}}},
+        {800, {{"lithium", 1}}}}},
       {"hypothyroidism", {20, 150, 300, 500, 700, 900, 1000}, 170, 30,
        {{9500, {{"levothyroxine-50", 10}, {"levothyroxine-100", 12}}}}},
       {"gastro-oesophageal reflux", {50, 400, 800, 1200, 1600, 2000, 2400}, 100, 100,
@@ -139,6 +142,9 @@ std::vector<CareCondition> BuildConditions() {
        {{10000, {{"leg-bags", 1}}}}},
       {"irritable bowel syndrome", {20, 300, 250, 200, 150, 100, 80}, 150, 50,
        {{8000, {{"mebeverine", 1}}}, {1500, {{"loperamide", 1}}}}},
+      {"inflammatory arthritis", {5, 40, 80, 120, 150, 150, 120}, 150, 50,
+       {{7000, {{"methotrexate", 1, "folic-acid-weekly", 9500}}},
+        {2500, {{"naproxen-250", 1, "omeprazole-20", 6000}}}}},
   };
 }
 
@@ -191,6 +197,68 @@ int Scaled(int per_10000, int sex_percent, int frailty_percent, int cap) {
   return static_cast<int>(std::min<long>(value, cap));
 }
 
+// Medicines of one group that prescribers rarely give together: a second one through
+// another condition is usually the same treatment (one renin-angiotensin blocker for
+// hypertension and heart failure, one PPI). The second is kept with this chance per
+// 10,000 so that the duplications the combination rules look for occur at plausible
+// rates (rounded, from memory; see docs/synthetic-data.md).
+struct TherapeuticGroup {
+  std::vector<std::string_view> medicines;  // CatalogueProduct::medicine names
+  int keep_second_per_10000;
+};
+
+const std::vector<TherapeuticGroup>& TherapeuticGroups() {
+  static const std::vector<TherapeuticGroup> kGroups = {
+      {{"ramipril", "lisinopril", "perindopril", "losartan", "candesartan"}, 300},
+      {{"omeprazole", "lansoprazole"}, 300},
+      {{"paracetamol", "co-codamol", "co-dydramol"}, 1000},
+  };
+  return kGroups;
+}
+
+const TherapeuticGroup* GroupOf(std::string_view medicine) {
+  for (const TherapeuticGroup& group : TherapeuticGroups()) {
+    if (std::find(group.medicines.begin(), group.medicines.end(), medicine) != group.medicines.end()) return &group;
+  }
+  return nullptr;
+}
+
+// Where guidance prefers one treatment without another, a patient planned both keeps the
+// second only with this chance per 10,000: an anticoagulant alone in atrial fibrillation
+// with stable coronary disease; no bladder antimuscarinic or tricyclic with a
+// cholinesterase inhibitor. Rounded, from memory, so that these combinations occur at
+// plausible rates rather than whenever two conditions meet (docs/synthetic-data.md).
+struct Displacement {
+  std::vector<std::string_view> preferred;  // CatalogueProduct::medicine names
+  std::vector<std::string_view> displaced;
+  int keep_displaced_per_10000;
+};
+
+const std::vector<Displacement>& Displacements() {
+  static const std::vector<Displacement> kDisplacements = {
+      {{"apixaban", "edoxaban", "rivaroxaban", "warfarin"}, {"aspirin", "clopidogrel"}, 2500},
+      {{"donepezil", "rivastigmine"}, {"oxybutynin", "solifenacin", "tolterodine", "amitriptyline", "paroxetine"},
+       2500},
+  };
+  return kDisplacements;
+}
+
+bool Names(const std::vector<std::string_view>& names, const PlannedMedicine& planned) {
+  const std::string_view medicine = SynthCatalogue()[planned.product].medicine;
+  return std::find(names.begin(), names.end(), medicine) != names.end();
+}
+
+void ApplyDisplacements(SynthRandom& random, CarePlan& plan) {
+  for (const Displacement& rule : Displacements()) {
+    const bool preferred = std::any_of(plan.medicines.begin(), plan.medicines.end(),
+                                       [&](const PlannedMedicine& p) { return Names(rule.preferred, p); });
+    if (!preferred) continue;
+    std::erase_if(plan.medicines, [&](const PlannedMedicine& p) {
+      return Names(rule.displaced, p) && !random.Chance(rule.keep_displaced_per_10000);
+    });
+  }
+}
+
 class PlanBuilder {
  public:
   PlanBuilder(int window_days, SynthRandom& random, CarePlan& plan)
@@ -203,6 +271,12 @@ class PlanBuilder {
     const CatalogueProduct& product = SynthCatalogue()[*index];
     if (std::find(medicines_.begin(), medicines_.end(), product.medicine) != medicines_.end()) {
       return;
+    }
+    if (const TherapeuticGroup* group = GroupOf(product.medicine)) {
+      const bool has_one = std::any_of(medicines_.begin(), medicines_.end(), [&](std::string_view held) {
+        return GroupOf(held) == group;
+      });
+      if (has_one && !random_.Chance(group->keep_second_per_10000)) return;
     }
     medicines_.push_back(product.medicine);
     PlannedMedicine planned;
@@ -302,6 +376,7 @@ CarePlan PlanCare(int age, bool female, int window_days, SynthRandom& random) {
     }
     if (!any) builder.AddStep(condition.steps.front(), c);
   }
+  ApplyDisplacements(random, plan);
   PlanCourses(band, female, window_days, random, plan);
   return plan;
 }

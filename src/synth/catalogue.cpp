@@ -55,6 +55,8 @@ struct Dosages {
       {"two capsules three times a day", "TWO CAPSULES TO BE TAKEN THREE TIMES A DAY", "2 tds"});
   CatalogueDosage weekly_tab = Regimen(1, 1, 1, 1, kW, false, "tablet",
       {"one tablet once a week", "ONE TO BE TAKEN ONCE A WEEK ON THE SAME DAY", "1 weekly"});
+  CatalogueDosage six_weekly_tab = Regimen(6, 6, 1, 1, kW, false, "tablet",
+      {"six tablets once a week on the same day", "SIX TABLETS TO BE TAKEN ONCE A WEEK ON THE SAME DAY"});
   CatalogueDosage patch_72h = Regimen(1, 1, 1, 72, kH, false, "patch",
       {"apply one patch every 72 hours", "APPLY ONE PATCH EVERY 3 DAYS",
        "one patch every three days"});
@@ -230,6 +232,7 @@ std::vector<CatalogueProduct> BuildProducts() {
       Med("warfarin-3", "Warfarin 3mg tablets", kReg, "tablet", 28, d.anticoagulant_clinic,
           "warfarin 3mg", false, 28),
       Med("digoxin", "Digoxin 125microgram tablets", kReg, "tablet", 28, d.od_tab, "digoxin"),
+      Med("amiodarone", "Amiodarone 200mg tablets", kReg, "tablet", 28, d.od_tab, "amiodarone"),
       Med("furosemide-20", "Furosemide 20mg tablets", kReg, "tablet", 28, d.om_tab, "furosemide"),
       Med("furosemide-40", "Furosemide 40mg tablets", kReg, "tablet", 28, d.om_tab, "furosemide"),
       Med("co-amilofruse", "Co-amilofruse 5mg/40mg tablets", kReg, "tablet", 28, d.om_tab,
@@ -313,6 +316,8 @@ std::vector<CatalogueProduct> BuildProducts() {
       Med("risperidone-1", "Risperidone 1mg tablets", kReg, "tablet", 56, d.bd_tab, "risperidone"),
       Med("aripiprazole", "Aripiprazole 10mg tablets", kReg, "tablet", 28, d.od_tab,
           "aripiprazole"),
+      Med("lithium", "Lithium carbonate 400mg modified-release tablets", kReg, "tablet", 28,
+          d.on_tab, "lithium"),
       Med("procyclidine", "Procyclidine 5mg tablets", kReg, "tablet", 84, d.tds_tab,
           "procyclidine", kTarget),
       Med("donepezil-5", "Donepezil 5mg tablets", kReg, "tablet", 28, d.on_tab, "donepezil"),
@@ -417,6 +422,10 @@ std::vector<CatalogueProduct> BuildProducts() {
       Med("ferrous-sulfate", "Ferrous sulfate 200mg tablets", kReg, "tablet", 28, d.od_tab,
           "ferrous sulfate"),
       Med("folic-acid", "Folic acid 5mg tablets", kReg, "tablet", 28, d.od_tab, "folic acid"),
+      Med("folic-acid-weekly", "Folic acid 5mg tablets", kReg, "tablet", 4, d.weekly_tab,
+          "folic acid"),
+      Med("methotrexate", "Methotrexate 2.5mg tablets", kReg, "tablet", 24, d.six_weekly_tab,
+          "methotrexate"),
       Med("hydroxocobalamin", "Hydroxocobalamin 1mg/1ml solution for injection ampoules", kReg,
           "ampoule", 1, d.injection_12_weekly, "hydroxocobalamin"),
       Med("cetirizine", "Cetirizine 10mg tablets", kReg, "tablet", 30, d.od_tab, "cetirizine"),

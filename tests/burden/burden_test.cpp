@@ -262,6 +262,19 @@ TEST_CASE("a dose from an as-needed maximum is marked as such") {
   CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (as-needed maximum)");
 }
 
+TEST_CASE("a sedative class member without a minimum dose is listed as incomplete, never a silent 0") {
+  // Hilmer et al. 2007: the DBI counts drugs with sedative effects, opioids among them.
+  Fixture f;
+  f.tables.dbi.erase("diazepam");
+  f.tables.dbi_classes = {"benzodiazepine"};
+  const Burden b = f.On({Rx("diazepam 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
+  CHECK(b.dbi == 0);
+  CHECK(b.dbi_incomplete == std::vector<std::string>{"diazepam"});
+  CHECK(b.dbi_no_minimum == std::vector<std::string>{"diazepam"});
+  // Outside the listed classes nothing is expected: oxybutynin is not a benzodiazepine.
+  CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10)).dbi_incomplete.empty());
+}
+
 TEST_CASE("an ingredient with a minimum dose but no known strength is listed as incomplete") {
   Fixture f;
   auto b = f.On({Rx("diazepam tablets", D(2024, 1, 1), 28, 28)}, D(2024, 1, 10));
@@ -285,6 +298,31 @@ TEST_CASE("non-medicines never count and unmatched products are reported") {
   CHECK(timeline.unmatched[0].LastBy(D(2024, 1, 3)) == D(2024, 1, 1));
   CHECK_FALSE(timeline.unmatched[0].LastBy(D(2023, 12, 31)).has_value());
   CHECK(EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80).items == 0);
+}
+
+TEST_CASE("a product recognised in part or from a close spelling counts its known ingredients and is listed") {
+  Fixture f;
+  ResolvedProduct partial = Product({{"codeine", 30.0, {}}});
+  partial.match = MatchKind::kPartial;
+  partial.unknown = {"frobazine"};
+  f.products["frobazine and codeine 10mg/30mg tablets"] = partial;
+  ResolvedProduct approximate = Product({{"oxybutynin", 5.0, {}}});
+  approximate.match = MatchKind::kApproximate;
+  approximate.spellings = {{"oxybutinin", "oxybutynin"}};
+  f.products["oxybutinin 5mg tabs"] = approximate;
+  const Timeline timeline = f.Build({Rx("frobazine and codeine 10mg/30mg tablets", D(2024, 1, 1), 28, 28),
+                                     Rx("oxybutinin 5mg tabs", D(2024, 1, 2), 28, 28)});
+  CHECK(timeline.unmatched.empty());
+  REQUIRE(timeline.flagged.size() == 2);
+  CHECK(timeline.flagged[0].product == "frobazine and codeine 10mg/30mg tablets");
+  CHECK(timeline.flagged[0].match == MatchKind::kPartial);
+  CHECK(timeline.flagged[0].detail == "not in the formulary: frobazine");
+  CHECK(timeline.flagged[1].match == MatchKind::kApproximate);
+  CHECK(timeline.flagged[1].detail == "\"oxybutinin\" read as oxybutynin");
+  // Both count: codeine (ACB 1) and oxybutynin (ACB 3; Boustani et al. 2008).
+  const Burden burden = EvaluateBurden(timeline, D(2024, 1, 10), f.tables, f.options, 80);
+  CHECK(burden.items == 2);
+  CHECK(burden.acb == 4);
 }
 
 TEST_CASE("dispenses whose status does not count are kept out") {

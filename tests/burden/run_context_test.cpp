@@ -9,7 +9,7 @@ namespace medload {
 
 TEST_SUITE("burden/run_context") {
 
-TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum and version") {
+TEST_CASE("each distinct product is resolved once and the store remembers it under the formulary checksum and versions") {
   auto store = Store::Open(":memory:");
   REQUIRE(store.ok());
   auto analysis = RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
@@ -23,7 +23,8 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
   CHECK(first.ingredients[0].ingredient == "amitriptyline");
 
   const std::string checksum = analysis->ResolutionKey();
-  CHECK(checksum == analysis->formulary().checksum() + " medload " MEDLOAD_VERSION);
+  CHECK(checksum == analysis->formulary().checksum() + " medload " MEDLOAD_VERSION " resolver " +
+                        std::to_string(kResolverVersion));
   auto saved = store->CachedResolution(record.product, "", "", checksum);
   REQUIRE(saved.ok());
   REQUIRE(saved->has_value());
@@ -35,6 +36,11 @@ TEST_CASE("each distinct product is resolved once and the store remembers it und
   auto older = store->CachedResolution(record.product, "", "", analysis->formulary().checksum() + " medload 0.0.1");
   REQUIRE(older.ok());
   CHECK_FALSE(older->has_value());
+
+  // Nor under the same tables and medload version with the resolver before this one.
+  auto stale = store->CachedResolution(record.product, "", "", analysis->formulary().checksum() + " medload " MEDLOAD_VERSION);
+  REQUIRE(stale.ok());
+  CHECK_FALSE(stale->has_value());
 
   // A second run reads the saved resolution back: prove it by saving a marked one.
   ResolvedProduct marked = first;
@@ -53,6 +59,22 @@ TEST_CASE("an unknown scale is a usage error naming the known scales") {
   CHECK(analysis.status().code() == StatusCode::kUsage);
   CHECK(analysis.status().message() == "scale \"nosuch\" is not a scale in " MEDLOAD_SOURCE_FORMULARY
                                        "/anticholinergic/ (known: acb, ars)");
+}
+
+TEST_CASE("a resolution saved by an earlier resolver with the same tables and version is not reused") {
+  auto store = Store::Open(":memory:");
+  REQUIRE(store.ok());
+  auto analysis = RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, &*store);
+  REQUIRE(analysis.ok());
+  DispensingRecord record;
+  record.product = "Detrusitol 2mg tablets (Pfizer Ltd)";
+  // What the resolver before brands and abbreviations saved: unmatched.
+  const std::string earlier_key = analysis->formulary().checksum() + " medload " MEDLOAD_VERSION;
+  REQUIRE(store->SaveResolution(record.product, "", "", earlier_key, SerialiseResolution(ResolvedProduct{})).ok());
+  const ResolvedProduct& product = analysis->Resolve(record);
+  CHECK(product.match == MatchKind::kProduct);
+  REQUIRE(product.ingredients.size() == 1);
+  CHECK(product.ingredients[0].ingredient == "tolterodine");
 }
 
 }  // TEST_SUITE

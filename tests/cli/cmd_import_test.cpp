@@ -264,6 +264,60 @@ TEST_CASE("CR-only line ends are read as line ends") {
   CHECK(summary["imported"] == 2);
 }
 
+// A FHIR dispense of `product` with `status` (HL7 FHIR R4 MedicationDispense).
+std::string Dispense(const std::string& id, const std::string& product, const std::string& status) {
+  return "{\"resourceType\":\"MedicationDispense\",\"id\":\"" + id + "\",\"status\":\"" + status +
+         "\",\"subject\":{\"reference\":\"Patient/P9\"},\"medicationCodeableConcept\":{\"text\":\"" + product +
+         "\"},\"quantity\":{\"value\":28,\"unit\":\"tablet\"},\"whenHandedOver\":\"2024-03-02\"}\n";
+}
+
+// Invented product names beside bundled ones; the kinds are the resolver's (docs/formulary.md).
+TEST_CASE("the import counts apart the stored dispensings of products not fully recognised") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  const std::string file = folder.Write("d.csv",
+                                        "record_id,patient_id,dispensed_on,product,quantity\n"
+                                        "R1,P1,2024-01-02,Amitriptyline 10mg tablets,28\n"
+                                        "R2,P1,2024-01-02,Zorblaxine 5mg tablets,28\n"
+                                        "R3,P2,2024-01-03,Zorblaxine 5mg tablets,28\n"
+                                        "R4,P2,2024-01-03,Frobazine 10mg and paracetamol 500mg tablets,28\n"
+                                        "R5,P3,2024-01-04,Oxybutinin 5mg tabs,28\n");
+  std::vector<std::string> args = {"--db", "medload.db", "--formulary", MEDLOAD_SOURCE_FORMULARY, "--quiet",
+                                   "--format", "json", "import", "dispensing", file};
+  ProcessResult result = RunMedload(args, run);
+  REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  nlohmann::json summary = nlohmann::json::parse(result.out);
+  const nlohmann::json expected = {{"approximate", 1}, {"partial", 1}, {"unmatched", 2}};
+  CHECK(summary["product_flags"] == expected);
+  CHECK(summary["files"][0]["product_flags"] == expected);
+  // Imported again: every row a duplicate, nothing stored, nothing flagged.
+  result = RunMedload(args, run);
+  REQUIRE(result.exit_code == 0);
+  CHECK(nlohmann::json::parse(result.out)["product_flags"] == nlohmann::json::object());
+  // A dispense whose status does not count is stored but not flagged, as it is not counted.
+  args.back() = folder.Write("d.ndjson", "{\"resourceType\":\"Patient\",\"id\":\"P9\"}\n" +
+                                             Dispense("f1", "Oxybutinin 5mg tabs", "completed") +
+                                             Dispense("f2", "Zorblaxine 5mg tablets", "cancelled"));
+  result = RunMedload(args, run);
+  REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  summary = nlohmann::json::parse(result.out);
+  CHECK(summary["imported"] == 3);
+  CHECK(summary["product_flags"] == nlohmann::json{{"approximate", 1}});
+}
+
+TEST_CASE("an import with a formulary that does not load still imports and says the products were not checked") {
+  TempFolder folder;
+  ProcessOptions run = InFolder(folder.File(""));
+  ProcessResult result =
+      RunMedload({"--db", "medload.db", "--formulary", folder.File("no-such-formulary"), "--quiet", "import",
+                  "dispensing", folder.Write("d.csv", "record_id,patient_id,dispensed_on,product,quantity\nR1,P1,2024-01-02,X,1\n")},
+                 run);
+  REQUIRE_MESSAGE(result.exit_code == 0, result.err);
+  CHECK(result.err == "medload: products not checked: formulary " + folder.File("no-such-formulary") +
+                          " does not load (medload formulary check lists its faults)\n");
+  CHECK(QueryNumber(folder.File("medload.db"), "SELECT COUNT(*) FROM dispensings") == 1);
+}
+
 TEST_CASE("deeply nested or truncated JSON in a column map and in FHIR input is an error, not a crash") {
   TempFolder folder;
   ProcessOptions run = InFolder(folder.File(""));

@@ -25,6 +25,13 @@ std::string KindName(ItemKind kind) {
     case ItemKind::kAsDirected: return "as-directed";
     case ItemKind::kSeparator: return "sep";
     case ItemKind::kThen: return "then";
+    case ItemKind::kDuration: return "days";
+    case ItemKind::kOneDay: return "one-day";
+    case ItemKind::kStop: return "stop";
+    case ItemKind::kVariable: return "variable";
+    case ItemKind::kNegation: return "not";
+    case ItemKind::kStageMark: return "stage";
+    case ItemKind::kStartAfter: return "after";
     case ItemKind::kEachSide: return "each-side";
     case ItemKind::kUnitHint: return "hint";
     case ItemKind::kFiller: return "-";
@@ -78,10 +85,14 @@ TEST_CASE("amounts read digits, words, fractions and ranges at their upper value
   CHECK(Show("a tablet") == "amount unit=tablet");
 }
 
-TEST_CASE("a fraction over 7, 52 or 12 is a duration, not an amount") {
-  CHECK(Show("5/7") == "-");
-  CHECK(Show("for 2/52") == "-");
-  CHECK(Show("3/12") == "-");
+TEST_CASE("a fraction over 7, 52 or 12 is a duration in days, not an amount") {
+  // Common practice: n/7 days, n/52 weeks, n/12 months (a month read as 30 days).
+  CHECK(Show("5/7") == "days");
+  CHECK(ValueOf("5/7", 0) == 5);
+  CHECK(Show("for 2/52") == "days");
+  CHECK(ValueOf("for 2/52", 0) == 14);
+  CHECK(Show("3/12") == "days");
+  CHECK(ValueOf("3/12", 0) == 90);
 }
 
 TEST_CASE("intervals and counts read as periods in days and administrations") {
@@ -99,14 +110,35 @@ TEST_CASE("intervals and counts read as periods in days and administrations") {
   CHECK(Show("1 x 3 daily") == "amount count period");
 }
 
-TEST_CASE("durations and offsets are understood and carry nothing") {
-  CHECK(Show("for 7 days") == "-");
-  CHECK(Show("for a week") == "-");
-  CHECK(Show("x 5 days") == "-");
+TEST_CASE("durations of a day or more are kept in days and offsets carry nothing") {
+  CHECK(Show("for 7 days") == "days");
+  CHECK(ValueOf("for 7 days", 0) == 7);
+  CHECK(Show("for a week") == "days");
+  CHECK(ValueOf("for a week", 0) == 7);
+  CHECK(Show("x 5 days") == "days");
+  CHECK(ValueOf("for 5-7 days", 0) == 7);  // a range: the upper value
+  CHECK(Show("for 2 hours") == "-");       // under a day: not a course length
   CHECK(Show("2 hours before bed") == "- - event");
   CHECK(Show("30 minutes before food") == "- - -");
-  CHECK(Show("on day 1") == "- -");
-  CHECK(Show("days 2-5") == "-");
+  CHECK(Show("14 days before food") == "- - -");
+  CHECK(Show("days 2-5") == "stage");
+  CHECK(ValueOf("days 2-5", 0) == 4);
+  CHECK(Show("weeks 3-4") == "stage");
+  CHECK(ValueOf("weeks 3-4", 0) == 14);
+  CHECK(Show("after one week") == "after");
+  CHECK(ValueOf("after one week", 0) == 7);
+  CHECK(Show("after food") == "- -");
+  CHECK(Show("x 28/7") == "days");
+}
+
+TEST_CASE("a dose on one day only is marked as such") {
+  CHECK(Show("on day 1") == "- one-day");
+  CHECK(Show("day one") == "one-day");
+  CHECK(Show("2 stat") == "amount one-day");
+  CHECK(Show("2 immediately") == "amount one-day");
+  CHECK(Show("on the first day") == "- - one-day");
+  CHECK(Show("then stop") == "stop");
+  CHECK(Show("then review") == "-");
 }
 
 TEST_CASE("clock times are events and a number before am without a space is a time") {
@@ -139,9 +171,10 @@ TEST_CASE("numbers too large for a dose are unknown and marked unusable") {
   CHECK(items[0].unusable_amount);
 }
 
-TEST_CASE("unknown words are kept with their text and punctuation is filler") {
+TEST_CASE("unknown words are kept with their text and brackets separate clauses") {
   CHECK(Show("one zorb daily") == "amount ?=zorb period");
-  CHECK(Show("( )") == "- -");
+  CHECK(Show("( )") == "sep sep");
+  CHECK(Show("* !") == "- -");
 }
 
 }  // TEST_SUITE

@@ -170,12 +170,13 @@ const Case kCases[] = {
     {"as directed when required", kNone, kPrn, kUnknown, ""},
     // Maxima on regular doses.
     {"two every 4 hours, max 6 in 24 hours", 6, kRegular, kFull, ""},
-    {"up to 8 tablets a day", 8, kRegular, kFull, "tablet"},
-    // Changing doses: the highest daily amount.
+    // "up to" leaves the number to the patient: as needed (common practice).
+    {"up to 8 tablets a day", 8, kPrn, kFull, "tablet"},
+    // Changing doses: the first stage's units per day (stages: dosage_stages_test.cpp).
     {"1 tablet three times a day for 5 days then twice a day", 3, kRegular, kFull, "tablet"},
-    {"1 tablet at night, increasing to 2 tablets at night", 2, kRegular, kFull, "tablet"},
+    {"1 tablet at night, increasing to 2 tablets at night", 1, kRegular, kPartial, "tablet"},
     {"one tablet daily for 7 days", 1, kRegular, kFull, "tablet"},
-    {"TWO ON DAY ONE THEN ONE DAILY", 1, kRegular, kFull, ""},
+    {"TWO ON DAY ONE THEN ONE DAILY", 2, kRegular, kFull, ""},
     {"one capsule daily for 3 months then review", 1, kRegular, kFull, "capsule"},
     {"1 tablet daily 5/7", 1, kRegular, kFull, "tablet"},
     // No usable amount per day.
@@ -238,10 +239,17 @@ TEST_CASE("the note names the words that were not understood") {
   CHECK(ReadDosageText("as directed").note == "as directed: no amount per day is given");
   CHECK(ReadDosageText("one when required").note == "as needed with no frequency or maximum");
   CHECK(ReadDosageText("two tablets").note == "no usable dose and frequency found");
-  CHECK(ReadDosageText("2 tablets immediately then 1 every 4 hours").note ==
+  CHECK(ReadDosageText("2 tablets daily and 1 tablet").note ==
         "a dose without a frequency was left out");
   CHECK(ReadDosageText("1 tablet three times a day for 5 days then twice a day").note ==
-        "the dose changes: the highest daily amount is used");
+        "the dose changes: read in 2 stages, the first one's units per day shown");
+  CHECK(ReadDosageText("1 daily then 2 daily").note ==
+        "a stage has no length: its dose is taken to continue");
+  CHECK(ReadDosageText("40mg daily for 5 days then reduce").note ==
+        "the dose changes by a rule that is not written out; no usable dose and frequency found");
+  CHECK(ReadDosageText("two tablets stat").note ==
+        "a dose on one day only: no amount per day; no usable dose and frequency found");
+  CHECK(ReadDosageText("take one tablet tiwce a day").note == "read \"tiwce\" as \"twice\"");
   CHECK(ReadDosageText("one zz yy xx ww vv uu daily").note ==
         "did not understand \"zz\", \"yy\", \"xx\", \"ww\", \"vv\", ...");
   CHECK(ReadDosageText("99999999999 daily").note ==

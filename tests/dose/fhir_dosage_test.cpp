@@ -2,6 +2,8 @@
 
 #include <doctest/doctest.h>
 
+#include "medload/dose/dose_unit.h"
+
 namespace medload {
 namespace {
 
@@ -158,6 +160,42 @@ TEST_CASE("structured as-needed survives a fallback to text without an as-needed
   CHECK(*reading.units_per_day == doctest::Approx(12));
 }
 
+TEST_CASE("a frequency without a dose gives administrations a day when the text gives nothing") {
+  // Source: HL7 FHIR R4 Dosage.timing (Timing.code BID; Timing.repeat) with no
+  // Dosage.doseAndRate: how much each time is left to the supply calculation.
+  struct Case {
+    const char* dosage;
+    double per_day;
+  };
+  const Case cases[] = {
+      {R"({"timing": {"code": {"coding": [{"code": "BID"}]}}})", 2},
+      {R"({"timing": {"repeat": {"frequency": 1, "period": 8, "periodUnit": "h"}}})", 3},
+      {R"({"timing": {"repeat": {"when": ["MORN", "HS"]}}, "text": "as directed"})", 2},
+      {R"({"asNeededBoolean": true, "timing": {"repeat": {"frequency": 4, "period": 1, "periodUnit": "d"}}})", 4},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.dosage);
+    const DosageReading reading = ReadFhirDosage(json::parse(c.dosage));
+    REQUIRE(reading.units_per_day);
+    CHECK(*reading.units_per_day == doctest::Approx(c.per_day));
+    CHECK(reading.unit == kAdministrationUnit);
+    CHECK(reading.understanding == Understanding::kPartial);
+  }
+  // A text that gives a dose wins over the bare frequency.
+  const DosageReading text = ReadFhirDosage(
+      json::parse(R"({"text": "two tablets twice a day", "timing": {"code": {"coding": [{"code": "BID"}]}}})"));
+  REQUIRE(text.units_per_day);
+  CHECK(*text.units_per_day == doctest::Approx(4));
+  CHECK(text.unit == "tablet");
+}
+
+TEST_CASE("a dose unit that is not known stays as written, never taken for the quantity's") {
+  const DosageReading reading = ReadFhirDosage(Dosage(2, "mmol", 1, 1, "d"));
+  REQUIRE(reading.units_per_day);
+  CHECK(reading.unit == "mmol");
+  CHECK(reading.note == "/doseAndRate/0/doseQuantity/unit \"mmol\" is not a known dose unit");
+}
+
 TEST_CASE("values of the wrong type are named by pointer and never throw") {
   const json dosage = json::parse(R"({
     "doseAndRate": [{"doseQuantity": {"value": "two"}}],
@@ -184,7 +222,7 @@ TEST_CASE("odd JSON values give an empty or unknown reading") {
   CHECK_NOTHROW(ReadFhirDosage(json::parse(R"({"maxDosePerPeriod": {"numerator": 5}})")));
 }
 
-TEST_CASE("concurrent Dosage elements add up and sequential ones take the highest") {
+TEST_CASE("concurrent Dosage elements add up and sequential ones are stages in order") {
   // Source: HL7 FHIR R4 Dosage.sequence: the same sequence number means concurrent.
   json morning = Dosage(2, "tablet", 1, 1, "d");
   json night = Dosage(1, "tablet", 1, 1, "d");
@@ -196,10 +234,33 @@ TEST_CASE("concurrent Dosage elements add up and sequential ones take the highes
   night["sequence"] = 2;
   const DosageReading sequential = ReadFhirDosageList(json::array({night, morning}));
   REQUIRE(sequential.units_per_day);
-  CHECK(*sequential.units_per_day == doctest::Approx(2));
-  CHECK(sequential.note == "the dose changes: the highest daily amount is used");
+  CHECK(*sequential.units_per_day == doctest::Approx(2));  // sequence 1 comes first
+  CHECK(sequential.stages.empty());
+  CHECK(sequential.note == "a sequence has no boundsDuration: its dose is taken to continue");
   CHECK(ReadFhirDosageList(json::array()).understanding == Understanding::kEmpty);
   CHECK(ReadFhirDosageList(json("text")).understanding == Understanding::kEmpty);
+}
+
+TEST_CASE("sequences with a bounds duration are the stages of a taper, never its highest") {
+  // Source: HL7 FHIR R4 Timing.repeat.boundsDuration: how long the sequence lasts.
+  json first = Dosage(3, "tablet", 1, 1, "d");
+  json second = Dosage(2, "tablet", 1, 1, "d");
+  json third = Dosage(1, "tablet", 1, 1, "d");
+  first["sequence"] = 1;
+  second["sequence"] = 2;
+  third["sequence"] = 3;
+  first["timing"]["repeat"]["boundsDuration"] = {{"value", 1}, {"unit", "week"}, {"code", "wk"}};
+  second["timing"]["repeat"]["boundsDuration"] = {{"value", 7}, {"code", "d"}};
+  const DosageReading taper = ReadFhirDosageList(json::array({third, second, first}));
+  REQUIRE(taper.units_per_day);
+  CHECK(*taper.units_per_day == doctest::Approx(3));
+  REQUIRE(taper.stages.size() == 3);
+  CHECK(taper.stages[0].days == 7);
+  CHECK(taper.stages[1].days == 7);
+  CHECK_FALSE(taper.stages[2].days);
+  CHECK(UnitsPerDayOnDay(taper, 7) == doctest::Approx(2));
+  CHECK(UnitsPerDayOnDay(taper, 14) == doctest::Approx(1));
+  CHECK(taper.note == "the dose changes: read in 3 stages, the first one's units per day shown");
 }
 
 TEST_CASE("a dose and frequency too large for a finite daily amount give no units per day") {

@@ -54,6 +54,15 @@ TEST_CASE("a minimal formulary is clean and counted") {
   CHECK(check.checksum.size() == 64);
 }
 
+TEST_CASE("a DBI class that no ingredient has, or named twice, is a fault") {
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nsleepers,sedative,test\n",
+              "dbi_classes.csv:3: no ingredient has the class \"sleepers\"");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,sedative,test\nnsaid,both,test\n",
+              "dbi_classes.csv:3: duplicate class \"nsaid\" (first on line 2)");
+  ExpectFault("dbi_classes.csv", "class,effect,source\nnsaid,drowsy,test\n",
+              "dbi_classes.csv:2: effect: \"drowsy\" is not anticholinergic, sedative or both");
+}
+
 TEST_CASE("a row with the wrong number of fields is a fault") {
   ExpectFault("ingredients.csv", "ingredient,synonyms,atc,classes,source\nibuprofen,,M01AE01,nsaid\n",
               "ingredients.csv:2: 4 fields, expected 5");
@@ -183,6 +192,62 @@ TEST_CASE("a rule naming an unknown class, ingredient or scale is a fault with i
               "rules.json: /rules/0/require/0/scale: unknown scale \"xyz\"");
 }
 
+TEST_CASE("a forbidden class or ingredient nobody carries is a fault with its JSON pointer") {
+  ExpectFault("rules.json",
+              R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s",
+                  "require": [{"classes": ["nsaid"]}], "forbid": [{"classes": ["ppis"]}]}]})",
+              "rules.json: /rules/0/forbid/0/classes/0: unknown class \"ppis\" (no ingredient carries it)");
+  ExpectFault("rules.json",
+              R"({"rules": [{"id": "r", "title": "t", "explanation": "e", "source": "s",
+                  "require": [{"classes": ["nsaid"]}], "forbid": [{"ingredients": ["omeprazol"]}]}]})",
+              "rules.json: /rules/0/forbid/0/ingredients/0: unknown ingredient \"omeprazol\" (not in ingredients.csv)");
+}
+
+TEST_CASE("routes.csv names each route once, as a route, systemic yes or no") {
+  struct Case {
+    const char* content;
+    const char* fault;
+  };
+  const std::vector<Case> cases = {
+      {"route,systemic,source\nby mouth,yes,test\n", "routes.csv:2: route: \"by mouth\" is not a route name"},
+      {"route,systemic,source\nnot stated,yes,test\n", "routes.csv:2: route: \"not stated\" is not a route name"},
+      {"route,systemic,source\nnasal,maybe,test\n", "routes.csv:2: systemic: \"maybe\" is not yes or no"},
+      {"route,systemic,source\neye,no,test\nophthalmic,yes,test\n",
+       "routes.csv:3: duplicate route \"eye\" (first on line 2)"},
+      {"route,systemic,source\nnasal,yes,\n", "routes.csv:2: source: empty (every row cites its source)"},
+      {"route,source\nnasal,test\n", "routes.csv:1: missing column \"systemic\""},
+  };
+  for (const Case& c : cases) ExpectFault("routes.csv", c.content, c.fault);
+}
+
+TEST_CASE("a scale or DBI row naming a route that does not exist is a fault") {
+  ExpectFault("anticholinergic/acb.csv", "ingredient,score,source,routes\nchlorpheniramine,3,test,oral|by mouth\n",
+              "anticholinergic/acb.csv:2: routes: \"by mouth\" is not a route name");
+  ExpectFault("dbi.csv", "ingredient,min_daily_dose_mg,effect,source,routes\nchlorphenamine,4,both,test,eyes\n",
+              "dbi.csv:2: routes: \"eyes\" is not a route name");
+}
+
+TEST_CASE("routes.csv changes the systemic routes and entries keep their own routes") {
+  TempFolder folder;
+  WriteMinimalFormulary(folder);
+  // Source: product specification section 5: oral, transdermal, injection, rectal and
+  // sublingual/buccal are systemic by default.
+  auto plain = LoadFormulary(folder.path());
+  REQUIRE(plain.ok());
+  CHECK(plain->SystemicRoutes() == DefaultSystemicRoutes());
+  folder.Write("routes.csv", "route,systemic,source\nrectal,no,test\nnasal,yes,test\n");
+  folder.Write("anticholinergic/acb.csv", "ingredient,score,source,routes\nchlorpheniramine,3,test,oral|eye\n");
+  const FormularyCheck check = CheckFormulary(folder.path());
+  CHECK(check.ok());
+  CHECK(check.routes == 2);
+  auto loaded = LoadFormulary(folder.path());
+  REQUIRE(loaded.ok());
+  CHECK(loaded->SystemicRoutes() == std::vector<Route>{Route::kOral, Route::kTransdermal, Route::kInjection,
+                                                       Route::kSublingualBuccal, Route::kNasal});
+  REQUIRE(loaded->tables().scales.size() == 1);
+  CHECK(loaded->tables().scales[0].rows[0].routes == std::vector<Route>{Route::kOral, Route::kEye});
+}
+
 TEST_CASE("bad JSON in rules.json is a fault with its line") {
   ExpectFault("rules.json", "{\"rules\": [\n  {\"id\": \"r\",,}\n]}", "rules.json:2: not valid JSON (byte 26)");
 }
@@ -223,6 +288,53 @@ TEST_CASE("LoadFormulary fails with an input status listing every fault") {
         "formulary " + folder.path() + ": 2 faults ('medload formulary check' lists them)\n"
         "anticholinergic/acb.csv:3: score: 9 is out of range 0..3\n"
         "anticholinergic/acb.csv:2: unknown ingredient \"unobtainium\" (not in ingredients.csv)");
+}
+
+TEST_CASE("faults in brands.csv and dictionary.csv name the file, line and fault") {
+  struct Case {
+    const char* file;
+    const char* content;
+    const char* fault;
+  };
+  const std::vector<Case> cases = {
+      {"brands.csv", "brand,ingredients,source\nBrufex,,test\n",
+       "brands.csv:2: ingredients: empty (ingredients or a products.csv name)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,\n", "brands.csv:2: source: empty (every row cites its source)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,frobazine,test\n",
+       "brands.csv:2: unknown ingredient or product \"frobazine\" (not in ingredients.csv or products.csv)"},
+      {"brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,test\nbrufex,ibuprofen,test\n",
+       "brands.csv:3: duplicate brand \"brufex\" (first on line 2)"},
+      {"brands.csv", "brand,ingredients,source\nRamipril,ibuprofen,test\n",
+       "brands.csv:2: brand \"Ramipril\" is also a name of the ingredient \"ramipril\""},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,,,Brufex,ibuprofen,test\n",
+       "dictionary.csv:2: code and name: both empty (a row needs one)"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,,test\n",
+       "dictionary.csv:2: ingredients: empty"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,ibuprofen=lots,test\n",
+       "dictionary.csv:2: ingredients: \"ibuprofen=lots\" has a strength that does not read"},
+      {"dictionary.csv", "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,frobazine,test\n",
+       "dictionary.csv:2: unknown ingredient \"frobazine\" (not in ingredients.csv); write \"?frobazine\" for a "
+       "substance it does not know"},
+      {"dictionary.csv",
+       "code_system,code,name,brand,ingredients,source\nlocal,1,Brufex 200mg,,ibuprofen,test\nLOCAL,1,Other,,ibuprofen,test\n",
+       "dictionary.csv:3: duplicate code LOCAL 1 (first on line 2)"},
+  };
+  for (const Case& c : cases) ExpectFault(c.file, c.content, c.fault);
+}
+
+TEST_CASE("brands and dictionary rows that name what the tables know, or mark what they do not, are clean") {
+  TempFolder folder;
+  WriteMinimalFormulary(folder);
+  folder.Write("brands.csv", "brand,ingredients,source\nBrufex,ibuprofen,test\n");
+  folder.Write("dictionary.csv",
+               "code_system,code,name,brand,ingredients,source\n"
+               "local,1,Brufex 200mg tablets,,ibuprofen=200mg,test\n"
+               "local,2,Frobazine and ibuprofen tablets,,?frobazine|ibuprofen=,test\n");
+  const FormularyCheck check = CheckFormulary(folder.path());
+  for (const std::string& fault : check.faults) CAPTURE(fault);
+  CHECK(check.ok());
+  CHECK(check.brands == 1);
+  CHECK(check.dictionary_rows == 2);
 }
 
 }  // TEST_SUITE

@@ -1,4 +1,5 @@
 #include "medload/formulary/formulary.h"
+#include "medload/formulary/resolver.h"
 
 #include <doctest/doctest.h>
 
@@ -88,11 +89,54 @@ TEST_CASE("the ARS table holds every published entry with its score") {
              "oxybutynin, perphenazine, promethazine, thioridazine, thiothixene, tizanidine, trifluoperazine");
   CheckScale("ars", 2,
              "amantadine, baclofen, cetirizine, cimetidine, clozapine, cyclobenzaprine, desipramine, loperamide, "
-             "loratadine, nortriptyline, olanzapine, prochlorperazine, pseudoephedrine, tolterodine");
+             "loratadine, nortriptyline, olanzapine, prochlorperazine, triprolidine, tolterodine");
   // carbidopa-levodopa is scored on levodopa.
   CheckScale("ars", 1,
              "levodopa, entacapone, haloperidol, methocarbamol, metoclopramide, mirtazapine, paroxetine, "
              "pramipexole, quetiapine, ranitidine, risperidone, selegiline, trazodone, ziprasidone");
+}
+
+TEST_CASE("the ARS scores the pseudoephedrine-triprolidine combination on triprolidine, not plain pseudoephedrine") {
+  // Source: Rudolph et al. 2008 Arch Intern Med 168(5):508-513, Table 1: the 2-point entry
+  // is the pseudoephedrine-triprolidine combination (from memory; references.md lists it
+  // under its first name). Triprolidine is the antihistamine that carries the effect.
+  const Formulary& f = BundledFormulary();
+  CHECK(f.ScoreOn("ars", "triprolidine") == 2);
+  CHECK_FALSE(f.ScoreOn("ars", "pseudoephedrine").has_value());
+  CHECK_FALSE(f.ScoreOn("acb", "pseudoephedrine").has_value());
+}
+
+TEST_CASE("a levonorgestrel intrauterine system is a medicine and a copper intrauterine device is not") {
+  // A levonorgestrel intrauterine system is a licensed medicine (its dm+d name reads
+  // "... intrauterine device", from memory); copper devices are appliances (common
+  // practice). Route: other (intrauterine).
+  struct Case {
+    const char* description;
+    bool medicine;
+  };
+  const std::vector<Case> cases = {
+      {"Levonorgestrel 20micrograms/24hours intrauterine device", true},
+      {"Levonorgestrel 52mg intrauterine system", true},
+      {"Mirena 20micrograms/24hours intrauterine system", true},
+      {"Jaydess 13.5mg intrauterine delivery system", true},
+      {"T-Safe 380A QL intrauterine device", false},
+      {"Nova-T 380 intrauterine device", false},
+      {"Copper intrauterine device", false},
+  };
+  for (const Case& c : cases) {
+    const std::string description = c.description;
+    CAPTURE(description);
+    const ResolvedProduct product = Resolve(BundledFormulary(), description, "", "");
+    CHECK(product.is_medicine() == c.medicine);
+    CHECK(product.non_medicine == !c.medicine);
+    if (c.medicine) {
+      REQUIRE(product.ingredients.size() == 1);
+      CHECK(product.ingredients[0].ingredient == "levonorgestrel");
+      CHECK(product.route == Route::kOther);
+    }
+  }
+  // Levonorgestrel tablets stay oral.
+  CHECK(Resolve(BundledFormulary(), "Levonorgestrel 1.5mg tablets", "", "").route == Route::kOral);
 }
 
 TEST_CASE("the two scales disagree where the publications disagree") {
@@ -160,6 +204,34 @@ TEST_CASE("ingredients are found by any name, without case, accents or punctuati
   CHECK(f.FindByAtc("n06aa09")->name == "amitriptyline");
 }
 
+// System URIs as FHIR R4 names them (terminologies page); the dm+d URI from memory.
+TEST_CASE("code systems compare without case, spaces or punctuation, and their FHIR URIs read as their names") {
+  struct Case {
+    const char* system;
+    const char* key;
+  };
+  const Case cases[] = {
+      {"ATC", "atc"},
+      {"http://www.whocc.no/atc", "atc"},
+      {"https://www.whocc.no/atc/", "atc"},
+      {"WHO ATC", "atc"},
+      {"dm+d", "dmd"},
+      {"DMD", "dmd"},
+      {"https://dmd.nhs.uk", "dmd"},
+      {"http://dmd.nhs.uk/", "dmd"},
+      {"RxNorm", "rxnorm"},
+      {"http://www.nlm.nih.gov/research/umls/rxnorm", "rxnorm"},
+      {"SNOMED CT", "snomedct"},
+      {"http://snomed.info/sct", "httpsnomedinfosct"},
+      {"Local-List 2", "locallist2"},
+      {"", ""},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.system);
+    CHECK(CodeSystemKey(c.system) == c.key);
+  }
+}
+
 TEST_CASE("classes answer by any name and list their members") {
   const Formulary& f = BundledFormulary();
   CHECK(f.HasClass("frusemide", "loop-diuretic"));
@@ -174,16 +246,33 @@ TEST_CASE("classes answer by any name and list their members") {
 TEST_CASE("CNS-active follows the 2023 AGS Beers Criteria groups") {
   // Source: 2023 AGS Beers Criteria Update Expert Panel, J Am Geriatr Soc 2023;71:2052
   // (antiepileptics incl. gabapentinoids, TCAs, SSRIs, SNRIs, antipsychotics,
-  // benzodiazepines, Z-drugs, opioids, skeletal muscle relaxants).
+  // benzodiazepines, Z-drugs, opioids, skeletal muscle relaxants); the skeletal muscle
+  // relaxants it names: carisoprodol, chlorzoxazone, cyclobenzaprine, metaxalone,
+  // methocarbamol, orphenadrine (from memory; chlorzoxazone and metaxalone are not in
+  // the table).
   const Formulary& f = BundledFormulary();
   for (const char* name : {"gabapentin", "pregabalin", "levetiracetam", "amitriptyline", "sertraline",
-                           "duloxetine", "quetiapine", "diazepam", "zopiclone", "codeine", "tramadol", "baclofen"}) {
+                           "duloxetine", "quetiapine", "diazepam", "zopiclone", "codeine", "tramadol",
+                           "carisoprodol", "cyclobenzaprine", "methocarbamol", "orphenadrine"}) {
     const std::string text = name;
     CAPTURE(text);
     CHECK(f.HasClass(text, "cns-active"));
   }
   CHECK_FALSE(f.HasClass("paracetamol", "cns-active"));
   CHECK_FALSE(f.HasClass("amlodipine", "cns-active"));
+}
+
+TEST_CASE("muscle relaxants the Beers list does not name are a class of their own, not CNS-active") {
+  // Source: 2023 AGS Beers Criteria (skeletal muscle relaxants named: see above; from
+  // memory): baclofen, tizanidine and dantrolene are not among them.
+  const Formulary& f = BundledFormulary();
+  for (const char* name : {"baclofen", "tizanidine", "dantrolene"}) {
+    const std::string text = name;
+    CAPTURE(text);
+    CHECK_FALSE(f.HasClass(text, "cns-active"));
+    CHECK(f.HasClass(text, "cns-active-extension"));
+  }
+  CHECK(f.IngredientsInClass("cns-active-extension").size() == 3);
 }
 
 TEST_CASE("the checksum changes when any table changes") {

@@ -24,6 +24,10 @@ ProductCount Counted(std::string product, long items, long patients) {
   return count;
 }
 
+UnresolvedProduct Unresolved(std::string product, long items, long patients, MatchKind match) {
+  return UnresolvedProduct{Counted(std::move(product), items, patients), match, "", {}};
+}
+
 TEST_SUITE("formulary/formulary_writer") {
 
 TEST_CASE("unmatched products are those nothing resolves, most items first, then most patients") {
@@ -33,19 +37,42 @@ TEST_CASE("unmatched products are those nothing resolves, most items first, then
       Counted("Qqvz green cream", 9, 2),
       Counted("Vvzq red drops", 9, 5),
   };
-  const std::vector<ProductCount> unmatched = UnmatchedProducts(BundledFormulary(), counts, 0);
+  const std::vector<UnresolvedProduct> unmatched = UnmatchedProducts(BundledFormulary(), counts, 0);
   REQUIRE(unmatched.size() == 3);
-  CHECK(unmatched[0].product == "Vvzq red drops");
-  CHECK(unmatched[1].product == "Qqvz green cream");
-  CHECK(unmatched[2].product == "Zzqx blue liquid");
+  CHECK(unmatched[0].count.product == "Vvzq red drops");
+  CHECK(unmatched[1].count.product == "Qqvz green cream");
+  CHECK(unmatched[2].count.product == "Zzqx blue liquid");
+  for (const UnresolvedProduct& product : unmatched) CHECK(product.match == MatchKind::kUnmatched);
   CHECK(UnmatchedProducts(BundledFormulary(), counts, 2).size() == 2);
 }
 
-TEST_CASE("the unmatched text names the totals and carries the caution footer") {
+TEST_CASE("products read only in part or from a close spelling are listed with the unmatched, an unmatched one with names to try") {
+  const std::vector<ProductCount> counts = {
+      Counted("Amitriptyline 10mg tablets", 50, 20),            // resolves cleanly: left out
+      Counted("Oxybutinin 5mg tablets", 7, 3),                  // a close spelling
+      Counted("Paracetamol and zorblaxine 500mg tablets", 5, 2),  // an unknown second part
+      Counted("Amitriptylline", 2, 1),                          // a close spelling with no strength
+      Counted("Sertralign capsules", 1, 1),
+  };
+  const std::vector<UnresolvedProduct> products = UnmatchedProducts(BundledFormulary(), counts, 0);
+  REQUIRE(products.size() == 4);
+  CHECK(products[0].count.product == "Oxybutinin 5mg tablets");
+  CHECK(products[0].match == MatchKind::kApproximate);
+  CHECK(products[0].suggestions.empty());
+  CHECK(products[1].count.product == "Paracetamol and zorblaxine 500mg tablets");
+  CHECK(products[1].match == MatchKind::kPartial);
+  CHECK(products[1].detail.find("zorblaxine") != std::string::npos);
+}
+
+TEST_CASE("the unmatched text names the totals of each kind and carries the caution footer") {
   std::ostringstream out;
-  WriteUnmatchedText(out, {Counted("Zzqx blue liquid", 3, 2), Counted("Qqvz green cream", 4, 1)});
+  WriteUnmatchedText(out, {Unresolved("Zzqx blue liquid", 3, 2, MatchKind::kUnmatched),
+                           Unresolved("Qqvz green cream", 4, 1, MatchKind::kUnmatched),
+                           Unresolved("Oxybutinin 5mg tablets", 6, 2, MatchKind::kApproximate)});
   const std::string text = out.str();
-  CHECK(text.rfind("2 unmatched products, 7 items\n", 0) == 0);
+  CHECK(text.rfind("2 unmatched products, 7 items; 0 recognised only in part, 0 items; 1 read from a close "
+                   "spelling, 6 items\n",
+                   0) == 0);
   std::ostringstream footer;
   WriteTextCaution(footer);
   CHECK(text.size() > footer.str().size());

@@ -12,7 +12,8 @@ TEST_SUITE("formulary/resolution_json") {
 
 TEST_CASE("a resolution survives a round trip through its JSON string") {
   for (const char* text : {"Co-codamol 30mg/500mg tablets", "Fentanyl 25micrograms/hour transdermal patches",
-                           "Softpore dressing 10cm x 10cm", "Frobozz 10mg tablets"}) {
+                           "Softpore dressing 10cm x 10cm", "Frobozz 10mg tablets",
+                           "Frobazine 10mg and paracetamol 500mg tablets", "Oxybutinin 5mg tabs"}) {
     const std::string description = text;
     CAPTURE(description);
     const ResolvedProduct original = Resolve(testing::BundledFormulary(), description);
@@ -25,6 +26,12 @@ TEST_CASE("a resolution survives a round trip through its JSON string") {
     CHECK(parsed->route == original.route);
     CHECK(parsed->non_medicine == original.non_medicine);
     CHECK(parsed->default_supply_days == original.default_supply_days);
+    CHECK(parsed->unknown == original.unknown);
+    REQUIRE(parsed->spellings.size() == original.spellings.size());
+    for (size_t i = 0; i < original.spellings.size(); ++i) {
+      CHECK(parsed->spellings[i].written == original.spellings[i].written);
+      CHECK(parsed->spellings[i].read_as == original.spellings[i].read_as);
+    }
     REQUIRE(parsed->ingredients.size() == original.ingredients.size());
     for (size_t i = 0; i < original.ingredients.size(); ++i) {
       CHECK(parsed->ingredients[i].ingredient == original.ingredients[i].ingredient);
@@ -57,7 +64,13 @@ TEST_CASE("a damaged resolution is an input status naming the element") {
                         Case{R"({"ingredients": [{"ingredient": "x", "mg_per_unit": "1"}]})",
                              "resolution JSON: /ingredients/0/mg_per_unit: not a number"},
                         Case{R"({"ingredients": [], "route": "by mouth"})", "resolution JSON: /route: not a route name"},
-                        Case{R"({"ingredients": [], "match": "maybe"})", "resolution JSON: /match: not a match kind"}}) {
+                        Case{R"({"ingredients": [], "match": "maybe"})", "resolution JSON: /match: not a match kind"},
+                        Case{R"({"ingredients": [], "unknown": "frobazine"})",
+                             "resolution JSON: /unknown: not a string or an array of strings"},
+                        Case{R"({"ingredients": [], "unknown": [3]})",
+                             "resolution JSON: /unknown/0: not a string or an array of strings"},
+                        Case{R"({"ingredients": [], "spellings": [{"written": "x"}]})",
+                             "resolution JSON: /spellings/0: not an object with written and read_as"}}) {
     const std::string text = c.text;
     CAPTURE(text);
     auto parsed = ParseResolution(text);

@@ -21,6 +21,25 @@ TEST_CASE("columns are returned in the asked order whatever the header order") {
   CHECK(table->rows[0].line == 2);
 }
 
+TEST_CASE("an optional column is read when the header has it and empty when it does not") {
+  std::vector<std::string> faults;
+  const auto with = ParseTable("t.csv", "routes,ingredient,score,source\noral|eye,atropine,3,B\n",
+                               {"ingredient", "score", "source"}, faults, {"routes"});
+  REQUIRE(with.has_value());
+  CHECK(faults.empty());
+  CHECK(with->rows[0].fields == std::vector<std::string>{"atropine", "3", "B"});
+  CHECK(with->rows[0].optional == std::vector<std::string>{"oral|eye"});
+  const auto without = ParseTable("t.csv", "ingredient,score,source\natropine,3,B\n",
+                                  {"ingredient", "score", "source"}, faults, {"routes"});
+  REQUIRE(without.has_value());
+  CHECK(faults.empty());
+  CHECK(without->rows[0].optional == std::vector<std::string>{""});
+  // Not offered as optional: still an unknown column.
+  CHECK_FALSE(ParseTable("t.csv", "ingredient,score,source,routes\na,3,B,oral\n", {"ingredient", "score", "source"},
+                         faults).has_value());
+  CHECK(faults == std::vector<std::string>{"t.csv:1: unknown or repeated column \"routes\""});
+}
+
 TEST_CASE("quoted fields keep commas, doubled quotes and line breaks; lines are counted") {
   std::vector<std::string> faults;
   const auto table = ParseTable("t.csv",

@@ -1,13 +1,16 @@
 // libFuzzer target: the FHIR R4 NDJSON reader (input/fhir_reader.h). The input is one NDJSON
-// file of MedicationDispense and Patient resources.
+// file of MedicationDispense, Patient and Medication resources.
 //
 // Invariants:
 // - nothing is lost: every physical line is either a blank line or exactly one item
 //   (a dispense, a patient or a rejection), on its own line number, lines going forward;
 // - the same holds with a small line limit, which only turns lines into too_long rejections;
-// - a rejection names `FILE:LINE: ` and a reason; a dispense has a patient, a product or a
-//   code, a real date, a finite quantity above zero, a days supply above zero, a known
-//   status, and a finite non-negative structured dose; a patient has an id and a known sex.
+// - a rejection names `FILE:LINE: ` and a reason; a dispense has a patient (a FHIR id
+//   from a literal reference) or a subject to resolve (an identifier value, a urn:uuid),
+//   a product or a Medication id to look up, a real date, a finite quantity above zero, a
+//   days supply above zero, a status of the value set, and a finite non-negative
+//   structured dose; a patient has a FHIR id and a known sex; a Medication has a FHIR id
+//   and a product.
 #include <cmath>
 #include <cstddef>
 #include <cstdint>
@@ -31,16 +34,38 @@ size_t PhysicalLines(std::string_view input) {
 }
 
 bool KnownStatus(std::string_view status) {
-  if (status.empty()) return true;
   for (std::string_view code : MedicationDispenseStatuses()) {
     if (code == status) return true;
   }
   return false;
 }
 
-void CheckDispense(const DispensingRecord& record) {
-  FuzzCheck(!record.patient_id.empty(), "a dispense has a patient");
-  FuzzCheck(!record.product.empty() || !record.code.empty(), "a dispense has a product or code");
+// 1 to 64 of [A-Za-z0-9-.], not "." or ".." (FHIR R4 id, as the reader reads it).
+bool LooksLikeFhirId(std::string_view id) {
+  if (id.empty() || id.size() > 64 || id == "." || id == "..") return false;
+  for (char c : id) {
+    const bool ok = (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') ||
+                    c == '-' || c == '.';
+    if (!ok) return false;
+  }
+  return true;
+}
+
+void CheckDispense(const FhirItem& item) {
+  const DispensingRecord& record = item.dispense;
+  if (item.subject.form == SubjectForm::kLiteral) {
+    FuzzCheck(LooksLikeFhirId(record.patient_id), "a literal subject is a FHIR id");
+  } else {
+    FuzzCheck(record.patient_id.empty() && !item.subject.value.empty(),
+              "an identifier or urn subject is left to the importer, never taken as the patient id");
+    FuzzCheck(item.subject.form != SubjectForm::kUrn || StartsWith(item.subject.value, "urn:uuid:"),
+              "a urn subject is a urn:uuid");
+  }
+  FuzzCheck(record.record_id.empty() || LooksLikeFhirId(record.record_id), "a record id is a FHIR id");
+  FuzzCheck(!record.product.empty() || !item.medication_reference.empty(),
+            "a dispense has a product, or a Medication to look up");
+  FuzzCheck(item.medication_reference.empty() || LooksLikeFhirId(item.medication_reference),
+            "a Medication reference is a FHIR id");
   FuzzCheck(std::isfinite(record.quantity) && record.quantity > 0, "quantity is finite and above 0");
   FuzzCheck(!record.days_supply || *record.days_supply > 0, "days supply is above 0");
   FuzzCheck(IsValidCivil(record.dispensed_on.year(), record.dispensed_on.month(),
@@ -53,7 +78,7 @@ void CheckDispense(const DispensingRecord& record) {
 }
 
 void CheckPatient(const PatientRecord& record) {
-  FuzzCheck(!record.patient_id.empty(), "a patient has an id");
+  FuzzCheck(LooksLikeFhirId(record.patient_id), "a patient has a FHIR id");
   FuzzCheck(record.sex.empty() || record.sex == "female" || record.sex == "male" ||
                 record.sex == "other" || record.sex == "unknown",
             "sex is one of the four words");
@@ -73,8 +98,12 @@ size_t ReadAll(std::string_view input, size_t max_line_bytes, size_t& too_long) 
     previous = item.line;
     FuzzCheck(item.text.size() <= max_line_bytes, "text is cut at the line limit");
     switch (item.kind) {
-      case FhirItemKind::kDispense: CheckDispense(item.dispense); break;
+      case FhirItemKind::kDispense: CheckDispense(item); break;
       case FhirItemKind::kPatient: CheckPatient(item.patient); break;
+      case FhirItemKind::kMedication:
+        FuzzCheck(LooksLikeFhirId(item.medication.id) && !item.medication.product.empty(),
+                  "a Medication has a FHIR id and a product");
+        break;
       case FhirItemKind::kRejected:
         FuzzCheck(!item.fault.reason.empty(), "a rejection has a reason");
         FuzzCheck(StartsWith(item.fault.message, kFile + ":" + std::to_string(item.line) + ": "),

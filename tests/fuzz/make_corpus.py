@@ -65,6 +65,17 @@ NDJSON = {
                   b'"whenPrepared":"2024-01-01","quantity":{"value":100,"unit":"ml"},'
                   b'"dosageInstruction":[{"sequence":1,"timing":{"repeat":{"frequency":1e300,'
                   b'"period":1e-300,"periodUnit":"s"}},"doseAndRate":[{"doseQuantity":{"value":1e300,"unit":"ml"}}]}]}\n',
+    "fixture_r4": (ROOT / "tests/data/fhir/dispensing_r4.ndjson").read_bytes(),
+    "references": b'{"resourceType":"MedicationDispense","id":"a","status":"completed",'
+                  b'"subject":{"reference":"Patient/../../X/_history/1"},"medicationCodeableConcept":{"text":"x"},'
+                  b'"quantity":{"value":1},"whenHandedOver":"2024-01-01"}\n'
+                  b'{"resourceType":"MedicationDispense","id":7,"status":"completed",'
+                  b'"subject":{"identifier":{"system":"s","value":"v"}},"medicationReference":{"reference":"Medication/m"},'
+                  b'"quantity":{"value":1,"code":"1"},"daysSupply":{"value":36,"code":"h"},"whenHandedOver":"2024-01-01"}\n'
+                  b'{"fullUrl":"urn:uuid:7b1e4d2c-5a6f-4b3e-8c9d-0e1f2a3b4c5d","resource":{"resourceType":"Patient",'
+                  b'"id":"p","identifier":[{"value":"v"}]}}\n'
+                  b'{"resourceType":"Medication","id":"m","ingredient":[{"itemCodeableConcept":{"text":"x"},'
+                  b'"strength":{"numerator":{"value":1e308,"unit":"ug"},"denominator":{"value":0,"unit":"mL"}}}]}\n',
 }
 
 DOSAGE = {

@@ -6,8 +6,9 @@
 // - normalised text is UTF-8; every strength is finite, the amount not negative and the
 //   denominator above zero, at a position inside the text;
 // - a resolution names only ingredients the formulary knows, with finite doses above
-//   zero; an unmatched or non-medicine product has no ingredients; a default supply is
-//   1..3650 days;
+//   zero; an unmatched or non-medicine product has no ingredients; a partial one names
+//   what it does not know, an approximate one the spellings it read (as known
+//   ingredients); a default supply is 1..3650 days;
 // - the resolution survives its JSON form (what the store keeps) unchanged, and the
 //   resolution cache gives the same answer as resolving directly (text that is not UTF-8,
 //   such as a code as given, comes back with U+FFFD; it must not throw).
@@ -62,6 +63,12 @@ void CheckStrengths(std::string_view description) {
 void CheckResolution(const Formulary& formulary, const ResolvedProduct& product) {
   FuzzCheck(product.matched() || product.ingredients.empty(), "an unmatched product has no ingredients");
   FuzzCheck(!product.non_medicine || product.ingredients.empty(), "a non-medicine has no ingredients");
+  FuzzCheck(product.match != MatchKind::kPartial || !product.unknown.empty(), "a partial product names what it does not know");
+  FuzzCheck(product.match != MatchKind::kApproximate || !product.spellings.empty(),
+            "an approximate product names the spellings it read");
+  for (const SpellingReading& reading : product.spellings) {
+    FuzzCheck(formulary.FindIngredient(reading.read_as) != nullptr, "a spelling is read as a known ingredient");
+  }
   for (const ResolvedIngredient& ingredient : product.ingredients) {
     const Ingredient* known = formulary.FindIngredient(ingredient.ingredient);
     FuzzCheck(known != nullptr && known->name == ingredient.ingredient,

@@ -52,7 +52,7 @@ TEST_CASE("a MedicationDispense is read element by element") {
   CHECK(r.patient_id == "P001");
   CHECK(r.product == "Lactulose 3.35g/5ml oral solution");
   CHECK(r.code == "322230006");
-  CHECK(r.code_system == "http://snomed.info/sct");
+  CHECK(r.code_system == "SNOMED CT");  // the formulary's name for http://snomed.info/sct
   CHECK(r.quantity == 450);
   CHECK(r.unit == "mL");
   CHECK(r.days_supply == 30);
@@ -63,6 +63,7 @@ TEST_CASE("a MedicationDispense is read element by element") {
   // 5 mL three times a day = 15 mL a day (450 mL lasts 30 days).
   REQUIRE(r.structured_units_per_day.has_value());
   CHECK(*r.structured_units_per_day == doctest::Approx(15));
+  CHECK(r.structured_unit == "ml");
   CHECK_FALSE(r.structured_as_needed);
 }
 
@@ -75,7 +76,7 @@ TEST_CASE("whenPrepared is the date when whenHandedOver is absent") {
   CHECK(item.dispense.dispensed_on.ToIso() == "2024-02-28");
 }
 
-TEST_CASE("every status of the value set is kept, and only completed or none counts") {
+TEST_CASE("every status of the value set is kept, and only completed counts") {
   // Source: HL7 FHIR R4 MedicationDispense.status, value set medicationdispense-status
   // (http://hl7.org/fhir/R4/valueset-medicationdispense-status.html).
   const std::vector<std::string_view>& statuses = MedicationDispenseStatuses();
@@ -104,47 +105,63 @@ TEST_CASE("a status outside the value set is rejected") {
 }
 
 TEST_CASE("a medicationReference gives the product by display or from a contained Medication") {
+  // Source: HL7 FHIR R4 MedicationDispense.medication[x] (Reference(Medication)), and
+  // references.html: "#id" names a contained resource.
   const FhirItem display = ReadOne(
-      R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)"
+      R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Patient/P1"},)"
       R"("medicationReference":{"reference":"Medication/m1","display":"Sertraline 50mg tablets"},)"
       R"("quantity":{"value":28},"whenHandedOver":"2024-01-02"})");
   REQUIRE(display.kind == FhirItemKind::kDispense);
   CHECK(display.dispense.product == "Sertraline 50mg tablets");
-  CHECK(display.dispense.status.empty());
+  CHECK(display.medication_reference == "m1");  // the importer looks the resource up
   const FhirItem contained = ReadOne(
-      R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)"
+      R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Patient/P1"},)"
       R"("contained":[{"resourceType":"Medication","id":"med","code":{"text":"Amlodipine 5mg tablets"}}],)"
       R"("medicationReference":{"reference":"#med"},"quantity":{"value":28},"whenHandedOver":"2024-01-02"})");
   REQUIRE(contained.kind == FhirItemKind::kDispense);
   CHECK(contained.dispense.product == "Amlodipine 5mg tablets");
 }
 
-TEST_CASE("subject references may be absolute URLs or carry a version") {
-  // Source: HL7 FHIR R4 References (section 2.3.0): literal references may be relative or
-  // absolute and may include _history.
+TEST_CASE("a subject is a literal Patient reference, an identifier or a urn:uuid, never an id made up") {
+  // Source: HL7 FHIR R4 MedicationDispense.subject; references.html: literal references
+  // (relative, absolute, with _history), Reference.identifier (a logical reference) and
+  // urn:uuid references. Only a literal reference gives the patient id here; the others
+  // are left for the importer to resolve.
   struct Case {
     const char* subject;
+    SubjectForm form;
     const char* id;
+    const char* system;
+    const char* value;
   };
   const Case cases[] = {
-      {R"({"reference":"Patient/123"})", "123"},
-      {R"({"reference":"https://example.org/fhir/Patient/123"})", "123"},
-      {R"({"reference":"Patient/123/_history/4"})", "123"},
-      {R"({"identifier":{"value":"NHS-9"}})", "NHS-9"},
+      {R"({"reference":"Patient/123"})", SubjectForm::kLiteral, "123", "", ""},
+      {R"({"reference":"https://example.org/fhir/Patient/123"})", SubjectForm::kLiteral, "123", "", ""},
+      {R"({"reference":"Patient/123/_history/4"})", SubjectForm::kLiteral, "123", "", ""},
+      {R"({"reference":"Patient/123","identifier":{"value":"9990000018"}})", SubjectForm::kLiteral, "123", "", ""},
+      {R"({"identifier":{"system":"https://fhir.nhs.uk/Id/nhs-number","value":"9990000018"}})",
+       SubjectForm::kIdentifier, "", "https://fhir.nhs.uk/Id/nhs-number", "9990000018"},
+      {R"({"identifier":{"value":"NHS-9"}})", SubjectForm::kIdentifier, "", "", "NHS-9"},
+      {R"({"reference":"urn:uuid:c0ffee00-1234-4abc-8def-0123456789ab"})", SubjectForm::kUrn, "", "",
+       "urn:uuid:c0ffee00-1234-4abc-8def-0123456789ab"},
   };
   for (const Case& c : cases) {
     CAPTURE(c.subject);
-    const FhirItem item = ReadOne(std::string(R"({"resourceType":"MedicationDispense","subject":)") +
+    const FhirItem item = ReadOne(std::string(R"({"resourceType":"MedicationDispense","status":"completed","subject":)") +
                                   c.subject +
                                   R"(,"medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},)"
                                   R"("whenHandedOver":"2024-01-02"})");
     REQUIRE(item.kind == FhirItemKind::kDispense);
+    CHECK(item.subject.form == c.form);
     CHECK(item.dispense.patient_id == c.id);
+    CHECK(item.subject.system == c.system);
+    CHECK(item.subject.value == c.value);
   }
 }
 
 TEST_CASE("bad elements are rejected with their JSON pointer") {
-  const std::string base = R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)";
+  const std::string base =
+      R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Patient/P1"},)";
   struct Case {
     std::string line;
     const char* reason;
@@ -165,15 +182,16 @@ TEST_CASE("bad elements are rejected with their JSON pointer") {
        "missing_date", "dispensing.ndjson:1: /whenHandedOver: is missing (and so is whenPrepared)"},
       {base + R"("medicationCodeableConcept":{"coding":[]},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})",
        "missing_product",
-       "dispensing.ndjson:1: /medicationCodeableConcept: has no text, display or code (nor has medicationReference)"},
-      {R"({"resourceType":"MedicationDispense","subject":{"reference":"Group/7"},"medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})",
+       "dispensing.ndjson:1: /medicationCodeableConcept: has no text, display, code or ingredient (nor has "
+       "medicationReference)"},
+      {R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Group/7"},"medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})",
        "missing_patient", "dispensing.ndjson:1: /subject/reference: \"Group/7\" is not a Patient reference"},
-      {R"({"resourceType":"MedicationDispense","medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})",
+      {R"({"resourceType":"MedicationDispense","status":"completed","medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})",
        "missing_patient", "dispensing.ndjson:1: /subject/reference: is missing"},
       {R"({"resourceType":"Observation","id":"o1"})", "unsupported_resource",
-       "dispensing.ndjson:1: /resourceType: \"Observation\" is not MedicationDispense or Patient"},
+       "dispensing.ndjson:1: /resourceType: \"Observation\" is not MedicationDispense, Patient or Medication"},
       {R"({"id":"o1"})", "unsupported_resource",
-       "dispensing.ndjson:1: /resourceType: is missing (expected MedicationDispense or Patient)"},
+       "dispensing.ndjson:1: /resourceType: is missing (expected MedicationDispense, Patient or Medication)"},
       {R"({"resourceType": "Patient", )", "bad_json", "dispensing.ndjson:1: row: is not valid JSON (at byte 29)"},
       {R"([1,2])", "bad_json", "dispensing.ndjson:1: row: is not a JSON object (one FHIR resource per line)"},
       {"{\"resourceType\":\"Patient\",\"id\":\"a\xFF\"}", "invalid_utf8",
@@ -207,6 +225,11 @@ TEST_CASE("a Patient gives id, birth date (year, year-month or date), gender and
   REQUIRE(month.kind == FhirItemKind::kPatient);
   CHECK(month.patient.birth_date->ToIso() == "1941-11-15");
   CHECK(month.patient.practice == "B82002");
+  // A Practitioner is not a practice.
+  const FhirItem practitioner = ReadOne(
+      R"({"resourceType":"Patient","id":"P4","generalPractitioner":[{"reference":"Practitioner/GP7"}]})");
+  REQUIRE(practitioner.kind == FhirItemKind::kPatient);
+  CHECK(practitioner.patient.practice.empty());
   const FhirItem bad = ReadOne(R"({"resourceType":"Patient","id":"P3","gender":"f2"})");
   REQUIRE(bad.kind == FhirItemKind::kRejected);
   CHECK(bad.fault.message ==
@@ -242,18 +265,21 @@ TEST_CASE("an over-long line is rejected without holding it all") {
   CHECK(item.line == 2);
 }
 
-TEST_CASE("a structured dose in another unit than the quantity is not used") {
+TEST_CASE("a structured dose in mg is kept in mg, for the supply calculation to divide by the strength") {
+  // Source: HL7 FHIR R4 Dosage.doseAndRate.doseQuantity (a SimpleQuantity, any unit).
   std::string line = kDispense;
   line.replace(line.find(R"("value":5,"unit":"mL")"), 21, R"("value":10,"unit":"mg")");
   const FhirItem item = ReadOne(line);
   REQUIRE(item.kind == FhirItemKind::kDispense);
-  CHECK_FALSE(item.dispense.structured_units_per_day.has_value());
+  REQUIRE(item.dispense.structured_units_per_day.has_value());
+  CHECK(*item.dispense.structured_units_per_day == doctest::Approx(30));  // 10 mg three times a day
+  CHECK(item.dispense.structured_unit == "mg");
 }
 
 TEST_CASE("an as-needed structured instruction is marked as needed") {
   // Source: HL7 FHIR R4 Dosage.asNeeded[x] (asNeededBoolean).
   const FhirItem item = ReadOne(
-      R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)"
+      R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Patient/P1"},)"
       R"("medicationCodeableConcept":{"text":"Paracetamol 500mg tablets"},"quantity":{"value":100,"unit":"tablet"},)"
       R"("whenHandedOver":"2024-01-02","dosageInstruction":[{"text":"1-2 when required","asNeededBoolean":true,)"
       R"("timing":{"repeat":{"frequency":4,"period":1,"periodUnit":"d"}},)"
@@ -275,9 +301,10 @@ TEST_CASE("a line nesting arrays or objects more than 64 levels deep is rejected
         "dispensing.ndjson:1: row: nests arrays and objects more than 64 levels deep");
   // 64 levels are read; brackets inside strings do not count.
   const std::string levels = std::string(63, '[') + std::string(63, ']');
-  const FhirItem shallow = ReadOne(R"({"resourceType":"Patient","id":"P[{[{\"[","x":)" + levels + "}");
+  const FhirItem shallow = ReadOne(R"({"resourceType":"Patient","id":"P1","gender":"f","y":"[{[{\"[","x":)" +
+                                   levels + "}");
   CHECK(shallow.kind == FhirItemKind::kPatient);
-  CHECK(shallow.patient.patient_id == "P[{[{\"[");
+  CHECK(shallow.patient.sex == "female");
 }
 
 }  // TEST_SUITE

@@ -170,8 +170,9 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
          "F,2024-01-02,Mystery tonic 200ml,1,28\n"
          "F,2024-01-03,Diazepam tablets,28,28\n"
          "F,2024-01-03,Codeine 30mg tablets,28,28\n");
-  // The bundled rules have no age limit: a copy of the formulary adds one, so that a
-  // patient of unknown age has a rule that cannot be judged.
+  // F's two medicines fire no bundled rule with an age limit: a copy of the formulary
+  // adds one that they would fire, so that a patient of unknown age has a rule that
+  // cannot be judged.
   TempFolder temp;
   const std::filesystem::path formulary = temp.File("formulary");
   std::filesystem::copy(MEDLOAD_SOURCE_FORMULARY, formulary, std::filesystem::copy_options::recursive);
@@ -198,7 +199,7 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   // A has only recognised products with strengths, and a known age: only the data note.
   REQUIRE(list->patients.front().patient == "A");
   CHECK(list->patients.front().warnings == std::vector<std::string>{"practice data short-history"});
-  // With the bundled rules (no age limit) F's age leaves no rule unjudged.
+  // With the bundled rules F's age leaves no rule unjudged that could have fired.
   auto bundled = p.Build(On(D(2024, 1, 10), {AtLeast("items=2")}));
   for (const auto& e : bundled.patients) {
     if (e.patient == "F") CHECK(e.warnings.size() == 3);
@@ -212,6 +213,49 @@ TEST_CASE("a row warns of recent unmatched products, unknown doses and an unknow
   // Nothing unrecognised is recent; the census date is after the latest dispensing.
   CHECK(later.patients[0].warnings == std::vector<std::string>{"practice data beyond-data"});
   CHECK(later.practice_data.at("PA") == DataState::kBeyondData);
+}
+
+TEST_CASE("a row warns of recent products recognised only in part or read from a close spelling") {
+  Population p;
+  Import(p.store, InputKind::kDispensing,
+         "patient_id,dispensed_on,product,quantity,days_supply\n"
+         "G,2024-01-02,Frobazine 10mg and paracetamol 500mg tablets,28,28\n"
+         "G,2024-01-03,Oxybutinin 5mg tabs,28,28\n"
+         "G,2024-01-03,Mirtazepine 15mg tabs,28,28\n");
+  const Worklist list = p.Build(On(D(2024, 1, 10), {AtLeast("items=3")}));
+  const auto g = std::find_if(list.patients.begin(), list.patients.end(), [](const auto& e) { return e.patient == "G"; });
+  REQUIRE(g != list.patients.end());
+  CHECK(g->items == 3);
+  // 2024-01-10 is within the first days of the practice's data: the row says that too.
+  CHECK(g->warnings == std::vector<std::string>{"1 recent product(s) recognised only in part",
+                                                "2 recent product(s) read from a close spelling",
+                                                "practice data short-history"});
+}
+
+TEST_CASE("a rule for older people applies from 65 in completed years, a birth year alone read as 1 July") {
+  // Source: product specification section 5 ("Age on D"; Beers and STOPP apply from 65).
+  // Y was born in 1959 (year only: 1 July 1959), Z on 2 July 1959.
+  Population p;
+  Import(p.store, InputKind::kPatients,
+         "patient_id,birth_date,sex,practice,registered_from,registered_to\nY,1959,female,PA,,\n"
+         "Z,1959-07-02,male,PA,,\n");
+  std::string rows = "patient_id,dispensed_on,product,quantity,days_supply\n";
+  for (const char* patient : {"Y", "Z"}) {
+    for (const char* product : {"Codeine phosphate 30mg tablets", "Sertraline 50mg tablets", "Pregabalin 75mg capsules"}) {
+      rows += std::string(patient) + ",2024-06-20," + product + ",28,28\n";
+    }
+  }
+  Import(p.store, InputKind::kDispensing, rows);
+  auto met = [&](Date on) {
+    std::vector<std::string> patients;
+    for (const WorklistEntry& e : p.Build(On(on, {AtLeast("rule:cns-active-3")})).patients) {
+      if (e.patient == "Y" || e.patient == "Z") patients.push_back(e.patient + " " + std::to_string(*e.age));
+    }
+    return patients;
+  };
+  CHECK(met(D(2024, 6, 30)).empty());
+  CHECK(met(D(2024, 7, 1)) == std::vector<std::string>{"Y 65"});
+  CHECK(met(D(2024, 7, 2)) == std::vector<std::string>{"Y 65", "Z 65"});
 }
 
 TEST_CASE("patients of unknown age left out by the minimum age are counted") {
@@ -242,7 +286,7 @@ TEST_CASE("a worklist without criteria or with an unknown rule is refused") {
   auto unknown = BuildWorklist(p.store, p.analysis, On(D(2024, 1, 10), {RuleCriterion("no-such-rule")}));
   REQUIRE_FALSE(unknown.ok());
   CHECK(unknown.status().message() ==
-        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary check' lists them");
+        "rule \"no-such-rule\" is not in the formulary's rules.json; 'medload formulary rules' lists them");
 }
 
 }  // TEST_SUITE

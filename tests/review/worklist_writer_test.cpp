@@ -77,8 +77,8 @@ TEST_CASE("the worklist CSV gives the census date in a comment line after the ca
   REQUIRE(first_end != std::string::npos);
   CHECK(csv.rfind("\"# CAUTION", 0) == 0);
   CHECK(csv.compare(first_end + 1, 28, "\"# census date: 2026-12-31\"\n") == 0);
-  // Comment lines come before the header, which is unchanged.
-  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,dbi,rules,criteria_met,new,reasons,warnings\n"));
+  // Comment lines come before the header.
+  CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,reasons,warnings\n"));
   CHECK(csv.find("\"# note:") < csv.find("\nrank,"));
 }
 
@@ -121,6 +121,22 @@ TEST_CASE("a meeting count below the report's threshold is withheld from the sum
   CHECK(Has(text, "(below 5) are withheld"));
   w.suppress_below = 3;  // 3 is not below 3: shown
   CHECK(Has(Text(w), "3 of 40 registered patients meet"));
+}
+
+TEST_CASE("the score is labelled with the chosen scale; JSON and CSV keep the acb key and name the scale") {
+  Worklist w = Sample();
+  w.scale = "ars";
+  w.patients[0].acb = 4;
+  // Text and HTML label the column with the scale's name.
+  CHECK(Has(Text(w), "rank  patient  practice  age  items  ARS  DBI  rules"));
+  CHECK_FALSE(Has(Text(w), " acb "));
+  CHECK(Has(Html(w), "<th scope=\"col\">ARS</th>"));
+  // JSON: the spec's required "acb" key, and the scale's name beside it.
+  const nlohmann::json json = WorklistJson(w);
+  CHECK(json["scale"] == "ars");
+  CHECK(json["patients"][0]["acb"] == 4);
+  // CSV: the acb column keeps its key, the scale column says which scale it holds.
+  CHECK(Has(Csv(w), "\n1,P1,ZZ01,,11,4,ars,0,"));
 }
 
 TEST_CASE("every worklist format carries the caution") {

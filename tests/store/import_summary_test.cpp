@@ -2,6 +2,7 @@
 
 #include <doctest/doctest.h>
 
+#include <map>
 #include <sstream>
 
 #include "medload/core/caution.h"
@@ -61,8 +62,8 @@ TEST_CASE("the CSV summary starts with the caution line") {
   const std::string text = out.str();
   CHECK(text.rfind("\"# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,kind,format,read,imported,duplicates,rejected,updated,rolled_back,reasons,"
-                  "not_counted\n") != std::string::npos);
-  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,\n") !=
+                  "not_counted,not_in_registry,not_in_registry_examples,product_flags\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,0,,\n") !=
         std::string::npos);
 }
 
@@ -111,6 +112,58 @@ TEST_CASE("totals add every count and merge the reasons") {
   CHECK(total.read == 20);
   CHECK(total.reasons.at("bad_quantity") == 2);
   CHECK(total.not_counted.at("cancelled") == 3);
+  b.product_flags = {{"partial", 4}};
+  a.product_flags = {{"partial", 1}, {"unmatched", 2}};
+  const ImportSummary flagged = TotalOf({a, b});
+  CHECK(flagged.product_flags == std::map<std::string, long>{{"partial", 5}, {"unmatched", 2}});
+}
+
+TEST_CASE("the items of products not fully recognised are counted by kind in every format") {
+  ImportSummary summary = Example("d.csv");
+  summary.product_flags = {{"approximate", 1}, {"partial", 2}, {"unmatched", 3}};
+  const std::string line = "d.csv: products to check (medload formulary unmatched lists them): 3 item(s) not "
+                           "recognised (not counted), 2 item(s) recognised only in part, 1 item(s) read from a "
+                           "close spelling";
+  const nlohmann::ordered_json json = ImportJson({summary, summary});
+  CHECK(json.at("product_flags").at("unmatched") == 6);
+  CHECK(json.at("files").at(0).at("product_flags").at("partial") == 2);
+  std::ostringstream text, csv, html;
+  WriteImportText({summary}, text);
+  WriteImportCsv({summary}, csv);
+  WriteImportHtml({summary}, html);
+  CHECK(text.str().find(line + "\n") != std::string::npos);
+  CHECK(csv.str().find(",approximate=1;partial=2;unmatched=3\n") != std::string::npos);
+  CHECK(html.str().find("<li>" + line + "</li>") != std::string::npos);
+  // Only the kinds present are named.
+  summary.product_flags = {{"partial", 1}};
+  std::ostringstream one;
+  WriteImportText({summary}, one);
+  CHECK(one.str().find("(medload formulary unmatched lists them): 1 item(s) recognised only in part\n") !=
+        std::string::npos);
+}
+
+TEST_CASE("dispensings with no registry row are a warning in every format") {
+  ImportSummary summary = Example("d.ndjson");
+  summary.format = "fhir";
+  summary.not_in_registry = 3;
+  summary.not_in_registry_patients = 2;
+  summary.not_in_registry_examples = {"d.ndjson:4: patient \"pt-x\"", "d.ndjson:9: patient \"pt-z\""};
+  const std::string warning =
+      "d.ndjson: warning: 3 imported dispensing(s) of 2 patient(s) have no row in the patient registry (no age, "
+      "practice or registration for them until it is imported; check the patient ids), for example:";
+  const nlohmann::ordered_json json = ImportJson({summary});
+  CHECK(json.at("not_in_registry") == 3);
+  CHECK(json.at("files").at(0).at("not_in_registry_patients") == 2);
+  CHECK(json.at("files").at(0).at("not_in_registry_examples").at(1) == "d.ndjson:9: patient \"pt-z\"");
+  std::ostringstream text, csv, html;
+  WriteImportText({summary}, text);
+  WriteImportCsv({summary}, csv);
+  WriteImportHtml({summary}, html);
+  CHECK(text.str().find(warning + "\n  d.ndjson:4: patient \"pt-x\"\n  d.ndjson:9: patient \"pt-z\"\n") !=
+        std::string::npos);
+  CHECK(csv.str().find("d.ndjson,dispensing,fhir,10,6,2,2,0,false,bad_date=1;bad_quantity=1,,3,"
+                       "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\",\n") != std::string::npos);
+  CHECK(html.str().find("<li>" + warning + "</li>") != std::string::npos);
 }
 
 }  // TEST_SUITE

@@ -297,7 +297,7 @@ TEST_CASE("rows holding control characters are rejected, in CSV and in FHIR") {
   CHECK(csv->examples.front() == "dispensing.csv:3: row: holds the control character 0x00 (at byte 2); remove it from the file");
   Result<ImportSummary> fhir = Import(
       store, InputKind::kDispensing,
-      R"({"resourceType":"MedicationDispense","id":"m9","subject":{"reference":"Patient/P9"},)"
+      R"({"resourceType":"MedicationDispense","id":"m9","status":"completed","subject":{"reference":"Patient/P9"},)"
       R"("medicationCodeableConcept":{"text":"X\u001b[2J"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
       options);
   REQUIRE(fhir.ok());
@@ -328,26 +328,30 @@ TEST_CASE("FHIR dispenses keep their status, and those that do not count are cou
                            dispense("m3", "cancelled") + dispense("m4", nullptr) +
                            R"({"resourceType":"Patient","id":"P1","birthDate":"1940","gender":"male"})" "\n";
   Store store = Memory();
-  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, file);
+  ImportOptions options;
+  options.max_reject_rate = 1;
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, file, options);
   REQUIRE(summary.ok());
   CHECK(summary->format == "fhir");
   CHECK(summary->read == 5);
-  CHECK(summary->imported == 5);
+  CHECK(summary->imported == 4);
+  CHECK(summary->reasons == std::map<std::string, long>{{"missing_status", 1}});  // m4: status is 1..1
   CHECK(summary->patients == 1);
   CHECK(summary->not_counted == std::map<std::string, long>{{"cancelled", 1}, {"entered-in-error", 1}});
-  CHECK(store.DispensingsOf("P1")->size() == 2);
-  CHECK(store.AllDispensingsOf("P1")->size() == 4);
+  CHECK(store.DispensingsOf("P1")->size() == 1);
+  CHECK(store.AllDispensingsOf("P1")->size() == 3);
   CHECK(store.PatientOf("P1")->has_value());
   // The source later marks m1 as entered in error: the stored status follows.
   Result<ImportSummary> again = Import(store, InputKind::kDispensing, dispense("m1", "entered-in-error"));
   REQUIRE(again.ok());
   CHECK(again->imported == 1);
   CHECK(again->updated == 1);
-  CHECK(store.DispensingsOf("P1")->size() == 1);
-  Result<ImportSummary> same = Import(store, InputKind::kDispensing, file);
+  CHECK(store.DispensingsOf("P1")->empty());
+  Result<ImportSummary> same = Import(store, InputKind::kDispensing, file, options);
   REQUIRE(same.ok());
   CHECK(same->imported == 1);  // m1 back to completed
-  CHECK(same->duplicates == 4);
+  CHECK(same->duplicates == 3);
+  CHECK(same->rejected == 1);
 }
 
 TEST_CASE("FHIR input is refused for practices and reviews, and dispenses in a patients import are rejected") {
@@ -361,7 +365,7 @@ TEST_CASE("FHIR input is refused for practices and reviews, and dispenses in a p
   options.max_reject_rate = 1;
   Result<ImportSummary> patients = Import(
       store, InputKind::kPatients,
-      patient + R"({"resourceType":"MedicationDispense","subject":{"reference":"Patient/P1"},)"
+      patient + R"({"resourceType":"MedicationDispense","status":"completed","subject":{"reference":"Patient/P1"},)"
                 R"("medicationCodeableConcept":{"text":"X"},"quantity":{"value":1},"whenHandedOver":"2024-01-02"})" "\n",
       options);
   REQUIRE(patients.ok());

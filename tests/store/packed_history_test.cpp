@@ -36,6 +36,7 @@ void CheckSame(const DispensingRecord& a, const DispensingRecord& b) {
   CHECK(a.dosage == b.dosage);
   CHECK(a.structured_units_per_day == b.structured_units_per_day);
   CHECK(a.structured_as_needed == b.structured_as_needed);
+  CHECK(a.structured_unit == b.structured_unit);
   CHECK(a.status == b.status);
 }
 
@@ -53,6 +54,7 @@ std::vector<DispensingRecord> Varied() {
   records.push_back(coded);
   DispensingRecord structured = Record("d4", 19100, "Morfina 10 mg/5 ml solución oral", "");
   structured.structured_units_per_day = 7.5;
+  structured.structured_unit = "mg";
   structured.structured_as_needed = true;
   structured.quantity = 300;
   structured.unit = "ml";
@@ -129,10 +131,12 @@ TEST_CASE("a damaged packed history is an error naming the patient, never a cras
   }
   CHECK(UnpackHistory(packed + '\0', "P9", out, spare).message() == message);
   std::string other_layout = packed;
-  other_layout[0] = 2;
+  other_layout[0] = 1;  // the layout before the structured dose's unit was kept
+  CHECK(UnpackHistory(other_layout, "P9", out, spare).message() == message);
+  other_layout[0] = 3;
   CHECK(UnpackHistory(other_layout, "P9", out, spare).message() == message);
   // A string index past the table of four ("XA1", "A", "", "tablet"): the last byte is
-  // the status field's index (2, the empty string).
+  // the structured unit's index (2, the empty string).
   const std::vector<DispensingRecord> one = {Record("d", 1, "A", "A")};
   std::string bad_index = PackHistory(one);
   const size_t last = bad_index.size() - 1;

@@ -65,7 +65,7 @@ std::vector<std::string> Pass(const Store& store, const PatientIdRange& range = 
               "|" + std::to_string(r.quantity) + "|" + r.unit + "|" +
               (r.days_supply ? std::to_string(*r.days_supply) : "-") + "|" + r.dosage + "|" +
               (r.structured_units_per_day ? std::to_string(*r.structured_units_per_day) : "-") +
-              "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
+              "|" + r.structured_unit + "|" + (r.structured_as_needed ? "prn" : "") + "|" + r.status + "]";
     }
     seen.push_back(line);
   }
@@ -429,6 +429,18 @@ TEST_CASE("an empty store has no date span") {
   CHECK(summary->dispensings == 0);
   CHECK(store->PracticeDataSpans().value().empty());
   CHECK(testing::ReadPatients(*store).empty());
+}
+
+TEST_CASE("a patient's dispensings that do not count are counted by status up to a date") {
+  Store store = Loaded();
+  SetStatus(store, "d2", "stopped");        // 2024-02-01
+  SetStatus(store, "d3", "entered-in-error");  // 2024-01-01
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-03-01")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}, {"stopped", 1}});
+  CHECK(store.NotCountingOf("P1", *ParseDate("2024-01-15")).value() ==
+        std::map<std::string, long>{{"entered-in-error", 1}});
+  CHECK(store.NotCountingOf("P2", *ParseDate("2024-03-01")).value().empty());
+  CHECK(store.NotCountingOf("nobody", *ParseDate("2024-03-01")).value().empty());
 }
 
 }  // TEST_SUITE

@@ -50,7 +50,8 @@ TEST_CASE("opening a new store creates the schema at the current version in WAL 
   }
   CHECK(QueryText(path, "PRAGMA journal_mode") == "wal");
   for (const char* table : {"practices", "patients", "dispensings", "reviews", "import_runs",
-                            "rejected_rows", "product_resolutions", "runs"}) {
+                            "rejected_rows", "product_resolutions", "runs", "patient_identifiers",
+                            "fhir_medications"}) {
     CAPTURE(table);
     const std::string sql =
         std::string("SELECT name FROM sqlite_schema WHERE type = 'table' AND name = '") + table + "'";
@@ -260,6 +261,30 @@ TEST_CASE("a store of schema version 1 migrates to the current version and keeps
   CHECK(QueryText(path, "SELECT patient_id FROM packed_histories") == "P1");
   CHECK(QueryText(path, "SELECT i.file || ':' || d.source_line FROM dispensings d JOIN import_runs i"
                         " ON i.id = d.run_id") == "old.csv:2");
+  CHECK(QueryText(path, "SELECT '[' || structured_unit || ']' FROM dispensings") == "[]");
+}
+
+TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHIR link tables are added") {
+  TempFolder folder;
+  const std::string path = folder.File("v3.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  // Take the store back to what version 3 held, with a packed copy in the old layout.
+  ExecRaw(path,
+          "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
+          "ALTER TABLE dispensings DROP COLUMN structured_unit;"
+          "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
+          "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "PRAGMA user_version=3;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == 4);
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
+  CHECK_FALSE(store->PackedHistoriesCurrent().value());
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM patient_identifiers") == "0");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM fhir_medications") == "0");
 }
 
 TEST_CASE("a peer connection reads the same snapshot, and is refused when it could not") {

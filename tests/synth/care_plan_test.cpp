@@ -28,9 +28,49 @@ Load LoadAt(int age, bool female, int count) {
   return {static_cast<double>(total) / count, static_cast<double>(heavy) / count};
 }
 
+// The share of `count` plans of patients aged 75 holding a medicine of each list.
+double ShareWithBoth(const std::set<std::string_view>& first, const std::set<std::string_view>& second,
+                     int count, bool two_of_first = false) {
+  int both = 0;
+  for (int i = 0; i < count; ++i) {
+    SynthRandom random = SynthRandom::ForStream(31, static_cast<uint64_t>(i));
+    const CarePlan plan = PlanCare(75, i % 2 == 0, 456, random);
+    int in_first = 0, in_second = 0;
+    for (const PlannedMedicine& planned : plan.medicines) {
+      const std::string_view medicine = SynthCatalogue()[planned.product].medicine;
+      in_first += first.count(medicine) > 0 ? 1 : 0;
+      in_second += second.count(medicine) > 0 ? 1 : 0;
+    }
+    if (two_of_first ? in_first >= 2 : (in_first > 0 && in_second > 0)) ++both;
+  }
+  return static_cast<double>(both) / count;
+}
+
+const std::set<std::string_view> kRasBlockers = {"ramipril", "lisinopril", "perindopril", "losartan", "candesartan"};
+const std::set<std::string_view> kOpioids = {"codeine", "co-codamol", "co-dydramol", "tramadol", "morphine",
+                                             "oxycodone", "fentanyl", "buprenorphine"};
+const std::set<std::string_view> kHypnotics = {"zopiclone", "diazepam", "temazepam"};
+const std::set<std::string_view> kAnticoagulants = {"apixaban", "edoxaban", "rivaroxaban", "warfarin"};
+const std::set<std::string_view> kAntiplatelets = {"aspirin", "clopidogrel"};
+
 }  // namespace
 
 TEST_SUITE("synth/care_plan") {
+
+TEST_CASE("combinations the rules look for are planned for a few older patients, none for many") {
+  // Plausible shares for patients aged 75, rounded and from memory: dual RAS blockade is
+  // rare since ONTARGET (Yusuf et al. 2008) and the MHRA's 2014 advice; an opioid with a
+  // hypnotic and an anticoagulant with an antiplatelet each for a few in a hundred.
+  const double dual_ras = ShareWithBoth(kRasBlockers, {}, 4000, true);
+  CHECK(dual_ras > 0);
+  CHECK(dual_ras < 0.01);
+  const double opioid_hypnotic = ShareWithBoth(kOpioids, kHypnotics, 4000);
+  CHECK(opioid_hypnotic > 0.005);
+  CHECK(opioid_hypnotic < 0.05);
+  const double anticoagulant_antiplatelet = ShareWithBoth(kAnticoagulants, kAntiplatelets, 4000);
+  CHECK(anticoagulant_antiplatelet > 0.002);
+  CHECK(anticoagulant_antiplatelet < 0.03);
+}
 
 TEST_CASE("every product a care plan or course names is in the catalogue") {
   for (const CareCondition& condition : SynthConditions()) {

@@ -26,6 +26,9 @@ struct ActiveMedicine {
   size_t latest_use = 0;   // index into Medicine::uses: the latest dispensing on or before D
   int score = 0;           // scale points attributed to this medicine (each ingredient once)
   double dbi = 0;          // DBI attributed to this medicine
+  // The routes of its dispensings in force on D (the latest one's always): what the
+  // scales, the DBI and the rules judge it by (spec section 5, "Routes").
+  RouteSet routes = {};
 };
 
 struct ScoreContribution {
@@ -65,7 +68,8 @@ struct DbiContribution {
 
 struct FiredRule {
   const Rule* rule = nullptr;
-  std::vector<size_t> medicines;  // indexes into Timeline::medicines that satisfied it
+  // Indexes into Timeline::medicines holding an ingredient that met a requirement.
+  std::vector<size_t> medicines;
 };
 
 struct Burden {
@@ -76,9 +80,14 @@ struct Burden {
   std::vector<ActiveMedicine> active;  // sorted by medicine key
   std::vector<ScoreContribution> score_contributions;  // ingredients scoring > 0, highest first
   std::vector<DbiContribution> dbi_contributions;      // by ingredient
-  std::vector<std::string> dbi_incomplete;  // DBI ingredients with no known dose
+  // DBI ingredients whose contribution is unknown: no known dose, or (also listed in
+  // dbi_no_minimum) in a class the DBI counts but without a minimum dose in the table.
+  std::vector<std::string> dbi_incomplete;
+  std::vector<std::string> dbi_no_minimum;
   std::vector<FiredRule> rules;             // in table order
-  bool age_unknown_for_rules = false;       // a rule with an age limit could not be judged
+  // A rule with a minimum age would have fired but the age is not known, so it was not
+  // judged (outputs say so).
+  bool age_unknown_for_rules = false;
 };
 
 std::string_view DoseBasisName(DoseBasis basis);
@@ -87,10 +96,17 @@ std::string_view DoseBasisName(DoseBasis basis);
 // append (" (as-needed maximum)", " (2 products summed)"), or "" when nothing needs saying.
 std::string DoseBasisMark(const DbiContribution& contribution);
 
-// Which medicines meet which rule requirements: one flag per medicine of `timeline` and
-// requirement of `tables.rules` (rules in order, then their requirements), medicine-major.
-// It does not depend on a date, so every date of a series can share it.
+// Which medicines may meet which rule requirements: one flag per medicine of `timeline`
+// and requirement of `tables.rules` (rules in order; each rule's `require`, then its
+// `forbid`), medicine-major; a flag is set when some ingredient of the medicine matches.
+// It does not depend on a date (nor on routes), so every date of a series can share it.
 std::vector<bool> MatchRuleRequirements(const Timeline& timeline, const BurdenTables& tables);
+
+// The rules that did not fire on `burden`'s date only because of a route: each would
+// fire if every route counted (same age test), with the medicines it would involve.
+// For explanations (`meds`); `burden` must come from EvaluateBurden on `timeline`.
+std::vector<FiredRule> RulesLeftOutByRoute(const Timeline& timeline, const Burden& burden,
+                                           const BurdenTables& tables, std::optional<int> age);
 
 // Evaluates the timeline on `on`. `age` is the completed age on that date, if known.
 // `matches`, if given, must be MatchRuleRequirements(timeline, tables); without it the

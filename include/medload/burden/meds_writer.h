@@ -4,6 +4,7 @@
 #pragma once
 
 #include <iosfwd>
+#include <map>
 #include <optional>
 #include <span>
 #include <string>
@@ -30,7 +31,14 @@ struct MedsModel {
   // full (DataStateNote): the first warning, and a `# note:` line after the caution in CSV.
   DataState data = DataState::kFull;
   std::optional<std::string> data_note;
+  // The patient's dispensings up to the census date whose status does not count (FHIR
+  // statuses other than "completed"), by status (Store::NotCountingOf): a warning, a
+  // `# note:` line in CSV, and "not_counted" in JSON.
+  std::map<std::string, long> not_counted;
 };
+
+// The sentence saying how many dispensings do not count and why, or "" when none.
+std::string NotCountedNote(const MedsModel& model);
 
 // Warnings a clinician must see with this patient's figures (unmatched products, doses
 // not known, supplies assumed, age unknown...), in plain sentences.

@@ -40,8 +40,9 @@ class RunContext {
   // resolver (then saved in the store, best effort: a read-only store still resolves).
   // The reference stays valid for the RunContext's lifetime.
   const ResolvedProduct& Resolve(const DispensingRecord& record);
-  // The key saved resolutions are kept under: the formulary checksum and this medload's
-  // version, so that a changed table or an upgraded resolver resolves again.
+  // The key saved resolutions are kept under: the formulary checksum, this medload's
+  // version and kResolverVersion, so that a changed table or a changed resolver resolves
+  // again.
   std::string ResolutionKey() const;
   // Saves in the store the resolutions made while it was inside a snapshot (which cannot
   // be written); does nothing while it still is. Best effort, like every save of the

@@ -1,6 +1,7 @@
 // The facts about ingredients that the measures need, flattened from the formulary for
-// one run: classes, scores on every scale, Drug Burden Index minimum doses, and the
-// combination rules. A plain value so that tests can build one by hand.
+// one run: classes, scores on every scale, Drug Burden Index minimum doses, the
+// combination rules, and which routes count for each (spec section 5, "Routes"). A plain
+// value so that tests can build one by hand.
 #pragma once
 
 #include <map>
@@ -9,6 +10,7 @@
 #include <unordered_map>
 #include <vector>
 
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload {
@@ -25,14 +27,36 @@ struct BurdenTables {
   // Scale name -> canonical ingredient name -> score (absent = 0).
   std::map<std::string, std::unordered_map<std::string, int>> scales;
   std::unordered_map<std::string, DbiEntry> dbi;
+  // Classes whose members the Drug Burden Index expects (dbi_classes.csv): a member with
+  // no minimum dose in `dbi` is listed as incomplete, never a silent 0.
+  std::vector<std::string> dbi_classes;
   std::vector<Rule> rules;
+  // The routes that count unless an entry or a rule says otherwise (routes.csv).
+  RouteSet systemic_routes = RouteSet(DefaultSystemicRoutes());
+  // Per-entry overrides (the `routes` column): scale name -> ingredient -> routes, and
+  // ingredient -> routes for the DBI. Absent: systemic_routes.
+  std::map<std::string, std::unordered_map<std::string, RouteSet>> scale_routes;
+  std::unordered_map<std::string, RouteSet> dbi_routes;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;
   int Score(const std::string& ingredient) const { return Score(ingredient, scale); }
   bool HasClass(const std::string& ingredient, const std::string& class_name) const;
   const DbiEntry* Dbi(const std::string& ingredient) const;
+  // Whether the ingredient is in a class of dbi_classes (whatever `dbi` holds for it).
+  bool InDbiClass(const std::string& ingredient) const;
   const Rule* FindRule(const std::string& id) const;
+
+  // The routes on which `ingredient`'s score on `scale_name` counts, its DBI counts, or
+  // `rule` counts medicines.
+  RouteSet ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const;
+  RouteSet DbiRoutes(const std::string& ingredient) const;
+  RouteSet RuleRoutes(const Rule& rule) const;
+  // Whether a medicine in use by `routes` on the date counts for `ingredient`'s score on
+  // the run's scale, for its DBI, or for `rule`. An unknown route counts.
+  bool CountsForScale(RouteSet routes, const std::string& ingredient) const;
+  bool CountsForDbi(RouteSet routes, const std::string& ingredient) const;
+  bool CountsForRule(RouteSet routes, const Rule& rule) const;
 };
 
 class Formulary;

@@ -46,12 +46,15 @@ struct Medicine {
   std::vector<Episode> episodes;         // Coverage::source indexes `uses`
 };
 
-// A product that nothing in the formulary recognised: it may be a medicine the measures
-// cannot see, so outputs list it.
+// A product that nothing in the formulary recognised (it may be a medicine the measures
+// cannot see), or one recognised only in part or from a close spelling (it counts with
+// the ingredients read): outputs list it.
 struct UnmatchedProduct {
   std::string product;
   std::string code;
   std::vector<Date> dispensed;  // the day of each of its dispensings, oldest first
+  MatchKind match = MatchKind::kUnmatched;  // kUnmatched, kPartial or kApproximate
+  std::string detail;                       // what was not known, or how it was read
 
   // Its dispensings on or before `on` (what was known then), and the latest of them.
   int ItemsBy(Date on) const;
@@ -61,6 +64,7 @@ struct UnmatchedProduct {
 struct Timeline {
   std::vector<Medicine> medicines;         // sorted by key
   std::vector<UnmatchedProduct> unmatched; // by product text
+  std::vector<UnmatchedProduct> flagged;   // partial or approximate matches, by product text
   int non_medicine_items = 0;              // dressings, appliances...: stored, never counted
   int excluded_items = 0;                  // left out by --exclude-prn or --exclude-route
   int not_dispensed_items = 0;             // records whose status does not count

@@ -23,8 +23,13 @@ struct DispensingRecord {
   std::string unit;          // e.g. "tablet", "ml"; may be empty
   std::optional<int> days_supply;  // whole days > 0 when the source gives it
   std::string dosage;        // instruction text as written; may be empty
-  // From a FHIR structured Dosage, when present (text readers leave these empty).
+  // From a FHIR structured Dosage, when present (text readers leave these empty): the
+  // amount a day in `structured_unit`, which is a canonical dose unit ("tablet", "ml",
+  // "mg", ...; see dose/dose_unit.h), "administration" when the instruction gave a
+  // frequency but no dose, a unit as written when it is not known, or empty when the
+  // dose stated no unit (then it is in the unit of the quantity).
   std::optional<double> structured_units_per_day;
+  std::string structured_unit;
   bool structured_as_needed = false;
   // FHIR status; empty for CSV. Only "completed" (or empty) dispenses count in measures.
   std::string status;

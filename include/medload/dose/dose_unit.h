@@ -22,9 +22,19 @@ struct DoseUnit {
 // Returns nullopt when the text is not a unit this table knows (including empty text).
 std::optional<DoseUnit> ReadDoseUnit(std::string_view text);
 
+// The unit of an amount a day that counts administrations (a frequency without a dose),
+// not dose units. ReadDoseUnit does not read it: only supply.h converts it.
+inline constexpr std::string_view kAdministrationUnit = "administration";
+
+// True for canonical units that are one whole dose unit each, given one at a time
+// (tablet, capsule, patch, suppository, pessary, sachet, lozenge, pastille, enema):
+// "take twice a day" without a dose means one of them each time. Common practice.
+bool IsSingleUnitForm(std::string_view canonical);
+
 // True when amounts in the two canonical units can be divided one by the other: equal
-// names, or the pairs treated as one dose unit in practice (tablet/capsule, puff/dose).
-// Common practice: a prescriber's "tablet" for a capsule product means one dose unit.
+// names, or the pairs treated as one dose unit in practice (tablet/capsule, puff/dose,
+// spray/dose). Common practice: a prescriber's "tablet" for a capsule product means one
+// dose unit, and one spray of a metered nasal or oromucosal spray is one of its doses.
 bool SameDoseUnit(std::string_view canonical_a, std::string_view canonical_b);
 
 }  // namespace medload

@@ -16,15 +16,20 @@ namespace medload {
 // repeat.when / repeat.timeOfDay entries per day, else a timing.code (BID, TID, ...).
 // As needed: asNeededBoolean true or an asNeededCodeableConcept; then maxDosePerPeriod
 // (numerator / denominator, per day) is the units per day when given. When the
-// structure lacks a dose or a frequency, `text` is read with ReadDosageText instead.
+// structure lacks a dose or a frequency, `text` is read with ReadDosageText instead;
+// when that gives no units per day either and the timing gives a frequency but there is
+// no dose, the result is that many administrations a day in unit kAdministrationUnit
+// (understanding kPartial). A dose unit this module does not know stays as written.
 // Never throws: a value of the wrong JSON type is ignored and named in `note`; a reading
 // with nothing usable has understanding kUnknown (kEmpty for an empty object).
 DosageReading ReadFhirDosage(const nlohmann::json& dosage);
 
 // A whole dosageInstruction array. Elements with the same `sequence` (absent counts as
 // one group) are concurrent and their units per day add up; different sequences follow
-// one another and the highest daily amount of any sequence is used (a changing dose).
-// An empty or non-array value gives understanding kEmpty.
+// one another in sequence order as the stages of a changing dose, each lasting its
+// timing.repeat.boundsDuration (a sequence without one continues and ends the stages),
+// with the first stage's units per day, as ReadDosageText does for text. An empty or
+// non-array value gives understanding kEmpty.
 DosageReading ReadFhirDosageList(const nlohmann::json& dosage_instructions);
 
 }  // namespace medload

@@ -14,6 +14,7 @@
 
 #include "medload/core/status.h"
 #include "medload/formulary/product.h"
+#include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
 
 namespace medload {
@@ -34,6 +35,9 @@ struct ScaleRow {
   int score = 0;           // 0..3
   std::string source;
   int line = 0;
+  // The routes on which the score counts (the optional `routes` column); empty: the
+  // formulary's systemic routes (Formulary::SystemicRoutes).
+  std::vector<Route> routes = {};
 };
 
 struct Scale {
@@ -51,10 +55,23 @@ struct DbiDose {
   DbiEffect effect = DbiEffect::kBoth;
   std::string source;
   int line = 0;
+  // The routes on which the ingredient counts (the optional `routes` column); empty: the
+  // formulary's systemic routes.
+  std::vector<Route> routes = {};
 };
 
-// One row of products.csv: a named product the ingredient words cannot resolve alone
-// (British compound names, brands, packs that imply a supply).
+// One row of dbi_classes.csv: a class whose members have the sedative or anticholinergic
+// effects the Drug Burden Index counts, so that a member without a dbi.csv row is listed
+// as incomplete rather than adding a silent 0.
+struct DbiClass {
+  std::string class_name;
+  DbiEffect effect = DbiEffect::kBoth;
+  std::string source;
+  int line = 0;
+};
+
+// One row of products.csv or brands.csv: a named product the ingredient words cannot
+// resolve alone (British compound names, brands, packs that imply a supply).
 struct NamedProduct {
   std::string name;                         // the words that name it ("co-codamol")
   std::vector<std::string> requires_words;  // further words that must all appear ("patch")
@@ -63,6 +80,25 @@ struct NamedProduct {
   std::optional<Route> route;               // overrides the route from the form words
   std::string dose_unit;                    // overrides the dose unit when set
   std::optional<int> supply_days_per_unit;  // days one unit lasts (patch, depot)
+  std::string source;
+  int line = 0;
+  std::string table = "products.csv";       // the file the row came from
+  // False for a combination brand read from a dictionary, whose ingredient order need not
+  // be the order its strengths are written in: it then takes no strengths from the text.
+  bool strengths_in_order = true;
+};
+
+// One row of dictionary.csv: a product of a national dictionary (dm+d, RxNorm) or of a
+// user's own list, written by `medload formulary load-dictionary` or by hand.
+struct DictionaryEntry {
+  std::string code_system;  // "dmd", "rxnorm", or as the records carry it
+  std::string code;         // may be empty for a row that only names a product
+  std::string name;         // the dictionary's description; an exact match resolves
+  std::string brand;        // brand words that name it in other descriptions; may be empty
+  // Canonical names in the order strengths are written, each optionally "=STRENGTH"
+  // ("codeine=30mg"; "codeine=" when its strength is not known). "?name" is a substance
+  // ingredients.csv does not know: a product naming one resolves as partial.
+  std::vector<std::string> ingredients;
   std::string source;
   int line = 0;
 };
@@ -84,16 +120,28 @@ struct NonMedicineTerm {
   int line = 0;
 };
 
+// One row of routes.csv: whether a route counts as systemic for the measures by default.
+struct RouteRow {
+  Route route = Route::kOther;
+  bool systemic = false;
+  std::string source;
+  int line = 0;
+};
+
 // Everything read from the folder, before cross-checking. Plain data so that tests can
 // build a formulary in memory.
 struct FormularyTables {
   std::vector<Ingredient> ingredients;
   std::vector<Scale> scales;               // sorted by name
   std::vector<DbiDose> dbi;
+  std::vector<DbiClass> dbi_classes;
   std::vector<NamedProduct> products;
   std::vector<ProductCode> codes;
   std::vector<NonMedicineTerm> non_medicines;
+  std::vector<NamedProduct> brands;        // brands.csv (table "brands.csv")
+  std::vector<DictionaryEntry> dictionary; // dictionary.csv
   std::vector<Rule> rules;
+  std::vector<RouteRow> routes;            // routes.csv; routes it does not list keep the default
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
 
@@ -130,12 +178,24 @@ class Formulary {
   // The Drug Burden Index row of the ingredient, or nullptr.
   const DbiDose* DbiOf(std::string_view ingredient) const;
 
-  // The named product (products.csv) with this name, or nullptr (first row if several).
+  // The named product (products.csv, then brands.csv) with this name, or nullptr (first
+  // row if several).
   const NamedProduct* FindProduct(std::string_view name) const;
+  // The named product behind a target of name_index().products: products.csv rows, then
+  // brands.csv rows, then the brands of dictionary.csv.
+  const NamedProduct& NamedProductAt(size_t target) const;
+  // The dictionary row for (code_system, code), or nullptr.
+  const DictionaryEntry* FindDictionaryCode(std::string_view code_system, std::string_view code) const;
+  // The dictionary row whose name is `description` (compared as NameKey after abbreviations
+  // are written out), or nullptr.
+  const DictionaryEntry* FindDictionaryName(std::string_view description) const;
   // The target of a code, or nullptr. `code_system` "ATC" also matches the WHO ATC URI.
   const ProductCode* FindCode(std::string_view code_system, std::string_view code) const;
   // The rule with this id, or nullptr.
   const Rule* FindRule(std::string_view id) const;
+  // The routes that count as systemic by default: DefaultSystemicRoutes() changed by the
+  // rows of routes.csv, in the specification's order.
+  std::vector<Route> SystemicRoutes() const;
 
   const FormularyTables& tables() const { return *tables_; }
   const std::vector<Ingredient>& ingredients() const { return tables_->ingredients; }
@@ -159,7 +219,8 @@ class Formulary {
 struct FormularyCheck {
   std::vector<std::string> faults;  // each "file:line: fault", in file order
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
-         products = 0, codes = 0, non_medicine_terms = 0, rules = 0;
+         products = 0, brands = 0, dictionary_rows = 0, codes = 0, non_medicine_terms = 0,
+         rules = 0, routes = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };
@@ -182,5 +243,11 @@ Result<Formulary> LoadFormulary(const std::string& dir);
 // The same name key the lookups use: case-folded, accents removed, every run of
 // characters other than letters and digits turned into one space, trimmed.
 std::string NameKey(std::string_view name);
+
+// A code system as compared everywhere (codes.csv, dictionary.csv, the records): the
+// NameKey with no spaces, so case and punctuation do not count ("dm+d" = "DMD"), and the
+// FHIR URIs of the systems the formulary names read as those names ("atc" for
+// http://www.whocc.no/atc, "dmd" for https://dmd.nhs.uk, "rxnorm" for the NLM RxNorm URI).
+std::string CodeSystemKey(std::string_view system);
 
 }  // namespace medload

@@ -46,12 +46,20 @@ struct ResolvedIngredient {
 enum class MatchKind {
   kUnmatched,     // nothing in the tables recognised it
   kCode,          // by product code
-  kProduct,       // by a named product in products.csv (combinations, brands)
+  kProduct,       // by a named product (products.csv, brands.csv, a dictionary's name or brand)
   kIngredient,    // by ingredient names in the description
   kNonMedicine,   // by a non-medicine term
+  kApproximate,   // some ingredient read from a close spelling (see `spellings`)
+  kPartial,       // some of the text names an ingredient the tables do not know (`unknown`)
 };
 
 std::string_view MatchKindName(MatchKind kind);
+
+// A word of the description read as the name of a known ingredient it closely resembles.
+struct SpellingReading {
+  std::string written;  // the word as normalised ("amitriptilline")
+  std::string read_as;  // the canonical ingredient ("amitriptyline")
+};
 
 struct ResolvedProduct {
   std::vector<ResolvedIngredient> ingredients;  // empty for non-medicines and unmatched
@@ -61,14 +69,27 @@ struct ResolvedProduct {
   bool non_medicine = false;
   MatchKind match = MatchKind::kUnmatched;
   std::string match_detail;          // how it matched, for explanations
+  // kPartial: the words taken for ingredients the tables do not know ("hydrocodone"); their
+  // strengths are never given to a known ingredient. May be set with kApproximate too.
+  std::vector<std::string> unknown;
+  // Close spellings read as known ingredients (kApproximate, or kPartial with both).
+  std::vector<SpellingReading> spellings;
   // Days that ONE unit of the quantity lasts when the product implies it (a seven-day
   // patch: 7; a 72-hour patch: 3; a 12-week depot injection: 84); empty otherwise. For a
   // dispensing of several units use ProductDefaultSupplyDays(product, quantity).
   std::optional<int> default_supply_days;
 
   bool matched() const { return match != MatchKind::kUnmatched; }
+  // Recognised only in part or through a close spelling: it counts (with the ingredients
+  // found) but every output that uses it must say so.
+  bool flagged() const { return match == MatchKind::kPartial || match == MatchKind::kApproximate; }
   bool is_medicine() const { return matched() && !non_medicine && !ingredients.empty(); }
 };
+
+// What a partial or approximate resolution did not know and how it read close spellings,
+// for warnings: "not in the formulary: frobazine; \"oxybutinin\" read as oxybutynin".
+// Empty for other resolutions.
+std::string FlagDescription(const ResolvedProduct& product);
 
 // The default days of supply of a dispensing of `quantity` units of `product`:
 // ceil(quantity x default_supply_days) when the product implies a supply per unit and

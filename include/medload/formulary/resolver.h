@@ -17,12 +17,20 @@
 
 namespace medload {
 
-// Resolves one product. Order: by code (codes.csv, then the ATC codes of
-// ingredients.csv), then non-medicine terms, then named products (longest name first),
-// then ingredient names and synonyms found in the words (longest first; several give a
-// combination). Strengths, form and route always come from the description's words.
-// Salt and ester words need no table: words that name nothing are ignored. Never fails:
-// a description nothing recognises comes back with match == kUnmatched.
+// Raised whenever the same text, with the same tables, may resolve differently: saved
+// resolutions are keyed by it together with the formulary checksum and the version.
+inline constexpr int kResolverVersion = 3;
+
+// Resolves one product. Order: by code (codes.csv, dictionary.csv, then the ATC codes of
+// ingredients.csv), then non-medicine terms, then a dictionary product's exact name, then
+// named products and brands (longest name first), then ingredient names and synonyms
+// found in the words (longest first; several give a combination). Abbreviations are
+// written out first ("tabs", "m/r", "HCl") and a maker in trailing brackets is ignored.
+// A part of a combination that names no known ingredient is read as a close spelling
+// (kApproximate) or kept in `unknown` (kPartial), never dropped; strengths go only where
+// it is certain which is whose. Strengths, form and route come from the description's
+// words. Salt and ester words name nothing and are ignored. Never fails: a description
+// nothing recognises comes back with match == kUnmatched.
 ResolvedProduct Resolve(const Formulary& formulary, std::string_view description,
                         std::string_view code = {}, std::string_view code_system = {});
 
@@ -67,6 +75,11 @@ class ResolutionCache {
   const Formulary& formulary_;
   std::unordered_map<std::string, ResolvedProduct> cache_;
 };
+
+// Up to `limit` names in the tables (ingredients, synonyms, brands) nearest in spelling
+// to the words of `description` that name nothing, nearest first: suggestions for a
+// product nothing resolves. Empty when no word is close to a name.
+std::vector<std::string> SuggestNames(const Formulary& formulary, std::string_view description, size_t limit = 3);
 
 // JSON form of a resolution, for the store's resolution cache (keyed by the formulary
 // checksum) and for `formulary lookup --format json`.

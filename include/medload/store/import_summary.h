@@ -26,9 +26,20 @@ struct ImportSummary {
   long rejected = 0;         // not stored; each with a reason
   long updated = 0;          // part of `imported`: existing rows that this file changed
   long patients = 0;         // part of `read`: FHIR Patient resources in a dispensing file
+  long medications = 0;      // part of `read`: FHIR Medication resources (dispensing file)
   long blank_lines = 0;      // skipped, not rows
+  // Imported dispensings whose patient has no row in the registry when the file ends (a
+  // warning: they are stored), the distinct such patients, and the first few as
+  // `FILE:LINE: patient "ID"`.
+  long not_in_registry = 0;
+  long not_in_registry_patients = 0;
+  std::vector<std::string> not_in_registry_examples;
   std::map<std::string, long> reasons;      // reason key -> rejected rows
   std::map<std::string, long> not_counted;  // status -> stored dispenses that do not count
+  // Match kind ("unmatched", "partial", "approximate") -> stored counting dispensings whose
+  // product the formulary recognised so; empty when no formulary was consulted. Filled by
+  // the caller (import dispensing), which resolves the products.
+  std::map<std::string, long> product_flags;
   std::vector<std::string> examples;        // the messages of the first rejected rows
   bool rolled_back = false;  // rejected/read was above the rate: nothing was stored
   double max_reject_rate = 0.05;

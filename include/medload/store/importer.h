@@ -27,6 +27,9 @@ struct ImportOptions {
   size_t max_examples = 10;                // rejected-row messages kept in the summary
   long progress_every = 0;                 // call `progress` after every N rows (0: never)
   std::function<void(long rows_read)> progress;
+  // Called with each dispensing stored (new or changed, not a duplicate), e.g. to check
+  // its product; the rows of a file rolled back were called too.
+  std::function<void(const DispensingRecord&)> stored_dispensing;
 };
 
 // Imports `in` as input of `kind`, naming it `file` in messages and in the store. The

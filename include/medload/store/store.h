@@ -5,6 +5,7 @@
 #pragma once
 
 #include <functional>
+#include <map>
 #include <memory>
 #include <optional>
 #include <string>
@@ -21,7 +22,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 3;
+inline constexpr int kStoreSchemaVersion = 4;
 
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
@@ -130,6 +131,9 @@ class Store {
   Result<std::vector<DispensingRecord>> DispensingsOf(std::string_view patient_id) const;
   // Every stored dispensing of the patient, whatever its status, in the same order.
   Result<std::vector<DispensingRecord>> AllDispensingsOf(std::string_view patient_id) const;
+  // How many of the patient's dispensings up to and including `on` have a status that
+  // does not count (anything but "completed"), by status; empty when there are none.
+  Result<std::map<std::string, long>> NotCountingOf(std::string_view patient_id, Date on) const;
   // The patient's registry row, or nullopt when none was imported.
   Result<std::optional<PatientRecord>> PatientOf(std::string_view patient_id) const;
 
