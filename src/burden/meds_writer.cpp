@@ -460,13 +460,11 @@ void WriteMedsText(std::ostream& out, const MedsModel& model) {
 
 void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvCaution(out);
-  if (model.data_note) out << "# note: " << *model.data_note << "\n";
-  if (const std::string note = NotCountedNote(model); !note.empty()) out << "# note: " << note << "\n";
-  out << CsvRow({"# " + SystemicRoutesSentence(model)});
-  for (const std::string& line : LongitudinalLines(*model.timeline, *model.burden)) {
-    out << "# " << line << "\n";
-  }
-  if (model.trajectory) out << "# change: " << TrajectoryText(*model.trajectory, ScaleLabel(model)) << "\n";
+  if (model.data_note) WriteCsvComment(out, "note: " + *model.data_note);
+  if (const std::string note = NotCountedNote(model); !note.empty()) WriteCsvComment(out, "note: " + note);
+  WriteCsvComment(out, SystemicRoutesSentence(model));
+  for (const std::string& line : LongitudinalLines(*model.timeline, *model.burden)) WriteCsvComment(out, line);
+  if (model.trajectory) WriteCsvComment(out, "change: " + TrajectoryText(*model.trajectory, ScaleLabel(model)));
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
                  "product", "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi",
                  "classes", "not_counted", "falls_risk", "pdc", "pdc_dispensings"});

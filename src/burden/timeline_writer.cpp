@@ -4,6 +4,7 @@
 #include <ostream>
 
 #include "medload/core/caution.h"
+#include "medload/format/chart_layout.h"
 #include "medload/format/output.h"
 
 namespace medload {
@@ -13,6 +14,12 @@ constexpr int kLabelWidth = 230;
 constexpr int kPlotWidth = 640;
 constexpr int kRowHeight = 22;
 constexpr int kCountHeight = 90;
+constexpr int kWidth = kLabelWidth + kPlotWidth + 20;
+constexpr double kTickFont = 10;
+constexpr double kKeyFont = 10;
+constexpr std::string_view kKey =
+    "Solid bars: days supplied. Pale dashed bars: tail days (supply run out; a refill may be late). "
+    "Ticks: dispensings. Dashed line: census date. Supports, does not replace, clinical review.";
 
 std::string Name(const Medicine& medicine) {
   std::string name;
@@ -28,17 +35,30 @@ struct Scale {
   }
 };
 
+// Months between labelled ticks: the least of 1, 2, 3, 6 or 12 that leaves room for a
+// "YYYY-MM" label and a gap between neighbours.
+int MonthStep(const Scale& scale) {
+  const double month = kPlotWidth * 30.44 / static_cast<double>(scale.days);
+  const double needed = TextWidth("0000-00", kTickFont) + 8;
+  for (const int step : {1, 2, 3, 6}) {
+    if (month * step >= needed) return step;
+  }
+  return 12;
+}
+
+// A grid line at the first day of each month, labelled every MonthStep months (months
+// 1, 1+step, ...), and not where the label would reach past the edge.
 void WriteAxis(std::ostream& out, const Scale& scale, Date to, int top, int bottom) {
-  // A tick at the first day of each month (or each quarter when the range is long).
-  const int step = scale.days > 800 ? 3 : 1;
-  Date tick = EndOfMonth(scale.from) + 1;
-  for (int guard = 0; tick <= to && guard < 400; ++guard) {
-    if ((tick.month() - 1) % step == 0) {
-      const double x = scale.X(tick);
-      out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << top << "\" x2=\"" << FormatNumber(x, 1)
-          << "\" y2=\"" << bottom << "\" stroke=\"#ddd\"/>\n<text x=\"" << FormatNumber(x, 1) << "\" y=\""
-          << bottom + 14 << "\" font-size=\"10\" text-anchor=\"middle\">" << tick.ToIso().substr(0, 7)
-          << "</text>\n";
+  const int step = MonthStep(scale);
+  const double half = TextWidth("0000-00", kTickFont) / 2;
+  Date tick = scale.from.day() == 1 ? scale.from : EndOfMonth(scale.from) + 1;
+  for (int guard = 0; tick <= to && guard < 4000; ++guard) {
+    const double x = scale.X(tick);
+    out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << top << "\" x2=\"" << FormatNumber(x, 1)
+        << "\" y2=\"" << bottom << "\" stroke=\"" << ((tick.month() - 1) % step == 0 ? "#ccc" : "#eee") << "\"/>\n";
+    if ((tick.month() - 1) % step == 0 && x - half >= 0 && x + half <= kWidth - 2) {
+      out << "<text x=\"" << FormatNumber(x, 1) << "\" y=\"" << bottom + 14 << "\" font-size=\"" << kTickFont
+          << "\" text-anchor=\"middle\">" << tick.ToIso().substr(0, 7) << "</text>\n";
     }
     tick = EndOfMonth(tick) + 1;
   }
@@ -47,7 +67,8 @@ void WriteAxis(std::ostream& out, const Scale& scale, Date to, int top, int bott
 void WriteRow(std::ostream& out, const TimelineModel& model, const Medicine& medicine, const Scale& scale, int y) {
   const Date to = model.to;
   out << "<g><title>" << EscapeHtml(Name(medicine)) << "</title>\n<text x=\"" << kLabelWidth - 6 << "\" y=\""
-      << y + 15 << "\" font-size=\"12\" text-anchor=\"end\">" << EscapeHtml(Name(medicine)) << "</text>\n";
+      << y + 15 << "\" font-size=\"12\" text-anchor=\"end\">" << EscapeHtml(FitText(Name(medicine), 12, kLabelWidth - 16))
+      << "</text>\n";
   for (const Episode& episode : medicine.episodes) {
     if (episode.end < scale.from || episode.start > to) continue;
     // The whole episode as a pale, dashed bar (tail days: the supply has run out and a
@@ -84,12 +105,25 @@ void WriteCounts(std::ostream& out, const TimelineModel& model, const Scale& sca
   const std::vector<int> counts = ConcurrentCounts(*model.timeline, model.from, model.to);
   const int peak = std::max(1, *std::max_element(counts.begin(), counts.end()));
   const int bottom = top + kCountHeight - 20;
-  out << "<text x=\"" << kLabelWidth - 6 << "\" y=\"" << top + 12
-      << "\" font-size=\"12\" text-anchor=\"end\">medicines at once (peak " << peak << ")</text>\n"
-      << "<polyline fill=\"none\" stroke=\"#333\" stroke-width=\"1.5\" points=\"";
+  auto y_of = [&](int count) { return bottom - (bottom - top - 4) * static_cast<double>(count) / peak; };
+  // A scale: a line and a value at 0, at the peak and (when it is a whole number apart
+  // from both) halfway.
+  std::vector<int> marks = {0, peak};
+  if (peak >= 4 && peak % 2 == 0) marks.push_back(peak / 2);
+  for (const int mark : marks) {
+    out << "<line x1=\"" << kLabelWidth << "\" y1=\"" << FormatNumber(y_of(mark), 1) << "\" x2=\""
+        << kLabelWidth + kPlotWidth << "\" y2=\"" << FormatNumber(y_of(mark), 1) << "\" stroke=\""
+        << (mark == 0 ? "#888" : "#e2e2e2") << "\"/>\n<text x=\"" << kLabelWidth - 4 << "\" y=\""
+        << FormatNumber(y_of(mark) + 3.5, 1) << "\" font-size=\"" << kTickFont << "\" text-anchor=\"end\">" << mark
+        << "</text>\n";
+  }
+  out << "<text x=\"" << kLabelWidth - 24 << "\" y=\"" << (top + bottom) / 2 - 2
+      << "\" font-size=\"12\" text-anchor=\"end\">medicines at once</text>\n<text x=\"" << kLabelWidth - 24
+      << "\" y=\"" << (top + bottom) / 2 + 13 << "\" font-size=\"11\" text-anchor=\"end\" fill=\"#444\">(peak "
+      << peak << ")</text>\n<polyline fill=\"none\" stroke=\"#333\" stroke-width=\"1.5\" points=\"";
   for (size_t i = 0; i < counts.size(); ++i) {
     const Date day = model.from + static_cast<int>(i);
-    const double y = bottom - (bottom - top - 4) * static_cast<double>(counts[i]) / peak;
+    const double y = y_of(counts[i]);
     out << FormatNumber(scale.X(day), 1) << "," << FormatNumber(y, 1) << " " << FormatNumber(scale.X(day + 1), 1)
         << "," << FormatNumber(y, 1) << " ";
   }
@@ -107,7 +141,7 @@ std::string Dispensings(long count) {
 
 void WriteSvgNotes(std::ostream& out, const std::vector<std::string>& notes, int top) {
   for (size_t i = 0; i < notes.size(); ++i) {
-    out << "<text x=\"10\" y=\"" << top + static_cast<int>(i) * 14 << "\" font-size=\"11\" fill=\"#900\">"
+    out << "<text x=\"10\" y=\"" << top + 10 + static_cast<int>(i) * 14 << "\" font-size=\"11\" fill=\"#900\">"
         << EscapeHtml(notes[i]) << "</text>\n";
   }
 }
@@ -189,18 +223,23 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
   const int rows = static_cast<int>(model.timeline->medicines.size());
   const int plot_top = 40;
   const int rows_bottom = plot_top + rows * kRowHeight;
-  const std::vector<std::string> notes = NotDrawnNotes(*model.timeline, model.dropped, model.records.size());
+  // What is not drawn (in red), then the key, each wrapped to the width.
+  std::vector<std::string> notes;
+  for (const std::string& note : NotDrawnNotes(*model.timeline, model.dropped, model.records.size())) {
+    for (std::string& line : WrapText(note, 11, kWidth - 20)) notes.push_back(std::move(line));
+  }
+  const std::vector<std::string> key = WrapText(kKey, kKeyFont, kWidth - 20);
   const int notes_top = rows_bottom + 30 + kCountHeight + 10;
-  const int height = notes_top + static_cast<int>(notes.size()) * 14 + 30;
+  const int key_top = notes_top + 14 * static_cast<int>(notes.size());
+  const int height = key_top + 14 * static_cast<int>(key.size()) + 8;
   const std::string title = "Medication episodes of patient " + model.patient + ", " + model.from.ToIso() +
                             " to " + model.to.ToIso();
-  out << "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 " << kLabelWidth + kPlotWidth + 20 << " "
-      << height << "\" width=\"" << kLabelWidth + kPlotWidth + 20 << "\" height=\"" << height
-      << "\" role=\"img\" aria-labelledby=\"t\" font-family=\"sans-serif\">\n<title id=\"t\">"
-      << EscapeHtml(title) << "</title>\n<desc>" << EscapeHtml(kCaution) << "</desc>\n"
-      << "<rect width=\"100%\" height=\"100%\" fill=\"#fff\"/>\n<text x=\"10\" y=\"20\" font-size=\"14\" "
+  out << "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 " << kWidth << " " << height << "\" width=\""
+      << kWidth << "\" height=\"" << height << "\" role=\"img\" aria-labelledby=\"t\" font-family=\"sans-serif\">\n"
+      << "<title id=\"t\">" << EscapeHtml(title) << "</title>\n<desc>" << EscapeHtml(kCaution) << "</desc>\n"
+      << "<rect width=\"100%\" height=\"100%\" fill=\"#fff\"/>\n<text x=\"10\" y=\"18\" font-size=\"14\" "
          "font-weight=\"bold\">"
-      << EscapeHtml(title) << "</text>\n";
+      << EscapeHtml(FitText(title, 14 * kBoldWidth, kWidth - 20)) << "</text>\n";
   WriteAxis(out, scale, model.to, plot_top, rows_bottom);
   for (int r = 0; r < rows; ++r) {
     WriteRow(out, model, model.timeline->medicines[static_cast<size_t>(r)], scale, plot_top + r * kRowHeight);
@@ -209,15 +248,19 @@ void WriteTimelineSvg(std::ostream& out, const TimelineModel& model) {
   WriteSvgNotes(out, notes, notes_top);
   if (model.census && *model.census >= model.from && *model.census <= model.to) {
     const double x = scale.X(*model.census);
+    const std::string label = "census " + model.census->ToIso();
+    // Right of the line, or left of it when it would run past the edge.
+    const bool left = x + 4 + TextWidth(label, 11) > kWidth - 2;
     out << "<line x1=\"" << FormatNumber(x, 1) << "\" y1=\"" << plot_top - 6 << "\" x2=\"" << FormatNumber(x, 1)
-        << "\" y2=\"" << height - 30 << "\" stroke=\"#b00\" stroke-width=\"2\" stroke-dasharray=\"6 3\"/>\n"
-        << "<text x=\"" << FormatNumber(x + 4, 1) << "\" y=\"" << plot_top - 8
-        << "\" font-size=\"11\">census " << model.census->ToIso() << "</text>\n";
+        << "\" y2=\"" << notes_top - 10 << "\" stroke=\"#b00\" stroke-width=\"2\" stroke-dasharray=\"6 3\"/>\n"
+        << "<text x=\"" << FormatNumber(left ? x - 4 : x + 4, 1) << "\" y=\"" << plot_top - 5 << "\" font-size=\"11\""
+        << (left ? " text-anchor=\"end\"" : "") << ">" << label << "</text>\n";
   }
-  out << "<text x=\"10\" y=\"" << height - 10
-      << "\" font-size=\"10\">Solid bars: days supplied. Pale dashed bars: tail days (supply run out; a "
-         "refill may be late). Ticks: dispensings. Dashed line: census date. Supports, does not replace, "
-         "clinical review.</text>\n</svg>\n";
+  for (size_t i = 0; i < key.size(); ++i) {
+    out << "<text x=\"10\" y=\"" << key_top + 10 + 14 * static_cast<int>(i) << "\" font-size=\"" << kKeyFont << "\">"
+        << EscapeHtml(key[i]) << "</text>\n";
+  }
+  out << "</svg>\n";
 }
 
 void WriteTimelineHtml(std::ostream& out, const TimelineModel& model) {
@@ -267,7 +310,7 @@ void WriteTimelineCsv(std::ostream& out, const TimelineModel& model) {
   WriteCsvCaution(out);
   // What is not drawn: comment lines after the caution, before the header.
   for (const std::string& note : NotDrawnNotes(*model.timeline, model.dropped, model.records.size())) {
-    out << CsvRow({"# " + note});
+    WriteCsvComment(out, note);
   }
   out << CsvRow({"patient", "medicine", "start", "end", "days", "supplied_days", "tail_days", "dispensings"});
   for (auto& row : EpisodeRows(model)) {

@@ -3,6 +3,7 @@
 #include <map>
 #include <ostream>
 
+#include "medload/cohort/cohort_chart.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/format/output.h"
 
@@ -85,8 +86,8 @@ void WriteCohortWideText(std::ostream& out, const CohortTable& table) {
 
 void WriteCohortWideCsv(std::ostream& out, const CohortTable& table) {
   WriteCsvCaution(out);
-  if (!table.population.empty()) out << "# patients: " << table.population << "\n";
-  for (const std::string& note : table.notes) out << "# note: " << note << "\n";
+  if (!table.population.empty()) WriteCsvComment(out, "patients: " + table.population);
+  for (const std::string& note : table.notes) WriteCsvComment(out, "note: " + note);
   std::vector<std::string> header = {"group", "criterion", "figure"};
   for (const std::string& date : WideHeader(table)) header.push_back(date);
   out << CsvRow(header);

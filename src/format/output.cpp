@@ -76,7 +76,20 @@ std::string CsvRow(const std::vector<std::string>& cells) {
   return row;
 }
 
-void WriteCsvCaution(std::ostream& out) { out << "# " << kCaution << "\n"; }
+std::string CsvCommentLine(std::string_view text) {
+  std::string line = "\"# ";
+  for (const char c : text) {
+    if (c == '"') line += "\"\"";
+    else if (c == '\r' || c == '\n') line += ' ';
+    else line += c;
+  }
+  line += "\"\n";
+  return line;
+}
+
+void WriteCsvComment(std::ostream& out, std::string_view text) { out << CsvCommentLine(text); }
+
+void WriteCsvCaution(std::ostream& out) { WriteCsvComment(out, kCaution); }
 
 std::string EscapeHtml(std::string_view value) {
   // Control characters and bidi controls from data (an escape in a title, U+202E in a
@@ -101,24 +114,39 @@ std::string EscapeHtml(std::string_view value) {
   return escaped;
 }
 
+namespace {
+
+// The page style. Screen: a readable column; tables wrap long words rather than push the
+// page sideways. Print (A4, 12 mm margins): full width, smaller type, a table's header
+// repeated on each page, rows, charts and the caution never split across pages, headings
+// kept with what follows, and links and navigation that mean nothing on paper left out.
+constexpr std::string_view kPageStyle =
+    "body{font-family:system-ui,sans-serif;margin:1.5rem auto;max-width:72rem;padding:0 1rem;"
+    "color:#1b1b1b;line-height:1.4}\n"
+    ".caution{border:2px solid #7a4b00;background:#fff6e0;padding:.6rem .9rem;margin:0 0 1rem;"
+    "font-size:.95rem}\n"
+    "table{border-collapse:collapse;margin:.5rem 0 1.2rem;font-size:.9rem;max-width:100%}\n"
+    "th,td{border:1px solid #bbb;padding:.25rem .5rem;text-align:left;vertical-align:top;"
+    "overflow-wrap:break-word}\n"
+    "th{background:#eef0f3}\ntd.num{text-align:right;white-space:nowrap}\n"
+    "h1{font-size:1.5rem}h2{font-size:1.2rem;margin-top:1.6rem}\n"
+    ".note{color:#444;font-size:.9rem}\nfigure{margin:1rem 0}\nsvg{max-width:100%;height:auto}\n"
+    "@page{size:A4;margin:12mm}\n"
+    "@media print{body{max-width:none;margin:0;padding:0;font-size:9pt;line-height:1.3}"
+    ".caution{border-width:1px;background:none;break-inside:avoid}"
+    "h1{font-size:14pt}h2{font-size:11.5pt;break-after:avoid}"
+    "table{width:100%;font-size:7.5pt;margin:.3rem 0 .8rem}thead{display:table-header-group}"
+    "th,td{padding:.1rem .25rem}th{background:none}tr,figure,.caution{break-inside:avoid}"
+    "figure{margin:.4rem 0}.note{font-size:8.5pt}a{color:inherit;text-decoration:none}.screen{display:none}}\n";
+
+}  // namespace
+
 void WriteHtmlStart(std::ostream& out, std::string_view title) {
   out << "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
          "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<title>"
-      << EscapeHtml(title)
-      << "</title>\n<style>\n"
-         "body{font-family:system-ui,sans-serif;margin:1.5rem auto;max-width:72rem;padding:0 1rem;"
-         "color:#1b1b1b;line-height:1.4}\n"
-         ".caution{border:2px solid #7a4b00;background:#fff6e0;padding:.6rem .9rem;margin:0 0 1rem;"
-         "font-size:.95rem}\n"
-         "table{border-collapse:collapse;margin:.5rem 0 1.2rem;font-size:.9rem}\n"
-         "th,td{border:1px solid #bbb;padding:.25rem .5rem;text-align:left;vertical-align:top}\n"
-         "th{background:#eef0f3}\ntd.num{text-align:right}\n"
-         "h1{font-size:1.5rem}h2{font-size:1.2rem;margin-top:1.6rem}\n"
-         ".note{color:#444;font-size:.9rem}\nsvg{max-width:100%;height:auto}\n"
-         "@media print{.caution{border-width:1px}body{margin:0}}\n"
-         "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>"
-      << EscapeHtml(CautionWord()) << "</strong> " << EscapeHtml(CautionRest()) << "</div>\n<h1>" << EscapeHtml(title)
-      << "</h1>\n";
+      << EscapeHtml(title) << "</title>\n<style>\n" << kPageStyle
+      << "</style>\n</head>\n<body>\n<div class=\"caution\" role=\"note\"><strong>" << EscapeHtml(CautionWord())
+      << "</strong> " << EscapeHtml(CautionRest()) << "</div>\n<h1>" << EscapeHtml(title) << "</h1>\n";
 }
 
 void WriteHtmlEnd(std::ostream& out) { out << "</body>\n</html>\n"; }

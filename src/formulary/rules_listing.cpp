@@ -112,7 +112,7 @@ void WriteRulesListingText(std::ostream& out, const Formulary& formulary) {
 
 void WriteRulesListingCsv(std::ostream& out, const Formulary& formulary) {
   WriteCsvCaution(out);
-  out << CsvRow({"# " + Summary(formulary)});
+  WriteCsvComment(out, Summary(formulary));
   out << CsvRow(Header());
   for (const auto& row : Rows(formulary)) out << CsvRow(row);
 }

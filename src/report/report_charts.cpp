@@ -4,6 +4,7 @@
 #include <set>
 #include <sstream>
 
+#include "medload/format/chart_layout.h"
 #include "medload/format/output.h"
 #include "medload/format/suppression.h"
 #include "medload/format/svg_chart.h"
@@ -14,43 +15,52 @@ namespace medload {
 namespace {
 
 constexpr double kWidth = 760;
-constexpr double kHeight = 400;
+constexpr double kHeight = 440;
 constexpr double kLeft = 70;
-constexpr double kRight = 190;  // room for the legend
+constexpr double kRight = 150;  // the column of practice labels
 constexpr double kTop = 40;
-constexpr double kBottom = 60;
+constexpr double kBottom = 100; // tick values, axis title, key, note
+constexpr double kFont = 11;
+constexpr double kLabelGap = 13;
 constexpr int kCurveSteps = 80;
+constexpr int kTicks = 5;       // with kFineAxisSteps every tick is a round number
 
 struct Frame {
   double x_top = 1;  // registered patients at the right edge
   double y_top = 1;  // rate per 1000 at the top edge
-  double X(double n) const { return kLeft + (kWidth - kLeft - kRight) * n / x_top; }
-  double Y(double rate) const {
-    const double clipped = std::clamp(rate, 0.0, y_top);
-    return kTop + (kHeight - kTop - kBottom) * (1 - clipped / y_top);
-  }
+  static double Right() { return kWidth - kRight; }
+  static double Bottom() { return kHeight - kBottom; }
+  double X(double n) const { return kLeft + (Right() - kLeft) * n / x_top; }
+  double Y(double rate) const { return kTop + (Bottom() - kTop) * (1 - std::clamp(rate, 0.0, y_top) / y_top); }
 };
 
+void Text(std::ostringstream& svg, double x, double y, std::string_view anchor, std::string_view text,
+          std::string_view extra = "", double size = kFont) {
+  svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(y) << "\" font-size=\"" << size << "\"";
+  if (anchor != "start") svg << " text-anchor=\"" << anchor << "\"";
+  svg << extra << ">" << EscapeHtml(text) << "</text>\n";
+}
+
+void Line(std::ostringstream& svg, double x1, double y1, double x2, double y2, std::string_view rest) {
+  svg << "<line x1=\"" << SvgNumber(x1) << "\" y1=\"" << SvgNumber(y1) << "\" x2=\"" << SvgNumber(x2) << "\" y2=\""
+      << SvgNumber(y2) << "\" " << rest << "/>\n";
+}
+
 void WriteFrame(std::ostringstream& svg, const Frame& f, const std::string& title) {
-  const double bottom = kHeight - kBottom;
-  svg << "<text x=\"" << kLeft << "\" y=\"22\" font-size=\"15\" font-weight=\"bold\">" << EscapeHtml(title)
-      << "</text>\n";
-  for (int tick = 0; tick <= 4; ++tick) {
-    const double rate = f.y_top * tick / 4.0;
-    const double n = f.x_top * tick / 4.0;
-    svg << "<line x1=\"" << kLeft << "\" y1=\"" << SvgNumber(f.Y(rate)) << "\" x2=\"" << SvgNumber(f.X(f.x_top)) << "\" y2=\""
-        << SvgNumber(f.Y(rate)) << "\" stroke=\"#ddd\"/>\n<text x=\"" << kLeft - 6 << "\" y=\"" << SvgNumber(f.Y(rate) + 4)
-        << "\" font-size=\"11\" text-anchor=\"end\">" << FormatNumber(rate, 1) << "</text>\n"
-        << "<text x=\"" << SvgNumber(f.X(n)) << "\" y=\"" << SvgNumber(bottom + 16)
-        << "\" font-size=\"11\" text-anchor=\"middle\">" << FormatNumber(n, 0) << "</text>\n";
+  Text(svg, 8, 22, "start", FitText(title, 15 * kBoldWidth, kWidth - 16), " font-weight=\"bold\"", 15);
+  for (int tick = 0; tick <= kTicks; ++tick) {
+    const double rate = f.y_top * tick / kTicks;
+    const double n = f.x_top * tick / kTicks;
+    Line(svg, kLeft, f.Y(rate), Frame::Right(), f.Y(rate), "stroke=\"#ddd\"");
+    Text(svg, kLeft - 6, f.Y(rate) + 4, "end", FormatNumber(rate, 1));
+    Text(svg, f.X(n), Frame::Bottom() + 16, "middle", FormatNumber(n, 0));
   }
-  svg << "<line x1=\"" << kLeft << "\" y1=\"" << bottom << "\" x2=\"" << SvgNumber(f.X(f.x_top)) << "\" y2=\"" << bottom
-      << "\" stroke=\"#333\"/>\n<line x1=\"" << kLeft << "\" y1=\"" << kTop << "\" x2=\"" << kLeft << "\" y2=\""
-      << bottom << "\" stroke=\"#333\"/>\n"
-      << "<text x=\"" << SvgNumber(f.X(f.x_top / 2)) << "\" y=\"" << SvgNumber(bottom + 38)
-      << "\" font-size=\"12\" text-anchor=\"middle\">Registered patients on the census date</text>\n"
-      << "<text x=\"16\" y=\"" << SvgNumber(kTop + (bottom - kTop) / 2) << "\" font-size=\"12\" text-anchor=\"middle\" "
-      << "transform=\"rotate(-90 16 " << SvgNumber(kTop + (bottom - kTop) / 2) << ")\">Patients per 1000</text>\n";
+  Line(svg, kLeft, Frame::Bottom(), Frame::Right(), Frame::Bottom(), "stroke=\"#333\"");
+  Line(svg, kLeft, kTop, kLeft, Frame::Bottom(), "stroke=\"#333\"");
+  Text(svg, f.X(f.x_top / 2), Frame::Bottom() + 36, "middle", "Registered patients on the census date", "", 12);
+  const double middle = kTop + (Frame::Bottom() - kTop) / 2;
+  svg << "<text x=\"16\" y=\"" << SvgNumber(middle) << "\" font-size=\"12\" text-anchor=\"middle\" transform=\"rotate(-90 16 "
+      << SvgNumber(middle) << ")\">Patients per 1000</text>\n";
 }
 
 // One control-limit curve (upper or lower) as a polyline over the list sizes.
@@ -67,33 +77,95 @@ void WriteLimit(std::ostringstream& svg, const Frame& f, double p0, double cover
   svg << "\"/>\n";
 }
 
-void WriteLegend(std::ostringstream& svg, double network_rate) {
-  const double x = kWidth - kRight + 16;
+// The key, in one row under the axis title: line styles, then the practice marker.
+void WriteKey(std::ostringstream& svg, double network_rate) {
+  const double y = Frame::Bottom() + 60;
   const struct {
     const char* dash;
     std::string text;
   } items[] = {{"", "network rate " + FormatNumber(network_rate, 1)},
                {"6 4", "95% control limits"},
                {"2 3", "99.8% control limits"}};
-  double y = kTop + 8;
+  double x = kLeft;
   for (const auto& item : items) {
-    svg << "<line x1=\"" << x << "\" y1=\"" << y << "\" x2=\"" << x + 26 << "\" y2=\"" << y
-        << "\" stroke=\"#222\" stroke-width=\"1.5\"" << (item.dash[0] != 0 ? std::string(" stroke-dasharray=\"") + item.dash + "\"" : "")
-        << "/>\n<text x=\"" << x + 32 << "\" y=\"" << y + 4 << "\" font-size=\"11\">" << EscapeHtml(item.text)
-        << "</text>\n";
-    y += 18;
+    Line(svg, x, y - 4, x + 26, y - 4,
+         std::string("stroke=\"#222\" stroke-width=\"1.5\"") +
+             (item.dash[0] != 0 ? std::string(" stroke-dasharray=\"") + item.dash + "\"" : ""));
+    Text(svg, x + 32, y, "start", item.text);
+    x += 32 + TextWidth(item.text, kFont) + 18;
   }
-  svg << "<circle cx=\"" << x + 13 << "\" cy=\"" << y << "\" r=\"4\" fill=\"#1b6ca8\" stroke=\"#000\"/>\n<text x=\""
-      << x + 32 << "\" y=\"" << y + 4 << "\" font-size=\"11\">a practice (code)</text>\n";
+  svg << "<circle cx=\"" << SvgNumber(x + 5) << "\" cy=\"" << SvgNumber(y - 4) << "\" r=\"4\" fill=\"#888\" stroke=\"#000\"/>\n";
+  Text(svg, x + 14, y, "start", "a practice");
 }
 
-}  // namespace
+// A practice's point on the plot.
+struct FunnelPoint {
+  const ReportSeries* series = nullptr;
+  double x = 0;
+  double y = 0;
+  double rate = 0;
+  double z = 0;       // (p - p0) / sqrt(p0 (1 - p0) / n): how far from the network rate
+  bool outside = false;  // outside the 95% limits
+};
 
-std::string FunnelSvg(const ReportModel& model, size_t key) {
+std::vector<FunnelPoint> PointsOf(const ReportModel& model, size_t key, const Frame& f, double p0) {
   const size_t last = model.dates.size() - 1;
-  const long network_n = model.network.registered[last];
-  const double p0 = network_n > 0 ? static_cast<double>(model.network.counts[key][last]) / static_cast<double>(network_n) : 0;
-  Frame f;
+  std::vector<FunnelPoint> points;
+  for (const ReportSeries& s : model.practices) {
+    const long n = s.registered[last];
+    const long count = s.counts[key][last];
+    if (n < 1 || !HasFigures(s.data[last]) || IsSuppressed(count, model.config.suppress_below)) continue;
+    const double p = static_cast<double>(count) / static_cast<double>(n);
+    const double sd = std::sqrt(std::max(p0 * (1 - p0), 1e-12) / static_cast<double>(n));
+    const bool outside = p0 > 0 && p0 < 1 && PositionOf(count, n, p0, 0.95) != FunnelPosition::kWithin;
+    points.push_back({&s, f.X(static_cast<double>(n)), f.Y(1000 * p), 1000 * p, (p - p0) / sd, outside});
+  }
+  return points;
+}
+
+// The points that get a label in the right-hand column: all when they fit, else those
+// outside the 95% limits, farthest from the network rate first, as many as fit.
+std::vector<const FunnelPoint*> Labelled(const std::vector<FunnelPoint>& points, size_t room) {
+  std::vector<const FunnelPoint*> chosen;
+  for (const FunnelPoint& p : points) {
+    if (points.size() <= room || p.outside) chosen.push_back(&p);
+  }
+  std::stable_sort(chosen.begin(), chosen.end(),
+                   [](const FunnelPoint* a, const FunnelPoint* b) { return std::abs(a->z) > std::abs(b->z); });
+  if (chosen.size() > room) chosen.resize(room);
+  return chosen;
+}
+
+// Labels in a column right of the plot, in the points' vertical order, none overlapping,
+// each joined to its point by a thin leader line; then a note saying which are labelled.
+void WriteLabels(std::ostringstream& svg, const std::vector<FunnelPoint>& points, const SeriesColours& colours) {
+  const double top = kTop + 4;
+  const double bottom = Frame::Bottom() + 4;
+  const auto room = static_cast<size_t>(std::floor((bottom - top) / kLabelGap)) + 1;
+  const std::vector<const FunnelPoint*> chosen = Labelled(points, room);
+  std::vector<double> wanted;
+  for (const FunnelPoint* p : chosen) wanted.push_back(p->y + 4);
+  const std::vector<double> placed = PlaceLabels(wanted, kLabelGap, top, bottom).value_or(std::vector<double>{});
+  const double x = Frame::Right() + 22;
+  for (size_t i = 0; i < placed.size(); ++i) {
+    const FunnelPoint& p = *chosen[i];
+    Line(svg, p.x + 4, p.y, x - 3, placed[i] - 4, "stroke=\"#9a9a9a\" stroke-width=\"0.8\"");
+    Text(svg, x, placed[i], "start", FitText(p.series->code, kFont, kRight - 28),
+         " fill=\"" + std::string(colours.Of(p.series->code)) + "\"");
+  }
+  std::string note;
+  if (chosen.size() == points.size()) note = "Every practice shown is labelled.";
+  else if (chosen.empty()) note = "No practice is outside the 95% limits, so none is labelled; the table above gives each position.";
+  else {
+    note = "Labelled: " + std::to_string(chosen.size()) + " of " + std::to_string(points.size()) +
+           " practices, those outside the 95% limits" + (chosen.size() == room ? " farthest from the network rate" : "") +
+           "; the table above gives each position.";
+  }
+  Text(svg, kLeft, Frame::Bottom() + 82, "start", FitText(note, kFont, kWidth - kLeft - 8), " fill=\"#444\"");
+}
+
+Frame FrameOf(const ReportModel& model, size_t key, double p0) {
+  const size_t last = model.dates.size() - 1;
   double top_rate = 2000 * p0;
   long top_n = 0;
   for (const ReportSeries& s : model.practices) {
@@ -102,35 +174,42 @@ std::string FunnelSvg(const ReportModel& model, size_t key) {
       top_rate = std::max(top_rate, 1000.0 * static_cast<double>(s.counts[key][last]) / static_cast<double>(s.registered[last]));
     }
   }
-  f.x_top = NiceAxisTop(1.1 * static_cast<double>(std::max(top_n, 10L)), kFineAxisSteps);
-  f.y_top = NiceAxisTop(1.1 * std::max(top_rate, 1.0), kFineAxisSteps);
+  Frame f;
+  f.x_top = NiceAxisTop(1.05 * static_cast<double>(std::max(top_n, 10L)), kFineAxisSteps);
+  f.y_top = NiceAxisTop(1.05 * std::max(top_rate, 1.0), kFineAxisSteps);
+  return f;
+}
+
+}  // namespace
+
+std::string FunnelSvg(const ReportModel& model, size_t key, const SeriesColours& colours) {
+  const size_t last = model.dates.size() - 1;
+  const long network_n = model.network.registered[last];
+  const double p0 = network_n > 0 ? static_cast<double>(model.network.counts[key][last]) / static_cast<double>(network_n) : 0;
+  const Frame f = FrameOf(model, key, p0);
   const std::string title = model.keys[key] + ": rate per 1000 against list size, " + model.on.ToIso();
   std::ostringstream svg;
   svg << "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"funnel\" viewBox=\"0 0 " << kWidth << " " << kHeight
-      << "\" width=\"" << kWidth << "\" height=\"" << kHeight << "\" role=\"img\" aria-label=\"" << EscapeHtml(title)
-      << "\">\n<title>" << EscapeHtml(title) << "</title>\n";
+      << "\" width=\"" << kWidth << "\" height=\"" << kHeight << "\" font-family=\"sans-serif\" role=\"img\" aria-label=\""
+      << EscapeHtml(title) << "\">\n<title>" << EscapeHtml(title) << "</title>\n";
   WriteFrame(svg, f, title);
-  svg << "<line x1=\"" << SvgNumber(f.X(0)) << "\" y1=\"" << SvgNumber(f.Y(1000 * p0)) << "\" x2=\"" << SvgNumber(f.X(f.x_top))
-      << "\" y2=\"" << SvgNumber(f.Y(1000 * p0)) << "\" stroke=\"#222\" stroke-width=\"1.5\"/>\n";
+  Line(svg, f.X(0), f.Y(1000 * p0), f.X(f.x_top), f.Y(1000 * p0), "stroke=\"#222\" stroke-width=\"1.5\"");
   if (p0 > 0 && p0 < 1) {
     for (const bool upper : {true, false}) {
       WriteLimit(svg, f, p0, 0.95, upper, "6 4");
       WriteLimit(svg, f, p0, 0.998, upper, "2 3");
     }
   }
-  for (const ReportSeries& s : model.practices) {
-    const long n = s.registered[last];
-    const long count = s.counts[key][last];
-    if (n < 1 || IsSuppressed(count, model.config.suppress_below)) continue;
-    const double rate = 1000.0 * static_cast<double>(count) / static_cast<double>(n);
-    const double x = f.X(static_cast<double>(n));
-    const double y = f.Y(rate);
-    svg << "<circle cx=\"" << SvgNumber(x) << "\" cy=\"" << SvgNumber(y) << "\" r=\"4\" fill=\"#1b6ca8\" stroke=\"#000\"><title>"
-        << EscapeHtml(s.code + ": " + FormatNumber(rate, 1) + " per 1000, " + std::to_string(n) + " registered")
-        << "</title></circle>\n<text x=\"" << SvgNumber(x + 6) << "\" y=\"" << SvgNumber(y - 6) << "\" font-size=\"11\">"
-        << EscapeHtml(s.code) << "</text>\n";
+  const std::vector<FunnelPoint> points = PointsOf(model, key, f, p0);
+  for (const FunnelPoint& p : points) {
+    svg << "<circle cx=\"" << SvgNumber(p.x) << "\" cy=\"" << SvgNumber(p.y) << "\" r=\"4\" fill=\""
+        << colours.Of(p.series->code) << "\" stroke=\"#000\"><title>"
+        << EscapeHtml(p.series->code + ": " + FormatNumber(p.rate, 1) + " per 1000, " +
+                      std::to_string(p.series->registered[last]) + " registered")
+        << "</title></circle>\n";
   }
-  WriteLegend(svg, 1000 * p0);
+  WriteLabels(svg, points, colours);
+  WriteKey(svg, 1000 * p0);
   svg << "</svg>\n";
   return svg.str();
 }

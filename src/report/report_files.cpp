@@ -76,9 +76,12 @@ Result<ReportFolder> ReportFolder::Open(const std::string& path) {
   std::error_code error;
   if (path.empty()) return Status::Usage("the report folder has no name (an empty path)");
   const fs::path folder(path);
-  if (folder.has_parent_path() && !fs::exists(folder.parent_path(), error)) {
-    fs::create_directories(folder.parent_path(), error);
-    if (error) return Status::Input(path + ": cannot be created (" + error.message() + ")");
+  // Missing parents are private too ("out/2026/09": "out" and "2026" are made 0700).
+  fs::path step;
+  for (const fs::path& part : folder.lexically_normal().parent_path()) {
+    step /= part;
+    if (fs::exists(step, error)) continue;
+    if (Status made = PrivateFolder(step, false); !made.ok()) return made;
   }
   // The folder the user named may be a link the user made: followed (not `no_link`).
   if (Status status = PrivateFolder(folder, false); !status.ok()) return status;

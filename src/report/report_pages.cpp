@@ -5,6 +5,7 @@
 #include <sstream>
 
 #include "medload/burden/patient_pass.h"
+#include "medload/cohort/cohort_chart.h"
 #include "medload/cohort/cohort_table.h"
 #include "medload/cohort/cohort_writer.h"
 #include "medload/format/output.h"
@@ -93,6 +94,24 @@ void WriteRunFacts(std::ostream& out, const ReportModel& model, const std::strin
   WriteWarnings(out, model, only);
 }
 
+// What the overview's trend chart shows, in words.
+std::string TrendCaption(const ReportModel& model) {
+  if (model.practices.size() <= kMaxTrendLines) {
+    return "Monthly rate per 1000 registered: one line per practice, labelled at its end, and the network total.";
+  }
+  return "Monthly rate per 1000 registered: one panel per practice on a common scale, each with the network "
+         "total in grey behind it.";
+}
+
+// The trend charts' style: the network total as the reference, and one colour per
+// practice from the whole report's practices, so a practice has the same colour on the
+// overview and on its own page.
+TrendStyle ReportTrendStyle(const ReportModel& model) {
+  std::vector<std::string> codes;
+  for (const ReportSeries& s : model.practices) codes.push_back(s.code);
+  return TrendStyle{std::string(kNetworkGroup), SeriesColours(codes)};
+}
+
 }  // namespace
 
 std::vector<std::string> ReportWarnings(const ReportModel& model, const std::string* only) {
@@ -134,6 +153,7 @@ std::string IndexHtml(const ReportModel& model, const std::map<std::string, Prac
   out << "</ul>\n<p>Also in this folder: <a href=\"cohort.csv\">cohort.csv</a>, <a href=\"cohort.json\">"
          "cohort.json</a>, <a href=\"run.json\">run.json</a>.</p>\n";
   const CohortTable table = ReportCohortTable(model);
+  const TrendStyle style = ReportTrendStyle(model);
   for (size_t k = 0; k < model.keys.size(); ++k) {
     out << "<section class=\"criterion\">\n<h2>" << EscapeHtml(model.keys[k]) << "</h2>\n";
     std::vector<std::vector<std::string>> rows;
@@ -146,8 +166,8 @@ std::string IndexHtml(const ReportModel& model, const std::map<std::string, Prac
     WriteHtmlTable(out, {"practice", "name", "registered", "data", "patients", "per 1000",
                          "change since previous month", "change since 12 months before", "against the network (funnel)"},
                    rows);
-    out << "<figure>\n" << CohortTrendSvg(table, k) << "<figcaption>Monthly rate per 1000 registered, one labelled "
-        << "line per practice and the network total.</figcaption>\n</figure>\n<figure>\n" << FunnelSvg(model, k)
+    out << "<figure>\n" << CohortTrendSvg(table, k, style) << "<figcaption>" << TrendCaption(model) << "</figcaption>\n</figure>\n"
+        << "<figure>\n" << FunnelSvg(model, k, style.colours.value())
         << "<figcaption>Each practice's rate on the census date against its registered patients, with the network "
            "rate and exact binomial control limits (Spiegelhalter 2005): 95% dashed, 99.8% dotted. Practices "
            "with withheld counts are not shown.</figcaption>\n</figure>\n</section>\n";
@@ -169,7 +189,7 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
   const ReportSeries& s = model.practices[index];
   std::ostringstream out;
   WriteHtmlStart(out, model.config.title + ": " + s.code + (s.name.empty() ? "" : " " + s.name));
-  out << "<p><a href=\"index.html\">Network overview</a></p>\n";
+  out << "<p class=\"screen\"><a href=\"index.html\">Network overview</a></p>\n";
   WriteRunFacts(out, model, &s.code);
   std::vector<std::vector<std::string>> rows;
   for (size_t k = 0; k < model.keys.size(); ++k) {
@@ -183,7 +203,8 @@ std::string PracticeHtml(const ReportModel& model, size_t index, const PracticeF
                  rows);
   const CohortTable table = ReportCohortTable(model, &s.code);
   out << "<h2>Trend</h2>\n";
-  for (size_t k = 0; k < model.keys.size(); ++k) out << "<figure>\n" << CohortTrendSvg(table, k) << "</figure>\n";
+  const TrendStyle style = ReportTrendStyle(model);
+  for (size_t k = 0; k < model.keys.size(); ++k) out << "<figure>\n" << CohortTrendSvg(table, k, style) << "</figure>\n";
   const Worklist worklist = ReportWorklist(model, s.code);
   out << "<h2>Worklist on " << EscapeHtml(model.on.ToIso()) << "</h2>\n<p>" << EscapeHtml(WorklistSummary(worklist))
       << " (in review order; the same list is in <a href=\"" << EscapeHtml(files.worklist) << "\">"

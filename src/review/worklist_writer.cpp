@@ -166,9 +166,9 @@ void WriteWorklistText(std::ostream& out, const Worklist& worklist) {
 
 void WriteWorklistCsv(std::ostream& out, const Worklist& worklist) {
   WriteCsvCaution(out);
-  out << "# census date: " << worklist.on.ToIso() << "\n";
-  out << "# summary: " << WorklistSummary(worklist) << "\n";
-  for (const std::string& note : WorklistNotes(worklist)) out << "# note: " << note << "\n";
+  WriteCsvComment(out, "census date: " + worklist.on.ToIso());
+  WriteCsvComment(out, "summary: " + WorklistSummary(worklist));
+  for (const std::string& note : WorklistNotes(worklist)) WriteCsvComment(out, "note: " + note);
   // "acb" is the score's key whatever the scale (as in JSON); "scale" names the scale.
   out << CsvRow({"rank", "patient", "practice", "age", "items", "acb", "scale", "dbi", "rules", "criteria_met",
                  "new", "last_reviewed", "reasons", "warnings", "falls", "tsdd", "pdc_below_80", "before_on",

@@ -72,7 +72,7 @@ TEST_CASE("meds says in every format how many dispensings do not count and with 
   WriteMedsCsv(csv, f.model);
   WriteMedsHtml(html, f.model);
   CHECK(text.str().find("- " + sentence + "\n") != std::string::npos);
-  CHECK(csv.str().find(std::string("\n# note: ") + kNotCounted + "\n") != std::string::npos);
+  CHECK(csv.str().find(std::string("\n\"# note: ") + kNotCounted + "\"\n") != std::string::npos);
   CHECK(html.str().find("<li>" + sentence + "</li>") != std::string::npos);
   f.model.not_counted.clear();
   CHECK(NotCountedNote(f.model).empty());

@@ -4,6 +4,8 @@
 
 #include <sstream>
 
+#include "format/svg_checks.h"
+
 namespace medload {
 namespace {
 
@@ -159,6 +161,32 @@ TEST_CASE("the timeline JSON gives each episode with its supplied spans, tail da
   model.from = D(2024, 6, 1);  // nothing in range
   model.to = D(2024, 6, 30);
   CHECK(TimelineJson(model).at("episodes").empty());
+}
+
+TEST_CASE("the timeline's month labels, scale, census label and key neither overlap nor leave the chart") {
+  // Ranges from four months to three years; the census date at the right edge, where its
+  // label must turn to the left; a medicine name too long for the label column.
+  Timeline timeline = LateRefill();
+  timeline.medicines[0].ingredients = {"oxybutynin", "amitriptyline", "hydroxyzine", "chlorphenamine", "promethazine"};
+  for (const int months : {4, 13, 24, 36}) {
+    CAPTURE(months);
+    TimelineModel model;
+    model.patient = "T1";
+    model.timeline = &timeline;
+    model.from = D(2024, 1, 1);
+    model.to = EndOfMonth(D(2024 + (months - 1) / 12, (months - 1) % 12 + 1, 1));
+    model.census = model.to;
+    std::ostringstream out;
+    WriteTimelineSvg(out, model);
+    const std::string svg = out.str();
+    CHECK(testing::Listed(testing::Overlaps(testing::TextBoxes(svg))) == "");
+    CHECK(testing::Listed(testing::OutsideDrawing(svg)) == "");
+    CHECK(svg.find(">census " + model.to.ToIso() + "</text>") != std::string::npos);
+    CHECK(svg.find(">medicines at once</text>") != std::string::npos);
+    CHECK(svg.find("text-anchor=\"end\">0</text>") != std::string::npos);  // the scale starts at 0
+    CHECK(svg.find("clinical review.</text>") != std::string::npos);        // the key is whole
+    CHECK(svg.find(">2024-01</text>") != std::string::npos);
+  }
 }
 
 }  // TEST_SUITE

@@ -23,7 +23,9 @@ TEST_CASE("the demo's folder is private like a report folder: 0700, every file 0
                                                   {"demo/network-worklist.csv", 0600},
                                                   {"demo/network-worklist.html", 0600},
                                                   {"demo/cohort.csv", 0600},
-                                                  {"demo/index.html", 0600}};
+                                                  {"demo/index.html", 0600},
+                                                  {"demo", 0700},
+                                                  {"demo/digests", 0700}};
   for (const auto& [name, mode] : files) {
     CAPTURE(name);
     struct stat info {};

@@ -237,7 +237,7 @@ TEST_CASE("hostile bytes in a file are rejected row by row and the counts still 
   CHECK(summary["reasons"]["control_character"] == 1);  // the NUL byte
   // Every cell of the rejects file that a spreadsheet would run as a formula is neutralised.
   const std::string rejects = ReadWholeFile(folder.File("rejects.csv"));
-  CHECK(rejects.rfind("# ", 0) == 0);
+  CHECK(rejects.rfind("\"# CAUTION: ", 0) == 0);
   CHECK_FALSE(HasFormulaCell(rejects.substr(rejects.find('\n') + 1)));
   CHECK(rejects.find("'@SUM(A1)") != std::string::npos);
   CHECK(rejects.find("'=cmd") != std::string::npos);

@@ -9,6 +9,8 @@
 
 #include "cli/medload_process.h"
 #include "cli/output_checks.h"
+#include "format/csv_checks.h"
+#include "medload/core/caution.h"
 #include "store/temp_folder.h"
 
 namespace medload {
@@ -112,7 +114,11 @@ TEST_CASE("no CSV output starts a cell with a formula character") {
   for (const fs::directory_entry& entry : fs::directory_iterator(folder.File("out"))) {
     if (entry.path().extension() != ".csv") continue;
     CAPTURE(entry.path().string());
-    CHECK_FALSE(HasFormulaCell(ReadWholeFile(entry.path().string())));
+    const std::string csv = ReadWholeFile(entry.path().string());
+    CHECK_FALSE(HasFormulaCell(csv));
+    const testing::CsvLayout layout = testing::ReadCsvLayout(csv);
+    CHECK(layout.comment_fields == layout.comments.size());
+    CHECK(layout.ragged_rows == 0);
     ++files;
   }
   CHECK(files == 3);  // cohort.csv and a worklist per practice
@@ -127,8 +133,16 @@ TEST_CASE("no CSV output starts a cell with a formula character") {
     CAPTURE(args[2]);
     ProcessResult result = RunMedload(args, run);
     REQUIRE_MESSAGE(result.exit_code == 0, result.err);
-    CHECK(result.out.rfind("# ", 0) == 0);
+    CHECK(result.out.rfind("\"# CAUTION: ", 0) == 0);
     CHECK_FALSE(HasFormulaCell(result.out));
+    // Read as a spreadsheet would: each comment line is one cell, the header follows, and
+    // every data row has the header's columns.
+    const testing::CsvLayout layout = testing::ReadCsvLayout(result.out);
+    REQUIRE_FALSE(layout.comments.empty());
+    CHECK(layout.comments[0] == "# " + std::string(kCaution));
+    CHECK(layout.comment_fields == layout.comments.size());
+    CHECK(layout.header.size() > 1);
+    CHECK(layout.ragged_rows == 0);
   }
   // The checker itself finds what it is looking for.
   CHECK(HasFormulaCell("a,=b\n"));

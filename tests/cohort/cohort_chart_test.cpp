@@ -4,7 +4,9 @@
 #include <vector>
 
 #include "cohort/population_fixture.h"
+#include "medload/cohort/cohort_chart.h"
 #include "medload/cohort/cohort_writer.h"
+#include "format/svg_checks.h"
 
 namespace medload {
 namespace {
@@ -86,30 +88,91 @@ TEST_CASE("dates without data leave no point; short-history and beyond-data poin
   CHECK(Occurrences(svg, "d=\"M") == 1);
 }
 
-TEST_CASE("group labels at the line ends stay apart and above the date labels") {
+// A table of `groups` practices over 13 month ends with varied rates, every line ending
+// near the others (the hardest case for end labels), and a network total.
+CohortTable ManyGroups(size_t groups, const std::string& long_name = "") {
   CohortTally tally;
   tally.criteria = {"items>=10"};
-  tally.dates = {D(2024, 1, 31), D(2024, 2, 29)};
-  for (const char* group : {"A01", "B02", "C03", "D04"}) {
-    CohortCell cell;
-    cell.registered = 100;
-    cell.counts = {0, 0};  // every line ends on the x axis
-    cell.counts_by_band = {{}, {}};
-    tally.groups[group] = {cell, cell};
+  for (int m = 1; m <= 12; ++m) tally.dates.push_back(EndOfMonth(D(2025, m, 1)));
+  tally.dates.push_back(D(2026, 1, 31));
+  for (size_t g = 0; g < groups; ++g) {
+    std::string name = "NW" + std::string(g < 9 ? "0" : "") + std::to_string(g + 1);
+    if (g == 0 && !long_name.empty()) name = long_name;
+    for (size_t d = 0; d < tally.dates.size(); ++d) {
+      CohortCell cell;
+      cell.registered = 200;
+      const long count = d + 1 == tally.dates.size() ? 20 : static_cast<long>((g * 7 + d * 3) % 40);
+      cell.counts = {count, count};
+      cell.counts_by_band = {{}, {}};
+      tally.groups[name].push_back(cell);
+      if (g == 0) tally.groups["network total"].push_back(cell);
+    }
   }
+  return BuildCohortTable(tally, 0, 84);
+}
+
+TEST_CASE("no two texts of a trend chart overlap and none leaves the drawing, for 1 to 50 groups") {
+  for (const size_t groups : std::vector<size_t>{1, 2, 3, 5, 6, 13, 50}) {
+    CAPTURE(groups);
+    const CohortTable table = ManyGroups(groups, "Gorse Square Health Centre & Branch Site at the Old Mill");
+    for (const bool with_reference : {false, true}) {
+      CAPTURE(with_reference);
+      TrendStyle style;
+      if (with_reference) style.reference = "network total";
+      const std::string svg = CohortTrendSvg(table, 0, style);
+      CHECK(testing::Listed(testing::Overlaps(testing::TextBoxes(svg))) == "");
+      CHECK(testing::Listed(testing::OutsideDrawing(svg)) == "");
+      // Every group is named, in full or cut with an ellipsis.
+      CHECK(Occurrences(svg, ">NW") + Occurrences(svg, ">Gorse") == groups);
+    }
+  }
+}
+
+TEST_CASE("up to five groups share one plot with end labels; more get a panel each") {
+  TrendStyle style;
+  style.reference = "network total";
+  const std::string five = CohortTrendSvg(ManyGroups(5), 0, style);
+  CHECK(Occurrences(five, "class=\"panel\"") == 0);
+  CHECK(five.find(">network total</text>") != std::string::npos);  // labelled like the others
+  CHECK(five.find(">census date<") != std::string::npos);
+  const std::string six = CohortTrendSvg(ManyGroups(6), 0, style);
+  CHECK(Occurrences(six, "class=\"panel\"") == 6);
+  CHECK(six.find("Grey line: network total.") != std::string::npos);
+  CHECK(Occurrences(six, "stroke=\"#9a9a9a\"") == 6);  // the total behind each panel's line
+  CHECK(six.find(">NW06</text>") != std::string::npos);
+}
+
+TEST_CASE("a group keeps the colour it is given, the reference is near-black, and names are escaped") {
+  CohortTable table = ManyGroups(2);
+  table.groups[0] = "<b>&";
+  for (CohortRow& row : table.rows) {
+    if (row.group == "NW01") row.group = "<b>&";
+  }
+  TrendStyle style;
+  style.reference = "network total";
+  style.colours = SeriesColours({"<b>&", "NW00", "NW02"});  // NW00 only shifts the others
+  const std::string svg = CohortTrendSvg(table, 0, style);
+  CHECK(svg.find("fill=\"" + std::string(style.colours->Of("NW02")) + "\">NW02</text>") != std::string::npos);
+  CHECK(svg.find("fill=\"" + std::string(kReferenceColour) + "\">network total</text>") != std::string::npos);
+  CHECK(svg.find("&lt;b&gt;&amp;") != std::string::npos);
+  CHECK(svg.find("<b>") == std::string::npos);
+}
+
+TEST_CASE("date labels under a long series skip dates so that they stand apart") {
+  CohortTally tally;
+  tally.criteria = {"items>=10"};
+  for (int y = 2024; y <= 2026; ++y) {
+    for (int m = 1; m <= 12; ++m) tally.dates.push_back(EndOfMonth(D(y, m, 1)));
+  }
+  CohortCell cell;
+  cell.registered = 100;
+  cell.counts = {5, 5};
+  cell.counts_by_band = {{}, {}};
+  tally.groups["A01"].assign(tally.dates.size(), cell);
   const std::string svg = CohortTrendSvg(BuildCohortTable(tally, 0, 84), 0);
-  // Labels are the texts placed right of the plot (x = 760 - 150 + 8 = 618).
-  const std::string marker = "<text x=\"618\" y=\"";
-  std::vector<double> ys;
-  for (size_t at = svg.find(marker); at != std::string::npos; at = svg.find(marker, at + 1)) {
-    ys.push_back(std::stod(svg.substr(at + marker.size())));
-  }
-  REQUIRE(ys.size() == 4);
-  for (size_t i = 0; i < ys.size(); ++i) {
-    CAPTURE(i);
-    CHECK(ys[i] <= 340 - 56 + 4);             // not below the x axis
-    if (i > 0) CHECK(ys[i] - ys[i - 1] >= 12 - 1e-9);  // not overlapping the one above
-  }
+  CHECK(testing::Listed(testing::Overlaps(testing::TextBoxes(svg))) == "");
+  CHECK(svg.find(">2024-01-31<") != std::string::npos);
+  CHECK(svg.find(">2024-02-29<") == std::string::npos);  // skipped: 36 dates do not fit
 }
 
 }  // TEST_SUITE

@@ -6,6 +6,7 @@
 
 #include "cohort/population_fixture.h"
 #include "medload/core/caution.h"
+#include "medload/format/output.h"
 
 namespace medload {
 namespace {
@@ -59,7 +60,7 @@ TEST_CASE("withheld counts read <N in the wide layout and are empty in its CSV")
   std::ostringstream csv;
   WriteCohortWideCsv(csv, table);
   const std::string text = csv.str();
-  CHECK(text.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(text.rfind(CsvCommentLine(kCaution), 0) == 0);  // one quoted field
   CHECK(text.find("\ngroup,criterion,figure,2024-01-31,2024-02-29,2024-05-31\n") != std::string::npos);
   CHECK(text.find("\nA01,,data,short-history,short-history,full\n") != std::string::npos);
   CHECK(text.find("\nA01,,registered,200,200,250\n") != std::string::npos);

@@ -30,6 +30,31 @@ TEST_CASE("CSV cells that a spreadsheet would run as a formula are neutralised")
   CHECK(CsvCell("12") == "12");
 }
 
+TEST_CASE("a CSV comment line is one quoted field starting with a hash, whatever its text holds") {
+  // Source: RFC 4180, section 2 (a field with commas, quotes or line breaks is enclosed
+  // in quotes; a quote inside is doubled). Line breaks become spaces so that the comment
+  // stays on one physical line.
+  const struct {
+    const char* text;
+    const char* line;
+  } cases[] = {
+      {"plain", "\"# plain\"\n"},
+      {"a, b, c", "\"# a, b, c\"\n"},
+      {"say \"hi\"", "\"# say \"\"hi\"\"\"\n"},
+      {"two\nlines\r\nthree", "\"# two lines  three\"\n"},
+      {"=SUM(A1)", "\"# =SUM(A1)\"\n"},
+      {"", "\"# \"\n"},
+  };
+  for (const auto& c : cases) {
+    CAPTURE(c.text);
+    CHECK(CsvCommentLine(c.text) == c.line);
+  }
+  std::ostringstream out;
+  WriteCsvCaution(out);
+  CHECK(out.str() == "\"# " + std::string(kCaution) + "\"\n");
+  CHECK(std::string(kCaution).find(',') != std::string::npos);  // why the quotes matter
+}
+
 TEST_CASE("HTML escaping covers text and attribute contexts") {
   CHECK(EscapeHtml("<script>alert('x')</script> & \"q\"") ==
         "&lt;script&gt;alert(&#39;x&#39;)&lt;/script&gt; &amp; &quot;q&quot;");
@@ -56,6 +81,18 @@ TEST_CASE("an HTML page opens with the caution as a banner and escapes its title
   // The banner says "CAUTION:" once, in bold, then the rest of the caution.
   CHECK(html.find("<strong>CAUTION:</strong> this output supports clinical judgement") != std::string::npos);
   CHECK(html.find("CAUTION") == html.rfind("CAUTION"));
+}
+
+TEST_CASE("the page style prints on A4 with table headers repeated and rows and charts kept whole") {
+  std::ostringstream out;
+  WriteHtmlStart(out, "Page");
+  const std::string html = out.str();
+  const std::string print = html.substr(html.find("@media print{"));
+  CHECK(html.find("@page{size:A4;margin:12mm}") != std::string::npos);
+  CHECK(print.find("thead{display:table-header-group}") != std::string::npos);
+  CHECK(print.find("tr,figure,.caution{break-inside:avoid}") != std::string::npos);
+  CHECK(print.find(".screen{display:none}") != std::string::npos);
+  CHECK(html.find("overflow-wrap:break-word") < html.find("@media print"));  // on screen too
 }
 
 TEST_CASE("text tables pad columns and right-align numbers") {

@@ -86,7 +86,7 @@ TEST_CASE("the check CSV starts with the caution and lists each fault before the
   std::ostringstream out;
   WriteFormularyCheckCsv(out, check);
   const std::string csv = out.str();
-  CHECK(csv.rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(csv.rfind("\"# " + std::string(kCaution) + "\"\n", 0) == 0);
   const size_t fault = csv.find("fault,");
   const size_t ingredients = csv.find("ingredients,4");
   REQUIRE(fault != std::string::npos);

@@ -96,7 +96,7 @@ TEST_CASE("the CSV listing starts with the caution and the HTML listing escapes 
   const Formulary formulary = ListedFormulary(folder);
   std::ostringstream csv;
   WriteRulesListingCsv(csv, formulary);
-  CHECK(csv.str().rfind("# ", 0) == 0);
+  CHECK(csv.str().rfind("\"# CAUTION: ", 0) == 0);
   CHECK(csv.str().find("id,title,requires,forbids,routes,minimum age,source\n") != std::string::npos);
   CHECK(csv.str().find("nsaid-antiplatelet,NSAID <with> antiplatelet,nsaid + antiplatelet,no ppi,") !=
         std::string::npos);

@@ -1,6 +1,7 @@
 #include "medload/report/report_files.h"
 
 #include <doctest/doctest.h>
+#include <sys/stat.h>
 
 #include <filesystem>
 #include <fstream>
@@ -83,6 +84,29 @@ TEST_CASE("stale files of one suffix are removed from a sub-folder, others kept"
   REQUIRE(folder->RemoveFiles("digests", ".eml").ok());
   CHECK_FALSE(std::filesystem::exists(temp.File("out/digests/old.eml")));
   CHECK(std::filesystem::exists(temp.File("out/digests/notes.txt")));
+}
+
+TEST_CASE("folders the report creates and every file it writes are owner-only; an existing folder keeps its mode") {
+  TempFolder temp;
+  std::filesystem::create_directories(temp.File("shared"));
+  std::filesystem::permissions(temp.File("shared"), std::filesystem::perms(0755), std::filesystem::perm_options::replace);
+  const mode_t old_mask = ::umask(0);  // the widest umask: the modes must not come from it
+  auto folder = ReportFolder::Open(temp.File("shared/2026/09"));
+  REQUIRE(folder.ok());
+  REQUIRE(folder->MakeSubfolder("digests").ok());
+  REQUIRE(folder->WriteFile("index.html", "x").ok());
+  REQUIRE(folder->WriteFile("digests/A1.eml", "x").ok());
+  ::umask(old_mask);
+  auto mode = [](const std::string& path) {
+    return std::filesystem::status(path).permissions() & std::filesystem::perms::all;
+  };
+  using std::filesystem::perms;
+  CHECK(mode(temp.File("shared")) == perms(0755));
+  CHECK(mode(temp.File("shared/2026")) == perms(0700));
+  CHECK(mode(temp.File("shared/2026/09")) == perms(0700));
+  CHECK(mode(temp.File("shared/2026/09/digests")) == perms(0700));
+  CHECK(mode(temp.File("shared/2026/09/index.html")) == perms(0600));
+  CHECK(mode(temp.File("shared/2026/09/digests/A1.eml")) == perms(0600));
 }
 
 TEST_CASE("an output path that is a file is refused") {

@@ -71,7 +71,7 @@ TEST_CASE("the report folder holds the overview, a page, worklist and digest per
   CHECK(run.at("data").at("earliest_dispensed") == "2024-01-01");
   CHECK_FALSE(run.at("formulary_checksum").get<std::string>().empty());
   CHECK(run.at("caution").get<std::string>().rfind("CAUTION", 0) == 0);
-  CHECK(ReadAll(temp.File("out/cohort.csv")).rfind("# CAUTION", 0) == 0);
+  CHECK(ReadAll(temp.File("out/cohort.csv")).rfind("\"# CAUTION", 0) == 0);
   CHECK(nlohmann::json::parse(ReadAll(temp.File("out/cohort.json"))).contains("caution"));
 }
 
@@ -91,7 +91,7 @@ TEST_CASE("a census date beyond the data is warned of in run.json, the pages and
   CHECK(run.at("warnings").get<std::vector<std::string>>() == outcome->warnings);
   CHECK(ReadAll(temp.File("out/index.html")).find(warning) != std::string::npos);
   CHECK(ReadAll(temp.File("out/practice-A1.html")).find(warning) != std::string::npos);
-  CHECK(ReadAll(temp.File("out/worklist-A1.csv")).find("# note: " + warning) != std::string::npos);
+  CHECK(ReadAll(temp.File("out/worklist-A1.csv")).find("\"# note: " + warning) != std::string::npos);
   // "latest" takes the last month end on or before the data: nothing beyond the data, and
   // 2023-12-31, before the data begin, has no figures.
   auto config = testing::TestConfig();
@@ -113,11 +113,11 @@ TEST_CASE("a report worklist CSV gives the census date, what the rank means and 
   auto outcome = RunReport(population.store, population.analysis, config, Options(temp.File("out"), "x"));
   REQUIRE(outcome.ok());
   const std::string csv = ReadAll(temp.File("out/worklist-A1.csv"));
-  CHECK(csv.rfind("# CAUTION", 0) == 0);
-  CHECK(csv.compare(csv.find('\n') + 1, 26, "# census date: 2024-06-30\n") == 0);
+  CHECK(csv.rfind("\"# CAUTION", 0) == 0);
+  CHECK(csv.compare(csv.find('\n') + 1, 28, "\"# census date: 2024-06-30\"\n") == 0);
   CHECK(csv.find("not a clinical priority") != std::string::npos);
   // A1 has 8 meeting patients; 3 are listed.
-  CHECK(csv.find("# note: 5 more patient(s) who meet the criteria are not shown: the list stops at the first 3\n") !=
+  CHECK(csv.find("\"# note: 5 more patient(s) who meet the criteria are not shown: the list stops at the first 3\"\n") !=
         std::string::npos);
 }
 

@@ -56,8 +56,8 @@ TEST_CASE("every format says the rank is a sorting order and how many meeting pa
   const std::string hidden = "1 more patient(s) who meet the criteria are not shown: the list stops at the first 2";
   CHECK(Has(Text(w), "Note: " + std::string(kRankIsSortingOrder)));
   CHECK(Has(Text(w), hidden));
-  CHECK(Has(Csv(w), "# note: " + std::string(kRankIsSortingOrder) + "\n"));
-  CHECK(Has(Csv(w), "# note: " + hidden + "\n"));
+  CHECK(Has(Csv(w), "\"# note: " + std::string(kRankIsSortingOrder) + "\"\n"));
+  CHECK(Has(Csv(w), "\"# note: " + hidden + "\"\n"));
   CHECK(Has(Html(w), "not a clinical priority"));
   CHECK(Has(Html(w), hidden));
   const nlohmann::json json = WorklistJson(w);
@@ -75,20 +75,20 @@ TEST_CASE("the worklist CSV gives the census date in a comment line after the ca
   const std::string csv = Csv(Sample());
   const size_t first_end = csv.find('\n');
   REQUIRE(first_end != std::string::npos);
-  CHECK(csv.rfind("# CAUTION", 0) == 0);
-  CHECK(csv.compare(first_end + 1, 26, "# census date: 2026-12-31\n") == 0);
+  CHECK(csv.rfind("\"# CAUTION", 0) == 0);
+  CHECK(csv.compare(first_end + 1, 28, "\"# census date: 2026-12-31\"\n") == 0);
   // Comment lines come before the header; the longitudinal columns follow the earlier ones.
   CHECK(Has(csv, "\nrank,patient,practice,age,items,acb,scale,dbi,rules,criteria_met,new,last_reviewed,reasons,"
                  "warnings,falls,tsdd,pdc_below_80,before_on,before_items,before_acb,before_dbi,before_falls,"
                  "before_tsdd,started,stopped\n"));
-  CHECK(csv.find("# note:") < csv.find("\nrank,"));
+  CHECK(csv.find("\"# note:") < csv.find("\nrank,"));
 }
 
 TEST_CASE("the caller's warnings go into every format and the JSON warnings array") {
   Worklist w = Sample();
   w.notes = {"the census date 2026-12-31 is 61 days after the latest dispensing loaded (2026-10-31)"};
   CHECK(Has(Text(w), "Note: the census date 2026-12-31 is 61 days after"));
-  CHECK(Has(Csv(w), "# note: the census date 2026-12-31 is 61 days after"));
+  CHECK(Has(Csv(w), "\"# note: the census date 2026-12-31 is 61 days after"));
   CHECK(Has(Html(w), "the census date 2026-12-31 is 61 days after"));
   const nlohmann::json json = WorklistJson(w);
   REQUIRE(json["warnings"].size() == 1);
@@ -104,7 +104,7 @@ TEST_CASE("the summary counts patients of unknown age left out by the minimum ag
   w.excluded_age_unknown_meeting = 1;
   const std::string part = "4 left out by --age-min because their age is unknown (1 of them meet a criterion)";
   CHECK(Has(Text(w), part));
-  CHECK(Has(Csv(w), "# summary: 3 of 40 registered patients meet items>=10 on 2026-12-31"));
+  CHECK(Has(Csv(w), "\"# summary: 3 of 40 registered patients meet items>=10 on 2026-12-31"));
   CHECK(Has(Csv(w), part));
   CHECK(Has(Html(w), part));
   CHECK(WorklistJson(w)["excluded_age_unknown"] == 4);
@@ -167,7 +167,7 @@ TEST_CASE("the score is labelled with the chosen scale; JSON and CSV keep the ac
 TEST_CASE("every worklist format carries the caution") {
   const Worklist w = Sample();
   CHECK(Has(Text(w), "CAUTION: this output supports clinical judgement"));
-  CHECK(Csv(w).rfind("# " + std::string(kCaution) + "\n", 0) == 0);
+  CHECK(Csv(w).rfind("\"# " + std::string(kCaution) + "\"\n", 0) == 0);
   CHECK(WorklistJson(w).at("caution") == std::string(kCaution));
   const std::string html = Html(w);
   CHECK(Has(html, "class=\"caution\""));

@@ -67,7 +67,7 @@ TEST_CASE("the CSV summary starts with the caution line") {
   std::ostringstream out;
   WriteImportCsv({Example("a.csv")}, out);
   const std::string text = out.str();
-  CHECK(text.rfind("# CAUTION:", 0) == 0);
+  CHECK(text.rfind("\"# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,kind,format,lines,blank_lines,row_lines,read,imported,duplicates,rejected,"
                   "stored,updated,rolled_back,reasons,not_counted,not_in_registry,not_in_registry_examples,"
                   "product_flags\n") != std::string::npos);
@@ -135,7 +135,7 @@ TEST_CASE("the rejects file quotes the original row and guards against formulas"
   WriteRejectRow(out, "d.csv", 7, "bad_quantity", "d.csv:7: quantity: \"x\" is not a number",
                  "=HYPERLINK(\"x\"),P1");
   const std::string text = out.str();
-  CHECK(text.rfind("# CAUTION:", 0) == 0);
+  CHECK(text.rfind("\"# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,line,reason,message,original_row\n") != std::string::npos);
   // Source: OWASP, "CSV Injection": a leading '=' is neutralised with an apostrophe.
   CHECK(text.find("d.csv,7,bad_quantity,\"d.csv:7: quantity: \"\"x\"\" is not a number\","

@@ -35,9 +35,4 @@ void WriteCohortText(std::ostream& out, const CohortTable& table);
 void WriteCohortCsv(std::ostream& out, const CohortTable& table);
 void WriteCohortHtml(std::ostream& out, const CohortTable& table);
 
-// An SVG line chart of the crude rate per 1000 of `keys[key]` for every group over the
-// census dates, with a title, axis labels and each line labelled with its group at its
-// end (so it reads without colour). Suppressed points leave a gap.
-std::string CohortTrendSvg(const CohortTable& table, size_t key);
-
 }  // namespace medload

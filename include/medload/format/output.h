@@ -16,7 +16,12 @@ namespace medload {
 std::string CsvCell(std::string_view value);
 // Cells joined by commas, ending in "\n".
 std::string CsvRow(const std::vector<std::string>& cells);
-// The caution as the first line of a CSV file: "# " + caution + "\n".
+// A comment line of a CSV file (the caution, notes): "# " + text as one quoted field,
+// quotes inside doubled and line breaks made spaces, then "\n" -- so that a spreadsheet
+// shows it in one cell and a CSV reader reads one field (docs/report.md, "CSV files").
+std::string CsvCommentLine(std::string_view text);
+void WriteCsvComment(std::ostream& out, std::string_view text);
+// The caution as the first line of a CSV file: WriteCsvComment(out, caution).
 void WriteCsvCaution(std::ostream& out);
 
 // Escapes &, <, >, " and ' for HTML text and attribute values.

@@ -23,9 +23,9 @@ Result<std::string> SafeFileStem(std::string_view text);
 // umask, every file in it 0600.
 class ReportFolder {
  public:
-  // Creates `path` (mode 0700; missing parents follow the umask) or opens it when it
-  // exists. Fails with Input when it exists and is not a folder, belongs to another user,
-  // or cannot be created.
+  // Creates `path` and its missing parents (mode 0700) or opens it when it exists (an
+  // existing folder keeps its mode: it may be the working folder). Fails with Input when
+  // it exists and is not a folder, belongs to another user, or cannot be created.
   static Result<ReportFolder> Open(const std::string& path);
 
   const std::string& path() const { return path_; }

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "medload/cohort/cohort_table.h"
+#include "medload/format/chart_layout.h"
 #include "medload/report/report.h"
 
 namespace medload {
@@ -40,10 +41,13 @@ Worklist ReportWorklist(const ReportModel& model, const std::string& code);
 CohortTable ReportCohortTable(const ReportModel& model, const std::string* only = nullptr);
 
 // A funnel plot (Spiegelhalter 2005) of `model.keys[key]` on the census date: each
-// practice's rate per 1000 against its registered patients, the network rate, and the 95%
-// (dashed) and 99.8% (dotted) exact binomial control limits; practices labelled by code.
-// Practices whose count is suppressed are left out (and said so under the chart).
-std::string FunnelSvg(const ReportModel& model, size_t key);
+// practice's rate per 1000 against its registered patients as a point in its colour, the
+// network rate, and the 95% (dashed) and 99.8% (dotted) exact binomial control limits.
+// Practice codes stand in a column right of the plot, joined to their points by leader
+// lines and never overlapping: every practice when all fit, else those outside the 95%
+// limits, farthest first; a note under the key says which. Practices without figures on
+// the census date or whose count is withheld are left out.
+std::string FunnelSvg(const ReportModel& model, size_t key, const SeriesColours& colours = {});
 
 // index.html. `files` maps practice code to its file names; `digests` lists the codes
 // that got a digest.
