@@ -1,4 +1,4 @@
-// `medload store pack`: packs every patient's history into the store's packed copy now,
+// `medload store pack`: brings the store's packed copy of the histories up to date now,
 // so that later readers that may not write the store (a batch array on shared storage,
 // a read-only copy) read the copy instead of the dispensings table.
 #include <ostream>
@@ -26,12 +26,15 @@ int RunStorePack(Context& context, const std::vector<std::string>& args) {
   store_options.busy_timeout_ms = kPackWaitMs;
   Result<Store> store = Store::Open(context.db_path, store_options);
   if (!store.ok()) return fail(store.status());
-  Result<long> packed = store->PackHistoriesNow();
+  Result<PackOutcome> packed = store->PackHistoriesNow();
   if (!packed.ok()) return fail(packed.status());
-  if (*packed == 0) {
+  if (packed->was_current) {
     *context.out << context.db_path << ": the packed histories are already current\n";
+  } else if (packed->whole) {
+    *context.out << context.db_path << ": packed the histories of " << packed->patients << " patients\n";
   } else {
-    *context.out << context.db_path << ": packed the histories of " << *packed << " patients\n";
+    *context.out << context.db_path << ": packed again the histories of " << packed->patients
+                 << " patients with dispensings imported since the last packing\n";
   }
   WriteTextCaution(*context.out);
   return 0;

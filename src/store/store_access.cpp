@@ -1,5 +1,4 @@
-// Which files are medload stores, opening one that this user may only read, and packing
-// the histories on demand (`medload store pack`).
+// Which files are medload stores, and opening one that this user may only read.
 #include <fcntl.h>
 #include <sqlite3.h>
 #include <sys/stat.h>
@@ -139,23 +138,6 @@ Result<Store> Store::OpenReadOnly(const std::string& path, const StoreOptions& o
   if (Status status = SetPageCache(store.db_, false); !status.ok()) return status;
   if (Status status = SetMemoryMap(store.db_, true); !status.ok()) return status;
   return store;
-}
-
-Result<long> Store::PackHistoriesNow() {
-  if (read_only_) return Status::Input("store \"" + path_ + "\": opened read-only, it cannot be packed");
-  Result<bool> current = PackedHistoriesCurrent();
-  if (!current.ok()) return current.status();
-  if (*current) return 0L;
-  Result<Transaction> transaction = Transaction::Begin(db_);  // waits like an import
-  if (!transaction.ok()) return transaction.status();
-  current = PackedHistoriesCurrent();  // another process may have packed meanwhile
-  if (!current.ok()) return current.status();
-  if (*current) return 0L;
-  if (Status status = PackHistories(); !status.ok()) return status;
-  Result<long> patients = CountOf(db_, "SELECT COUNT(*) FROM packed_histories");
-  if (!patients.ok()) return patients.status();
-  if (Status status = transaction->Commit(); !status.ok()) return status;
-  return *patients;
 }
 
 }  // namespace medload

@@ -6,54 +6,15 @@
 #include <utility>
 
 #include "medload/store/store.h"
+#include "store/dispensing_rows.h"
 #include "store/packed_history.h"
 #include "store/sqlite.h"
 
 namespace medload {
 namespace {
 
-constexpr const char* kDispensingColumns =
-    "record_id, patient_id, practice, dispensed_on, product, code, code_system, quantity,"
-    " unit, days_supply, dosage, structured_units_per_day, structured_as_needed, status,"
-    " structured_unit";
-
-// The statuses that count in measures (docs/input-formats.md: only "completed" or none).
-constexpr const char* kCounting = "status IN ('', 'completed')";
-
 constexpr const char* kPatientColumns =
     "patient_id, birth_date, birth_year_only, sex, practice, registered_from, registered_to";
-
-std::optional<Date> ColumnDate(const Statement& stmt, int index) {
-  if (stmt.ColumnIsNull(index)) return std::nullopt;
-  return ParseDate(stmt.ColumnText(index));
-}
-
-// Fills `record` from a row selected with kDispensingColumns.
-Status ReadDispensing(const Statement& stmt, DispensingRecord& record) {
-  record.record_id.assign(stmt.ColumnText(0));
-  record.patient_id.assign(stmt.ColumnText(1));
-  record.practice.assign(stmt.ColumnText(2));
-  const std::optional<Date> date = ColumnDate(stmt, 3);
-  if (!date) {
-    return Status::Input("store: dispensing of patient \"" + record.patient_id +
-                         "\" has a malformed date \"" + std::string(stmt.ColumnText(3)) + "\"");
-  }
-  record.dispensed_on = *date;
-  record.product.assign(stmt.ColumnText(4));
-  record.code.assign(stmt.ColumnText(5));
-  record.code_system.assign(stmt.ColumnText(6));
-  record.quantity = stmt.ColumnDouble(7);
-  record.unit.assign(stmt.ColumnText(8));
-  record.days_supply.reset();
-  if (!stmt.ColumnIsNull(9)) record.days_supply = static_cast<int>(stmt.ColumnInt(9));
-  record.dosage.assign(stmt.ColumnText(10));
-  record.structured_units_per_day.reset();
-  if (!stmt.ColumnIsNull(11)) record.structured_units_per_day = stmt.ColumnDouble(11);
-  record.structured_as_needed = stmt.ColumnInt(12) != 0;
-  record.status.assign(stmt.ColumnText(13));
-  record.structured_unit.assign(stmt.ColumnText(14));
-  return Status::Ok();
-}
 
 PatientRecord ReadPatient(const Statement& stmt) {
   PatientRecord patient;
@@ -65,62 +26,6 @@ PatientRecord ReadPatient(const Statement& stmt) {
   patient.registered_from = ColumnDate(stmt, 5);
   patient.registered_to = ColumnDate(stmt, 6);
   return patient;
-}
-
-// Reading a patient's records in order while holding only the latest `cap` of them: once
-// the buffer holds twice that many, its older half is dropped (at most 2 x cap records
-// are ever held). `used` records of `records` are live; `dropped` counts the ones let go.
-void SlideIfFull(std::vector<DispensingRecord>& records, size_t& used, size_t cap, long& dropped) {
-  if (used < 2 * cap) return;
-  std::move(records.begin() + static_cast<std::ptrdiff_t>(cap),
-            records.begin() + static_cast<std::ptrdiff_t>(used), records.begin());
-  used = cap;
-  dropped += static_cast<long>(cap);
-}
-
-// After the last record: only the latest `cap` stay live.
-void KeepLatest(std::vector<DispensingRecord>& records, size_t& used, size_t cap, long& dropped) {
-  if (used <= cap) return;
-  const size_t extra = used - cap;
-  std::move(records.begin() + static_cast<std::ptrdiff_t>(extra),
-            records.begin() + static_cast<std::ptrdiff_t>(used), records.begin());
-  used = cap;
-  dropped += static_cast<long>(extra);
-}
-
-Result<std::vector<DispensingRecord>> SelectDispensings(sqlite3* db, std::string_view patient_id,
-                                                        bool counting_only, size_t cap, long* dropped_out) {
-  std::string sql = std::string("SELECT ") + kDispensingColumns +
-                    " FROM dispensings WHERE patient_id = ?1";
-  if (counting_only) sql += std::string(" AND ") + kCounting;
-  sql += " ORDER BY dispensed_on, id";
-  Result<Statement> stmt = Statement::Prepare(db, sql);
-  if (!stmt.ok()) return stmt.status();
-  stmt->BindText(1, patient_id);
-  std::vector<DispensingRecord> records;
-  size_t used = 0;
-  long dropped = 0;
-  for (;;) {
-    Result<bool> row = stmt->Step();
-    if (!row.ok()) return row.status();
-    if (!*row) break;
-    SlideIfFull(records, used, cap, dropped);
-    if (used == records.size()) records.emplace_back();
-    if (Status status = ReadDispensing(*stmt, records[used++]); !status.ok()) return status;
-  }
-  KeepLatest(records, used, cap, dropped);
-  records.resize(used);
-  if (dropped_out != nullptr) *dropped_out = dropped;
-  return records;
-}
-
-// Runs a query of one integer (a count); 0 when it returns no row.
-Result<long> QueryCount(sqlite3* db, const char* sql) {
-  Result<Statement> stmt = Statement::Prepare(db, sql);
-  if (!stmt.ok()) return stmt.status();
-  Result<bool> row = stmt->Step();
-  if (!row.ok()) return row.status();
-  return *row ? static_cast<long>(stmt->ColumnInt(0)) : 0L;
 }
 
 Result<std::vector<ReviewRecord>> SelectReviews(sqlite3* db, std::optional<std::string_view> patient) {
@@ -303,71 +208,6 @@ Result<PatientCursor> Store::Patients(const PatientIdRange& range,
   state->patient_row = state->patients.Step();
   state->dispensing_row = state->dispensings.Step();
   return PatientCursor(std::move(state));
-}
-
-Result<bool> Store::PackedHistoriesCurrent() const {
-  Result<long> current = QueryCount(
-      db_,
-      "SELECT EXISTS (SELECT 1 FROM packed_histories_state WHERE id = 1 AND"
-      " newest_dispensing IS (SELECT MAX(id) FROM dispensings))");
-  if (!current.ok()) return current.status();
-  return *current != 0;
-}
-
-Status Store::RefreshPackedHistories() const {
-  if (InSnapshot() || read_only_) return Status::Ok();
-  Result<bool> current = PackedHistoriesCurrent();
-  if (!current.ok()) return current.status();
-  if (*current) return Status::Ok();
-  Result<std::optional<Transaction>> transaction = Transaction::TryBegin(db_, busy_timeout_ms_);
-  if (!transaction.ok()) return transaction.status();
-  if (!transaction->has_value()) return Status::Ok();  // an import is writing: read the table
-  current = PackedHistoriesCurrent();  // another process may have packed meanwhile
-  if (!current.ok()) return current.status();
-  if (*current) return Status::Ok();
-  if (Status status = PackHistories(); !status.ok()) return status;
-  return (*transaction)->Commit();
-}
-
-Status Store::PackHistories() const {
-  if (Status status = ExecSql(db_, "DELETE FROM packed_histories"); !status.ok()) return status;
-  Result<Statement> read = Statement::Prepare(
-      db_, std::string("SELECT ") + kDispensingColumns + " FROM dispensings WHERE " + kCounting +
-               " ORDER BY patient_id, dispensed_on, id");
-  if (!read.ok()) return read.status();
-  Result<Statement> insert = Statement::Prepare(
-      db_, "INSERT INTO packed_histories (patient_id, packed, dropped) VALUES (?1, ?2, ?3)");
-  if (!insert.ok()) return insert.status();
-  std::vector<DispensingRecord> records;
-  size_t used = 0;
-  long dropped = 0;
-  std::string packed;
-  const auto flush = [&]() -> Status {
-    if (used == 0) return Status::Ok();
-    KeepLatest(records, used, max_dispensings_, dropped);
-    packed = PackHistory(std::span<const DispensingRecord>(records.data(), used));
-    insert->BindText(1, records[0].patient_id);
-    insert->BindBlob(2, packed);
-    insert->BindInt(3, dropped);
-    used = 0;
-    dropped = 0;
-    return insert->Run();
-  };
-  for (;;) {
-    Result<bool> row = read->Step();
-    if (!row.ok()) return row.status();
-    if (!*row) break;
-    if (used > 0 && read->ColumnText(1) != records[0].patient_id) {
-      if (Status status = flush(); !status.ok()) return status;
-    }
-    SlideIfFull(records, used, max_dispensings_, dropped);
-    if (used == records.size()) records.emplace_back();
-    if (Status status = ReadDispensing(*read, records[used++]); !status.ok()) return status;
-  }
-  if (Status status = flush(); !status.ok()) return status;
-  return ExecSql(db_,
-                 "INSERT OR REPLACE INTO packed_histories_state (id, newest_dispensing)"
-                 " VALUES (1, (SELECT MAX(id) FROM dispensings))");
 }
 
 Result<std::vector<PatientIdRange>> Store::PatientRanges(size_t patients_per_range) const {

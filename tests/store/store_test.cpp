@@ -193,9 +193,14 @@ TEST_CASE("packing now packs once, then finds the copy current") {
                   " 3, 1)")
               .ok());
   CHECK_FALSE(store->PackedHistoriesCurrent().value());
-  CHECK(store->PackHistoriesNow().value() == 2);
+  const PackOutcome first = store->PackHistoriesNow().value();
+  CHECK_FALSE(first.was_current);
+  CHECK(first.whole);
+  CHECK(first.patients == 2);
   CHECK(store->PackedHistoriesCurrent().value());
-  CHECK(store->PackHistoriesNow().value() == 0);
+  const PackOutcome again = store->PackHistoriesNow().value();
+  CHECK(again.was_current);
+  CHECK(again.patients == 0);
 }
 
 TEST_CASE("a store from a newer medload is refused rather than damaged") {

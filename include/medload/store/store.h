@@ -31,6 +31,13 @@ inline constexpr int kStoreSchemaVersion = 5;
 // (docs/reliability.md, "Bounded memory").
 inline constexpr size_t kMaxDispensingsPerPatient = 20000;
 
+// What bringing the packed copy of the histories up to date did.
+struct PackOutcome {
+  bool was_current = false;  // nothing to do: the copy named the newest dispensing
+  bool whole = false;        // every history packed again, else only the touched patients'
+  long patients = 0;         // the histories written
+};
+
 struct StoreOptions {
   // How long a writer waits for another process's write transaction to finish.
   int busy_timeout_ms = 30000;
@@ -189,9 +196,9 @@ class Store {
   // Brings the packed copy up to date now, waiting for the write lock as an import does
   // (the busy timeout), for `medload store pack`: once after an import, so that readers
   // of a store they may not write (shared storage, batch arrays) read the copy. Returns
-  // the number of patients packed, or 0 when the copy was current. Fails with Input when
-  // the store is read-only, on a storage error, or when the lock did not come in time.
-  Result<long> PackHistoriesNow();
+  // what it did (see PackOutcome). Fails with Input when the store is read-only, on a
+  // storage error, or when the lock did not come in time.
+  Result<PackOutcome> PackHistoriesNow();
   // Consecutive ranges that together hold every patient id once, in order, each with
   // about `patients_per_range` patients of the registry (of the dispensings when the
   // registry has fewer than two ranges' worth), so that the pass can be shared out by
@@ -279,9 +286,11 @@ class Store {
   // Fails with Input unless the database is a medload store (or, unless `must_exist`, a
   // new empty one), saying what it is instead.
   Status CheckIdentity(bool must_exist) const;
-  // Packs every patient's counting dispensings into packed_histories, inside `db_`'s
-  // write transaction.
-  Status PackHistories() const;
+  // Brings packed_histories up to date inside `db_`'s write transaction: only the
+  // histories of the patients with dispensings imported since the copy was last packed,
+  // while its state row stands and those are at most half the store's; else every
+  // history (store/history_packing.h). Either way the copy is the same, byte for byte.
+  Result<PackOutcome> PackHistories() const;
   Status Configure(const StoreOptions& options);
   Status Migrate();
 
