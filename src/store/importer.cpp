@@ -312,13 +312,14 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
                      Session& session, Parse parse, Store store) {
   Record record;
   CsvRow row;
+  PlausibleProducts plausible;  // descriptions repeat: each is read once per file
   while (reader.Next(row)) {
     session.Tick(row.line_count);
     std::optional<RowFault> fault;
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
     if (!fault) fault = parse(row, layout, context, record);
-    if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv);
+    if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv, &plausible);
     if (fault) {
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;

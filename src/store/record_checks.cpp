@@ -44,9 +44,11 @@ std::optional<RowFault> IdentifierFault(std::string_view file, size_t line, std:
                                    "output naming it)")};
 }
 
-std::optional<RowFault> StrengthFault(std::string_view file, size_t line, std::string_view product) {
+std::optional<RowFault> StrengthFault(std::string_view file, size_t line, std::string_view product,
+                                      PlausibleProducts* plausible) {
   // Cheap when there is no digit: most descriptions are read once per row here.
   if (product.find_first_of("0123456789") == std::string_view::npos) return std::nullopt;
+  if (plausible != nullptr && plausible->Contains(product)) return std::nullopt;
   for (const Strength& strength : ParseStrengths(AsciiLower(product))) {
     double limit = kMaxStrengthMg;
     std::string unit = "mg";
@@ -59,11 +61,12 @@ std::optional<RowFault> StrengthFault(std::string_view file, size_t line, std::s
                                      " is above the plausible " + Number(limit) + " " + unit +
                                      "; check the description")};
   }
+  if (plausible != nullptr) plausible->Add(product);
   return std::nullopt;
 }
 
 std::optional<RowFault> RecordFault(const DispensingRecord& record, std::string_view file, size_t line,
-                                    FieldNames names) {
+                                    FieldNames names, PlausibleProducts* plausible) {
   const bool csv = names == FieldNames::kCsv;
   if (auto fault = FirstIdentifierFault(file, line,
                                         {{csv ? "record_id" : "/id", record.record_id},
@@ -71,22 +74,24 @@ std::optional<RowFault> RecordFault(const DispensingRecord& record, std::string_
                                          {"practice", record.practice}})) {
     return fault;
   }
-  return StrengthFault(file, line, record.product);
+  return StrengthFault(file, line, record.product, plausible);
 }
 
 std::optional<RowFault> RecordFault(const PatientRecord& record, std::string_view file, size_t line,
-                                    FieldNames names) {
+                                    FieldNames names, PlausibleProducts*) {
   const bool csv = names == FieldNames::kCsv;
   return FirstIdentifierFault(file, line,
                               {{csv ? "patient_id" : "/id", record.patient_id},
                                {csv ? "practice" : "/generalPractitioner/0", record.practice}});
 }
 
-std::optional<RowFault> RecordFault(const PracticeRecord& record, std::string_view file, size_t line, FieldNames) {
+std::optional<RowFault> RecordFault(const PracticeRecord& record, std::string_view file, size_t line, FieldNames,
+                                    PlausibleProducts*) {
   return IdentifierFault(file, line, "practice", record.practice);
 }
 
-std::optional<RowFault> RecordFault(const ReviewRecord& record, std::string_view file, size_t line, FieldNames) {
+std::optional<RowFault> RecordFault(const ReviewRecord& record, std::string_view file, size_t line, FieldNames,
+                                    PlausibleProducts*) {
   return IdentifierFault(file, line, "patient_id", record.patient_id);
 }
 

@@ -107,6 +107,7 @@ else
   mv "$data.partial" "$data"
 fi
 data_rows=$(( $(wc -l < "$csv") - 1 ))
+[[ "$shape" == weekly ]] && patients=$(( $(wc -l < "$data/patients.csv") - 1 ))
 
 # The last 12 month-ends the data covers: D2 is the last month-end on or before the
 # latest dispensing date, D1 the month-end eleven months before it.
