@@ -60,8 +60,8 @@ class TouchedHistory {
 
  private:
   // Reads the packed copy into history_ and merges the newer dispensings in; false when
-  // the history must be read from the table instead (it left older dispensings out, or
-  // its copy cannot be read).
+  // the history must be read from the table instead (it has no packed row, it left older
+  // dispensings out, or its copy cannot be read).
   Result<bool> MergeIntoCopy(const std::string& patient_id) {
     read_packed_.Reset();
     read_packed_.BindText(1, patient_id);
@@ -69,11 +69,11 @@ class TouchedHistory {
     if (!row.ok()) return row.status();
     used_ = 0;
     dropped_ = later_dropped_;
-    if (*row) {
-      if (read_packed_.ColumnInt(1) != 0) return false;
-      if (!UnpackHistory(read_packed_.ColumnBlob(0), patient_id, history_, spare_).ok()) return false;
-      used_ = history_.size();
-    }
+    // No packed row: a patient new to the copy, whose rows the table gives as cheaply
+    // (and rightly, should the row have been removed by hand).
+    if (!*row || read_packed_.ColumnInt(1) != 0) return false;
+    if (!UnpackHistory(read_packed_.ColumnBlob(0), patient_id, history_, spare_).ok()) return false;
+    used_ = history_.size();
     const size_t packed_count = used_;
     for (size_t i = 0; i < later_used_; ++i) {
       if (used_ == history_.size()) history_.emplace_back();

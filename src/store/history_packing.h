@@ -23,8 +23,9 @@ Result<long> PackEveryHistory(sqlite3* db, size_t cap);
 // above `packed_up_to`, which must be the copy's state: every dispensing up to that id
 // packed, none updated or deleted since (the state row's promise). Each such history is
 // its packed copy with the newer dispensings merged in, in date order and then import
-// order (a newer id sorts after every packed dispensing of its date); a history that left
-// older dispensings out, or whose copy cannot be read, is read again from the table. The
+// order (a newer id sorts after every packed dispensing of its date); a history with no
+// packed row (a new patient), one that left older dispensings out, or one whose copy
+// cannot be read, is read from the table. The
 // rows written are byte for byte what PackEveryHistory would write. Inside the caller's
 // write transaction. Appends the repacked patients' ids to `touched` when given, in id
 // order; returns how many. Fails with Input on a storage error or a malformed date.

@@ -129,8 +129,8 @@ Status UnpackHistory(std::string_view packed, std::string_view patient_id,
                      std::vector<DispensingRecord>& into, std::vector<DispensingRecord>& spare) {
   const auto damaged = [&] {
     return Status::Input("store: the packed history of patient \"" + std::string(patient_id) +
-                         "\" is damaged; delete the store's packed_histories rows to have them"
-                         " rebuilt from the dispensings");
+                         "\" is damaged; delete the store's packed_histories_state row to have"
+                         " every history packed again from the dispensings");
   };
   if (packed.empty() || packed[0] != kLayout) return damaged();
   Reader reader(packed.substr(1));

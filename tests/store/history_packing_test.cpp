@@ -145,6 +145,27 @@ TEST_CASE("histories at the bound are cut after the merge as packing every histo
   CHECK(rows[1].substr(rows[1].size() - 2) == "1|");  // P2: the oldest of three
 }
 
+TEST_CASE("a touched patient whose packed row is damaged or missing is packed again from the table") {
+  Store store = Open();
+  Load(store, kFirst);
+  REQUIRE(store.PackHistoriesNow().ok());
+  Exec(store, "UPDATE packed_histories SET packed = x'0102' WHERE patient_id = 'P1'");
+  Exec(store, "DELETE FROM packed_histories WHERE patient_id = 'P2'");
+  Load(store, kSecond);
+  CHECK_FALSE(store.PackHistoriesNow().value().whole);
+  CHECK(PackedRows(store) == PackedWhole({kFirst, kSecond}));
+}
+
+TEST_CASE("deleting the state row, as the damaged-history message says, packs every history again") {
+  Store store = Open();
+  Load(store, kFirst);
+  REQUIRE(store.PackHistoriesNow().ok());
+  Exec(store, "UPDATE packed_histories SET packed = x'0102' WHERE patient_id = 'P4'");  // untouched
+  Exec(store, "DELETE FROM packed_histories_state");
+  CHECK(store.PackHistoriesNow().value().whole);
+  CHECK(PackedRows(store) == PackedWhole({kFirst}));
+}
+
 TEST_CASE("after an update or a delete of a dispensing, or when most rows are new, every history is packed again") {
   Store store = Open();
   Load(store, kFirst);

@@ -119,7 +119,7 @@ TEST_CASE("a damaged packed history is an error naming the patient, never a cras
   const std::string packed = PackHistory(Varied());
   const std::string message =
       "store: the packed history of patient \"P9\" is damaged; delete the store's"
-      " packed_histories rows to have them rebuilt from the dispensings";
+      " packed_histories_state row to have every history packed again from the dispensings";
   std::vector<DispensingRecord> out;
   std::vector<DispensingRecord> spare;
   // Every cut short of the whole fails, as do a trailing byte and another layout.
