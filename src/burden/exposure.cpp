@@ -63,7 +63,7 @@ void AddExposure(const Timeline& timeline, const BurdenTables& tables, const Mea
       if (dose == tables.tsdd_doses.end()) continue;
       for (const DispensingUse& use : medicine.uses) {
         if (use.dispensed_on > on) break;  // uses are in date order
-        if ((measures.tsdd_from && use.dispensed_on < *measures.tsdd_from) || !SystemicRoute(use.route)) continue;
+        if ((measures.tsdd_from && use.dispensed_on < *measures.tsdd_from) || !SystemicRoute(tables, use.route)) continue;
         const std::optional<double> mg = MilligramsSupplied(use, ingredient);
         if (!mg) {
           incomplete.insert(ingredient);

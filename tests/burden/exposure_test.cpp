@@ -102,6 +102,20 @@ TEST_CASE("a dispensing with no known strength is listed, not counted; an eye dr
   CHECK(m.tsdd_contributions.empty());
 }
 
+TEST_CASE("TSDDs follow the formulary's route policy: an eye drop counts only where the policy counts eyes") {
+  // Product specification section 5, Routes: the formulary says which routes count.
+  // Atropine 1% is 10 mg/ml; 10 ml = 100 mg; minimum effective dose 0.4 mg (from memory):
+  // 250 TSDDs once eye drops count (Gray et al. 2015: quantity x strength / dose).
+  LongitudinalFixture f;
+  const std::vector<DispensingRecord> records = {Rx("atropine 1% eye drops", D(2024, 1, 1), 10, 28)};
+  CHECK(f.On(records, D(2024, 2, 1)).tsdd == doctest::Approx(0));
+  f.tables.systemic_routes.Add(Route::kEye);
+  CHECK(f.On(records, D(2024, 2, 1)).tsdd == doctest::Approx(250));
+  // Oral taken out of the policy: oxybutynin tablets add nothing either.
+  f.tables.systemic_routes = RouteSet(std::vector<Route>{Route::kTransdermal});
+  CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 2, 1)).tsdd == doctest::Approx(0));
+}
+
 TEST_CASE("the years before a date start the day after the same calendar day") {
   CHECK(YearsBefore(D(2024, 6, 1), 1) == D(2023, 6, 2));
   CHECK(YearsBefore(D(2024, 2, 29), 1) == D(2023, 3, 1));  // from 28 Feb 2023, plus one day
