@@ -16,6 +16,8 @@ std::string_view DoseBasisName(DoseBasis basis) {
     case DoseBasis::kRateStrength: return "rate strength";
     case DoseBasis::kDosage: return "strength x units per day";
     case DoseBasis::kQuantity: return "strength x quantity / days supply";
+    case DoseBasis::kPatchRelease: return "labelled release rate of the patch";
+    case DoseBasis::kDepotInterval: return "strength per dose / labelled interval";
   }
   return "";
 }

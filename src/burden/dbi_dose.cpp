@@ -138,10 +138,25 @@ std::vector<ActiveProduct> ProductsTakenTogether(const Timeline& timeline, const
   return together;
 }
 
+// A transdermal patch whose strength is its content: the row giving its release rate.
+const UnitDoseRow* PatchRow(const DispensingUse& use, const ResolvedIngredient& ingredient,
+                            const BurdenTables& tables) {
+  if (use.route != Route::kTransdermal || !ingredient.mg_per_unit) return nullptr;
+  return tables.UnitDose(ingredient.ingredient, UnitDoseForm::kPatch, *ingredient.mg_per_unit);
+}
+
+// A depot injection of known strength per ampoule or syringe: the row giving its interval.
+const UnitDoseRow* DepotRow(const DispensingUse& use, const ResolvedIngredient& ingredient,
+                            const BurdenTables& tables) {
+  if (use.route != Route::kInjection || !ingredient.mg_per_unit || !use.units_per_container) return nullptr;
+  return tables.UnitDose(ingredient.ingredient, UnitDoseForm::kDepot,
+                         *ingredient.mg_per_unit * *use.units_per_container);
+}
+
 }  // namespace
 
-std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient, Date on,
-                                    Date taken_from) {
+std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient,
+                                    const BurdenTables& tables, Date on, Date taken_from) {
   const ResolvedIngredient* it = IngredientIn(use, ingredient);
   if (it == nullptr) return std::nullopt;
   DoseSource dose;
@@ -150,6 +165,13 @@ std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string&
     dose.dose_mg_per_day = *it->mg_per_day;
     dose.basis = DoseBasis::kRateStrength;
   } else if (!it->mg_per_unit) {
+    return std::nullopt;
+  } else if (const UnitDoseRow* patch = PatchRow(use, *it, tables)) {
+    dose.dose_mg_per_day = *patch->release_mg_per_day;
+    dose.basis = DoseBasis::kPatchRelease;
+  } else if (use.route == Route::kTransdermal && tables.HasUnitDoses(ingredient, UnitDoseForm::kPatch)) {
+    // A patch of a listed ingredient at a content the table does not list: its content
+    // is not what it releases, so the dose is unknown (listed), never the content.
     return std::nullopt;
   } else if (units) {
     // Units per day in units of the dispensed quantity (the dosage, converted); for a
@@ -160,6 +182,9 @@ std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string&
     dose.staged = !use.supply.stages.empty();
     // After "then stop" nothing is taken: a known dose of 0, not an unknown one.
     if (dose.staged && *units == 0) return dose;
+  } else if (const UnitDoseRow* depot = DepotRow(use, *it, tables)) {
+    dose.dose_mg_per_day = *it->mg_per_unit * *use.units_per_container / depot->interval_days;
+    dose.basis = DoseBasis::kDepotInterval;
   } else {
     dose.dose_mg_per_day = *it->mg_per_unit * use.quantity / use.supply.days;
     dose.basis = DoseBasis::kQuantity;
@@ -183,7 +208,7 @@ std::optional<DbiContribution> IngredientDbiDose(const Timeline& timeline, const
   total.ingredient = ingredient;
   for (const ActiveProduct& product : products) {
     const size_t medicine = burden.active[product.active].medicine;
-    auto dose = DailyDose(timeline.medicines[medicine].uses[product.use], ingredient, burden.on,
+    auto dose = DailyDose(timeline.medicines[medicine].uses[product.use], ingredient, tables, burden.on,
                           product.taken_from);
     if (!dose) return std::nullopt;
     dose->medicine = medicine;

@@ -11,12 +11,14 @@
 namespace medload::burden_internal {
 
 // The daily dose of `ingredient` from dispensing `use`, in mg a day on `on`, for a supply
-// taken from `taken_from` (its first day, after any carry-over): the rate strength, else
-// strength x the units per day in force on `on` (UnitsPerDayOnDay: a taper's stage),
-// else strength x quantity / days of supply. nullopt when unknown (no strength, or a dose
-// that is not a finite number > 0; a taper stage of 0 after "then stop" gives 0).
-std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient, Date on,
-                                    Date taken_from);
+// taken from `taken_from` (its first day, after any carry-over), first that applies: the
+// rate strength; a transdermal patch's labelled release rate (tables.unit_doses, by its
+// content); strength x the units per day in force on `on` (UnitsPerDayOnDay: a taper's
+// stage); a depot injection's strength per ampoule or syringe / its labelled interval
+// (tables.unit_doses); strength x quantity / days of supply. nullopt when unknown (no
+// strength, or not a finite number > 0; a taper stage of 0 after "then stop" gives 0).
+std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient,
+                                    const BurdenTables& tables, Date on, Date taken_from);
 
 // The DBI dose of `ingredient` on burden.on: the sum over its products taken together
 // (products on a route the DBI does not count for it left out). `counted` is set to

@@ -42,6 +42,8 @@ enum class DoseBasis {
   kRateStrength,   // a rate strength (patch per hour / per 24 hours)
   kDosage,         // strength x units per day from the dosage instruction
   kQuantity,       // strength x quantity / days of supply
+  kPatchRelease,   // a patch's labelled release rate (unit_doses.csv), not its content
+  kDepotInterval,  // a depot's strength per ampoule or syringe / its labelled interval
 };
 
 // One product's daily dose within an ingredient's DBI dose.
