@@ -9,19 +9,6 @@
 namespace medload {
 namespace {
 
-bool IsClassName(std::string_view name) {
-  if (name.empty() || name.front() == '-' || name.back() == '-') return false;
-  return std::all_of(name.begin(), name.end(),
-                     [](char c) { return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '-'; });
-}
-
-std::optional<double> Number(std::string_view text) {
-  double value = 0;
-  const auto [end, error] = std::from_chars(text.data(), text.data() + text.size(), value);
-  if (text.empty() || error != std::errc() || end != text.data() + text.size()) return std::nullopt;
-  return value;
-}
-
 Status Bad(std::string_view text, std::string_view why) {
   return Status::Usage("criterion \"" + std::string(text) + "\" " + std::string(why));
 }
@@ -32,7 +19,7 @@ Result<Criterion> ParseAtLeast(std::string_view text, std::string_view name, Cri
   if (number.substr(0, 2) == ">=") number.remove_prefix(2);
   else if (!number.empty() && number[0] == '=') number.remove_prefix(1);
   else return Bad(text, "has an unknown comparison; use " + std::string(name) + "=N");
-  const std::optional<double> value = Number(number);
+  const std::optional<double> value = ParseDecimal(number);
   if (!value || !(*value >= 0)) return Bad(text, "has a threshold that is not a number >= 0");
   // Past these no patient can qualify (a falls count is of distinct medicines; ten years of
   // TSDDs from ten anticholinergics at ten times their minimum dose is 365,250), so a larger
@@ -53,7 +40,7 @@ Result<Criterion> ParseAtLeast(std::string_view text, std::string_view name, Cri
 // "pdc<0.8" or "pdc<0.8:CLASS|CLASS" (the comparison already checked and removed).
 Result<Criterion> ParsePdc(std::string_view text, std::string_view rest) {
   const size_t colon = rest.find(':');
-  const std::optional<double> value = Number(rest.substr(0, colon));
+  const std::optional<double> value = ParseDecimal(rest.substr(0, colon));
   if (!value || !(*value > 0) || *value > 1) {
     return Bad(text, "needs a proportion of days covered above 0 and at most 1 (pdc<0.8)");
   }
@@ -65,7 +52,7 @@ Result<Criterion> ParsePdc(std::string_view text, std::string_view rest) {
   while (true) {
     const size_t bar = classes.find('|');
     const std::string_view name = classes.substr(0, bar);
-    if (!IsClassName(name)) {
+    if (!IsLowerHyphenated(name)) {
       return Bad(text, "names a class \"" + std::string(name) + "\" that is not lower-case-hyphenated");
     }
     criterion.classes.emplace_back(name);

@@ -102,7 +102,7 @@ void WriteSummary(Context& context, const SynthSummary& summary) {
       WriteHtmlEnd(out);
       return;
     case Format::kText:
-    case Format::kSvg:
+    case Format::kSvg:  // refused before anything is written (RunSynth)
       break;
   }
   out << "synthetic data set written to " << summary.folder << "\n"
@@ -136,6 +136,7 @@ int RunSynth(Context& context, const std::vector<std::string>& args) {
   if (!vm) return exit_code;
   auto fail = [&](const Status& status) { return Fail(context, status); };
   if (vm->count("out") == 0U) return fail(Status::Usage("synth needs --out DIR"));
+  if (context.format == Format::kSvg) return fail(Status::Usage("synth writes its summary as text, csv, json or html"));
   Result<SynthOptions> synth_options = ReadSynthOptions(*vm);
   if (!synth_options.ok()) return fail(synth_options.status());
   const auto started = std::chrono::steady_clock::now();

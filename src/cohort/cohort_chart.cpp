@@ -62,18 +62,6 @@ struct Plot {
   double Y(double rate) const { return Bottom() - height * std::clamp(rate / y_top, 0.0, 1.0); }
 };
 
-void WriteText(std::ostringstream& svg, double x, double y, double size, std::string_view anchor,
-               std::string_view text, std::string_view extra = "") {
-  svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(y) << "\" font-size=\"" << size << "\"";
-  if (anchor != "start") svg << " text-anchor=\"" << anchor << "\"";
-  svg << extra << ">" << EscapeHtml(text) << "</text>\n";
-}
-
-void WriteLine(std::ostringstream& svg, double x1, double y1, double x2, double y2, std::string_view stroke) {
-  svg << "<line x1=\"" << SvgNumber(x1) << "\" y1=\"" << SvgNumber(y1) << "\" x2=\"" << SvgNumber(x2) << "\" y2=\""
-      << SvgNumber(y2) << "\" stroke=\"" << stroke << "\"/>\n";
-}
-
 // A point's marker: filled circle (full), hollow circle (short history), hollow square
 // (beyond the data), so that the states read without colour.
 void WriteMarker(std::ostringstream& svg, const Point& p, DataState data, std::string_view colour) {
@@ -139,20 +127,20 @@ void WriteDateLabels(std::ostringstream& svg, const Plot& plot, const std::vecto
   const double spacing = dates.size() > 1 ? plot.width / static_cast<double>(dates.size() - 1) : plot.width;
   const auto every = static_cast<size_t>(std::max(1.0, std::ceil(label / spacing)));
   for (size_t d = 0; d < dates.size(); d += every) {
-    WriteText(svg, plot.X(d), plot.Bottom() + 19, kFont, "middle", dates[d].ToIso());
+    WriteSvgText(svg, plot.X(d), plot.Bottom() + 19, kFont, "middle", dates[d].ToIso());
   }
 }
 
 void WriteLineAxes(std::ostringstream& svg, const Plot& plot, const std::vector<Date>& dates) {
   for (int tick = 0; tick <= 5; ++tick) {  // fifths of a kFineAxisSteps top are round
     const double rate = plot.y_top * tick / 5.0;
-    WriteLine(svg, plot.left, plot.Y(rate), plot.Right(), plot.Y(rate), "#ddd");
-    WriteText(svg, plot.left - 6, plot.Y(rate) + 4, kFont, "end", FormatNumber(rate, 1));
+    WriteSvgLine(svg, plot.left, plot.Y(rate), plot.Right(), plot.Y(rate), "stroke=\"#ddd\"");
+    WriteSvgText(svg, plot.left - 6, plot.Y(rate) + 4, kFont, "end", FormatNumber(rate, 1));
   }
   WriteDateLabels(svg, plot, dates);
-  WriteLine(svg, plot.left, plot.Bottom(), plot.Right(), plot.Bottom(), "#333");
-  WriteLine(svg, plot.left, plot.top, plot.left, plot.Bottom(), "#333");
-  WriteText(svg, plot.left + plot.width / 2, plot.Bottom() + 42, 12, "middle", "census date");
+  WriteSvgLine(svg, plot.left, plot.Bottom(), plot.Right(), plot.Bottom(), "stroke=\"#333\"");
+  WriteSvgLine(svg, plot.left, plot.top, plot.left, plot.Bottom(), "stroke=\"#333\"");
+  WriteSvgText(svg, plot.left + plot.width / 2, plot.Bottom() + 42, 12, "middle", "census date");
   svg << "<text transform=\"translate(16 " << SvgNumber(plot.top + plot.height / 2)
       << ") rotate(-90)\" font-size=\"12\" text-anchor=\"middle\">rate per 1000 registered</text>\n";
 }
@@ -167,7 +155,7 @@ void OpenSvg(std::ostringstream& svg, double height, const std::string& title) {
   svg << "<svg xmlns=\"http://www.w3.org/2000/svg\" role=\"img\" class=\"trend\" width=\"" << kWidth
       << "\" height=\"" << SvgNumber(height) << "\" viewBox=\"0 0 " << kWidth << " " << SvgNumber(height)
       << "\" font-family=\"sans-serif\"><title>" << EscapeHtml(title) << "</title>\n";
-  WriteText(svg, 8, 20, 15, "start", FitText(title, 15 * kBoldWidth, kWidth - 16), " font-weight=\"bold\"");
+  WriteSvgText(svg, 8, 20, 15, "start", FitText(title, 15 * kBoldWidth, kWidth - 16), " font-weight=\"bold\"");
 }
 
 // One plot, one line per series (the reference first, under the others), each labelled
@@ -193,7 +181,7 @@ std::optional<std::string> LineChart(const std::vector<Drawn>& drawn, const std:
   const auto placed = PlaceLabels(wanted, kLabelGap, plot.top + 4, plot.Bottom());
   if (!placed) return std::nullopt;
   for (size_t i = 0; i < labelled.size(); ++i) {
-    WriteText(svg, plot.Right() + 8, (*placed)[i], kFont, "start", FitText(labelled[i]->group, kFont, kMaxLabelWidth),
+    WriteSvgText(svg, plot.Right() + 8, (*placed)[i], kFont, "start", FitText(labelled[i]->group, kFont, kMaxLabelWidth),
               " fill=\"" + std::string(labelled[i]->colour) + "\"");
   }
   svg << "</svg>";
@@ -230,19 +218,19 @@ std::string MonthText(Date date) { return date.ToIso().substr(0, 7); }
 // first column; the first and last month under the plot.
 void WritePanelFrame(std::ostringstream& svg, const Plot& plot, bool first_column, const std::vector<Date>& dates) {
   for (const double share : {0.0, 0.5, 1.0}) {
-    WriteLine(svg, plot.left, plot.Y(plot.y_top * share), plot.Right(), plot.Y(plot.y_top * share),
-              share == 0 ? "#888" : "#e2e2e2");
+    WriteSvgLine(svg, plot.left, plot.Y(plot.y_top * share), plot.Right(), plot.Y(plot.y_top * share),
+                 share == 0 ? "stroke=\"#888\"" : "stroke=\"#e2e2e2\"");
     if (first_column && share != 0.5) {
-      WriteText(svg, plot.left - 4, plot.Y(plot.y_top * share) + 3, kSmallFont, "end", FormatNumber(plot.y_top * share, 1));
+      WriteSvgText(svg, plot.left - 4, plot.Y(plot.y_top * share) + 3, kSmallFont, "end", FormatNumber(plot.y_top * share, 1));
     }
   }
   const double below = plot.Bottom() + 12;
   if (dates.size() == 1 || TextWidth("0000-00", kSmallFont) * 2 + 8 > plot.width) {
-    WriteText(svg, plot.Right(), below, kSmallFont, "end", MonthText(dates.back()));
+    WriteSvgText(svg, plot.Right(), below, kSmallFont, "end", MonthText(dates.back()));
     return;
   }
-  WriteText(svg, plot.left, below, kSmallFont, "start", MonthText(dates.front()));
-  WriteText(svg, plot.Right(), below, kSmallFont, "end", MonthText(dates.back()));
+  WriteSvgText(svg, plot.left, below, kSmallFont, "start", MonthText(dates.front()));
+  WriteSvgText(svg, plot.Right(), below, kSmallFont, "end", MonthText(dates.back()));
 }
 
 // The panel's title: the group in its colour, and its value on the last date at the right.
@@ -251,10 +239,10 @@ void WritePanelTitle(std::ostringstream& svg, const Plot& plot, const Drawn& d) 
   const std::string value = last ? FormatNumber(*last, 1) : "-";
   const double value_width = TextWidth(value, kFont);
   const double baseline = plot.top - 6;
-  WriteText(svg, plot.left, baseline, kFont, "start",
+  WriteSvgText(svg, plot.left, baseline, kFont, "start",
             FitText(d.group, kFont * kBoldWidth, plot.width - value_width - 8),
             " font-weight=\"bold\" fill=\"" + std::string(d.colour) + "\"");
-  WriteText(svg, plot.Right(), baseline, kFont, "end", value, " fill=\"" + std::string(d.colour) + "\"");
+  WriteSvgText(svg, plot.Right(), baseline, kFont, "end", value, " fill=\"" + std::string(d.colour) + "\"");
 }
 
 // Three lines under the title saying how to read the panels.
@@ -266,7 +254,7 @@ void WritePanelKey(std::ostringstream& svg, double y_top, const std::string& ref
                                "Hollow circle: short history; hollow square: beyond the data; dashed: not full."};
   double y = 38;
   for (const std::string& line : lines) {
-    WriteText(svg, 8, y, kFont, "start", FitText(line, kFont, kWidth - 16), " fill=\"#444\"");
+    WriteSvgText(svg, 8, y, kFont, "start", FitText(line, kFont, kWidth - 16), " fill=\"#444\"");
     y += 15;
   }
 }

@@ -1,25 +1,12 @@
 #include "formulary/longitudinal_tables.h"
 
-#include <algorithm>
-#include <charconv>
 #include <cmath>
 #include <unordered_map>
 
+#include "medload/core/text.h"
+
 namespace medload::formulary_internal {
 namespace {
-
-bool IsCategoryName(std::string_view name) {
-  if (name.empty() || name.front() == '-' || name.back() == '-') return false;
-  return std::all_of(name.begin(), name.end(),
-                     [](char c) { return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '-'; });
-}
-
-std::optional<double> ParseDose(std::string_view text) {
-  double value = 0;
-  const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
-  if (text.empty() || ec != std::errc() || ptr != text.data() + text.size()) return std::nullopt;
-  return value;
-}
 
 // The source column every table has; false (with a fault) when it is empty.
 bool HasSource(const Table& table, const TableRow& row, std::vector<std::string>& faults) {
@@ -39,7 +26,7 @@ void ReadTsdd(const Table& table, FormularyTables& tables, std::vector<std::stri
       continue;
     }
     if (!HasSource(table, row, faults)) continue;
-    const std::optional<double> dose = ParseDose(row.fields[1]);
+    const std::optional<double> dose = ParseDecimal(row.fields[1]);
     if (!dose) {
       faults.push_back(Fault(table.name, row.line,
                              "min_effective_daily_dose_mg: \"" + row.fields[1] + "\" is not a number"));
@@ -59,7 +46,7 @@ void ReadFallsRisk(const Table& table, FormularyTables& tables, std::vector<std:
     const std::string& category = row.fields[0];
     const std::string& class_name = row.fields[1];
     const std::string& ingredient = row.fields[2];
-    if (!IsCategoryName(category)) {
+    if (!IsLowerHyphenated(category)) {
       faults.push_back(Fault(table.name, row.line, category.empty() ? "category: empty"
                                                                     : "category: \"" + category +
                                                                           "\" is not lower-case-hyphenated"));

@@ -9,6 +9,7 @@
 #include <sstream>
 
 #include "formulary/longitudinal_tables.h"
+#include "medload/core/text.h"
 #include "formulary/table_reader.h"
 #include "formulary/unit_dose_table.h"
 #include "medload/core/hash.h"
@@ -49,12 +50,6 @@ std::optional<std::string> ReadFile(const fs::path& dir, const std::string& rela
   }
   files.emplace_back(relative, *content);
   return content;
-}
-
-bool IsClassName(std::string_view name) {
-  if (name.empty() || name.front() == '-' || name.back() == '-') return false;
-  return std::all_of(name.begin(), name.end(),
-                     [](char c) { return (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') || c == '-'; });
 }
 
 // ATC codes at level 3 to 5: A01, A01A, A01AB, A01AB01.
@@ -105,7 +100,7 @@ void ReadIngredients(const Table& table, FormularyTables& tables, std::vector<st
       ingredient.atc.push_back(code);
     }
     for (std::string& class_name : SplitList(row.fields[3])) {
-      if (!IsClassName(class_name)) {
+      if (!IsLowerHyphenated(class_name)) {
         faults.push_back(Fault(table.name, row.line,
                                "classes: \"" + class_name + "\" is not lower-case-hyphenated"));
         continue;
@@ -116,13 +111,6 @@ void ReadIngredients(const Table& table, FormularyTables& tables, std::vector<st
     ingredient.line = row.line;
     tables.ingredients.push_back(std::move(ingredient));
   }
-}
-
-std::optional<double> ParseNumber(std::string_view text) {
-  double value = 0;
-  const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
-  if (ec != std::errc() || ptr != text.data() + text.size() || text.empty()) return std::nullopt;
-  return value;
 }
 
 // Bounds of a minimum daily dose (DBI delta), in mg: below a microgram a day or above ten
@@ -178,7 +166,7 @@ std::optional<DbiEffect> EffectFromName(std::string_view name) {
 void ReadDbi(const Table& table, FormularyTables& tables, std::vector<std::string>& faults) {
   for (const TableRow& row : table.rows) {
     if (!NameAndSource(table, row, "ingredient", faults)) continue;
-    const auto dose = ParseNumber(row.fields[1]);
+    const auto dose = ParseDecimal(row.fields[1]);
     if (!dose) {
       faults.push_back(Fault(table.name, row.line, "min_daily_dose_mg: \"" + row.fields[1] + "\" is not a number"));
       continue;

@@ -34,16 +34,10 @@ struct Frame {
   double Y(double rate) const { return kTop + (Bottom() - kTop) * (1 - std::clamp(rate, 0.0, y_top) / y_top); }
 };
 
+// A text element at the charts' usual size unless told.
 void Text(std::ostringstream& svg, double x, double y, std::string_view anchor, std::string_view text,
           std::string_view extra = "", double size = kFont) {
-  svg << "<text x=\"" << SvgNumber(x) << "\" y=\"" << SvgNumber(y) << "\" font-size=\"" << size << "\"";
-  if (anchor != "start") svg << " text-anchor=\"" << anchor << "\"";
-  svg << extra << ">" << EscapeHtml(text) << "</text>\n";
-}
-
-void Line(std::ostringstream& svg, double x1, double y1, double x2, double y2, std::string_view rest) {
-  svg << "<line x1=\"" << SvgNumber(x1) << "\" y1=\"" << SvgNumber(y1) << "\" x2=\"" << SvgNumber(x2) << "\" y2=\""
-      << SvgNumber(y2) << "\" " << rest << "/>\n";
+  WriteSvgText(svg, x, y, size, anchor, text, extra);
 }
 
 void WriteFrame(std::ostringstream& svg, const Frame& f, const std::string& title) {
@@ -51,12 +45,12 @@ void WriteFrame(std::ostringstream& svg, const Frame& f, const std::string& titl
   for (int tick = 0; tick <= kTicks; ++tick) {
     const double rate = f.y_top * tick / kTicks;
     const double n = f.x_top * tick / kTicks;
-    Line(svg, kLeft, f.Y(rate), Frame::Right(), f.Y(rate), "stroke=\"#ddd\"");
+    WriteSvgLine(svg, kLeft, f.Y(rate), Frame::Right(), f.Y(rate), "stroke=\"#ddd\"");
     Text(svg, kLeft - 6, f.Y(rate) + 4, "end", FormatNumber(rate, 1));
     Text(svg, f.X(n), Frame::Bottom() + 16, "middle", FormatNumber(n, 0));
   }
-  Line(svg, kLeft, Frame::Bottom(), Frame::Right(), Frame::Bottom(), "stroke=\"#333\"");
-  Line(svg, kLeft, kTop, kLeft, Frame::Bottom(), "stroke=\"#333\"");
+  WriteSvgLine(svg, kLeft, Frame::Bottom(), Frame::Right(), Frame::Bottom(), "stroke=\"#333\"");
+  WriteSvgLine(svg, kLeft, kTop, kLeft, Frame::Bottom(), "stroke=\"#333\"");
   Text(svg, f.X(f.x_top / 2), Frame::Bottom() + 36, "middle", "Registered patients on the census date", "", 12);
   const double middle = kTop + (Frame::Bottom() - kTop) / 2;
   svg << "<text x=\"16\" y=\"" << SvgNumber(middle) << "\" font-size=\"12\" text-anchor=\"middle\" transform=\"rotate(-90 16 "
@@ -88,8 +82,8 @@ void WriteKey(std::ostringstream& svg, double network_rate) {
                {"2 3", "99.8% control limits"}};
   double x = kLeft;
   for (const auto& item : items) {
-    Line(svg, x, y - 4, x + 26, y - 4,
-         std::string("stroke=\"#222\" stroke-width=\"1.5\"") +
+    WriteSvgLine(svg, x, y - 4, x + 26, y - 4,
+             std::string("stroke=\"#222\" stroke-width=\"1.5\"") +
              (item.dash[0] != 0 ? std::string(" stroke-dasharray=\"") + item.dash + "\"" : ""));
     Text(svg, x + 32, y, "start", item.text);
     x += 32 + TextWidth(item.text, kFont) + 18;
@@ -149,7 +143,7 @@ void WriteLabels(std::ostringstream& svg, const std::vector<FunnelPoint>& points
   const double x = Frame::Right() + 22;
   for (size_t i = 0; i < placed.size(); ++i) {
     const FunnelPoint& p = *chosen[i];
-    Line(svg, p.x + 4, p.y, x - 3, placed[i] - 4, "stroke=\"#9a9a9a\" stroke-width=\"0.8\"");
+    WriteSvgLine(svg, p.x + 4, p.y, x - 3, placed[i] - 4, "stroke=\"#9a9a9a\" stroke-width=\"0.8\"");
     Text(svg, x, placed[i], "start", FitText(p.series->code, kFont, kRight - 28),
          " fill=\"" + std::string(colours.Of(p.series->code)) + "\"");
   }
@@ -193,7 +187,7 @@ std::string FunnelSvg(const ReportModel& model, size_t key, const SeriesColours&
       << "\" width=\"" << kWidth << "\" height=\"" << kHeight << "\" font-family=\"sans-serif\" role=\"img\" aria-label=\""
       << EscapeHtml(title) << "\">\n<title>" << EscapeHtml(title) << "</title>\n";
   WriteFrame(svg, f, title);
-  Line(svg, f.X(0), f.Y(1000 * p0), f.X(f.x_top), f.Y(1000 * p0), "stroke=\"#222\" stroke-width=\"1.5\"");
+  WriteSvgLine(svg, f.X(0), f.Y(1000 * p0), f.X(f.x_top), f.Y(1000 * p0), "stroke=\"#222\" stroke-width=\"1.5\"");
   if (p0 > 0 && p0 < 1) {
     for (const bool upper : {true, false}) {
       WriteLimit(svg, f, p0, 0.95, upper, "6 4");

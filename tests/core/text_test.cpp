@@ -2,6 +2,7 @@
 
 #include <doctest/doctest.h>
 
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -68,6 +69,31 @@ TEST_CASE("IsBlank is true when every byte is one of the chosen blanks") {
   for (const Case& c : cases) {
     CAPTURE(c.text);
     CHECK(IsBlank(c.text, c.blanks) == c.blank);
+  }
+}
+
+TEST_CASE("ParseDecimal reads a number only when it spans the whole text") {
+  const struct {
+    std::string_view text;
+    std::optional<double> value;
+  } cases[] = {
+      {"0.8", 0.8}, {"1095", 1095.0}, {"-2", -2.0}, {"1e3", 1000.0},
+      {"", std::nullopt}, {"0.8x", std::nullopt}, {" 1", std::nullopt}, {"+1", std::nullopt}, {"ten", std::nullopt},
+  };
+  for (const auto& c : cases) {
+    CAPTURE(c.text);
+    CHECK(ParseDecimal(c.text) == c.value);
+  }
+}
+
+TEST_CASE("IsLowerHyphenated accepts class names and refuses other forms") {
+  for (const std::string_view name : {"statin", "ras-blocker", "h1-antihistamine", "a"}) {
+    CAPTURE(name);
+    CHECK(IsLowerHyphenated(name));
+  }
+  for (const std::string_view name : {"", "-statin", "statin-", "Statin", "ras blocker", "ras_blocker"}) {
+    CAPTURE(name);
+    CHECK_FALSE(IsLowerHyphenated(name));
   }
 }
 

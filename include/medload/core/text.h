@@ -3,6 +3,7 @@
 // no Unicode work (ICU does that where it matters, in the formulary's normaliser).
 #pragma once
 
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -26,5 +27,14 @@ std::string_view Trim(std::string_view text, std::string_view blanks = kSpaceTab
 
 // True when every byte of `text` is in `blanks` (so also when `text` is empty).
 bool IsBlank(std::string_view text, std::string_view blanks = kSpaceTab);
+
+// The number that the whole of `text` spells (std::from_chars: no leading '+' or blanks;
+// "inf" and "nan" read as such, so callers bound what they accept). nullopt when `text`
+// is empty, is not a number, or has bytes left over.
+std::optional<double> ParseDecimal(std::string_view text);
+
+// True for a name of lower-case letters, digits and '-', not empty and neither starting
+// nor ending with '-' ("statin", "ras-blocker"): the form of class and category names.
+bool IsLowerHyphenated(std::string_view name);
 
 }  // namespace medload
