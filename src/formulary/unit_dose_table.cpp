@@ -4,6 +4,8 @@
 #include <cmath>
 #include <map>
 
+#include "medload/core/text.h"
+
 namespace medload {
 
 std::string_view UnitDoseFormName(UnitDoseForm form) {
@@ -24,12 +26,12 @@ bool ReadPositive(const Table& table, const TableRow& row, size_t column, std::s
     if (required) faults.push_back(Fault(table.name, row.line, std::string(name) + ": empty"));
     return !required;
   }
-  double value = 0;
-  const auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
-  if (ec != std::errc() || ptr != text.data() + text.size()) {
+  const std::optional<double> parsed = ParseDecimal(text);
+  if (!parsed) {
     faults.push_back(Fault(table.name, row.line, std::string(name) + ": \"" + text + "\" is not a number"));
     return false;
   }
+  const double value = *parsed;
   if (!(value > 0) || !std::isfinite(value)) {
     faults.push_back(Fault(table.name, row.line, std::string(name) + ": " + text + " must be greater than 0"));
     return false;
