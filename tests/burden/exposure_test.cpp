@@ -116,6 +116,25 @@ TEST_CASE("TSDDs follow the formulary's route policy: an eye drop counts only wh
   CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 2, 1)).tsdd == doctest::Approx(0));
 }
 
+TEST_CASE("a patch whose strength is its content supplies what it releases, not what it holds") {
+  // A 1.5 mg hyoscine patch releases about 1 mg over 72 hours (Scopoderm SPC, from
+  // memory): 4 patches supply 4 mg, 10 TSDDs at a 0.4 mg minimum effective dose (from
+  // memory), not 6 mg and 15 (Gray et al. 2015: mg supplied / dose).
+  LongitudinalFixture f;
+  f.products["hyoscine 1.5mg patch"] = testing::Made({{"hyoscine hydrobromide", 1.5, {}}}, Route::kTransdermal);
+  f.tables.tsdd_doses["hyoscine hydrobromide"] = 0.4;
+  const std::vector<DispensingRecord> records = {Rx("hyoscine 1.5mg patch", D(2024, 1, 1), 4, 12)};
+  CHECK(f.On(records, D(2024, 1, 20)).tsdd == doctest::Approx(15));
+  UnitDoseRow row;
+  row.form = UnitDoseForm::kPatch;
+  row.strength_mg = 1.5;
+  row.release_mg_per_day = 1.0 / 3;
+  row.interval_days = 3;
+  row.source = "test";
+  f.tables.unit_doses["hyoscine hydrobromide"] = {row};
+  CHECK(f.On(records, D(2024, 1, 20)).tsdd == doctest::Approx(10));
+}
+
 TEST_CASE("the years before a date start the day after the same calendar day") {
   CHECK(YearsBefore(D(2024, 6, 1), 1) == D(2023, 6, 2));
   CHECK(YearsBefore(D(2024, 2, 29), 1) == D(2023, 3, 1));  // from 28 Feb 2023, plus one day
