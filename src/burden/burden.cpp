@@ -6,6 +6,7 @@
 #include <set>
 #include <tuple>
 
+#include "burden/dbi_dose.h"
 #include "burden/rule_firing.h"
 
 namespace medload {
@@ -15,6 +16,8 @@ std::string_view DoseBasisName(DoseBasis basis) {
     case DoseBasis::kRateStrength: return "rate strength";
     case DoseBasis::kDosage: return "strength x units per day";
     case DoseBasis::kQuantity: return "strength x quantity / days supply";
+    case DoseBasis::kPatchRelease: return "labelled release rate of the patch";
+    case DoseBasis::kDepotInterval: return "strength per dose / labelled interval";
   }
   return "";
 }
@@ -22,6 +25,8 @@ std::string_view DoseBasisName(DoseBasis basis) {
 std::string DoseBasisMark(const DbiContribution& contribution) {
   std::vector<std::string> marks;
   if (contribution.as_needed_max) marks.push_back("as-needed maximum");
+  if (contribution.range_upper) marks.push_back("upper value of a range");
+  if (contribution.staged) marks.push_back("stage of a changing dose on the date");
   if (contribution.sources.size() > 1) {
     marks.push_back(std::to_string(contribution.sources.size()) + " products summed");
   }
@@ -116,168 +121,6 @@ std::map<std::string, size_t> IngredientOwners(const Timeline& timeline, const B
   return owners;
 }
 
-const ResolvedIngredient* IngredientIn(const DispensingUse& use, const std::string& ingredient) {
-  if (!use.ingredients) return nullptr;
-  const auto it = std::find_if(use.ingredients->begin(), use.ingredients->end(),
-                               [&](const auto& i) { return i.ingredient == ingredient; });
-  return it == use.ingredients->end() ? nullptr : &*it;
-}
-
-std::optional<DoseSource> DailyDose(const DispensingUse& use, const std::string& ingredient) {
-  const ResolvedIngredient* it = IngredientIn(use, ingredient);
-  if (it == nullptr) return std::nullopt;
-  DoseSource dose;
-  if (it->mg_per_day) {
-    dose.dose_mg_per_day = *it->mg_per_day;
-    dose.basis = DoseBasis::kRateStrength;
-  } else if (!it->mg_per_unit) {
-    return std::nullopt;
-  } else if (use.supply.units_per_day) {
-    // Units per day in units of the dispensed quantity (the dosage, converted).
-    dose.dose_mg_per_day = *it->mg_per_unit * *use.supply.units_per_day;
-    dose.as_needed_max = use.dosage.as_needed;
-  } else {
-    dose.dose_mg_per_day = *it->mg_per_unit * use.quantity / use.supply.days;
-    dose.basis = DoseBasis::kQuantity;
-    dose.supply_assumed = use.supply.rule == SupplyRule::kDefaultDays;
-  }
-  // A dose that cannot be worked out (none, or beyond any number) is unknown: the
-  // ingredient is listed as incomplete, never a blank or infinite contribution.
-  if (!(dose.dose_mg_per_day > 0) || !std::isfinite(dose.dose_mg_per_day)) return std::nullopt;
-  return dose;
-}
-
-// One product of an ingredient active on D: the same strength of it by the same route
-// within one medicine (descriptions that differ only in wording are one product).
-struct ActiveProduct {
-  size_t active = 0;     // index into Burden::active
-  size_t use = 0;        // its latest dispensing on or before D (index into Medicine::uses)
-  Date chain_start;      // the first day of its own run of supplies that reaches D
-};
-
-using ProductKey = std::tuple<std::optional<double>, std::optional<double>, Route>;
-
-std::optional<ProductKey> KeyFor(const DispensingUse& use, const std::string& ingredient) {
-  const ResolvedIngredient* it = IngredientIn(use, ingredient);
-  if (it == nullptr) return std::nullopt;
-  return ProductKey{it->mg_per_unit, it->mg_per_day, use.route};
-}
-
-// The uses of one medicine that count on D, as (start, last counted day, use): the
-// coverages of the episode known on D (concurrent), or the dispensings in the window
-// (lookback: each counted on its day only, so that a run is the whole window).
-std::vector<std::tuple<Date, Date, size_t>> CountedUses(const Medicine& medicine, Date on,
-                                                         const MeasureOptions& options) {
-  std::vector<std::tuple<Date, Date, size_t>> uses;
-  if (options.measure == Measure::kLookback) {
-    const Date first_day = on - (options.window_days - 1);
-    for (size_t i = 0; i < medicine.uses.size(); ++i) {
-      const Date day = medicine.uses[i].dispensed_on;
-      if (day >= first_day && day <= on) uses.emplace_back(first_day, on, i);
-    }
-    return uses;
-  }
-  const Episode* episode = EpisodeOn(medicine.episodes, on);
-  if (episode == nullptr) return uses;
-  for (const Coverage& coverage : episode->coverages) {
-    if (coverage.dispensed <= on) uses.emplace_back(coverage.start, coverage.tail_end(), coverage.source);
-  }
-  return uses;
-}
-
-// The products of `ingredient` in one active medicine that are active on D.
-void CollectProducts(const Timeline& timeline, const std::vector<ActiveMedicine>& active, size_t a,
-                     const std::string& ingredient, Date on, const MeasureOptions& options,
-                     std::vector<ActiveProduct>& out) {
-  const Medicine& medicine = timeline.medicines[active[a].medicine];
-  std::map<ProductKey, std::vector<std::tuple<Date, Date, size_t>>> by_product;
-  for (const auto& counted : CountedUses(medicine, on, options)) {
-    auto key = KeyFor(medicine.uses[std::get<2>(counted)], ingredient);
-    if (key) by_product[*key].push_back(counted);
-  }
-  for (const auto& [key, runs] : by_product) {
-    // In start order: a run reaching D, and its first day.
-    std::optional<Date> start, end;
-    std::optional<Date> reaching;
-    size_t latest = std::get<2>(runs.front());
-    for (const auto& [from, to, use] : runs) {
-      if (!end || from > *end + 1) start = from, end = to;
-      else end = std::max(*end, to);
-      if (*start <= on && on <= *end) reaching = *start;
-      if (medicine.uses[use].dispensed_on > medicine.uses[latest].dispensed_on ||
-          (medicine.uses[use].dispensed_on == medicine.uses[latest].dispensed_on && use > latest)) {
-        latest = use;
-      }
-    }
-    if (reaching) out.push_back(ActiveProduct{a, latest, *reaching});
-  }
-}
-
-// Spec section 5, "Routes": a product counts for the DBI when its route does.
-bool DbiRouteCounts(const Timeline& timeline, const Burden& burden, const BurdenTables& tables,
-                    const ActiveProduct& product, const std::string& ingredient) {
-  RouteSet route;
-  route.Add(timeline.medicines[burden.active[product.active].medicine].uses[product.use].route);
-  return tables.CountsForDbi(route, ingredient);
-}
-
-// The products of `ingredient` taken together on D, the most recently dispensed first:
-// that product, plus every other active product dispensed again since its run began (a
-// product dispensed only before then was switched from, not added). Products on a route
-// the DBI does not count for the ingredient are left out first.
-std::vector<ActiveProduct> ProductsTakenTogether(const Timeline& timeline, const Burden& burden,
-                                                 const BurdenTables& tables, const std::string& ingredient,
-                                                 Date on, const MeasureOptions& options) {
-  std::vector<ActiveProduct> products;
-  for (size_t a = 0; a < burden.active.size(); ++a) {
-    const Medicine& medicine = timeline.medicines[burden.active[a].medicine];
-    if (std::binary_search(medicine.ingredients.begin(), medicine.ingredients.end(), ingredient)) {
-      CollectProducts(timeline, burden.active, a, ingredient, on, options, products);
-    }
-  }
-  std::erase_if(products, [&](const ActiveProduct& p) {
-    return !DbiRouteCounts(timeline, burden, tables, p, ingredient);
-  });
-  if (products.empty()) return products;
-  auto use_of = [&](const ActiveProduct& p) -> const DispensingUse& {
-    return timeline.medicines[burden.active[p.active].medicine].uses[p.use];
-  };
-  std::stable_sort(products.begin(), products.end(), [&](const ActiveProduct& x, const ActiveProduct& y) {
-    const DispensingUse& ux = use_of(x);
-    const DispensingUse& uy = use_of(y);
-    return ux.dispensed_on != uy.dispensed_on ? ux.dispensed_on > uy.dispensed_on : ux.record > uy.record;
-  });
-  std::vector<ActiveProduct> together = {products.front()};
-  const Date since = products.front().chain_start;
-  for (size_t i = 1; i < products.size(); ++i) {
-    if (use_of(products[i]).dispensed_on >= since) together.push_back(products[i]);
-  }
-  return together;
-}
-
-// The DBI dose of one ingredient: the sum over its products taken together, or nullopt
-// when any of their doses is unknown.
-std::optional<DbiContribution> IngredientDose(const Timeline& timeline, const Burden& burden,
-                                              const std::string& ingredient,
-                                              const std::vector<ActiveProduct>& products) {
-  DbiContribution total;
-  total.ingredient = ingredient;
-  for (const ActiveProduct& product : products) {
-    const size_t medicine = burden.active[product.active].medicine;
-    auto dose = DailyDose(timeline.medicines[medicine].uses[product.use], ingredient);
-    if (!dose) return std::nullopt;
-    dose->medicine = medicine;
-    dose->use = product.use;
-    total.dose_mg_per_day += dose->dose_mg_per_day;
-    total.supply_assumed = total.supply_assumed || dose->supply_assumed;
-    total.as_needed_max = total.as_needed_max || dose->as_needed_max;
-    total.sources.push_back(*dose);
-  }
-  if (total.sources.empty()) return std::nullopt;
-  total.basis = total.sources.front().basis;
-  return total;
-}
-
 void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const MeasureOptions& options,
                   Burden& burden) {
   for (const auto& [ingredient, owner] : IngredientOwners(timeline, tables, burden.active)) {
@@ -296,9 +139,11 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const Me
       }
       continue;
     }
-    const auto products = ProductsTakenTogether(timeline, burden, tables, ingredient, burden.on, options);
-    if (products.empty()) continue;  // only on routes the DBI does not count
-    auto dose = IngredientDose(timeline, burden, ingredient, products);
+    bool counted = false;
+    size_t dose_owner = owner;
+    auto dose = burden_internal::IngredientDbiDose(timeline, burden, tables, ingredient, options, counted,
+                                                   dose_owner);
+    if (!counted) continue;  // only on routes the DBI does not count
     if (!dose) {
       burden.dbi_incomplete.push_back(ingredient);
       continue;
@@ -307,7 +152,7 @@ void ScoreAndDose(const Timeline& timeline, const BurdenTables& tables, const Me
     dose->min_daily_dose_mg = entry->min_daily_dose_mg;
     dose->value = dose->dose_mg_per_day / (dose->dose_mg_per_day + entry->min_daily_dose_mg);
     burden.dbi += dose->value;
-    burden.active[products.front().active].dbi += dose->value;
+    burden.active[dose_owner].dbi += dose->value;
     burden.dbi_contributions.push_back(std::move(*dose));
   }
   std::stable_sort(burden.score_contributions.begin(), burden.score_contributions.end(),

@@ -32,13 +32,20 @@ namespace longitudinal_internal {
 namespace {
 
 // The milligrams a dispensing supplied of `ingredient`: quantity x strength per unit, or
-// for a rate strength (a patch) mg per day x days of supply. nullopt when not known.
-std::optional<double> MilligramsSupplied(const DispensingUse& use, const std::string& ingredient) {
+// for a rate strength (a patch) mg per day x days of supply, or for a patch whose
+// strength is its content what it releases (unit_doses.csv: rate x interval a patch).
+// nullopt when not known.
+std::optional<double> MilligramsSupplied(const DispensingUse& use, const std::string& ingredient,
+                                         const BurdenTables& tables) {
   if (!use.ingredients) return std::nullopt;
   for (const ResolvedIngredient& resolved : *use.ingredients) {
     if (resolved.ingredient != ingredient) continue;
     double mg = 0;
-    if (resolved.mg_per_unit) mg = *resolved.mg_per_unit * use.quantity;
+    const UnitDoseRow* patch = use.route == Route::kTransdermal && resolved.mg_per_unit
+                                   ? tables.UnitDose(ingredient, UnitDoseForm::kPatch, *resolved.mg_per_unit)
+                                   : nullptr;
+    if (patch != nullptr) mg = *patch->release_mg_per_day * patch->interval_days * use.quantity;
+    else if (resolved.mg_per_unit) mg = *resolved.mg_per_unit * use.quantity;
     else if (resolved.mg_per_day) mg = *resolved.mg_per_day * use.supply.days;
     else return std::nullopt;
     if (!std::isfinite(mg) || mg < 0) return std::nullopt;
@@ -63,8 +70,8 @@ void AddExposure(const Timeline& timeline, const BurdenTables& tables, const Mea
       if (dose == tables.tsdd_doses.end()) continue;
       for (const DispensingUse& use : medicine.uses) {
         if (use.dispensed_on > on) break;  // uses are in date order
-        if ((measures.tsdd_from && use.dispensed_on < *measures.tsdd_from) || !SystemicRoute(use.route)) continue;
-        const std::optional<double> mg = MilligramsSupplied(use, ingredient);
+        if ((measures.tsdd_from && use.dispensed_on < *measures.tsdd_from) || !SystemicRoute(tables, use.route)) continue;
+        const std::optional<double> mg = MilligramsSupplied(use, ingredient, tables);
         if (!mg) {
           incomplete.insert(ingredient);
           continue;

@@ -9,18 +9,10 @@ namespace medload {
 
 namespace longitudinal_internal {
 
-bool SystemicRoute(Route route) {
-  switch (route) {
-    case Route::kUnknown:
-    case Route::kOral:
-    case Route::kTransdermal:
-    case Route::kInjection:
-    case Route::kRectal:
-    case Route::kSublingualBuccal:
-      return true;
-    default:
-      return false;
-  }
+bool SystemicRoute(const BurdenTables& tables, Route route) {
+  RouteSet in_use;
+  in_use.Add(route);
+  return RoutesCount(in_use, tables.systemic_routes);
 }
 
 }  // namespace longitudinal_internal

@@ -17,9 +17,10 @@ void AddExposure(const Timeline& timeline, const BurdenTables& tables, const Mea
 void AddAdherence(const Timeline& timeline, const BurdenTables& tables, const MeasureOptions& options,
                   Burden& burden);
 
-// True for the routes the measures count as systemic by default (product specification,
-// Routes: oral, transdermal, injection, rectal, sublingual/buccal) and for a route not
-// stated (never lose a medicine silently).
-bool SystemicRoute(Route route);
+// True for the routes the formulary's route policy counts (tables.systemic_routes, from
+// routes.csv: the same policy as the scales and the DBI; by default oral, transdermal,
+// injection, rectal, sublingual/buccal) and for a route not stated (never lose a
+// medicine silently).
+bool SystemicRoute(const BurdenTables& tables, Route route);
 
 }  // namespace medload::longitudinal_internal

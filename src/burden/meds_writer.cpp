@@ -205,6 +205,10 @@ std::vector<std::string> MedsWarnings(const MedsModel& model) {
       warnings.push_back("The Drug Burden Index dose of " + c.ingredient +
                          " is the as-needed maximum of its instruction, not a dose known to be taken.");
     }
+    if (c.range_upper) {
+      warnings.push_back("The Drug Burden Index dose of " + c.ingredient +
+                         " takes the upper value of a range in its instruction (\"1-2\"): the patient may take less.");
+    }
   }
   for (const Row& row : Rows(model)) {
     if (row.latest->supply.rule == SupplyRule::kDefaultDays) {
@@ -282,12 +286,14 @@ nlohmann::json MedsJson(const MedsModel& model) {
       const DispensingUse& use = model.timeline->medicines[source.medicine].uses[source.use];
       sources.push_back({{"product", ProductText(model, use)}, {"dispensed", use.dispensed_on.ToIso()},
                          {"dose_mg_per_day", source.dose_mg_per_day}, {"basis", DoseBasisName(source.basis)},
-                         {"as_needed_max", source.as_needed_max}});
+                         {"as_needed_max", source.as_needed_max}, {"range_upper", source.range_upper},
+                         {"staged", source.staged}});
     }
     dbi.push_back({{"ingredient", c.ingredient}, {"dose_mg_per_day", c.dose_mg_per_day},
                    {"min_daily_dose_mg", c.min_daily_dose_mg}, {"value", c.value},
                    {"basis", DoseBasisName(c.basis)}, {"supply_assumed", c.supply_assumed},
-                   {"as_needed_max", c.as_needed_max}, {"sources", sources}});
+                   {"as_needed_max", c.as_needed_max}, {"range_upper", c.range_upper}, {"staged", c.staged},
+                   {"mark", DoseBasisMark(c)}, {"sources", sources}});
   }
   nlohmann::json unmatched = nlohmann::json::array();
   for (const UnmatchedProduct* product : RecentUnmatched(model)) unmatched.push_back(product->product);
@@ -465,6 +471,9 @@ void WriteMedsCsv(std::ostream& out, const MedsModel& model) {
   WriteCsvComment(out, SystemicRoutesSentence(model));
   for (const std::string& line : LongitudinalLines(*model.timeline, *model.burden)) WriteCsvComment(out, line);
   if (model.trajectory) WriteCsvComment(out, "change: " + TrajectoryText(*model.trajectory, ScaleLabel(model)));
+  for (const auto& c : model.burden->dbi_contributions) {
+    if (const std::string mark = DoseBasisMark(c); !mark.empty()) WriteCsvComment(out, "dbi " + c.ingredient + ":" + mark);
+  }
   out << CsvRow({"patient", "on", "medicine", "ingredients", "since", "until", "in_tail", "last_dispensed",
                  "product", "route", "supply_days", "supply_rule", "dosage", "dosage_read", "scale", "score", "dbi",
                  "classes", "not_counted", "falls_risk", "pdc", "pdc_dispensings"});

@@ -1,6 +1,7 @@
 #include "medload/burden/tables.h"
 
 #include <algorithm>
+#include <cmath>
 
 #include "medload/burden/longitudinal.h"
 #include "medload/formulary/formulary.h"
@@ -35,6 +36,28 @@ const Rule* BurdenTables::FindRule(const std::string& id) const {
     if (rule.id == id) return &rule;
   }
   return nullptr;
+}
+
+const UnitDoseRow* BurdenTables::UnitDose(const std::string& ingredient, UnitDoseForm form,
+                                          double strength_mg) const {
+  const auto it = unit_doses.find(ingredient);
+  if (it == unit_doses.end()) return nullptr;
+  const UnitDoseRow* any = nullptr;
+  for (const UnitDoseRow& row : it->second) {
+    if (row.form != form) continue;
+    if (!row.strength_mg) {
+      any = &row;
+    } else if (std::abs(*row.strength_mg - strength_mg) <= 1e-6 * std::max(1.0, strength_mg)) {
+      return &row;
+    }
+  }
+  return any;
+}
+
+bool BurdenTables::HasUnitDoses(const std::string& ingredient, UnitDoseForm form) const {
+  const auto it = unit_doses.find(ingredient);
+  return it != unit_doses.end() &&
+         std::any_of(it->second.begin(), it->second.end(), [&](const UnitDoseRow& row) { return row.form == form; });
 }
 
 RouteSet BurdenTables::ScaleRoutes(const std::string& ingredient, const std::string& scale_name) const {
@@ -85,6 +108,12 @@ BurdenTables TablesFromFormulary(const Formulary& formulary, const std::string& 
   for (const DbiClass& row : formulary.tables().dbi_classes) tables.dbi_classes.push_back(row.class_name);
   tables.rules = formulary.rules();
   tables.systemic_routes = RouteSet(formulary.SystemicRoutes());
+  for (const UnitDoseRow& row : formulary.tables().unit_doses) {
+    const Ingredient* ingredient = formulary.FindIngredient(row.ingredient);
+    UnitDoseRow canonical = row;
+    if (ingredient != nullptr) canonical.ingredient = ingredient->name;
+    tables.unit_doses[canonical.ingredient].push_back(std::move(canonical));
+  }
   AddLongitudinalTables(formulary, tables);
   return tables;
 }

@@ -1,8 +1,12 @@
 #include "medload/burden/timeline.h"
 
 #include "medload/core/data_coverage.h"
+#include "medload/dose/dose_unit.h"
+#include "medload/dose/pack_content.h"
+#include "medload/formulary/resolver.h"
 
 #include <algorithm>
+#include <cmath>
 #include <iterator>
 #include <map>
 
@@ -89,15 +93,41 @@ struct ProductGroups {
   const ResolvedProduct* product = nullptr;
   // key, ingredients
   std::vector<std::pair<std::string, std::shared_ptr<const std::vector<ResolvedIngredient>>>> groups;
+  std::optional<double> units_per_container;  // DispensingUse::units_per_container
 };
 
+// Units of the quantity in one ampoule, syringe or vial of an injection: the ml of one
+// ("40mg/2ml", "20mg/ml 2ml ampoules") when the dose unit is ml, else 1; empty when an
+// ml product does not say how much one holds, and for anything but an injection.
+std::optional<double> UnitsPerContainer(const ResolvedProduct& product, std::string_view description) {
+  if (product.route != Route::kInjection) return std::nullopt;
+  if (product.dose_unit != "ml") return 1.0;
+  for (const Strength& strength : ParseStrengths(NormaliseText(description))) {
+    if (strength.per == "ml" && strength.per_amount != 1 && strength.per_amount > 0) return strength.per_amount;
+  }
+  const PackContent pack = ReadPackContent(description);
+  if (pack.ml && *pack.ml > 0) return pack.ml;
+  return std::nullopt;
+}
+
+// A depot's quantity in whole ampoules or syringes for its supply per unit, whatever
+// volume is recorded: a quantity in ml (or without a unit that does not look like a count
+// of containers, LooksLikeContainers) is divided by the ml one holds.
+double ContainersOf(double quantity, const DispensingRecord& record, std::optional<double> per_container) {
+  if (!per_container || *per_container == 1 || !(quantity > 0)) return quantity;
+  const bool ml = record.unit.empty() ? !LooksLikeContainers(quantity, *per_container)
+                                      : ReadDoseUnit(record.unit) && ReadDoseUnit(record.unit)->name == "ml";
+  return ml ? std::ceil(quantity / *per_container - 1e-9) : quantity;
+}
+
 const ProductGroups& GroupsOf(std::vector<ProductGroups>& seen, const ResolvedProduct& product,
-                              CountBy count_by) {
+                              std::string_view description, CountBy count_by) {
   for (const ProductGroups& entry : seen) {
     if (entry.product == &product) return entry;
   }
   ProductGroups& entry = seen.emplace_back();
   entry.product = &product;
+  entry.units_per_container = UnitsPerContainer(product, description);
   for (auto& group : Groups(product, count_by)) {
     std::string key = KeyOf(group);
     entry.groups.emplace_back(std::move(key),
@@ -151,10 +181,11 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
                                record.unit.empty(), record.product, product.form,
                                product.ingredients.size()};
     if (product.ingredients.size() == 1) quantity_unit.mg_per_unit = product.ingredients[0].mg_per_unit;
+    const ProductGroups& grouped = GroupsOf(product_groups, product, record.product, options.count_by);
+    const double units = ContainersOf(record.quantity, record, grouped.units_per_container);
     const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,
-                                        ProductDefaultSupplyDays(product, record.quantity), options.supply,
-                                        quantity_unit);
-    const auto& groups = GroupsOf(product_groups, product, options.count_by).groups;
+                                        ProductDefaultSupplyDays(product, units), options.supply, quantity_unit);
+    const auto& groups = grouped.groups;
     for (size_t g = 0; g < groups.size(); ++g) {
       const auto& [key, ingredients] = groups[g];
       Medicine& medicine = medicines[key];
@@ -165,7 +196,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
       // The reading is moved into the last group's use (most products have one group).
       medicine.uses.push_back(DispensingUse{i, record.dispensed_on, record.quantity, supply,
                                             g + 1 == groups.size() ? std::move(dosage) : dosage,
-                                            product.route, ingredients});
+                                            product.route, ingredients, grouped.units_per_container});
     }
   }
   for (auto& [key, medicine] : medicines) {

@@ -23,6 +23,8 @@ struct Part {
   bool except_days = false;      // the weekdays are the days left out
   bool meals = false;
   double multiplier = 1;         // "each eye": 2
+  bool ranged_amount = false;    // the amount is a range's upper value ("1-2 tablets")
+  bool ranged_count = false;     // the count is ("2-3 times", "once or twice daily")
 };
 
 // "max 8 in 24 hours", "up to four times a day", "maximum 4 doses a day".
@@ -90,7 +92,9 @@ class Assembler {
     double regular = 0;     // units per day of the timed doses
     bool timed = false;     // at least one dose had a timing
     bool left_out = false;  // a dose had no timing
+    bool ranged = false;    // a timed dose counted a range's upper value
     std::optional<double> first_dose;
+    bool first_ranged = false;  // first_dose is a range's upper value
   };
   struct Limits {
     std::optional<double> units;           // at most this many units a day
@@ -128,6 +132,7 @@ void Assembler::Add(const Item& item) {
     case ItemKind::kAmount:
       if (part_.amount) StartPart();
       part_.amount = item.value;
+      part_.ranged_amount = item.ranged;
       break;
     case ItemKind::kUnit:
       if (part_.unit.empty()) {
@@ -138,6 +143,7 @@ void Assembler::Add(const Item& item) {
     case ItemKind::kCount:
       // "once or twice daily": a second count before the period is a range's upper value.
       if (!part_.count || !part_.period) {
+        part_.ranged_count = part_.ranged_count || item.ranged || (part_.count && *part_.count != item.value);
         part_.count = std::max(part_.count.value_or(0), item.value);
       }
       break;
@@ -320,8 +326,12 @@ Assembler::PartsSum Assembler::SumParts(const Group& group, std::string_view uni
       Note("an amount too large to be a dose");
       continue;
     }
-    if (part.amount && !sum.first_dose) sum.first_dose = dose;
-    auto rate = Rate(part);
+    if (part.amount && !sum.first_dose) {
+      sum.first_dose = dose;
+      sum.first_ranged = part.ranged_amount;
+    }
+    const std::optional<double> own_rate = Rate(part);
+    std::optional<double> rate = own_rate;
     if (!rate) rate = max_rate;
     if (!rate && (group.one_day || group.daily) && part.amount) rate = 1;
     if (!rate) {
@@ -330,6 +340,7 @@ Assembler::PartsSum Assembler::SumParts(const Group& group, std::string_view uni
     }
     sum.regular += dose * *rate;
     sum.timed = true;
+    sum.ranged = sum.ranged || part.ranged_amount || (part.ranged_count && own_rate);
   }
   return sum;
 }
@@ -346,20 +357,28 @@ GroupReading Assembler::Evaluate(const Group& group) {
   result.one_off = group.one_day && std::none_of(group.parts.begin(), group.parts.end(), HasTiming);
   Limits limits = MaximumPerDay(group, result.unit);
   const PartsSum sum = SumParts(group, result.unit, limits.administrations);
+  // Whether the limit on units comes from the first dose x the most administrations.
+  bool units_by_count = false;
   if (limits.administrations) {
     const double by_count = sum.first_dose.value_or(1) * *limits.administrations;
+    units_by_count = !limits.units || by_count <= *limits.units;
     limits.units = limits.units ? std::min(*limits.units, by_count) : by_count;
   }
+  const bool limit_ranged = units_by_count && sum.first_ranged;
   // A dose left without a frequency matters unless an as-needed maximum sets the amount.
   out_.left_out = out_.left_out || (sum.left_out && !(out_.as_needed && limits.units));
   if (out_.as_needed) {
     result.units_per_day = limits.units ? limits.units
                            : sum.timed  ? std::optional(sum.regular)
                                         : std::nullopt;
+    result.range_upper = limits.units ? limit_ranged : sum.ranged;
   } else if (sum.timed) {
-    result.units_per_day = limits.units ? std::min(sum.regular, *limits.units) : sum.regular;
+    const bool limited = limits.units && *limits.units < sum.regular;
+    result.units_per_day = limited ? *limits.units : sum.regular;
+    result.range_upper = limited ? limit_ranged : sum.ranged;
   } else {
     result.units_per_day = limits.units;
+    result.range_upper = limit_ranged;
   }
   return result;
 }

@@ -20,6 +20,7 @@ struct GroupReading {
   bool one_off = false;                 // a dose on one day only ("2 stat", "on day 1")
   bool stop = false;                    // "then stop": nothing is taken from here on
   bool has_dose = false;                // an amount, a timing or a maximum was written
+  bool range_upper = false;             // units_per_day counts the upper value of a range
 };
 
 struct AssembledDosage {

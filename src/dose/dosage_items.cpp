@@ -54,6 +54,12 @@ class Recogniser {
     i_ = next;
   }
 
+  // An amount or a count: the upper value of `range`, marked when it is a range.
+  void EmitUpper(ItemKind kind, size_t next, const Range& range) {
+    Emit(kind, next, range.high);
+    items_.back().ranged = range.high > range.low;
+  }
+
   // A single number: digits, fractions ("1/2", "1 1/2"), words ("one", "twenty four",
   // "half a", "a half", "one and a half").
   std::optional<Number> NumberAt(size_t k) const {
@@ -262,7 +268,7 @@ class Recogniser {
           Word(range->next, "/")) {  // "x 28/7" is a duration
         return false;
       }
-      Emit(ItemKind::kCount, range->next, range->high);
+      EmitUpper(ItemKind::kCount, range->next, *range);
       return true;
     }
     const auto range = RangeAt(i_);
@@ -275,7 +281,7 @@ class Recogniser {
       const auto phrase = MatchDosagePhrase(t_, next + 1);
       if (phrase && phrase->item.kind == ItemKind::kFrequency) return false;
     }
-    Emit(ItemKind::kCount, next + 1, range->high);
+    EmitUpper(ItemKind::kCount, next + 1, *range);
     return true;
   }
 
@@ -400,7 +406,7 @@ class Recogniser {
       i_ = range->next;
       return true;
     }
-    Emit(ItemKind::kAmount, range->next, range->high);
+    EmitUpper(ItemKind::kAmount, range->next, *range);
     return true;
   }
 

@@ -48,6 +48,7 @@ struct Item {
   bool unusable_amount = false;  // kUnknown: a number too large for a dose (the dose is unusable)
   bool as_needed = false;        // kMaximum: "up to" also makes the dose as needed
   bool daily = false;            // kStageMark: a dose under the label without a timing is daily
+  bool ranged = false;           // kAmount, kCount: the upper value of a range ("1-2", "2-3 times")
 };
 
 // Amounts above this are not doses (hostile or mistyped numbers): read as unknown.

@@ -145,6 +145,7 @@ void ReadGroups(AssembledDosage& assembled, DosageReading& reading) {
     reading.unit = std::string(unit);
     if (stages->size() >= 2) {
       reading.units_per_day = stages->front().units_per_day;
+      reading.range_upper = std::any_of(kept.begin(), kept.end(), [](const GroupReading& g) { return g.range_upper; });
       reading.stages = std::move(*stages);
       AddNote(assembled.notes, "the dose changes: read in " + std::to_string(reading.stages.size()) +
                                    " stages, the first one's units per day shown");
@@ -156,6 +157,7 @@ void ReadGroups(AssembledDosage& assembled, DosageReading& reading) {
     return;
   }
   reading.units_per_day = first.units_per_day;
+  reading.range_upper = first.range_upper;
 }
 
 DosageReading Finish(AssembledDosage assembled, bool truncated) {
@@ -179,6 +181,7 @@ DosageReading Finish(AssembledDosage assembled, bool truncated) {
     AddNote(notes, "a dose of zero");
   }
   if (!reading.units_per_day) {
+    reading.range_upper = false;
     AddNote(notes, assembled.as_directed ? "as directed: no amount per day is given"
                    : assembled.as_needed ? "as needed with no frequency or maximum"
                                          : "no usable dose and frequency found");

@@ -5,6 +5,7 @@
 
 #include "formulary/longitudinal_tables.h"
 #include "formulary/name_index.h"
+#include "formulary/unit_dose_table.h"
 #include "formulary/table_files.h"
 #include "formulary/table_reader.h"
 #include "medload/formulary/formulary.h"
@@ -229,6 +230,7 @@ void CheckTables(const FormularyTables& tables, std::vector<std::string>& faults
   CheckNonMedicines(formulary, faults);
   CheckRules(formulary, faults);
   formulary_internal::CheckLongitudinalTables(formulary, faults);
+  formulary_internal::CheckUnitDoses(formulary, faults);
 }
 
 FormularyCheck CheckFormulary(const std::string& dir) {
@@ -250,6 +252,7 @@ FormularyCheck CheckFormulary(const std::string& dir) {
   check.routes = tables.routes.size();
   check.tsdd_rows = tables.tsdd.size();
   check.falls_risk_rows = tables.falls_risk.size();
+  check.unit_dose_rows = tables.unit_doses.size();
   return check;
 }
 

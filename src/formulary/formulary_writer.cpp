@@ -34,6 +34,7 @@ std::vector<std::pair<std::string, std::string>> CheckCounts(const FormularyChec
           {"rules", std::to_string(check.rules)},
           {"routes", std::to_string(check.routes)},
           {"tsdd rows", std::to_string(check.tsdd_rows)},
+          {"unit dose rows", std::to_string(check.unit_dose_rows)},
           {"falls-risk rows", std::to_string(check.falls_risk_rows)},
           {"checksum", check.checksum}};
 }

@@ -11,6 +11,7 @@
 #include "formulary/longitudinal_tables.h"
 #include "medload/core/text.h"
 #include "formulary/table_reader.h"
+#include "formulary/unit_dose_table.h"
 #include "medload/core/hash.h"
 #include "medload/formulary/resolver.h"
 #include "medload/formulary/route_policy.h"
@@ -426,6 +427,9 @@ FormularyTables ReadTableFiles(const std::string& dir_name, std::vector<std::str
                 [&](const Table& t) { ReadTsdd(t, tables, faults); });
   ReadTableFile(dir, kFallsRiskFile, false, {"category", "class", "ingredient", "source"}, files, faults,
                 [&](const Table& t) { ReadFallsRisk(t, tables, faults); });
+  ReadTableFile(dir, kUnitDosesFile, false,
+                {"ingredient", "form", "strength_mg", "release_mg_per_day", "interval_days", "source"}, files, faults,
+                [&](const Table& t) { ReadUnitDoses(t, tables, faults); });
   tables.checksum = Checksum(std::move(files));
   return tables;
 }

@@ -259,7 +259,9 @@ TEST_CASE("a dose from an as-needed maximum is marked as such") {
   REQUIRE(b.dbi_contributions.size() == 1);
   CHECK(b.dbi_contributions[0].as_needed_max);
   CHECK(b.dbi_contributions[0].dose_mg_per_day == doctest::Approx(40));
-  CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (as-needed maximum)");
+  // "one or two": the 8 a day counts two at a time, the upper value of the range.
+  CHECK(b.dbi_contributions[0].range_upper);
+  CHECK(DoseBasisMark(b.dbi_contributions[0]) == " (as-needed maximum; upper value of a range)");
 }
 
 TEST_CASE("a sedative class member without a minimum dose is listed as incomplete, never a silent 0") {

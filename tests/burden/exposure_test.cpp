@@ -102,6 +102,39 @@ TEST_CASE("a dispensing with no known strength is listed, not counted; an eye dr
   CHECK(m.tsdd_contributions.empty());
 }
 
+TEST_CASE("TSDDs follow the formulary's route policy: an eye drop counts only where the policy counts eyes") {
+  // Product specification section 5, Routes: the formulary says which routes count.
+  // Atropine 1% is 10 mg/ml; 10 ml = 100 mg; minimum effective dose 0.4 mg (from memory):
+  // 250 TSDDs once eye drops count (Gray et al. 2015: quantity x strength / dose).
+  LongitudinalFixture f;
+  const std::vector<DispensingRecord> records = {Rx("atropine 1% eye drops", D(2024, 1, 1), 10, 28)};
+  CHECK(f.On(records, D(2024, 2, 1)).tsdd == doctest::Approx(0));
+  f.tables.systemic_routes.Add(Route::kEye);
+  CHECK(f.On(records, D(2024, 2, 1)).tsdd == doctest::Approx(250));
+  // Oral taken out of the policy: oxybutynin tablets add nothing either.
+  f.tables.systemic_routes = RouteSet(std::vector<Route>{Route::kTransdermal});
+  CHECK(f.On({Rx("oxybutynin 5mg tablets", D(2024, 1, 1), 28, 28)}, D(2024, 2, 1)).tsdd == doctest::Approx(0));
+}
+
+TEST_CASE("a patch whose strength is its content supplies what it releases, not what it holds") {
+  // A 1.5 mg hyoscine patch releases about 1 mg over 72 hours (Scopoderm SPC, from
+  // memory): 4 patches supply 4 mg, 10 TSDDs at a 0.4 mg minimum effective dose (from
+  // memory), not 6 mg and 15 (Gray et al. 2015: mg supplied / dose).
+  LongitudinalFixture f;
+  f.products["hyoscine 1.5mg patch"] = testing::Made({{"hyoscine hydrobromide", 1.5, {}}}, Route::kTransdermal);
+  f.tables.tsdd_doses["hyoscine hydrobromide"] = 0.4;
+  const std::vector<DispensingRecord> records = {Rx("hyoscine 1.5mg patch", D(2024, 1, 1), 4, 12)};
+  CHECK(f.On(records, D(2024, 1, 20)).tsdd == doctest::Approx(15));
+  UnitDoseRow row;
+  row.form = UnitDoseForm::kPatch;
+  row.strength_mg = 1.5;
+  row.release_mg_per_day = 1.0 / 3;
+  row.interval_days = 3;
+  row.source = "test";
+  f.tables.unit_doses["hyoscine hydrobromide"] = {row};
+  CHECK(f.On(records, D(2024, 1, 20)).tsdd == doctest::Approx(10));
+}
+
 TEST_CASE("the years before a date start the day after the same calendar day") {
   CHECK(YearsBefore(D(2024, 6, 1), 1) == D(2023, 6, 2));
   CHECK(YearsBefore(D(2024, 2, 29), 1) == D(2023, 3, 1));  // from 28 Feb 2023, plus one day

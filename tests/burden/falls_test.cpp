@@ -51,6 +51,20 @@ TEST_CASE("only medicines active on the date count, including in their tail") {
   CHECK(f.On(records, D(2024, 1, 29)).falls == 0);   // after the tail
 }
 
+TEST_CASE("falls-risk counts follow the formulary's route policy, not a list of their own") {
+  // Product specification section 5, Routes: the formulary says which routes count. With
+  // skin added to routes.csv's systemic routes the doxepin cream counts; with oral taken
+  // out the diazepam tablets no longer do (the rectal tubes still would).
+  LongitudinalFixture f;
+  const std::vector<DispensingRecord> records = {Rx("diazepam 5mg tablets", D(2024, 3, 1), 28, 28),
+                                                 Rx("doxepin 5% cream", D(2024, 3, 1), 1, 28)};
+  CHECK(f.On(records, D(2024, 3, 10)).falls == 1);
+  f.tables.systemic_routes.Add(Route::kSkin);
+  CHECK(f.On(records, D(2024, 3, 10)).falls == 2);
+  f.tables.systemic_routes = RouteSet(std::vector<Route>{Route::kRectal});
+  CHECK(f.On(records, D(2024, 3, 10)).falls == 0);
+}
+
 TEST_CASE("without a falls-risk table nothing counts") {
   LongitudinalFixture f;
   f.tables.falls_categories.clear();

@@ -293,6 +293,39 @@ TEST_CASE("a cut in the middle of a UTF-8 sequence at the cap is not split") {
   CHECK(reading.note.find("\xE2\x98") == std::string::npos);
 }
 
+TEST_CASE("a reading that counts the upper value of a range says so") {
+  // Product specification section 5: a dose range uses its upper value; the reading
+  // marks it so that the Drug Burden Index can say the dose may be less (common practice).
+  struct Case {
+    const char* text;
+    double units_per_day;
+    bool range_upper;
+  };
+  const Case cases[] = {
+      {"1-2 tablets at night", 2, true},
+      {"one or two tablets twice a day", 4, true},
+      {"1 to 2 tablets three times a day", 6, true},
+      {"one tablet once or twice daily", 2, true},
+      {"one tablet 2-3 times a day", 3, true},
+      {"2.5ml to 5ml three times a day", 15, true},
+      {"one tablet twice a day", 2, false},
+      {"2 tablets at night", 2, false},
+      {"one up to four times a day when required", 4, false},
+      {"1-2 tablets up to four times a day when required", 8, true},
+      {"1-2 tablets when required, max 6 a day", 6, false},
+      {"2 tablets 2-3 times a day, max 4 tablets a day", 4, false},
+      {"1-2 daily for 7 days then 1 daily", 2, true},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.text);
+    const DosageReading reading = ReadDosageText(c.text);
+    REQUIRE(reading.units_per_day.has_value());
+    CHECK(*reading.units_per_day == doctest::Approx(c.units_per_day));
+    CHECK(reading.range_upper == c.range_upper);
+  }
+  CHECK_FALSE(ReadDosageText("1-2 tablets as directed").range_upper);
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

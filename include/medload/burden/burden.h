@@ -42,6 +42,8 @@ enum class DoseBasis {
   kRateStrength,   // a rate strength (patch per hour / per 24 hours)
   kDosage,         // strength x units per day from the dosage instruction
   kQuantity,       // strength x quantity / days of supply
+  kPatchRelease,   // a patch's labelled release rate (unit_doses.csv), not its content
+  kDepotInterval,  // a depot's strength per ampoule or syringe / its labelled interval
 };
 
 // One product's daily dose within an ingredient's DBI dose.
@@ -51,6 +53,8 @@ struct DoseSource {
   double dose_mg_per_day = 0;
   DoseBasis basis = DoseBasis::kDosage;
   bool as_needed_max = false;   // the units per day are an as-needed instruction's maximum
+  bool range_upper = false;     // the units per day take the upper value of a range ("1-2")
+  bool staged = false;          // a changing dose: the units per day of the stage in force on D
   bool supply_assumed = false;  // the days of supply came from a default, not the record
 };
 
@@ -62,6 +66,8 @@ struct DbiContribution {
   DoseBasis basis = DoseBasis::kDosage;  // of the most recently dispensed product
   bool supply_assumed = false; // some source's days of supply came from a default
   bool as_needed_max = false;  // some source's dose is an as-needed maximum
+  bool range_upper = false;    // some source's dose is the upper value of a range
+  bool staged = false;         // some source's dose is a changing dose's stage on D
   // The products taken together: the most recently dispensed first, then every other
   // active product of the ingredient dispensed again since that product's run began.
   std::vector<DoseSource> sources;
@@ -95,7 +101,8 @@ struct Burden {
 std::string_view DoseBasisName(DoseBasis basis);
 
 // What a reader must know about how a DBI dose was reached, as a bracketed phrase to
-// append (" (as-needed maximum)", " (2 products summed)"), or "" when nothing needs saying.
+// append (" (as-needed maximum)", " (upper value of a range)", " (2 products summed)"),
+// or "" when nothing needs saying.
 std::string DoseBasisMark(const DbiContribution& contribution);
 
 // Which medicines may meet which rule requirements: one flag per medicine of `timeline`

@@ -12,6 +12,7 @@
 
 #include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
+#include "medload/formulary/unit_doses.h"
 
 namespace medload {
 
@@ -42,6 +43,8 @@ struct BurdenTables {
   // (falls_risk.csv, classes expanded to their ingredients).
   std::unordered_map<std::string, double> tsdd_doses;
   std::unordered_map<std::string, std::vector<std::string>> falls_categories;
+  // Patches and depot injections per unit (unit_doses.csv): canonical ingredient -> rows.
+  std::unordered_map<std::string, std::vector<UnitDoseRow>> unit_doses;
 
   // The score of `ingredient` on `scale_name` (0 when absent or the scale is unknown).
   int Score(const std::string& ingredient, const std::string& scale_name) const;
@@ -51,6 +54,11 @@ struct BurdenTables {
   // Whether the ingredient is in a class of dbi_classes (whatever `dbi` holds for it).
   bool InDbiClass(const std::string& ingredient) const;
   const Rule* FindRule(const std::string& id) const;
+  // The unit_doses row of `ingredient` as `form` whose strength is `strength_mg` (within
+  // a millionth), else its row for any strength; nullptr when neither exists.
+  const UnitDoseRow* UnitDose(const std::string& ingredient, UnitDoseForm form, double strength_mg) const;
+  // Whether unit_doses lists `ingredient` as `form` at any strength.
+  bool HasUnitDoses(const std::string& ingredient, UnitDoseForm form) const;
 
   // The routes on which `ingredient`'s score on `scale_name` counts, its DBI counts, or
   // `rule` counts medicines.

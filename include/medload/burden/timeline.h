@@ -30,6 +30,10 @@ struct DispensingUse {
   // This medicine's ingredients, with strengths; shared by the uses of one product in a
   // timeline (a history repeats a few products many times).
   std::shared_ptr<const std::vector<ResolvedIngredient>> ingredients;
+  // For an injection: units of the quantity in one ampoule, syringe or vial (the ml one
+  // holds when the strength is per ml: "40mg/2ml" or "2ml ampoule" -> 2; else 1); empty
+  // when not known or not an injection. Depot doses and supplies count whole units.
+  std::optional<double> units_per_container;
 };
 
 // The text of field `field` of the record `use` came from ("" when `records` does not

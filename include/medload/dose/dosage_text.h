@@ -31,6 +31,9 @@ struct DosageReading {
   // first stage's units per day (the dose on the day of dispensing), never the highest.
   std::optional<double> units_per_day;
   bool as_needed = false;               // "when required", "prn", "as needed", "up to", ...
+  // Some dose or frequency counted in units_per_day (or a stage) is the upper value of a
+  // range ("1-2 tablets", "one or two", "once or twice daily"): more than may be taken.
+  bool range_upper = false;
   std::string unit;                     // "tablet", "ml", "puff", ... or empty if not said
   Understanding understanding = Understanding::kEmpty;
   std::string note;                     // what was not understood, for explanations

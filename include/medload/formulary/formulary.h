@@ -17,6 +17,7 @@
 #include "medload/formulary/product.h"
 #include "medload/formulary/route_policy.h"
 #include "medload/formulary/rules.h"
+#include "medload/formulary/unit_doses.h"
 
 namespace medload {
 
@@ -145,6 +146,7 @@ struct FormularyTables {
   std::vector<RouteRow> routes;            // routes.csv; routes it does not list keep the default
   std::vector<TsddDose> tsdd;              // anticholinergic/tsdd.csv (optional file)
   std::vector<FallsRiskRow> falls_risk;    // falls_risk.csv (optional file)
+  std::vector<UnitDoseRow> unit_doses;     // unit_doses.csv (optional file)
   std::string checksum;                    // SHA-256 (hex) of all files read; may be empty
 };
 
@@ -224,7 +226,7 @@ struct FormularyCheck {
   size_t ingredients = 0, synonyms = 0, scales = 0, scale_rows = 0, dbi_rows = 0,
          products = 0, brands = 0, dictionary_rows = 0, codes = 0, non_medicine_terms = 0,
          rules = 0, routes = 0;
-  size_t tsdd_rows = 0, falls_risk_rows = 0;
+  size_t tsdd_rows = 0, falls_risk_rows = 0, unit_dose_rows = 0;
   std::string checksum;
   bool ok() const { return faults.empty(); }
 };
