@@ -181,6 +181,7 @@ Timeline BuildTimeline(std::span<const DispensingRecord> records, const ResolveF
                                record.unit.empty(), record.product, product.form,
                                product.ingredients.size()};
     if (product.ingredients.size() == 1) quantity_unit.mg_per_unit = product.ingredients[0].mg_per_unit;
+    if (dosages != nullptr) quantity_unit.pack = &dosages->Pack(record.product, product.form, product.ingredients.size());
     const ProductGroups& grouped = GroupsOf(product_groups, product, record.product, options.count_by);
     const double units = ContainersOf(record.quantity, record, grouped.units_per_container);
     const Supply supply = ComputeSupply(record.quantity, record.days_supply, dosage,

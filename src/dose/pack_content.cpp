@@ -134,4 +134,10 @@ bool LooksLikeContainers(double quantity, double content) {
   return ratio != std::floor(ratio);
 }
 
+PackContent SupplyPackContent(std::string_view description, std::string_view form, size_t ingredient_count) {
+  PackContent pack = ReadPackContent(description);
+  if (!pack.doses) pack.doses = UsualDosesPerDevice(form, description, ingredient_count);
+  return pack;
+}
+
 }  // namespace medload

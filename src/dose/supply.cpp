@@ -70,11 +70,9 @@ std::optional<DoseUnit> HeldIn(const PackContent& pack, bool wants_doses, double
 std::optional<Basis> BasisOf(std::optional<double> quantity, const QuantityUnit& quantity_unit,
                              const std::optional<DoseUnit>& dose, std::string* why) {
   Basis basis;
-  basis.pack = ReadPackContent(quantity_unit.description);
-  if (!basis.pack.doses) {
-    basis.pack.doses = UsualDosesPerDevice(quantity_unit.form, quantity_unit.description,
-                                           quantity_unit.ingredient_count);
-  }
+  basis.pack = quantity_unit.pack != nullptr
+                   ? *quantity_unit.pack
+                   : SupplyPackContent(quantity_unit.description, quantity_unit.form, quantity_unit.ingredient_count);
   bool ok = true;
   basis.unit = Canonical(quantity_unit.unit, ok);
   bool packs = IsContainerUnit(quantity_unit.unit);

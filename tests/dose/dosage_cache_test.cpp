@@ -40,6 +40,20 @@ TEST_CASE("a full cache starts again and still reads correctly") {
   CHECK(cache.Read("1 od").units_per_day == 1);
 }
 
+TEST_CASE("a description's pack content is read once and equals a fresh reading") {
+  DosageTextCache cache(2);
+  const char* inhaler = "Salbutamol 100micrograms/dose inhaler CFC free";  // no dose count: the device's usual 200
+  const PackContent& first = cache.Pack(inhaler, "inhaler", 1);
+  REQUIRE(first.doses.has_value());
+  CHECK(*first.doses == 200);  // UsualDosesPerDevice (pack_content.h, from memory)
+  const PackContent fresh = SupplyPackContent("Insulin aspart 100units/ml 3ml cartridge", "injection", 1);
+  const PackContent& cached = cache.Pack("Insulin aspart 100units/ml 3ml cartridge", "injection", 1);
+  CHECK(cached.ml == fresh.ml);
+  CHECK(cached.units_per_ml == fresh.units_per_ml);
+  CHECK(cached.doses == fresh.doses);
+  CHECK(cache.Pack("Ventolin Evohaler 200 dose", "inhaler", 1).doses == 200);  // past capacity: starts again
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

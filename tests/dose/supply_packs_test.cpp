@@ -5,6 +5,7 @@
 #include <optional>
 #include <string>
 
+#include "medload/dose/dosage_cache.h"
 #include "medload/dose/dosage_text.h"
 #include "medload/dose/supply.h"
 
@@ -108,6 +109,22 @@ TEST_CASE("quantities in packs, ml or doses divide puffs, sprays, drops and insu
     CAPTURE(supply.note);
     CHECK(supply.days == c.days);
     CHECK(SupplyRuleName(supply.rule) == SupplyRuleName(c.rule));
+  }
+}
+
+TEST_CASE("a pack content read once by the run's cache gives the same supply as reading it each time") {
+  DosageTextCache cache;
+  for (const PackCase& c : kPackCases) {
+    CAPTURE(c.description);
+    QuantityUnit unit = UnitOf(c);
+    const Supply fresh = ComputeSupply(c.quantity, std::nullopt, ReadDosageText(c.dosage), std::nullopt,
+                                       SupplyOptions{}, unit);
+    unit.pack = &cache.Pack(c.description, c.form, c.ingredients);
+    const Supply cached = ComputeSupply(c.quantity, std::nullopt, ReadDosageText(c.dosage), std::nullopt,
+                                        SupplyOptions{}, unit);
+    CHECK(cached.days == fresh.days);
+    CHECK(cached.rule == fresh.rule);
+    CHECK(cached.note == fresh.note);
   }
 }
 

@@ -1,5 +1,6 @@
-// Remembers how each distinct dosage text was read, so that a run reading millions of
-// dispensings parses each instruction once. It bounds its size; it does not know records.
+// Remembers how each distinct dosage text, and each product description's pack content,
+// was read, so that a run reading millions of dispensings reads each text once. It bounds
+// its size; it does not know records.
 #pragma once
 
 #include <cstddef>
@@ -8,6 +9,7 @@
 #include <unordered_map>
 
 #include "medload/dose/dosage_text.h"
+#include "medload/dose/pack_content.h"
 
 namespace medload {
 
@@ -21,6 +23,11 @@ class DosageTextCache {
   // reference is valid until the next call.
   const DosageReading& Read(std::string_view text);
 
+  // SupplyPackContent(description, form, ingredient_count), computed once per distinct
+  // description while it stays cached (within one run a description always resolves to
+  // the same form and ingredients). The reference is valid until the next call of Pack.
+  const PackContent& Pack(std::string_view description, std::string_view form, size_t ingredient_count);
+
   size_t size() const { return readings_.size(); }
 
  private:
@@ -30,6 +37,7 @@ class DosageTextCache {
   };
   size_t capacity_;
   std::unordered_map<std::string, DosageReading, Hash, std::equal_to<>> readings_;
+  std::unordered_map<std::string, PackContent, Hash, std::equal_to<>> packs_;
 };
 
 }  // namespace medload

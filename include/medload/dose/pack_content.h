@@ -29,6 +29,10 @@ PackContent ReadPackContent(std::string_view description);
 std::optional<double> UsualDosesPerDevice(std::string_view form, std::string_view description,
                                           size_t ingredient_count);
 
+// What one pack holds for the supply: ReadPackContent(description), with the doses of a
+// device that does not state them from UsualDosesPerDevice. Pure.
+PackContent SupplyPackContent(std::string_view description, std::string_view form, size_t ingredient_count);
+
 // True when a quantity's unit names a container rather than a dose unit: inhaler, pen,
 // cartridge, bottle, pack, device, canister, container, vial, pre-filled pen, pre-filled
 // disposable injection, injection (singular or plural, any case). Pure.

@@ -12,6 +12,7 @@
 #include "medload/core/records.h"
 #include "medload/dose/dosage_cache.h"
 #include "medload/dose/dosage_text.h"
+#include "medload/dose/pack_content.h"
 
 namespace medload {
 
@@ -39,6 +40,9 @@ struct QuantityUnit {
   std::string description;
   std::string form;
   size_t ingredient_count = 0;
+  // SupplyPackContent(description, form, ingredient_count) when the caller has it already
+  // (DosageTextCache::Pack); read from the three fields above when null.
+  const PackContent* pack = nullptr;
 };
 
 // 20 drops make 1 ml (common practice for eye and ear drops; real drop sizes vary).
