@@ -67,6 +67,9 @@ Result<nlohmann::json> ParseJsonText(std::string_view text, const std::string& n
     const size_t column = offset - line_start + 1;
     return Status::Input(name + ":" + std::to_string(line) + ":" + std::to_string(column) +
                          ": not valid JSON: " + PlainReason(text, offset, Reason(error.what())));
+  } catch (const nlohmann::json::out_of_range&) {
+    // A number beyond a double ("1e999"): the parser gives no position.
+    return Status::Input(name + ": not valid JSON (a number is out of range)");
   }
 }
 

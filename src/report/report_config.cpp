@@ -117,7 +117,7 @@ Status ReadMeasure(const Reader& r, const json& doc, MeasureOptions& m) {
     MEDLOAD_TRY(r.Integer(doc, "history_days", "", 0, 3660, history));
     m.history_days = static_cast<int>(history);
   }
-  if (doc.contains("exposure_years")) {
+  if (doc.contains("exposure_years") && !doc["exposure_years"].is_null()) {  // null: all data
     long years = 0;
     MEDLOAD_TRY(r.Integer(doc, "exposure_years", "", 1, 100, years));
     m.exposure_years = static_cast<int>(years);
@@ -214,14 +214,15 @@ Status ReadCriteria(const Reader& r, const json& doc, std::vector<Criterion>& cr
   return Status::Ok();
 }
 
-// "age_min" and "reviewed_within", as review's --age-min and --reviewed-within.
+// "age_min" and "reviewed_within", as review's --age-min and --reviewed-within; null is
+// "not set", as run.json's parameters write it.
 Status ReadPopulation(const Reader& r, const json& doc, ReportConfig& config) {
-  if (doc.contains("age_min")) {
+  if (doc.contains("age_min") && !doc["age_min"].is_null()) {
     long age = 0;
     MEDLOAD_TRY(r.Integer(doc, "age_min", "", 0, 150, age));
     config.age_min = static_cast<int>(age);
   }
-  if (doc.contains("reviewed_within")) {
+  if (doc.contains("reviewed_within") && !doc["reviewed_within"].is_null()) {
     long days = 0;
     MEDLOAD_TRY(r.Integer(doc, "reviewed_within", "", 1, 3660, days));
     config.reviewed_within_days = static_cast<int>(days);

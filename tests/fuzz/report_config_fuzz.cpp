@@ -82,7 +82,8 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   const Result<ReportConfig> config = LoadReportConfig(ScratchPath());
   if (!config.ok()) {
     FuzzCheck(config.status().code() == StatusCode::kInput, "a refusal is an Input status");
-    FuzzCheck(StartsWith(config.status().message(), ScratchPath() + ": "), "a refusal names the file");
+    // "FILE: ..." or, for JSON syntax, "FILE:LINE:COLUMN: ...".
+    FuzzCheck(StartsWith(config.status().message(), ScratchPath() + ":"), "a refusal names the file");
     return 0;
   }
   CheckAccepted(*config);

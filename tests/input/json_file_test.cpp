@@ -24,6 +24,7 @@ TEST_CASE("a JSON syntax error is named by line and column, a trailing comma in 
        "network.json:2:12: not valid JSON: syntax error while parsing value - invalid literal; last read: "
        "'\"title\": ''"},
       {"  \n", "network.json: is empty"},
+      {"{\"months\": 1e999}", "network.json: not valid JSON (a number is out of range)"},  // no exception
   };
   for (const Case& c : cases) {
     CAPTURE(c.text);
