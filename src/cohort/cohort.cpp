@@ -21,6 +21,38 @@ CohortCounter::CohortCounter(const CohortOptions& options,
   tally_.population = DescribePopulation(options_);
   tally_.shard_count = options_.shard.count;
   tally_.shards.insert(options_.shard.index);
+  practices_on_.resize(options_.dates.size());
+}
+
+void CohortCounter::SkipDates(std::vector<bool> skipped) { skipped_ = std::move(skipped); }
+
+DateFigures CohortCounter::FiguresOn(size_t index) const {
+  DateFigures figures;
+  for (const auto& [group, cells] : tally_.groups) {
+    if (index < cells.size() && cells[index].registered > 0) figures.cells[group] = cells[index];
+  }
+  if (index < practices_on_.size()) figures.practices = practices_on_[index];
+  for (const auto& [group, by_practice] : tally_.unseen) {
+    for (const auto& [practice, per_date] : by_practice) {
+      if (index < per_date.size() && per_date[index].registered > 0) figures.unseen[group][practice] = per_date[index];
+    }
+  }
+  return figures;
+}
+
+void CohortCounter::PutFigures(size_t index, const DateFigures& figures) {
+  for (const auto& [group, cell] : figures.cells) CellOf(group, index) = cell;
+  for (const auto& [group, practices] : figures.practices) {
+    tally_.practices[group].insert(practices.begin(), practices.end());
+    if (index < practices_on_.size()) practices_on_[index][group].insert(practices.begin(), practices.end());
+  }
+  for (const auto& [group, by_practice] : figures.unseen) {
+    for (const auto& [practice, cell] : by_practice) {
+      auto& per_date = tally_.unseen[group][practice];
+      per_date.resize(options_.dates.size());
+      per_date[index] = cell;
+    }
+  }
 }
 
 void CohortCounter::See(const PatientHistory& history) { AddHistoryToSpans(history, tally_.spans); }
@@ -56,6 +88,7 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   ++tally_.patients;
   const std::string_view sex = history.registry ? std::string_view(history.registry->sex) : "";
   for (size_t d = 0; d < options_.dates.size(); ++d) {
+    if (d < skipped_.size() && skipped_[d]) continue;
     const Date on = options_.dates[d];
     std::optional<std::string> practice = RegisteredPractice(history, on);
     if (!practice || !Counts(*practice)) continue;
@@ -69,6 +102,7 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
     ++cell.registered;
     if (band) ++cell.registered_by_band[*band];
     tally_.practices[group].insert(*practice);
+    practices_on_[d][group].insert(*practice);
     const bool unseen = history.dispensings.empty() || history.dispensings.front().dispensed_on > on;
     if (unseen && !Settled(*practice)) {
       auto& per_date = tally_.unseen[group][*practice];

@@ -8,6 +8,7 @@
 #include "medload/burden/patient_pass.h"
 #include "medload/burden/run_context.h"
 #include "medload/cohort/cohort_table.h"
+#include "medload/report/census_cache.h"
 #include "medload/format/suppression.h"
 #include "medload/store/practice_codes.h"
 
@@ -282,6 +283,33 @@ void AssembleModel(const std::vector<PracticeRecord>& chosen, Pass& pass, const 
   }
 }
 
+// The pass, with the census dates the cache serves skipped and their figures put back;
+// the figures of the dates it counted are kept in the cache to save. When some patient's
+// oldest dispensings were left out by the store's bound, a figure for an older date may
+// depend on later dispensings: then nothing is served (the pass runs again counting every
+// date) and nothing is saved.
+Result<Pass> CountPatients(const Store& store, RunContext& analysis, const ReportConfig& config,
+                           const CohortCounter& fresh_counter, ReportModel& model, const ReportProgress& progress) {
+  CensusCache& cache = model.census_cache;
+  std::vector<bool> skipped(model.dates.size(), false);
+  for (size_t d = 0; d < model.dates.size(); ++d) skipped[d] = cache.served.count(model.dates[d]) > 0;
+  auto reviewed = ReadReviewDates(store);
+  if (!reviewed.ok()) return reviewed.status();
+  Pass pass{fresh_counter, std::move(*reviewed), {}, 0, {}};
+  pass.counter.SkipDates(skipped);
+  if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
+  if (!pass.capped.empty() && !cache.served.empty()) {
+    cache.served.clear();
+    return CountPatients(store, analysis, config, fresh_counter, model, progress);
+  }
+  if (progress) progress(pass.patients);
+  for (size_t d = 0; d < model.dates.size(); ++d) {
+    if (skipped[d]) pass.counter.PutFigures(d, cache.served.at(model.dates[d]));
+    else if (pass.capped.empty()) cache.counted.emplace_back(model.dates[d], pass.counter.FiguresOn(d));
+  }
+  return pass;
+}
+
 }  // namespace
 
 Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, const ReportConfig& config,
@@ -299,11 +327,12 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   cohort.group_by = GroupBy::kPractice;
   cohort.criteria = config.criteria;
   cohort.age_min = config.age_min;
-  auto reviewed = ReadReviewDates(store);
-  if (!reviewed.ok()) return reviewed.status();
-  Pass pass{CohortCounter(cohort, networks, model.measure), std::move(*reviewed), {}, 0, {}};
-  if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
-  if (progress) progress(pass.patients);
+  auto cache = OpenCensusCache(store, config, analysis, model.dates, model.on);
+  if (!cache.ok()) return cache.status();
+  model.census_cache = std::move(*cache);
+  auto counted = CountPatients(store, analysis, config, CohortCounter(cohort, networks, model.measure), model, progress);
+  if (!counted.ok()) return counted.status();
+  Pass& pass = *counted;
   model.patients_seen = pass.patients;
   model.capped_patients = std::move(pass.capped);
   model.history_bound = store.history_bound();

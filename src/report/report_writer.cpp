@@ -157,6 +157,7 @@ Result<ReportOutcome> RunReport(Store& store, RunContext& analysis, const Report
       !s.ok()) {
     return s;
   }
+  SaveCountedFigures(store, model->census_cache);
   return outcome;
 }
 

@@ -164,6 +164,29 @@ ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
 DELETE FROM packed_histories;
 DELETE FROM packed_histories_state;
 )sql",
+    // 5 -> 6: saved census figures (store/census_figures.cpp): each report's per-practice
+    // counts on a census date, under a key of everything but the dispensings they depend
+    // on, with the newest dispensing and the newest edit when they were counted. An update
+    // of a dispensing notes the earlier of its dates, a delete notes '' (every date).
+    R"sql(
+CREATE TABLE census_figures (
+  settings_key TEXT NOT NULL,
+  census_date TEXT NOT NULL,
+  newest_dispensing INTEGER NOT NULL,
+  newest_edit INTEGER NOT NULL,
+  figures TEXT NOT NULL,
+  digest TEXT NOT NULL,
+  PRIMARY KEY (settings_key, census_date)
+) WITHOUT ROWID;
+CREATE TABLE dispensing_edits (
+  id INTEGER PRIMARY KEY AUTOINCREMENT,
+  earliest TEXT NOT NULL
+);
+CREATE TRIGGER dispensing_updated_notes_date AFTER UPDATE ON dispensings
+  BEGIN INSERT INTO dispensing_edits (earliest) VALUES (MIN(old.dispensed_on, new.dispensed_on)); END;
+CREATE TRIGGER dispensing_deleted_notes_date AFTER DELETE ON dispensings
+  BEGIN INSERT INTO dispensing_edits (earliest) VALUES (''); END;
+)sql",
 };
 
 // Whether `table` has a column `column` (names are this file's constants, not data).

@@ -376,10 +376,12 @@ TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHI
           "ALTER TABLE dispensings DROP COLUMN structured_unit;"
           "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
           "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "DROP TRIGGER dispensing_updated_notes_date; DROP TRIGGER dispensing_deleted_notes_date;"
+          "DROP TABLE census_figures; DROP TABLE dispensing_edits;"
           "PRAGMA user_version=3;");
   Result<Store> store = Store::Open(path);
   REQUIRE(store.ok());
-  CHECK(store->SchemaVersion().value() == 5);
+  CHECK(store->SchemaVersion().value() == 6);
   CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
   CHECK_FALSE(store->PackedHistoriesCurrent().value());
   CHECK(QueryText(path, "SELECT COUNT(*) FROM patient_identifiers") == "0");
@@ -405,10 +407,12 @@ TEST_CASE("a store of schema version 4 migrates: rejected rows get a key, packed
           " VALUES (1, 2, 'bad_date', 'old.csv:2: dispensed_on: bad', 'x');"
           "INSERT INTO packed_histories (patient_id, packed) VALUES ('P1', x'01');"
           "INSERT INTO packed_histories_state (id, newest_dispensing) VALUES (1, NULL);"
+          "DROP TRIGGER dispensing_updated_notes_date; DROP TRIGGER dispensing_deleted_notes_date;"
+          "DROP TABLE census_figures; DROP TABLE dispensing_edits;"
           "PRAGMA user_version=4;");
   Result<Store> store = Store::Open(path);
   REQUIRE(store.ok());
-  CHECK(store->SchemaVersion().value() == 5);
+  CHECK(store->SchemaVersion().value() == 6);
   // The old rejected row is kept as it was, without a key.
   CHECK(QueryText(path, "SELECT reason || ':' || IFNULL(row_key, 'none') FROM rejected_rows") == "bad_date:none");
   // The packed copy is dropped and stale, so that it is packed again with the bound.

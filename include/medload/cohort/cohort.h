@@ -92,6 +92,14 @@ struct CohortTally {
   bool complete() const { return shards.size() == shard_count; }
 };
 
+// What a counter counted on one census date, taken out (CohortCounter::FiguresOn) to be
+// put back in a later run over the same data (CohortCounter::PutFigures).
+struct DateFigures {
+  std::map<std::string, CohortCell> cells;                       // group -> its cell
+  std::map<std::string, std::set<std::string>> practices;        // group -> practices seen
+  std::map<std::string, std::map<std::string, UnseenCell>> unseen;  // group -> practice -> cell
+};
+
 // Calls back for a patient's burden on a date, given their completed age that day.
 using BurdenOnDate = std::function<Burden(Date on, std::optional<int> age)>;
 
@@ -113,6 +121,14 @@ class CohortCounter {
   // shard are ignored.
   void Add(const PatientHistory& history, const BurdenOnDate& burden);
 
+  // Census dates (by index) whose figures come from elsewhere: Add leaves them alone
+  // and never evaluates a patient on them. Call before the first Add.
+  void SkipDates(std::vector<bool> skipped);
+  // The figures counted on date `index` so far (a date Add did not skip).
+  DateFigures FiguresOn(size_t index) const;
+  // Puts figures in for date `index` (one SkipDates skipped), before Take.
+  void PutFigures(size_t index, const DateFigures& figures);
+
   const CohortTally& tally() const { return tally_; }
   // The tally, with the unseen cells of practices that turned out to have data on every
   // census date dropped.
@@ -126,6 +142,9 @@ class CohortCounter {
   bool Counts(const std::string& practice) const;
 
   CohortOptions options_;
+  std::vector<bool> skipped_;  // by date index; empty: none
+  // date index -> group -> practices, for FiguresOn (the tally keeps them for every date)
+  std::vector<std::map<std::string, std::set<std::string>>> practices_on_;
   std::map<std::string, std::string> networks_;
   CohortTally tally_;
 };

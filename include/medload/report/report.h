@@ -14,6 +14,7 @@
 
 #include "medload/cohort/cohort.h"
 #include "medload/core/data_coverage.h"
+#include "medload/report/census_cache.h"
 #include "medload/report/report_config.h"
 #include "medload/review/worklist.h"
 #include "medload/store/store.h"
@@ -71,6 +72,9 @@ struct ReportModel {
   // their latest `history_bound` dispensings (Store::history_bound).
   std::map<std::string, long> capped_patients;
   size_t history_bound = 0;
+  // The census figures served from the store and those counted, to save after the run
+  // (census_cache.h). Changes nothing the report shows.
+  CensusCache census_cache;
 };
 
 // Called every so many patients with the number visited so far (progress on stderr).

@@ -22,7 +22,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 5;
+inline constexpr int kStoreSchemaVersion = 6;
 
 // The most counting dispensings of one patient that reads hold (the latest ones): memory
 // stays bounded whatever one id's history holds (a feed that gives every item one id, a
@@ -86,6 +86,21 @@ struct ImportRunRecord {
   long imported = 0;
   long duplicates = 0;
   long rejected = 0;
+};
+
+// Where the dispensings stood when figures were counted: the newest dispensing id and the
+// newest edit note (an update or delete of a dispensing), 0 when none.
+struct DataMarks {
+  long newest_dispensing = 0;
+  long newest_edit = 0;
+};
+
+// One saved entry of census figures (Store::SavedCensusFigures).
+struct SavedFigures {
+  std::string census_date;  // ISO
+  DataMarks marks;
+  std::string figures;      // JSON text, as saved
+  bool intact = false;      // the figures match the digest saved with them
 };
 
 // A half-open range [from, to) of patient ids in bytewise order; an empty bound is open
@@ -270,6 +285,28 @@ class Store {
   // or nullopt when there is none.
   Result<std::optional<std::string>> LatestRun(std::string_view kind, std::string_view key,
                                                std::string_view before_date_iso) const;
+
+  // Saved census figures (docs/report.md, "Saved census figures"): opaque JSON under a
+  // settings key and a census date, with the data marks they were counted at.
+  // The marks of the data as this connection sees them now (inside a snapshot: the
+  // snapshot's).
+  Result<DataMarks> CurrentDataMarks() const;
+  // The earliest dispensing date that dispensings added after `marks`, or dispensings
+  // updated or deleted after them, touch: nullopt when none was; "" when a dispensing was
+  // deleted (every date may have changed).
+  Result<std::optional<std::string>> EarliestChangeSince(const DataMarks& marks) const;
+  // Every entry saved under `settings_key`, by census date; `intact` is false when the
+  // figures no longer match the digest saved with them.
+  Result<std::vector<SavedFigures>> SavedCensusFigures(std::string_view settings_key) const;
+  // Saves (or replaces) the entry for (settings_key, census date); nothing in a read-only
+  // store or inside a snapshot. REQUIRES: ISO date.
+  Status SaveCensusFigures(std::string_view settings_key, std::string_view date_iso,
+                           const DataMarks& marks, std::string_view figures_json);
+  // Removes every saved entry and the edit notes; the number of entries removed.
+  Result<long> ClearCensusFigures();
+  // SHA-256 of the practices and patients tables' rows, in key order: changes whenever a
+  // registry import (or anything else) changes a row.
+  Result<std::string> RegistryDigest() const;
 
   // The connection, for the store's own adapters in src/store (the importer). Other
   // modules use the typed functions above.
