@@ -14,9 +14,11 @@
 # month the increment (month.csv). In one hyperfine run it times:
 #   a full re-import (practices, patients, reviews, all 13 months of dispensing into a
 #     fresh store) and then `medload report` over 12 month-ends;
-#   the increment: month.csv imported into a copy of the 12-month store (imported and
-#     packed once, untimed; the copy made in --prepare), then the same report, which packs
-#     again only the histories of the patients the month touched;
+#   the increment: month.csv imported into a copy of the 12-month store (imported, packed
+#     and reported on once, untimed, as last month's run left it; the copy made in
+#     --prepare), then the same report, which packs again only the histories of the
+#     patients the month touched and takes the 11 older census dates' figures from those
+#     last month's report saved;
 #   the same increment with the whole copy packed again (the copy's state row removed in
 #     --prepare), as every packing did before packing only touched patients.
 # Then each command's peak resident memory (/usr/bin/time -f %M, one more run each) and a
@@ -79,6 +81,9 @@ for kind in practices patients reviews; do
 done
 "$medload" --quiet --db "$run/base.db" import dispensing "$data/base.csv" >/dev/null
 "$medload" --quiet --db "$run/base.db" store pack >/dev/null
+# Last month's report, as the monthly run had it: the census figures it saves in the store
+# are what this month's report may serve (docs/report.md, "Saved census figures").
+"$medload" --quiet --db "$run/base.db" report --config "$data/report.json" --out "$run/base-out" >/dev/null
 sqlite3 "$run/base.db" 'PRAGMA wal_checkpoint(TRUNCATE)' >/dev/null
 
 report="$ml --db $run/DB report --config $data/report.json --out $run/out"

@@ -69,9 +69,65 @@ void CheckSameAfter(const Change& change, const std::vector<std::string>& expect
   CHECK(Report(cached, temp, "a2") == Report(fresh, temp, "b2"));
 }
 
+std::string DemoFile(const std::string& name) {
+  std::ifstream in(std::string(MEDLOAD_SOURCE_DEMO) + "/" + name, std::ios::binary);
+  std::ostringstream text;
+  text << in.rdbuf();
+  return text.str();
+}
+
+// The bundled demo network in a store of its own, with the demo's report config.
+struct DemoStore {
+  Store store = std::move(Store::Open(":memory:").value());
+  RunContext analysis = std::move(RunContext::Open(MEDLOAD_SOURCE_FORMULARY, MeasureOptions{}, nullptr).value());
+  ReportConfig config;
+
+  DemoStore() {
+    for (const auto& [kind, file] : {std::pair{InputKind::kPractices, "practices.csv"},
+                                     std::pair{InputKind::kPatients, "patients.csv"},
+                                     std::pair{InputKind::kReviews, "reviews.csv"},
+                                     std::pair{InputKind::kDispensing, "dispensing.csv"}}) {
+      std::istringstream in(DemoFile(file));
+      REQUIRE(ImportStream(store, kind, in, file, ImportOptions{}).ok());
+    }
+    auto read = ReadReportConfig(nlohmann::json::parse(DemoFile("network.json")), "network.json");
+    REQUIRE(read.ok());
+    config = *read;
+  }
+
+  std::map<std::string, std::string> Report(const TempFolder& temp, const std::string& name) {
+    ReportRunOptions options;
+    options.out_dir = temp.File(name);
+    options.generated_at = "2026-11-01T00:00:00Z";
+    REQUIRE(RunReport(store, analysis, config, options).ok());
+    return FilesOf(temp.File(name));
+  }
+};
+
 }  // namespace
 
 TEST_SUITE("report/census_cache") {
+
+TEST_CASE("on the demo network, a late dispensing in an older month leaves the report as it is without saved figures") {
+  DemoStore cached;
+  DemoStore fresh;
+  TempFolder temp;
+  cached.Report(temp, "a1");
+  fresh.Report(temp, "b1");
+  // An invented late record dated 2026-05-15, in the demo's 13 census months (to 2026-10-31).
+  const std::string late = "record_id,patient_id,practice,dispensed_on,product,quantity,days_supply\n"
+                           "LATE-1,Q1059322,WV002,2026-05-15,Oxybutynin 5mg tablets,56,28\n";
+  for (DemoStore* demo : {&cached, &fresh}) testing::ImportCsv(demo->store, InputKind::kDispensing, late);
+  REQUIRE(fresh.store.ClearCensusFigures().ok());
+  auto model = BuildReportModel(cached.store, cached.analysis, cached.config, {}, {});
+  REQUIRE(model.ok());
+  std::vector<std::string> served;
+  for (const auto& [date, figures] : model->census_cache.served) served.push_back(date.ToIso());
+  CHECK(served == std::vector<std::string>{"2025-10-31", "2025-11-30", "2025-12-31", "2026-01-31", "2026-02-28",
+                                           "2026-03-31", "2026-04-30"});
+  CHECK(cached.Report(temp, "a2") == fresh.Report(temp, "b2"));
+}
+
 
 TEST_CASE("saved figures read back as they were counted") {
   DateFigures figures;
@@ -160,6 +216,34 @@ TEST_CASE("a damaged saved entry is never served: it is counted again and the re
     Exec(population.store, "UPDATE census_figures SET figures = 'x', digest = '2d711642b726b04401627ca9fbac32f5c8530fb1903cc4db02258717921a4881'"
                            " WHERE census_date = '2024-03-31'");
   }, {"2024-01-31", "2024-04-30", "2024-05-31"});
+}
+
+TEST_CASE("when a late dispensing pushes a history past the store's bound, no saved figure is served") {
+  // Patients ZQ7102 to ZQ7107 hold 14 counting dispensings each: a bound of 14 cuts none
+  // until the late one below, which leaves ZQ7102's oldest (2024-01-01) out of every figure.
+  TempFolder temp;
+  StoreOptions bounded;
+  bounded.max_dispensings_per_patient = 14;
+  testing::ReportPopulation cached;
+  testing::ReportPopulation fresh;
+  cached.store = std::move(Store::Open(temp.File("cached.db"), bounded).value());
+  fresh.store = std::move(Store::Open(temp.File("fresh.db"), bounded).value());
+  for (testing::ReportPopulation* population : {&cached, &fresh}) testing::ImportPopulation(population->store);
+  Report(cached, temp, "a1");
+  Report(fresh, temp, "b1");
+  CHECK(Served(cached) == kOlderDates);
+  for (testing::ReportPopulation* population : {&cached, &fresh}) {
+    testing::ImportCsv(population->store, InputKind::kDispensing,
+                       "patient_id,practice,dispensed_on,product,quantity,days_supply\n"
+                       "ZQ7102,A1,2024-06-15,Ramipril 5mg capsules,28,31\n");
+  }
+  REQUIRE(fresh.store.ClearCensusFigures().ok());
+  auto model = BuildReportModel(cached.store, cached.analysis, testing::TestConfig(), {}, {});
+  REQUIRE(model.ok());
+  CHECK(model->census_cache.served.empty());
+  CHECK(model->census_cache.counted.empty());
+  CHECK(model->capped_patients.size() == 1);
+  CHECK(Report(cached, temp, "a2") == Report(fresh, temp, "b2"));
 }
 
 TEST_CASE("other criteria use saved figures of their own") {
