@@ -14,7 +14,7 @@
 set -euo pipefail
 state="${SLURM_STATE:-/tmp/medload-slurm}"
 export SLURM_CONF="$state/slurm.conf"
-node="$(hostname -s)"
+node=""  # this host, found by write_conf
 
 installed() {
   command -v sbatch >/dev/null && command -v slurmctld >/dev/null && command -v slurmd >/dev/null &&
@@ -22,6 +22,7 @@ installed() {
 }
 
 write_conf() {
+  node="$(hostname -s)"
   mkdir -p "$state/ctld" "$state/d" "$state/log"
   local memory_mb
   memory_mb=$(( $(awk '/MemTotal/ {print $2}' /proc/meminfo) / 1024 - 512 ))
