@@ -184,6 +184,18 @@ TEST_CASE("every shard store gives the network's data coverage and latest dispen
   }
 }
 
+TEST_CASE("a shard store knows the practices named by the rows it left to other shards") {
+  const std::string text =
+      "patient_id,practice,dispensed_on,product,quantity\n"
+      "N100,A1,2024-01-05,Amlodipine 5mg tablets,28\n"
+      "N101,Q7,2024-01-05,Amlodipine 5mg tablets,28\n";
+  REQUIRE(InShard("N100", ShardSpec{1, 2}));
+  Store store = Memory();
+  REQUIRE(Import(store, InputKind::kDispensing, text, ShardSpec{1, 2}).ok());
+  CHECK(store.PracticeCodes(false).value() == std::vector<std::string>{"Q7"});
+  CHECK(store.PracticeCodes(true).value() == std::vector<std::string>{"A1", "Q7"});
+}
+
 TEST_CASE("the reject rate is the whole file's, so every shard rolls back alike") {
   // 2 of 4 rows are faulty (50%, over 0.25): one in each shard of 2.
   const std::string text =

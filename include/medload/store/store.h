@@ -210,8 +210,9 @@ class Store {
   // All practices, by practice code.
   Result<std::vector<PracticeRecord>> Practices() const;
   // The practice codes the store knows, sorted, empty codes left out: those of the
-  // practices table and of registry rows, and with `with_dispensings` also those named
-  // by dispensings (a walk of the table: slower on a large store).
+  // practices table, of registry rows and of the dispensings a shard's store left to
+  // other shards (OtherShardCoverage), and with `with_dispensings` also those named by
+  // dispensings (a walk of the table: slower on a large store).
   Result<std::vector<std::string>> PracticeCodes(bool with_dispensings) const;
   // One patient's completed reviews, oldest first.
   Result<std::vector<ReviewRecord>> ReviewsOf(std::string_view patient_id) const;
