@@ -96,7 +96,8 @@ TEST_CASE("a split import counts the rows of other shards apart, and the counts 
       {ShardSpec{2, 2}, {0, 2, 1, 0}},
   };
   for (const auto& [shard, want] : cases) {
-    CAPTURE(ShardName(shard));
+    const std::string shard_name = ShardName(shard);  // clang 14 cannot capture a structured binding
+    CAPTURE(shard_name);
     Store store = Memory();
     Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text, shard, 1.0);
     REQUIRE(summary.ok());
@@ -150,7 +151,8 @@ TEST_CASE("N shard stores hold every patient exactly once, with every row of eac
   }
   CHECK(seen.size() == 24);
   for (const auto& [patient, stores] : seen) {
-    CAPTURE(patient);
+    const auto& patient_id = patient;  // clang 14 cannot capture a structured binding
+    CAPTURE(patient_id);
     CHECK(stores == 1);
   }
   long whole_dispensings = 0;
@@ -242,7 +244,8 @@ TEST_CASE("a store holds one shard, or the whole network, never both") {
                                        {{2, 4}, InputKind::kPatients, ""}}},
   };
   for (const auto& [name, steps] : cases) {
-    CAPTURE(name);
+    const auto& case_name = name;  // clang 14 cannot capture a structured binding
+    CAPTURE(case_name);
     Store store = Memory();
     for (const Step& step : steps) {
       const std::string text = step.kind == InputKind::kPractices ? practices
