@@ -110,6 +110,11 @@ bool NeedsShowing(std::string_view text) {
 }
 
 std::optional<std::string> HiddenCharacterIn(std::string_view text) {
+  // Printable ASCII throughout (nearly every identifier): nothing to decode. Without an
+  // early exit, so that the compiler can test many bytes at once.
+  bool other = false;
+  for (const char c : text) other |= static_cast<unsigned char>(c) < 0x20 || static_cast<unsigned char>(c) >= 0x7F;
+  if (!other) return std::nullopt;
   for (size_t i = 0; i < text.size();) {
     const auto byte = static_cast<unsigned char>(text[i]);
     if (byte < 0x80) {
