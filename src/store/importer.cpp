@@ -4,7 +4,6 @@
 
 #include <algorithm>
 #include <array>
-#include <atomic>
 #include <charconv>
 #include <cstring>
 #include <ctime>
@@ -24,7 +23,6 @@
 #include "store/fhir_import.h"
 #include "store/record_writers.h"
 #include "store/registry_check.h"
-#include "store/row_pipeline.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -46,9 +44,8 @@ class PrefixedBuffer : public std::streambuf {
   PrefixedBuffer(std::string head, std::istream& rest, bool lone_cr_ends_line)
       : head_(std::move(head)), rest_(rest), lone_cr_ends_line_(lone_cr_ends_line), bytes_read_(head_.size()) {}
   bool failed() const { return rest_.bad(); }
-  // Bytes taken from the input so far (read ahead of the rows parsed by up to a buffer and
-  // the rows read ahead). Safe to call from another thread than the one reading.
-  uint64_t bytes_read() const { return bytes_read_.load(std::memory_order_relaxed); }
+  // Bytes taken from the input so far (read ahead of the rows parsed by up to a buffer).
+  uint64_t bytes_read() const { return bytes_read_; }
 
  protected:
   int_type underflow() override {
@@ -83,7 +80,7 @@ class PrefixedBuffer : public std::streambuf {
     }
     rest_.read(into, static_cast<std::streamsize>(room));
     const size_t got = static_cast<size_t>(std::max<std::streamsize>(0, rest_.gcount()));
-    bytes_read_.fetch_add(got, std::memory_order_relaxed);
+    bytes_read_ += got;
     return got;
   }
 
@@ -98,7 +95,7 @@ class PrefixedBuffer : public std::streambuf {
   std::istream& rest_;
   bool lone_cr_ends_line_;
   bool carried_cr_ = false;
-  std::atomic<uint64_t> bytes_read_;
+  uint64_t bytes_read_;
   std::array<char, 256 * 1024> buffer_{};
 };
 
@@ -310,25 +307,26 @@ class Session : public RowSink {
 };
 
 // Reads every CSV row after the header: `parse` checks it, `store` stores it (and counts).
-// Rows are read, parsed and checked on a second thread while this one stores them, in
-// input order (row_pipeline.h); only this thread touches the session and the store.
 template <typename Record, typename Parse, typename Store>
 Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowContext& context,
                      Session& session, Parse parse, Store store) {
+  Record record;
+  CsvRow row;
   PlausibleProducts plausible;  // descriptions repeat: each is read once per file
-  auto check = [&](const CsvRow& row, Record& record) {
+  while (reader.Next(row)) {
+    session.Tick(row.line_count);
     std::optional<RowFault> fault;
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
     if (!fault) fault = parse(row, layout, context, record);
     if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv, &plausible);
-    return fault;
-  };
-  return ReadAheadRows<Record>(reader, check, [&](const CheckedRow<Record>& row) -> Status {
-    session.Tick(row.line_count);
-    if (row.fault) return session.Reject(row.line, *row.fault, row.text);
-    return store(row.record, row.line, row.text);
-  });
+    if (fault) {
+      if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
+      continue;
+    }
+    if (Status status = store(record, row.line, row.text); !status.ok()) return status;
+  }
+  return Status::Ok();
 }
 
 template <typename Writer, typename Record, typename Parse>

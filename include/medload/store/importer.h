@@ -26,9 +26,8 @@ struct ImportOptions {
                                            // appended here (write WriteRejectsHeader first)
   size_t max_examples = 10;                // rejected-row messages kept in the summary
   long progress_every = 0;                 // call `progress` after every N rows (0: never)
-  // Rows read so far, bytes of the input taken so far (ahead of the rows counted by up to
-  // 256 KiB and, in CSV, the rows read ahead: 4 batches of 1024) and the input's size in
-  // bytes (0 when unknown: standard input). Called on the calling thread.
+  // Rows read so far, bytes of the input taken so far (read ahead of the rows by up to
+  // 256 KiB) and the input's size in bytes (0 when unknown: standard input).
   std::function<void(long rows_read, uint64_t bytes_read, uint64_t bytes_total)> progress;
   // Called with each dispensing stored (new or changed, not a duplicate), e.g. to check
   // its product; the rows of a file rolled back were called too.
