@@ -302,6 +302,7 @@ Result<ReportModel> BuildReportModel(const Store& store, RunContext& analysis, c
   auto reviewed = ReadReviewDates(store);
   if (!reviewed.ok()) return reviewed.status();
   Pass pass{CohortCounter(cohort, networks, model.measure), std::move(*reviewed), {}, 0, {}};
+  if (Status status = SeeOtherShards(store, pass.counter); !status.ok()) return status;
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (progress) progress(pass.patients);
   model.patients_seen = pass.patients;

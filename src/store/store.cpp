@@ -164,6 +164,23 @@ ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
 DELETE FROM packed_histories;
 DELETE FROM packed_histories_state;
 )sql",
+    // 5 -> 6: a store may hold one shard of the network's patients (import --shard K/N):
+    // which shard it holds, the data coverage of the rows its imports left to other
+    // shards (first and latest counting dispensing per practice named, '' for none), and
+    // each run's count of those rows.
+    R"sql(
+CREATE TABLE store_shard (
+  id INTEGER PRIMARY KEY CHECK (id = 1),
+  shard INTEGER NOT NULL,
+  shards INTEGER NOT NULL
+);
+CREATE TABLE other_shard_coverage (
+  practice TEXT PRIMARY KEY,
+  first_dispensed TEXT NOT NULL,
+  latest_dispensed TEXT NOT NULL
+) WITHOUT ROWID;
+ALTER TABLE import_runs ADD COLUMN other_shards INTEGER NOT NULL DEFAULT 0;
+)sql",
 };
 
 // Whether `table` has a column `column` (names are this file's constants, not data).
