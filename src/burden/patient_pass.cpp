@@ -331,6 +331,20 @@ void StopReaders(ReaderPool& pool, Visiting& visiting) {
   for (std::thread& thread : pool.threads) thread.join();
 }
 
+// Widens the facts with the dispensings a shard store's imports left to other shards: the
+// latest dispensing from all of them, practice spans from those naming a practice (their
+// own shard's store attributes the others).
+Status AddOtherShards(const Store& store, PassFacts& facts) {
+  Result<PracticeSpans> others = store.OtherShardCoverage();
+  if (!others.ok()) return others.status();
+  for (const auto& [practice, span] : *others) {
+    if (!facts.latest_dispensed || *facts.latest_dispensed < span.latest) facts.latest_dispensed = span.latest;
+  }
+  others->erase("");
+  MergeSpans(facts.practice_spans, *others);
+  return Status::Ok();
+}
+
 // What every reader saw: the latest dispensing, each practice's span of data, the
 // histories cut by the store's bound.
 void CollectFacts(const Store& store, const ReaderPool& pool, PassFacts& facts) {
@@ -367,8 +381,9 @@ Status ForEachPatientTimeline(const Store& store, RunContext& analysis, const Pa
   own_snapshot->reset();
   analysis.SaveResolutions();
   if (visiting.failure) std::rethrow_exception(visiting.failure);
-  if (visiting.status.ok() && facts != nullptr) CollectFacts(store, pool, *facts);
-  return visiting.status;
+  if (!visiting.status.ok() || facts == nullptr) return visiting.status;
+  CollectFacts(store, pool, *facts);
+  return AddOtherShards(store, *facts);
 }
 
 std::optional<std::string> CappedHistoriesNote(long patients, size_t bound) {

@@ -106,6 +106,21 @@ Result<CohortTally> MergeFiles(const std::vector<std::string>& files) {
   return MergeTallies(tallies, files);
 }
 
+// A store holding one shard (import --shard) is counted as that shard: --shard may be left
+// out, and must name it when given.
+Status FitHeldShard(const Store& store, bool given, ShardSpec& shard) {
+  Result<std::optional<ShardSpec>> held = store.HeldShard();
+  if (!held.ok()) return held.status();
+  if (!*held) return Status::Ok();
+  if (!given) {
+    shard = **held;
+    return Status::Ok();
+  }
+  if (shard == **held) return Status::Ok();
+  return Status::Input("--shard " + ShardName(shard) + ": the store " + store.path() + " holds shard " +
+                       ShardName(**held) + " (leave --shard out, or give --shard " + ShardName(**held) + ")");
+}
+
 // Counts from the store.
 Result<CohortTally> CountFromStore(const Context& context, const po::variables_map& vm) {
   auto date_flags = ReadDateFlags(vm);
@@ -117,6 +132,7 @@ Result<CohortTally> CountFromStore(const Context& context, const po::variables_m
   AddPdcGroups(options->criteria, *measure);
   auto store = Store::Open(context.db_path, StoreOptions{30000, true, true});
   if (!store.ok()) return store.status();
+  if (Status status = FitHeldShard(*store, vm.count("shard") != 0U, options->shard); !status.ok()) return status;
   auto dates = ResolveDates(context, *date_flags, *store);
   if (!dates.ok()) return dates.status();
   options->dates = std::move(*dates);

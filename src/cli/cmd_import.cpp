@@ -44,7 +44,10 @@ po::options_description ImportOptionsDescription(InputKind kind) {
        "FILE: write every rejected row (file, line, reason, message, original row) as CSV; - for standard "
        "output (with --output FILE for the summary)")
       ("max-reject-rate", po::value<std::string>()->default_value("0.05"),
-       "R: roll a file back (exit 3) when rejected/read is above R, 0 to 1");
+       "R: roll a file back (exit 3) when rejected/read is above R, 0 to 1")
+      ("shard", po::value<std::string>(),
+       "K/N: store only the rows of the patients in shard K of N, into a store of shard K's own; rows of "
+       "other shards are counted apart (practices: every row; CSV only; docs/cohort.md)");
   return options;
 }
 
@@ -64,6 +67,11 @@ Result<ImportOptions> ReadImportOptions(const po::variables_map& vm, InputKind k
     Result<ColumnMap> map = LoadColumnMap(vm["columns"].as<std::string>(), kind);
     if (!map.ok()) return map.status();
     options.columns = std::move(map.value());
+  }
+  if (vm.count("shard") != 0U) {
+    Result<ShardSpec> shard = ParseShard(vm["shard"].as<std::string>());
+    if (!shard.ok()) return AsFlagFault(shard.status());
+    options.shard = *shard;
   }
   return options;
 }
@@ -171,7 +179,7 @@ int ImportAll(Context& context, Store& store, InputKind kind, const std::vector<
 int RunImport(Context& context, const std::vector<std::string>& args, InputKind kind) {
   const std::string usage = "medload import " + std::string(InputKindName(kind)) +
                             " FILE... [--columns MAP.json] [--date-format iso|dmy|mdy]"
-                            " [--rejects FILE] [--max-reject-rate R]";
+                            " [--rejects FILE] [--max-reject-rate R] [--shard K/N]";
   const po::options_description description = ImportOptionsDescription(kind);
   int exit_code = 0;
   const auto vm = ParseOptions(context, usage.c_str(), description, {{"file", -1}}, args, exit_code);

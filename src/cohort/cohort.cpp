@@ -57,6 +57,16 @@ void CohortCounter::PutFigures(size_t index, const DateFigures& figures) {
 
 void CohortCounter::See(const PatientHistory& history) { AddHistoryToSpans(history, tally_.spans); }
 
+void CohortCounter::SeeCoverage(const PracticeSpans& spans) { MergeSpans(tally_.spans, spans); }
+
+Status SeeOtherShards(const Store& store, CohortCounter& counter) {
+  Result<PracticeSpans> others = store.OtherShardCoverage();
+  if (!others.ok()) return others.status();
+  others->erase("");  // attributed by their own shard's store only
+  counter.SeeCoverage(*others);
+  return Status::Ok();
+}
+
 bool CohortCounter::Settled(const std::string& practice) const {
   const auto it = tally_.spans.find(practice);
   return !options_.dates.empty() && it != tally_.spans.end() && it->second.first <= options_.dates.front();
@@ -123,11 +133,25 @@ void CohortCounter::Add(const PatientHistory& history, const BurdenOnDate& burde
   }
 }
 
-CohortTally CohortCounter::Take() {
-  for (auto& [group, by_practice] : tally_.unseen) {
-    std::erase_if(by_practice, [&](const auto& entry) { return Settled(entry.first); });
+namespace {
+
+// Takes off the unseen patients of practices whose data began on or before the first
+// date: those are counted as they are (CohortTally::unseen).
+void DropSettledUnseen(CohortTally& tally) {
+  const auto settled = [&](const std::string& practice) {
+    const auto it = tally.spans.find(practice);
+    return !tally.dates.empty() && it != tally.spans.end() && it->second.first <= tally.dates.front();
+  };
+  for (auto& [group, by_practice] : tally.unseen) {
+    std::erase_if(by_practice, [&](const auto& entry) { return settled(entry.first); });
   }
-  std::erase_if(tally_.unseen, [](const auto& entry) { return entry.second.empty(); });
+  std::erase_if(tally.unseen, [](const auto& entry) { return entry.second.empty(); });
+}
+
+}  // namespace
+
+CohortTally CohortCounter::Take() {
+  DropSettledUnseen(tally_);
   return std::move(tally_);
 }
 
@@ -138,6 +162,7 @@ Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
   std::map<std::string, std::string> networks;
   for (const PracticeRecord& practice : *practices) networks[practice.practice] = practice.network;
   CohortCounter counter(options, std::move(networks), DescribeMeasure(analysis.options()));
+  if (Status status = SeeOtherShards(store, counter); !status.ok()) return status;
   PassFacts facts;
   Status status = ForEachPatientTimeline(store, analysis, [&](PassPatient& patient) {
     counter.See(patient.history());
@@ -215,6 +240,7 @@ Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,
       for (size_t d = 0; d < cells.size() && d < it->second.size(); ++d) AddCell(it->second[d], cells[d]);
     }
   }
+  DropSettledUnseen(merged);
   return merged;
 }
 

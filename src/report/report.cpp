@@ -297,6 +297,7 @@ Result<Pass> CountPatients(const Store& store, RunContext& analysis, const Repor
   if (!reviewed.ok()) return reviewed.status();
   Pass pass{fresh_counter, std::move(*reviewed), {}, 0, {}};
   pass.counter.SkipDates(skipped);
+  if (Status status = SeeOtherShards(store, pass.counter); !status.ok()) return status;
   if (Status status = RunPass(store, analysis, config, model.on, pass, progress); !status.ok()) return status;
   if (!pass.capped.empty() && !cache.served.empty()) {
     cache.served.clear();

@@ -59,6 +59,7 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
       {"imported", summary.imported},
       {"duplicates", summary.duplicates},
       {"rejected", summary.rejected},
+      {"other_shards", summary.other_shards},
       {"stored", Stored(summary)},
       {"updated", summary.updated},
       {"lines", summary.lines},
@@ -77,6 +78,10 @@ nlohmann::ordered_json FileJson(const ImportSummary& summary) {
     json["not_in_registry_examples"] = summary.not_in_registry_examples;
     json["product_flags"] = summary.product_flags;
   }
+  if (!summary.shard.empty()) {
+    json["shard"] = summary.shard;
+    json["other_shards_rejected"] = summary.other_shards_rejected;
+  }
   if (summary.kind == "dispensing" && summary.format == "fhir") {
     json["patients"] = summary.patients;
     json["medications"] = summary.medications;
@@ -91,15 +96,44 @@ std::string ImportedCell(const ImportSummary& summary) {
   return "0 (" + std::to_string(summary.imported) + " valid, not stored)";
 }
 
-std::vector<std::string> CountCells(const ImportSummary& summary) {
-  return {summary.file,
-          summary.kind,
-          std::to_string(summary.lines),
-          std::to_string(summary.read),
-          ImportedCell(summary),
-          std::to_string(summary.duplicates),
-          std::to_string(summary.rejected),
-          summary.rolled_back ? "rolled back" : "committed"};
+// With `shards`, a column of the rows left to other shards after "rejected".
+std::vector<std::string> CountCells(const ImportSummary& summary, bool shards) {
+  std::vector<std::string> cells = {summary.file,
+                                    summary.kind,
+                                    std::to_string(summary.lines),
+                                    std::to_string(summary.read),
+                                    ImportedCell(summary),
+                                    std::to_string(summary.duplicates),
+                                    std::to_string(summary.rejected),
+                                    summary.rolled_back ? "rolled back" : "committed"};
+  if (shards) cells.insert(cells.begin() + 7, std::to_string(summary.other_shards));
+  return cells;
+}
+
+// Whether any file was imported with --shard: the tables then show the other shards' rows.
+bool AnyShard(const std::vector<ImportSummary>& files) {
+  for (const ImportSummary& file : files) {
+    if (!file.shard.empty()) return true;
+  }
+  return false;
+}
+
+std::vector<std::string> HeaderCells(bool shards) {
+  std::vector<std::string> header = {"file", "kind", "lines", "read", "imported", "duplicates", "rejected", "outcome"};
+  if (shards) header.insert(header.begin() + 7, "other shards");
+  return header;
+}
+
+// "d.csv: shard 2/4: 75 of the rows read belong to other shards' patients (not stored
+// here; their own shard rejects 3 of them)".
+std::optional<std::string> ShardLine(const ImportSummary& summary) {
+  if (summary.shard.empty()) return std::nullopt;
+  std::string line = summary.file + ": shard " + summary.shard + ": " + std::to_string(summary.other_shards) +
+                     " of the rows read belong to other shards' patients (not stored here";
+  if (summary.other_shards_rejected > 0) {
+    line += "; their own shard rejects " + std::to_string(summary.other_shards_rejected) + " of them";
+  }
+  return line + ")";
 }
 
 // "d.csv: 103 lines = 1 header + 2 blank + 100 in the 98 rows read (2 rows span several
@@ -125,6 +159,7 @@ std::optional<std::string> LinesLine(const ImportSummary& summary) {
 std::vector<std::string> DetailLines(const ImportSummary& summary) {
   std::vector<std::string> lines;
   if (std::optional<std::string> counted = LinesLine(summary)) lines.push_back(std::move(*counted));
+  if (std::optional<std::string> shard = ShardLine(summary)) lines.push_back(std::move(*shard));
   if (!summary.reasons.empty()) {
     lines.push_back(summary.file + ": rejected by reason: " + JoinCounts(summary.reasons, " ", ", "));
   }
@@ -166,9 +201,6 @@ std::vector<std::string> DetailLines(const ImportSummary& summary) {
   return lines;
 }
 
-const std::vector<std::string> kHeader = {"file",       "kind",     "lines",   "read",
-                                          "imported",   "duplicates", "rejected", "outcome"};
-
 }  // namespace
 
 void ImportSummary::Add(const ImportSummary& other) {
@@ -176,6 +208,8 @@ void ImportSummary::Add(const ImportSummary& other) {
   imported += other.imported;
   duplicates += other.duplicates;
   rejected += other.rejected;
+  other_shards += other.other_shards;
+  other_shards_rejected += other.other_shards_rejected;
   updated += other.updated;
   patients += other.patients;
   medications += other.medications;
@@ -199,15 +233,23 @@ ImportSummary TotalOf(const std::vector<ImportSummary>& files) {
     total.Add(file);
     if (total.kind.empty()) total.kind = file.kind;
     else if (total.kind != file.kind) total.kind = "mixed";
+    if (total.shard.empty()) total.shard = file.shard;
+    else if (!file.shard.empty() && total.shard != file.shard) total.shard = "mixed";
   }
   return total;
 }
 
 std::string RollbackMessage(const ImportSummary& summary) {
-  const double rate =
-      summary.read > 0 ? static_cast<double>(summary.rejected) / static_cast<double>(summary.read) : 0;
-  return summary.file + ": " + std::to_string(summary.rejected) + " of " +
-         std::to_string(summary.read) + " rows rejected (" + FormatNumber(rate * 100, 1) +
+  // With --shard, the whole file's rejected rows: this shard's and the other shards'.
+  const long rejected = summary.rejected + summary.other_shards_rejected;
+  const double rate = summary.read > 0 ? static_cast<double>(rejected) / static_cast<double>(summary.read) : 0;
+  const std::string in_shards =
+      summary.other_shards_rejected > 0
+          ? " in the whole file (" + std::to_string(summary.rejected) + " here, " +
+                std::to_string(summary.other_shards_rejected) + " in other shards)"
+          : "";
+  return summary.file + ": " + std::to_string(rejected) + " of " + std::to_string(summary.read) + " rows rejected" +
+         in_shards + " (" + FormatNumber(rate * 100, 1) +
          "%), above --max-reject-rate " + FormatNumber(summary.max_reject_rate, 4) +
          ": the file was rolled back and nothing from it was stored";
 }
@@ -219,6 +261,7 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"imported", total.imported},
       {"duplicates", total.duplicates},
       {"rejected", total.rejected},
+      {"other_shards", total.other_shards},
       {"reasons", total.reasons},
       {"stored", Stored(total)},
       {"lines", total.lines},
@@ -232,6 +275,7 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
       {"product_flags", total.product_flags},
       {"rolled_back", total.rolled_back},
   };
+  if (!total.shard.empty()) json["shard"] = total.shard;
   if (files.size() == 1) json["file"] = files.front().file;
   json["files"] = nlohmann::ordered_json::array();
   for (const ImportSummary& file : files) json["files"].push_back(FileJson(file));
@@ -240,14 +284,15 @@ nlohmann::ordered_json ImportJson(const std::vector<ImportSummary>& files) {
 }
 
 void WriteImportText(const std::vector<ImportSummary>& files, std::ostream& out) {
+  const bool shards = AnyShard(files);
   std::vector<std::vector<std::string>> rows;
-  for (const ImportSummary& file : files) rows.push_back(CountCells(file));
+  for (const ImportSummary& file : files) rows.push_back(CountCells(file, shards));
   if (files.size() > 1) {
-    std::vector<std::string> total = CountCells(TotalOf(files));
+    std::vector<std::string> total = CountCells(TotalOf(files), shards);
     total.back().clear();
     rows.push_back(std::move(total));
   }
-  WriteTextTable(out, kHeader, rows);
+  WriteTextTable(out, HeaderCells(shards), rows);
   bool first = true;
   for (const ImportSummary& file : files) {
     for (const std::string& line : DetailLines(file)) {
@@ -263,7 +308,7 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
   WriteCsvCaution(out);
   out << CsvRow({"file", "kind", "format", "lines", "blank_lines", "row_lines", "read", "imported",
                  "duplicates", "rejected", "stored", "updated", "rolled_back", "reasons", "not_counted",
-                 "not_in_registry", "not_in_registry_examples", "product_flags"});
+                 "not_in_registry", "not_in_registry_examples", "product_flags", "shard", "other_shards"});
   std::vector<ImportSummary> rows = files;
   if (files.size() > 1) rows.push_back(TotalOf(files));
   for (const ImportSummary& file : rows) {
@@ -274,7 +319,8 @@ void WriteImportCsv(const std::vector<ImportSummary>& files, std::ostream& out) 
                    std::to_string(Stored(file)), std::to_string(file.updated),
                    file.rolled_back ? "true" : "false", JoinCounts(file.reasons, "=", ";"),
                    JoinCounts(file.not_counted, "=", ";"), std::to_string(file.not_in_registry),
-                   JoinLines(file.not_in_registry_examples), JoinCounts(file.product_flags, "=", ";")});
+                   JoinLines(file.not_in_registry_examples), JoinCounts(file.product_flags, "=", ";"), file.shard,
+                   std::to_string(file.other_shards)});
   }
 }
 
@@ -284,10 +330,11 @@ void WriteImportJson(const std::vector<ImportSummary>& files, std::ostream& out)
 
 void WriteImportHtml(const std::vector<ImportSummary>& files, std::ostream& out) {
   WriteHtmlStart(out, "medload import");
+  const bool shards = AnyShard(files);
   std::vector<std::vector<std::string>> rows;
-  for (const ImportSummary& file : files) rows.push_back(CountCells(file));
-  if (files.size() > 1) rows.push_back(CountCells(TotalOf(files)));
-  WriteHtmlTable(out, kHeader, rows);
+  for (const ImportSummary& file : files) rows.push_back(CountCells(file, shards));
+  if (files.size() > 1) rows.push_back(CountCells(TotalOf(files), shards));
+  WriteHtmlTable(out, HeaderCells(shards), rows);
   std::vector<std::string> details;
   for (const ImportSummary& file : files) {
     for (std::string& line : DetailLines(file)) details.push_back(std::move(line));

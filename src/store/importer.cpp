@@ -12,6 +12,7 @@
 #include <iostream>
 #include <optional>
 #include <streambuf>
+#include <type_traits>
 
 #include "medload/core/clock.h"
 #include "medload/core/hash.h"
@@ -23,6 +24,7 @@
 #include "store/fhir_import.h"
 #include "store/record_writers.h"
 #include "store/registry_check.h"
+#include "store/shard_split.h"
 #include "store/sqlite.h"
 
 namespace medload {
@@ -121,8 +123,8 @@ std::string RejectedRowKey(std::string_view kind, size_t line, std::string_view 
 // row of one file, inside the file's transaction.
 class Session : public RowSink {
  public:
-  Session(Store& store, ImportSummary& summary, const ImportOptions& options)
-      : db_(store.handle()), summary_(summary), options_(options) {}
+  Session(Store& store, InputKind kind, ImportSummary& summary, const ImportOptions& options)
+      : store_(store), db_(store.handle()), summary_(summary), options_(options), split_(options.shard, kind) {}
 
   ~Session() override {
     transaction_.reset();  // ends the transaction (rolling back unless committed) first
@@ -138,6 +140,9 @@ class Session : public RowSink {
     Result<Transaction> transaction = Transaction::Begin(db_);
     if (!transaction.ok()) return transaction.status();
     transaction_.emplace(std::move(transaction.value()));
+    Result<std::optional<ShardSpec>> held = store_.HeldShard();
+    if (!held.ok()) return held.status();
+    if (Status status = split_.Claim(db_, *held, summary_.file); !status.ok()) return status;
     if (Status status = InsertRun("running"); !status.ok()) return status;
     // A row rejected again by a re-import of its file is kept once, under the new run.
     Result<Statement> reject = Statement::Prepare(
@@ -170,6 +175,21 @@ class Session : public RowSink {
     return Status::Ok();
   }
   bool patient_index_live() const { return !patient_index_deferred_; }
+
+  // True when `row` belongs to another shard's store (import --shard).
+  bool Elsewhere(const CsvRow& row, const HeaderLayout& layout) const { return split_.Elsewhere(row, layout); }
+
+  // A row left to another shard: counted apart, with whether its own shard rejects it
+  // (`faulty`, for the file's reject rate); a valid dispensing widens the other shards'
+  // coverage.
+  template <typename Record>
+  void LeaveElsewhere(const Record& record, bool faulty) {
+    ++summary_.other_shards;
+    if (faulty) ++summary_.other_shards_rejected;
+    if constexpr (std::is_same_v<Record, DispensingRecord>) {
+      if (!faulty) split_.NoteElsewhere(record);
+    }
+  }
   sqlite3* db() const { return db_; }
 
   // Progress tells how far through `source` (of `size_bytes`, 0 if unknown) the file is.
@@ -236,9 +256,10 @@ class Session : public RowSink {
 
   // Commits, or rolls back when the reject rate is above the limit.
   Status Finish() {
-    summary_.rolled_back =
-        summary_.read > 0 && static_cast<double>(summary_.rejected) >
-                                 options_.max_reject_rate * static_cast<double>(summary_.read);
+    // The rate is the whole file's: rows of other shards that their own shard rejects
+    // count, so that every shard, and an import of the whole file, decide alike.
+    summary_.rolled_back = summary_.read > 0 && static_cast<double>(summary_.rejected + summary_.other_shards_rejected) >
+                                                    options_.max_reject_rate * static_cast<double>(summary_.read);
     if (summary_.rolled_back) {
       transaction_->Rollback();
       // Keep a trace of the attempt, outside the rolled-back transaction.
@@ -250,6 +271,7 @@ class Session : public RowSink {
     if (summary_.kind == InputKindName(InputKind::kDispensing)) {
       if (Status status = registry_.Finish(summary_); !status.ok()) return status;
     }
+    if (Status status = split_.SaveCoverage(db_); !status.ok()) return status;
     if (patient_index_deferred_) {
       // The same definition as in the schema (store.cpp, version 1).
       Status status = ExecSql(db_, "CREATE INDEX dispensings_by_patient ON dispensings(patient_id, dispensed_on)");
@@ -278,7 +300,7 @@ class Session : public RowSink {
     Result<Statement> update = Statement::Prepare(
         db_,
         "UPDATE import_runs SET finished = ?2, outcome = ?3, read = ?4, imported = ?5,"
-        " duplicates = ?6, rejected = ?7, not_counted = ?8 WHERE id = ?1");
+        " duplicates = ?6, rejected = ?7, not_counted = ?8, other_shards = ?9 WHERE id = ?1");
     if (!update.ok()) return update.status();
     long not_counted = 0;
     for (const auto& [status, count] : summary_.not_counted) not_counted += count;
@@ -291,9 +313,11 @@ class Session : public RowSink {
     update->BindInt(6, summary_.duplicates);
     update->BindInt(7, summary_.rejected);
     update->BindInt(8, not_counted);
+    update->BindInt(9, summary_.other_shards);
     return update->Run();
   }
 
+  Store& store_;
   sqlite3* db_;
   ImportSummary& summary_;
   const ImportOptions& options_;
@@ -304,6 +328,7 @@ class Session : public RowSink {
   bool patient_index_deferred_ = false;
   const PrefixedBuffer* source_ = nullptr;
   uint64_t size_bytes_ = 0;
+  ShardSplit split_;
 };
 
 // Reads every CSV row after the header: `parse` checks it, `store` stores it (and counts).
@@ -315,11 +340,16 @@ Status ImportCsvRows(CsvReader& reader, const HeaderLayout& layout, const RowCon
   PlausibleProducts plausible;  // descriptions repeat: each is read once per file
   while (reader.Next(row)) {
     session.Tick(row.line_count);
+    const bool elsewhere = session.Elsewhere(row, layout);
     std::optional<RowFault> fault;
     // The reader's own faults (UTF-8, length) come first; then control characters.
     if (row.fault == CsvFault::kNone) fault = ControlCharacterFault(context.file, row.line, row.text, false);
     if (!fault) fault = parse(row, layout, context, record);
     if (!fault) fault = RecordFault(record, context.file, row.line, FieldNames::kCsv, &plausible);
+    if (elsewhere) {  // checked all the same: whether its own shard rejects it counts
+      session.LeaveElsewhere(record, fault.has_value());
+      continue;
+    }
     if (fault) {
       if (Status status = session.Reject(row.line, *fault, row.text); !status.ok()) return status;
       continue;
@@ -544,9 +574,18 @@ Result<ImportSummary> ImportSized(Store& store, InputKind kind, std::istream& in
   }
   const bool ndjson = LooksLikeNdjson(head);
   summary.format = ndjson ? "fhir" : "csv";
+  if (options.shard.count > 1) {
+    summary.shard = ShardName(options.shard);
+    // A FHIR dispense may name its patient by an identifier that a Patient resource of
+    // another shard declares: the split needs every file's subjects settled first.
+    if (ndjson) {
+      return Status::Input(summary.file + ": --shard splits CSV files only; import FHIR NDJSON into a store of "
+                           "the whole network");
+    }
+  }
   PrefixedBuffer buffer(std::move(head), in, ndjson);
   std::istream whole(&buffer);
-  Session session(store, summary, options);
+  Session session(store, kind, summary, options);
   session.ReportBytesOf(&buffer, size_bytes);
   bool read_failed = false;
   Status status =

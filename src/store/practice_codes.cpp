@@ -38,8 +38,10 @@ bool AllKnown(const std::vector<std::string>& codes, const std::vector<std::stri
 // A Store member: it lives here beside the check that is its only user.
 Result<std::vector<std::string>> Store::PracticeCodes(bool with_dispensings) const {
   std::set<std::string> codes;
+  // A shard's store also knows the practices named by the dispensings it left to others.
   for (const char* sql : {"SELECT practice FROM practices WHERE practice <> ''",
-                          "SELECT DISTINCT practice FROM patients WHERE practice <> ''"}) {
+                          "SELECT DISTINCT practice FROM patients WHERE practice <> ''",
+                          "SELECT practice FROM other_shard_coverage WHERE practice <> ''"}) {
     if (Status status = CollectCodes(db_, sql, codes); !status.ok()) return status;
   }
   if (with_dispensings) {

@@ -30,11 +30,18 @@ void RegistryCheck::AddExample(size_t line, std::string_view patient_id) {
 
 Status RegistryCheck::Note(std::string_view patient_id, size_t line) {
   if (patient_id != last_id_) {
-    // Rows of one patient usually come together (the CSV batches are sorted by patient).
-    Result<bool> registered = Registered(patient_id);
-    if (!registered.ok()) return registered.status();
+    // Rows of one patient come together in sorted batches, but a large load goes in file
+    // order, where nearly every row names another patient than the row before: patients
+    // found registered are remembered (the registry does not shrink during an import).
+    if (registered_.find(patient_id) != registered_.end()) {
+      last_registered_ = true;
+    } else {
+      Result<bool> registered = Registered(patient_id);
+      if (!registered.ok()) return registered.status();
+      last_registered_ = *registered;
+      if (last_registered_ && registered_.size() < kMaxHeld) registered_.emplace(patient_id);
+    }
     last_id_.assign(patient_id);
-    last_registered_ = *registered;
   }
   if (last_registered_) return Status::Ok();
   if (const auto held = held_.find(patient_id); held != held_.end()) {

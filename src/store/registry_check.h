@@ -4,9 +4,11 @@
 // dispensings are kept (the registry may be loaded later).
 #pragma once
 
+#include <functional>
 #include <map>
 #include <string>
 #include <string_view>
+#include <unordered_set>
 
 #include "medload/core/status.h"
 #include "medload/store/import_summary.h"
@@ -19,7 +21,8 @@ class RegistryCheck {
   // How many named dispensings the summary keeps.
   static constexpr size_t kExamples = 5;
   // How many distinct patients are held (and counted as patients); the dispensings of
-  // further patients are counted without them.
+  // further patients are counted without them. As many registered patients are
+  // remembered; further ones are looked up again when they come back.
   static constexpr size_t kMaxHeld = 1 << 20;
 
   // REQUIRES: `db` outlives the check. With `registry_may_grow` (FHIR, whose Patient
@@ -44,6 +47,11 @@ class RegistryCheck {
   bool registry_may_grow_ = false;
   std::string last_id_;
   bool last_registered_ = true;
+  struct Hash {
+    using is_transparent = void;
+    size_t operator()(std::string_view text) const { return std::hash<std::string_view>{}(text); }
+  };
+  std::unordered_set<std::string, Hash, std::equal_to<>> registered_;  // up to kMaxHeld
   std::map<std::string, Held, std::less<>> held_;
   std::map<size_t, std::string> examples_;  // line -> patient, the first kExamples
   long dispensings_ = 0;

@@ -164,7 +164,24 @@ ALTER TABLE packed_histories ADD COLUMN dropped INTEGER NOT NULL DEFAULT 0;
 DELETE FROM packed_histories;
 DELETE FROM packed_histories_state;
 )sql",
-    // 5 -> 6: saved census figures (store/census_figures.cpp): each report's per-practice
+    // 5 -> 6: a store may hold one shard of the network's patients (import --shard K/N):
+    // which shard it holds, the data coverage of the rows its imports left to other
+    // shards (first and latest counting dispensing per practice named, '' for none), and
+    // each run's count of those rows.
+    R"sql(
+CREATE TABLE store_shard (
+  id INTEGER PRIMARY KEY CHECK (id = 1),
+  shard INTEGER NOT NULL,
+  shards INTEGER NOT NULL
+);
+CREATE TABLE other_shard_coverage (
+  practice TEXT PRIMARY KEY,
+  first_dispensed TEXT NOT NULL,
+  latest_dispensed TEXT NOT NULL
+) WITHOUT ROWID;
+ALTER TABLE import_runs ADD COLUMN other_shards INTEGER NOT NULL DEFAULT 0;
+)sql",
+    // 6 -> 7: saved census figures (store/census_figures.cpp): each report's per-practice
     // counts on a census date, under a key of everything but the dispensings they depend
     // on, with the newest dispensing and the newest edit when they were counted. An update
     // of a dispensing notes the earlier of its dates, a delete notes '' (every date).

@@ -282,12 +282,11 @@ Result<std::vector<ProductCount>> Store::ProductCounts() const {
   return counts;
 }
 
-Result<PracticeSpans> Store::PracticeDataSpans() const {
-  Result<Statement> stmt = Statement::Prepare(
-      db_, "SELECT CASE WHEN d.practice <> '' THEN d.practice ELSE COALESCE(p.practice, '') END AS owner,"
-           " MIN(d.dispensed_on), MAX(d.dispensed_on) FROM dispensings d"
-           " LEFT JOIN patients p ON p.patient_id = d.patient_id"
-           " WHERE d.status IN ('', 'completed') GROUP BY owner");
+namespace {
+
+// Rows of (practice, first, latest) as spans; a malformed date names the store.
+Result<PracticeSpans> ReadSpans(sqlite3* db, const char* sql, const std::string& path) {
+  Result<Statement> stmt = Statement::Prepare(db, sql);
   if (!stmt.ok()) return stmt.status();
   PracticeSpans spans;
   for (;;) {
@@ -296,10 +295,45 @@ Result<PracticeSpans> Store::PracticeDataSpans() const {
     if (!*row) break;
     const std::optional<Date> first = ColumnDate(*stmt, 1);
     const std::optional<Date> latest = ColumnDate(*stmt, 2);
-    if (!first || !latest) return Status::Input(path_ + ": a stored dispensing date is malformed");
+    if (!first || !latest) return Status::Input(path + ": a stored dispensing date is malformed");
     spans[std::string(stmt->ColumnText(0))] = DataSpan{*first, *latest};
   }
   return spans;
+}
+
+}  // namespace
+
+Result<PracticeSpans> Store::PracticeDataSpans() const {
+  Result<PracticeSpans> spans = ReadSpans(
+      db_, "SELECT CASE WHEN d.practice <> '' THEN d.practice ELSE COALESCE(p.practice, '') END AS owner,"
+           " MIN(d.dispensed_on), MAX(d.dispensed_on) FROM dispensings d"
+           " LEFT JOIN patients p ON p.patient_id = d.patient_id"
+           " WHERE d.status IN ('', 'completed') GROUP BY owner", path_);
+  if (!spans.ok()) return spans.status();
+  Result<PracticeSpans> others = OtherShardCoverage();
+  if (!others.ok()) return others.status();
+  others->erase("");  // attributed by their own shard's store only
+  MergeSpans(*spans, *others);
+  return spans;
+}
+
+Result<PracticeSpans> Store::OtherShardCoverage() const {
+  return ReadSpans(db_, "SELECT practice, first_dispensed, latest_dispensed FROM other_shard_coverage", path_);
+}
+
+Result<std::optional<ShardSpec>> Store::HeldShard() const {
+  Result<Statement> stmt = Statement::Prepare(db_, "SELECT shard, shards FROM store_shard WHERE id = 1");
+  if (!stmt.ok()) return stmt.status();
+  Result<bool> row = stmt->Step();
+  if (!row.ok()) return row.status();
+  if (!*row) return std::optional<ShardSpec>();
+  const int64_t index = stmt->ColumnInt(0);
+  const int64_t count = stmt->ColumnInt(1);
+  if (count < 1 || index < 1 || index > count || count > UINT32_MAX) {
+    return Status::Input(path_ + ": the stored shard " + std::to_string(index) + "/" + std::to_string(count) +
+                         " is malformed");
+  }
+  return std::optional<ShardSpec>(ShardSpec{static_cast<uint32_t>(index), static_cast<uint32_t>(count)});
 }
 
 Result<StoreSummary> Store::Summary() const {
@@ -313,6 +347,13 @@ Result<StoreSummary> Store::Summary() const {
   summary.earliest_dispensed = ColumnDate(*span, 0);
   summary.latest_dispensed = ColumnDate(*span, 1);
   summary.counting_dispensings = static_cast<long>(span->ColumnInt(2));
+  // A shard's store spans the whole network's data (the rows its imports left to others).
+  Result<PracticeSpans> others = OtherShardCoverage();
+  if (!others.ok()) return others.status();
+  for (const auto& [practice, other] : *others) {
+    if (!summary.earliest_dispensed || other.first < *summary.earliest_dispensed) summary.earliest_dispensed = other.first;
+    if (!summary.latest_dispensed || *summary.latest_dispensed < other.latest) summary.latest_dispensed = other.latest;
+  }
   const std::pair<long*, const char*> counts[] = {
       {&summary.practices, "SELECT COUNT(*) FROM practices"},
       {&summary.patients, "SELECT COUNT(*) FROM patients"},

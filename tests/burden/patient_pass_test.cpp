@@ -188,10 +188,13 @@ TEST_CASE("a visitor that throws stops the readers, and the exception reaches th
   for (const bool in_file : {false, true}) {
     ManyPatients population(in_file);
     int visited = 0;
-    CHECK_THROWS_WITH(ForEachPatientTimeline(population.store, population.analysis, [&](PassPatient&) {
-                        if (++visited == 450) throw std::runtime_error("visitor failed");
-                        return true;
-                      }),
+    CHECK_THROWS_WITH(static_cast<void>(ForEachPatientTimeline(population.store, population.analysis,
+                                                               [&](PassPatient&) {
+                                                                 if (++visited == 450) {
+                                                                   throw std::runtime_error("visitor failed");
+                                                                 }
+                                                                 return true;
+                                                               })),
                       "visitor failed");
     CHECK(visited == 450);
     // The store is usable afterwards: the pass's snapshot and peers are gone.

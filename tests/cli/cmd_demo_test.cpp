@@ -27,7 +27,8 @@ TEST_CASE("the demo's folder is private like a report folder: 0700, every file 0
                                                   {"demo", 0700},
                                                   {"demo/digests", 0700}};
   for (const auto& [name, mode] : files) {
-    CAPTURE(name);
+    const auto& file_name = name;  // clang 14 cannot capture a structured binding
+    CAPTURE(file_name);
     struct stat info {};
     REQUIRE(::stat(folder.File(name).c_str(), &info) == 0);
     CHECK((info.st_mode & 0777) == mode);

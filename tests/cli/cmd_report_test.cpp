@@ -238,7 +238,8 @@ TEST_CASE("control characters and bidi controls in the report title reach no out
   }
   size_t shown = 0;
   for (const auto& [name, text] : outputs) {
-    CAPTURE(name);
+    const auto& output_name = name;  // clang 14 cannot capture a structured binding
+    CAPTURE(output_name);
     CHECK(text.find('\x1b') == std::string::npos);
     CHECK(text.find('\x07') == std::string::npos);
     CHECK(text.find("\xE2\x80\xAE") == std::string::npos);

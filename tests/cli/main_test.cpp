@@ -123,7 +123,8 @@ TEST_CASE("read commands refuse a --db that is not a medload store, saying what 
            {"empty.db", "is an empty file, not a medload store"},
            {"notes.txt", "is not a medload store: it is not a SQLite database"}}) {
     for (const std::vector<std::string>& command : kReadCommands) {
-      CAPTURE(file);
+      const auto& store_file = file;  // clang 14 cannot capture a structured binding
+      CAPTURE(store_file);
       CAPTURE(command[0]);
       std::vector<std::string> args = {"--db", file};
       args.insert(args.end(), command.begin(), command.end());
@@ -174,7 +175,8 @@ TEST_CASE("--output of a patient-level command is owner-only, of a practice-leve
       {{"review", "--on", "2024-01-31", "--at-least", "items=1", "--output", "review.txt"}, 0600},
       {{"cohort", "--on", "2024-01-31", "--at-least", "items=1", "--output", "cohort.txt"}, 0644}};
   for (const auto& [args, mode] : commands) {
-    CAPTURE(args[0]);
+    const auto& command_name = args[0];  // clang 14 cannot capture a structured binding
+    CAPTURE(command_name);
     const ProcessResult result = RunMedload(args, run);
     CHECK_MESSAGE(result.exit_code == 0, result.err);
     CHECK(ModeOf(folder.File(args.back())) == mode);

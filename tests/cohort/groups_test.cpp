@@ -15,7 +15,8 @@ TEST_CASE("age bands have their documented edges") {
       {64, "50-64"}, {65, "65-74"}, {74, "65-74"}, {75, "75-84"}, {84, "75-84"},
       {85, "85+"},   {104, "85+"}};
   for (const auto& [age, band] : cases) {
-    CAPTURE(age);
+    const auto age_years = age;  // clang 14 cannot capture a structured binding
+    CAPTURE(age_years);
     CHECK(AgeBandGroup(age) == band);
   }
   CHECK(AgeBandGroup(std::nullopt) == "unknown");

@@ -91,7 +91,8 @@ TEST_CASE("the dose in force on a day is the stage that covers it, the last one 
   const std::pair<int, std::optional<double>> days[] = {
       {-1, std::nullopt}, {0, 3}, {6, 3}, {7, 2}, {13, 2}, {14, 1}, {20, 1}, {400, 1}};
   for (const auto& [day, units] : days) {
-    CAPTURE(day);
+    const auto day_of_taper = day;  // clang 14 cannot capture a structured binding
+    CAPTURE(day_of_taper);
     CHECK(UnitsPerDayOnDay(taper, day) == units);
   }
   const DosageReading stop = ReadDosageText("6 daily for 5 days then stop");

@@ -1,12 +1,13 @@
 #!/usr/bin/env bash
-# Runs every libFuzzer target built in BUILD_DIR (the `fuzz` preset: build-fuzz) for
+# Runs every libFuzzer target built in BUILD_DIR (the `sanitize` preset: build-sanitize, or
+# the lighter `fuzz` preset: build-fuzz) for
 # SECONDS each, one after another, each on a copy of its seed corpus in a temporary
 # folder (the repository is never written to), with its dictionary when there is one.
 # Prints per target the executions done, the corpus size at the end and whether it found
 # anything; exits 1 if any target reported a crash, a leak, a timeout or a sanitizer
 # report (the inputs that did are copied to BUILD_DIR/fuzz-artifacts/).
 #
-#   tests/fuzz/run_fuzzers.sh build-fuzz 20        # CI
+#   tests/fuzz/run_fuzzers.sh build-sanitize 15    # CI
 #   nice -n 10 tests/fuzz/run_fuzzers.sh build-fuzz 300
 #   FUZZ_TARGETS="csv_reader resolver" tests/fuzz/run_fuzzers.sh build-fuzz 60
 set -uo pipefail

@@ -70,8 +70,8 @@ TEST_CASE("the CSV summary starts with the caution line") {
   CHECK(text.rfind("\"# CAUTION:", 0) == 0);
   CHECK(text.find("\nfile,kind,format,lines,blank_lines,row_lines,read,imported,duplicates,rejected,"
                   "stored,updated,rolled_back,reasons,not_counted,not_in_registry,not_in_registry_examples,"
-                  "product_flags\n") != std::string::npos);
-  CHECK(text.find("a.csv,dispensing,csv,12,1,10,10,6,2,2,6,0,false,bad_date=1;bad_quantity=1,,0,,\n") !=
+                  "product_flags,shard,other_shards\n") != std::string::npos);
+  CHECK(text.find("a.csv,dispensing,csv,12,1,10,10,6,2,2,6,0,false,bad_date=1;bad_quantity=1,,0,,,,0\n") !=
         std::string::npos);
 }
 
@@ -173,7 +173,7 @@ TEST_CASE("the items of products not fully recognised are counted by kind in eve
   WriteImportCsv({summary}, csv);
   WriteImportHtml({summary}, html);
   CHECK(text.str().find(line + "\n") != std::string::npos);
-  CHECK(csv.str().find(",approximate=1;partial=2;unmatched=3\n") != std::string::npos);
+  CHECK(csv.str().find(",approximate=1;partial=2;unmatched=3,,0\n") != std::string::npos);
   CHECK(html.str().find("<li>" + line + "</li>") != std::string::npos);
   // Only the kinds present are named.
   summary.product_flags = {{"partial", 1}};
@@ -203,8 +203,41 @@ TEST_CASE("dispensings with no registry row are a warning in every format") {
   CHECK(text.str().find(warning + "\n  d.ndjson:4: patient \"pt-x\"\n  d.ndjson:9: patient \"pt-z\"\n") !=
         std::string::npos);
   CHECK(csv.str().find("d.ndjson,dispensing,fhir,12,1,10,10,6,2,2,6,0,false,bad_date=1;bad_quantity=1,,3,"
-                       "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\",\n") != std::string::npos);
+                       "\"d.ndjson:4: patient \"\"pt-x\"\"; d.ndjson:9: patient \"\"pt-z\"\"\",,,0\n") != std::string::npos);
   CHECK(html.str().find("<li>" + warning + "</li>") != std::string::npos);
+}
+
+TEST_CASE("a split import shows the rows left to other shards in every format, and they add up") {
+  ImportSummary summary = Example("d.csv");
+  summary.shard = "2/4";
+  summary.imported = 2;
+  summary.other_shards = 4;
+  summary.other_shards_rejected = 1;
+  REQUIRE(summary.read == summary.imported + summary.duplicates + summary.rejected + summary.other_shards);
+  const nlohmann::ordered_json json = ImportJson({summary, summary});
+  CHECK(json.at("other_shards") == 8);
+  CHECK(json.at("shard") == "2/4");
+  CHECK(json.at("read") == json.at("imported").get<long>() + json.at("duplicates").get<long>() +
+                               json.at("rejected").get<long>() + json.at("other_shards").get<long>());
+  CHECK(json.at("files").at(0).at("other_shards_rejected") == 1);
+  std::ostringstream text, csv, html;
+  WriteImportText({summary}, text);
+  WriteImportCsv({summary}, csv);
+  WriteImportHtml({summary}, html);
+  CHECK(text.str().find("rejected  other shards  outcome") != std::string::npos);
+  CHECK(text.str().find("d.csv: shard 2/4: 4 of the rows read belong to other shards' patients (not stored here; "
+                        "their own shard rejects 1 of them)\n") != std::string::npos);
+  CHECK(csv.str().find(",product_flags,shard,other_shards\n") != std::string::npos);
+  CHECK(csv.str().find(",2/4,4\n") != std::string::npos);
+  CHECK(html.str().find("<th scope=\"col\">other shards</th>") != std::string::npos);
+}
+
+TEST_CASE("an import without --shard shows no shard column") {
+  std::ostringstream text;
+  WriteImportText({Example("d.csv")}, text);
+  CHECK(text.str().find("other shards") == std::string::npos);
+  CHECK(ImportJson({Example("d.csv")}).at("other_shards") == 0);
+  CHECK_FALSE(ImportJson({Example("d.csv")}).contains("shard"));
 }
 
 }  // TEST_SUITE

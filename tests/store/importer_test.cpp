@@ -236,6 +236,45 @@ TEST_CASE("rejected rows are written to the rejects stream with line, reason and
   CHECK(text.find("dispensing.csv,10,field_count,") != std::string::npos);
 }
 
+TEST_CASE("rejected rows of a long file keep their input order in the summary, the rejects file and the store") {
+  // 5,000 rows; every 250th has an impossible date and every 600th no patient.
+  std::string text = "record_id,patient_id,dispensed_on,product,quantity,days_supply\n";
+  std::vector<long> bad_lines;
+  for (int i = 1; i <= 5000; ++i) {
+    const bool bad_date = i % 250 == 0;
+    const bool no_patient = !bad_date && i % 600 == 0;
+    if (bad_date || no_patient) bad_lines.push_back(i + 1);
+    text += "R" + std::to_string(i) + "," + (no_patient ? "" : "P" + std::to_string(i % 97)) + "," +
+            (bad_date ? "2024-02-30" : "2024-01-05") + ",Amlodipine 5mg tablets,28,28\n";
+  }
+  Store store = Memory();
+  std::ostringstream rejects;
+  ImportOptions options;
+  options.rejects = &rejects;
+  Result<ImportSummary> summary = Import(store, InputKind::kDispensing, text, options);
+  REQUIRE(summary.ok());
+  CheckAddsUp(*summary);
+  CHECK(summary->rejected == static_cast<long>(bad_lines.size()));
+  REQUIRE(summary->examples.size() == 10);
+  for (size_t i = 0; i < summary->examples.size(); ++i) {
+    CAPTURE(i);
+    CHECK(summary->examples[i].rfind("dispensing.csv:" + std::to_string(bad_lines[i]) + ": ", 0) == 0);
+  }
+  std::vector<long> written;
+  std::istringstream lines(rejects.str());
+  for (std::string line; std::getline(lines, line);) {
+    if (line.rfind("dispensing.csv,", 0) == 0) written.push_back(std::stol(line.substr(15)));
+  }
+  CHECK(written == bad_lines);
+  std::vector<long> stored;
+  sqlite3_stmt* stmt = nullptr;
+  REQUIRE(sqlite3_prepare_v2(store.handle(), "SELECT line FROM rejected_rows ORDER BY id", -1, &stmt, nullptr) ==
+          SQLITE_OK);
+  while (sqlite3_step(stmt) == SQLITE_ROW) stored.push_back(static_cast<long>(sqlite3_column_int64(stmt, 0)));
+  sqlite3_finalize(stmt);
+  CHECK(stored == bad_lines);
+}
+
 TEST_CASE("a column mapping and a day-first date order apply to every row") {
   Store store = Memory();
   ImportOptions options;

@@ -370,6 +370,7 @@ TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHI
   }
   // Take the store back to what version 3 held, with a packed copy in the old layout.
   ExecRaw(path,
+          "DROP TABLE store_shard; DROP TABLE other_shard_coverage; ALTER TABLE import_runs DROP COLUMN other_shards;"
           "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
           "ALTER TABLE packed_histories DROP COLUMN dropped;"
           "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
@@ -381,7 +382,7 @@ TEST_CASE("a store of schema version 3 migrates: its packed copy is dropped, FHI
           "PRAGMA user_version=3;");
   Result<Store> store = Store::Open(path);
   REQUIRE(store.ok());
-  CHECK(store->SchemaVersion().value() == 6);
+  CHECK(store->SchemaVersion().value() == kStoreSchemaVersion);
   CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
   CHECK_FALSE(store->PackedHistoriesCurrent().value());
   CHECK(QueryText(path, "SELECT COUNT(*) FROM patient_identifiers") == "0");
@@ -400,6 +401,7 @@ TEST_CASE("a store of schema version 4 migrates: rejected rows get a key, packed
   // Version 4 as released: no row_key, no dropped; a rejected row and a packed copy of
   // that layout that claims to be current.
   ExecRaw(path,
+          "DROP TABLE store_shard; DROP TABLE other_shard_coverage; ALTER TABLE import_runs DROP COLUMN other_shards;"
           "DROP INDEX rejected_rows_by_key; ALTER TABLE rejected_rows DROP COLUMN row_key;"
           "ALTER TABLE packed_histories DROP COLUMN dropped;"
           "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'old.csv', 'then');"
@@ -412,13 +414,31 @@ TEST_CASE("a store of schema version 4 migrates: rejected rows get a key, packed
           "PRAGMA user_version=4;");
   Result<Store> store = Store::Open(path);
   REQUIRE(store.ok());
-  CHECK(store->SchemaVersion().value() == 6);
+  CHECK(store->SchemaVersion().value() == kStoreSchemaVersion);
   // The old rejected row is kept as it was, without a key.
   CHECK(QueryText(path, "SELECT reason || ':' || IFNULL(row_key, 'none') FROM rejected_rows") == "bad_date:none");
   // The packed copy is dropped and stale, so that it is packed again with the bound.
   CHECK(QueryText(path, "SELECT COUNT(*) FROM packed_histories") == "0");
   CHECK_FALSE(store->PackedHistoriesCurrent().value());
   CHECK(QueryText(path, "SELECT COUNT(*) FROM pragma_table_info('packed_histories') WHERE name = 'dropped'") == "1");
+}
+
+TEST_CASE("a store of schema version 5 migrates: it holds the whole network, and its runs no other shards' rows") {
+  TempFolder folder;
+  const std::string path = folder.File("v5.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  ExecRaw(path, "DROP TABLE store_shard; DROP TABLE other_shard_coverage; ALTER TABLE import_runs DROP COLUMN other_shards;"
+                "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'old.csv', 'then');"
+                "PRAGMA user_version=5;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == kStoreSchemaVersion);
+  CHECK_FALSE(store->HeldShard().value().has_value());
+  CHECK(store->OtherShardCoverage().value().empty());
+  CHECK(QueryText(path, "SELECT other_shards FROM import_runs") == "0");
 }
 
 TEST_CASE("a version 4 of a development build, with keyed rejected rows, is refused and left unchanged") {
@@ -429,6 +449,7 @@ TEST_CASE("a version 4 of a development build, with keyed rejected rows, is refu
     REQUIRE(store.ok());
   }
   ExecRaw(path,
+          "DROP TABLE store_shard; DROP TABLE other_shard_coverage; ALTER TABLE import_runs DROP COLUMN other_shards;"
           "DROP TABLE patient_identifiers; DROP TABLE fhir_medications;"
           "ALTER TABLE dispensings DROP COLUMN structured_unit; PRAGMA user_version=4;");
   Result<Store> store = Store::Open(path);

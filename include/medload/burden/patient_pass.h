@@ -47,7 +47,9 @@ struct PassFacts {
   // Each practice's first and latest counting dispensing among them (data coverage). A
   // dispensing belongs to the practice it names, else to the patient's registry practice,
   // else to "" (PracticeOfDispensing). A history cut by the store's bound adds only the
-  // dispensings it kept.
+  // dispensings it kept. In a shard's store, both also take in the dispensings its
+  // imports left to other shards (Store::OtherShardCoverage; spans: those naming a
+  // practice), so that they are the network's.
   PracticeSpans practice_spans;
   // Patients whose oldest dispensings were left out (PatientHistory::dropped > 0), among
   // every patient read, and the bound that cut them (Store::history_bound).

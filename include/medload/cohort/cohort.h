@@ -15,7 +15,7 @@
 #include "medload/burden/burden.h"
 #include "medload/burden/criteria.h"
 #include "medload/cohort/groups.h"
-#include "medload/cohort/shard.h"
+#include "medload/core/shard.h"
 #include "medload/cohort/standard_population.h"
 #include "medload/core/data_coverage.h"
 #include "medload/core/status.h"
@@ -114,6 +114,9 @@ class CohortCounter {
   // Notes the patient's dispensings in the data coverage; call for EVERY patient read,
   // in or out of the shard, before Add.
   void See(const PatientHistory& history);
+  // Widens the data coverage with spans of dispensings the store does not hold (the
+  // rows a shard store's imports left to other shards: SeeOtherShards).
+  void SeeCoverage(const PracticeSpans& spans);
   // True when the patient belongs to the counter's shard.
   bool Wants(const PatientHistory& history) const;
   // Counts the patient on every census date on which they are registered (burden/patient_facts.h),
@@ -149,13 +152,19 @@ class CohortCounter {
   CohortTally tally_;
 };
 
+// Gives `counter` the coverage of the dispensings that `store`'s imports left to other
+// shards (Store::OtherShardCoverage, rows naming a practice), so that a shard store's
+// tally knows the network's coverage. Fails with the store's Status.
+Status SeeOtherShards(const Store& store, CohortCounter& counter);
+
 // One pass over the store (ForEachPatientTimeline): each patient of the shard has their
 // timeline built once and evaluated on every census date on which they are registered.
 // Fails with the store's Status.
 Result<CohortTally> RunCohort(const Store& store, RunContext& analysis,
                               const CohortOptions& options);
 
-// Adds tallies of disjoint shards of the same run. Fails with Input (naming `names[i]`)
+// Adds tallies of disjoint shards of the same run; unseen cells of practices whose merged
+// coverage begins by the first date are dropped (as Take does). Fails with Input (naming `names[i]`)
 // when criteria, dates, grouping, measure or shard count differ, or a shard is given twice.
 // REQUIRES: names.size() == tallies.size(), at least one tally.
 Result<CohortTally> MergeTallies(const std::vector<CohortTally>& tallies,

@@ -14,7 +14,7 @@
 namespace medload {
 
 // One file's import. Invariants (the "nothing lost" contract): read == imported +
-// duplicates + rejected, and every physical line is counted once:
+// duplicates + rejected + other_shards, and every physical line is counted once:
 // lines == header_lines + blank_lines + row_lines.
 struct ImportSummary {
   std::string file;          // as named on the command line ("<stdin>" for "-")
@@ -25,6 +25,9 @@ struct ImportSummary {
   long imported = 0;         // stored: new rows, and changed registry rows or statuses
   long duplicates = 0;       // already in the store (or earlier in the same file)
   long rejected = 0;         // not stored; each with a reason
+  long other_shards = 0;     // rows of another shard's patients (import --shard): not here
+  long other_shards_rejected = 0;  // part of other_shards: rows their own shard rejects
+  std::string shard;         // "K/N" for an import with --shard K/N, else ""
   long updated = 0;          // part of `imported`: existing rows that this file changed
   long patients = 0;         // part of `read`: FHIR Patient resources in a dispensing file
   long medications = 0;      // part of `read`: FHIR Medication resources (dispensing file)

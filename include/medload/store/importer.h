@@ -10,6 +10,7 @@
 #include <string_view>
 
 #include "medload/core/date.h"
+#include "medload/core/shard.h"
 #include "medload/core/status.h"
 #include "medload/input/csv_records.h"
 #include "medload/store/import_summary.h"
@@ -32,6 +33,10 @@ struct ImportOptions {
   // Called with each dispensing stored (new or changed, not a duplicate), e.g. to check
   // its product; the rows of a file rolled back were called too.
   std::function<void(const DispensingRecord&)> stored_dispensing;
+  // --shard K/N: store only the rows of the patients of shard K of N (core/shard.h),
+  // counting the others apart (ImportSummary::other_shards) and keeping the data coverage
+  // of their dispensings. {1, 1}: every row (the default). CSV only.
+  ShardSpec shard;
 };
 
 // Imports `in` as input of `kind`, naming it `file` in messages and in the store. The
@@ -40,14 +45,18 @@ struct ImportOptions {
 // line, in any mix.
 //
 // On success the file's rows are committed in one transaction and the summary says how
-// many were read, imported, duplicates and rejected (they always add up), and how many
+// many were read, imported, duplicates, rejected and left to other shards (they always
+// add up), and how many
 // physical lines the file has: header + blank + the lines of the rows read. When rejected
-// / read is above options.max_reject_rate, the transaction is rolled back, the run is
+// / read is above options.max_reject_rate (rejected counting the rows of other shards that
+// their shard rejects: the whole file's rate), the transaction is rolled back, the run is
 // recorded with outcome "rolled_back" and summary.rolled_back is true (still a success
 // value: the caller maps it to exit code 3).
 //
 // Fails with Input, storing nothing, when the input cannot be read, has no header, a bad
-// header (missing required columns), or the store fails (the message names the cause).
+// header (missing required columns), is FHIR NDJSON with options.shard split, does not fit
+// the shard the store holds (store/shard_split.h), or the store fails (the message names
+// the cause).
 Result<ImportSummary> ImportStream(Store& store, InputKind kind, std::istream& in,
                                    std::string_view file, const ImportOptions& options);
 

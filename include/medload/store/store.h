@@ -15,6 +15,7 @@
 
 #include "medload/core/data_coverage.h"
 #include "medload/core/records.h"
+#include "medload/core/shard.h"
 #include "medload/core/status.h"
 
 struct sqlite3;
@@ -22,7 +23,7 @@ struct sqlite3;
 namespace medload {
 
 // The schema version this build writes; older stores are migrated forward on Open.
-inline constexpr int kStoreSchemaVersion = 6;
+inline constexpr int kStoreSchemaVersion = 7;
 
 // The most counting dispensings of one patient that reads hold (the latest ones): memory
 // stays bounded whatever one id's history holds (a feed that gives every item one id, a
@@ -63,7 +64,8 @@ struct PatientHistory {
 
 // Provenance figures for a run: the span of the data and the size of each table.
 struct StoreSummary {
-  std::optional<Date> earliest_dispensed;  // counting dispensings only; absent if none
+  std::optional<Date> earliest_dispensed;  // counting dispensings only (with those a shard
+                                           // store's imports left to other shards); absent if none
   std::optional<Date> latest_dispensed;
   long practices = 0;
   long patients = 0;
@@ -223,8 +225,9 @@ class Store {
   // All practices, by practice code.
   Result<std::vector<PracticeRecord>> Practices() const;
   // The practice codes the store knows, sorted, empty codes left out: those of the
-  // practices table and of registry rows, and with `with_dispensings` also those named
-  // by dispensings (a walk of the table: slower on a large store).
+  // practices table, of registry rows and of the dispensings a shard's store left to
+  // other shards (OtherShardCoverage), and with `with_dispensings` also those named by
+  // dispensings (a walk of the table: slower on a large store).
   Result<std::vector<std::string>> PracticeCodes(bool with_dispensings) const;
   // One patient's completed reviews, oldest first.
   Result<std::vector<ReviewRecord>> ReviewsOf(std::string_view patient_id) const;
@@ -238,7 +241,17 @@ class Store {
   // Each practice's first and latest counting dispensing (data coverage): a dispensing
   // belongs to the practice it names, else to its patient's registry practice, else to ""
   // (as the patient pass gathers them, PassFacts::practice_spans). One walk of the table.
+  // Rows that imports with --shard left to other shards count too, by the practice they
+  // name (a row naming none widens no practice's span here: its own shard's store
+  // attributes it to its patient's registry practice).
   Result<PracticeSpans> PracticeDataSpans() const;
+  // The shard of the network's patients this store holds (import --shard K/N), or nullopt
+  // for a store of the whole network (or a new one).
+  Result<std::optional<ShardSpec>> HeldShard() const;
+  // The data coverage of the counting dispensings that imports with --shard read and left
+  // to other shards, by the practice each names ("" for those naming none). Empty for a
+  // store of the whole network.
+  Result<PracticeSpans> OtherShardCoverage() const;
   // Every import run, oldest first.
   Result<std::vector<ImportRunRecord>> ImportRuns() const;
 

@@ -1,4 +1,4 @@
-#include "medload/cohort/shard.h"
+#include "medload/core/shard.h"
 
 #include <doctest/doctest.h>
 
@@ -7,7 +7,7 @@
 namespace medload {
 namespace {
 
-TEST_SUITE("cohort/shard") {
+TEST_SUITE("core/shard") {
 
 TEST_CASE("FNV-1a 64-bit hashes match the published test vectors") {
   // Source: Fowler, Noll and Vo, FNV hash reference test vectors (fnv-1a 64: "" and "a").

@@ -1,6 +1,6 @@
-// Splitting a cohort run across independent jobs: each patient belongs to exactly one of
-// N shards by a stable hash of their identifier, so shard results add up to one run. It
-// does not run or schedule anything.
+// Splitting the network by patient across independent jobs: each patient belongs to
+// exactly one of N shards by a stable hash of their identifier, so that shard stores and
+// shard results add up to one run. It does not run or schedule anything.
 #pragma once
 
 #include <cstdint>

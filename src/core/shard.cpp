@@ -1,4 +1,4 @@
-#include "medload/cohort/shard.h"
+#include "medload/core/shard.h"
 
 #include <charconv>
 
