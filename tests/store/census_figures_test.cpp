@@ -76,6 +76,21 @@ TEST_CASE("the registry digest changes with a patient's or a practice's row") {
   CHECK(store.RegistryDigest().value() != moved);
 }
 
+TEST_CASE("the registry digest changes with a shard store's coverage of other shards' rows") {
+  Store store = std::move(Store::Open(":memory:").value());
+  const std::string before = store.RegistryDigest().value();
+  REQUIRE(sqlite3_exec(store.handle(),
+                       "INSERT INTO other_shard_coverage (practice, first_dispensed, latest_dispensed)"
+                       " VALUES ('A1', '2024-01-05', '2024-06-28')",
+                       nullptr, nullptr, nullptr) == SQLITE_OK);
+  const std::string seen = store.RegistryDigest().value();
+  CHECK(seen != before);
+  // A late row of another shard moves the practice's first dispensing earlier.
+  REQUIRE(sqlite3_exec(store.handle(), "UPDATE other_shard_coverage SET first_dispensed = '2023-12-01'", nullptr,
+                       nullptr, nullptr) == SQLITE_OK);
+  CHECK(store.RegistryDigest().value() != seen);
+}
+
 }  // TEST_SUITE
 
 }  // namespace medload

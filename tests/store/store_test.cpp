@@ -431,6 +431,8 @@ TEST_CASE("a store of schema version 5 migrates: it holds the whole network, and
     REQUIRE(store.ok());
   }
   ExecRaw(path, "DROP TABLE store_shard; DROP TABLE other_shard_coverage; ALTER TABLE import_runs DROP COLUMN other_shards;"
+                "DROP TRIGGER dispensing_updated_notes_date; DROP TRIGGER dispensing_deleted_notes_date;"
+                "DROP TABLE census_figures; DROP TABLE dispensing_edits;"
                 "INSERT INTO import_runs (id, kind, file, started) VALUES (1, 'dispensing', 'old.csv', 'then');"
                 "PRAGMA user_version=5;");
   Result<Store> store = Store::Open(path);
@@ -439,6 +441,23 @@ TEST_CASE("a store of schema version 5 migrates: it holds the whole network, and
   CHECK_FALSE(store->HeldShard().value().has_value());
   CHECK(store->OtherShardCoverage().value().empty());
   CHECK(QueryText(path, "SELECT other_shards FROM import_runs") == "0");
+}
+
+TEST_CASE("a store of schema version 6 migrates: it has no saved census figures, and a later update is noted") {
+  TempFolder folder;
+  const std::string path = folder.File("v6.db");
+  {
+    Result<Store> store = Store::Open(path);
+    REQUIRE(store.ok());
+  }
+  ExecRaw(path, "DROP TRIGGER dispensing_updated_notes_date; DROP TRIGGER dispensing_deleted_notes_date;"
+                "DROP TABLE census_figures; DROP TABLE dispensing_edits;"
+                "PRAGMA user_version=6;");
+  Result<Store> store = Store::Open(path);
+  REQUIRE(store.ok());
+  CHECK(store->SchemaVersion().value() == kStoreSchemaVersion);
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM census_figures") == "0");
+  CHECK(QueryText(path, "SELECT COUNT(*) FROM sqlite_schema WHERE type = 'trigger' AND name LIKE 'dispensing_%_notes_date'") == "2");
 }
 
 TEST_CASE("a version 4 of a development build, with keyed rejected rows, is refused and left unchanged") {

@@ -317,8 +317,9 @@ class Store {
                            const DataMarks& marks, std::string_view figures_json);
   // Removes every saved entry and the edit notes; the number of entries removed.
   Result<long> ClearCensusFigures();
-  // SHA-256 of the practices and patients tables' rows, in key order: changes whenever a
-  // registry import (or anything else) changes a row.
+  // SHA-256 of the practices and patients tables' rows, in key order, and of a shard
+  // store's shard and other shards' coverage: changes whenever an import (or anything
+  // else) changes a row the census figures depend on besides the dispensings.
   Result<std::string> RegistryDigest() const;
 
   // The connection, for the store's own adapters in src/store (the importer). Other
