@@ -165,7 +165,8 @@ TEST_CASE("saved figures that are malformed, of another date or of other criteri
       {R"({"layout":1,"on":"2024-05-31","cells":{},"practices":{"A1":[3]},"unseen":{}})", 2},
   };
   for (const auto& [text, keys] : cases) {
-    CAPTURE(text);
+    const auto& figures_text = text;  // clang 14 cannot capture a structured binding
+    CAPTURE(figures_text);
     CHECK_FALSE(ParseFigures(text, on, keys).has_value());
   }
 }
